@@ -1,0 +1,267 @@
+package sim
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"time"
+)
+
+// Config is one interferometer sequence on the ring.
+type Config struct {
+	Ring         Ring
+	DepthHz      float64 // V0/h
+	Sequence     Sequence
+	RotationRadS float64 // Omega_bg, the rotation being measured
+	TemperatureK float64 // 0: ground state; otherwise a thermal mixture over the site's levels
+
+	// Grid is the number of momentum states in all, a multiple of 2*Sites.
+	// If Grid is zero, it is chosen from the trap frequency and the momentum
+	// range the sequence reaches (see AutoNumerics).
+	Grid int
+	// StepS is the split-step time step while the drive changes. If StepS
+	// is zero, it is chosen from the trap period and the ramp time.
+	StepS float64
+	// Levels is how many of the site's levels a thermal start propagates.
+	// If Levels is zero, the levels with a Boltzmann weight above
+	// LevelCutoff at TemperatureK are used.
+	Levels int
+}
+
+// Validate checks the physical parameters and the closure of the arms.
+func (c Config) Validate() error {
+	if err := c.Ring.Validate(); err != nil {
+		return err
+	}
+	if !(c.DepthHz > 0) || math.IsInf(c.DepthHz, 0) {
+		return fmt.Errorf("lattice depth %g Hz is not a positive finite depth", c.DepthHz)
+	}
+	if c.Sequence.Up == nil {
+		return errors.New("no ramp")
+	}
+	if math.IsNaN(c.RotationRadS) || math.IsInf(c.RotationRadS, 0) {
+		return fmt.Errorf("rotation %g rad/s is not finite", c.RotationRadS)
+	}
+	if c.TemperatureK < 0 || math.IsNaN(c.TemperatureK) || math.IsInf(c.TemperatureK, 0) {
+		return fmt.Errorf("temperature %g K is not a finite non-negative temperature", c.TemperatureK)
+	}
+	if c.StepS < 0 || math.IsNaN(c.StepS) {
+		return fmt.Errorf("time step %g s is negative", c.StepS)
+	}
+	return CheckClosure(c.Sequence.TotalAngle()/(2*math.Pi), c.Ring.Sites)
+}
+
+// TrapRadS returns the harmonic trap angular frequency omega = 2 pi nu of
+// one site at the lattice depth.
+func (c Config) TrapRadS() float64 { return 2 * math.Pi * c.Ring.TrapHz(c.DepthHz) }
+
+// Shot is what one realisation perturbs. The zero value is the nominal
+// shot. Index 0 is the arm s = +1, index 1 the arm s = -1.
+type Shot struct {
+	DepthRel     [2]float64 // static relative depth error of each arm's lattice
+	ClockRel     float64    // waveform time-base error kappa: the profile plays (1+kappa) faster
+	SpeedRel     float64    // drive-frequency scale error k: speeds and angles scale by (1+k)
+	SkewS        float64    // the arm s = -1 drive starts SkewS after the arm s = +1 drive (negative: before)
+	PulseAreaRel [2]float64 // relative area errors of the two pi/2 pulses
+	// TemperatureK, if positive, replaces the configured temperature for
+	// the Boltzmann weights (the propagated levels stay those of Config).
+	TemperatureK float64
+	Jitter       [2]*Series // lattice angle noise delta a_s(t) in rad
+	DepthNoise   [2]*Series // relative depth noise eps_s(t)
+}
+
+// Level is the contribution of one of the site's levels to a thermal start.
+type Level struct {
+	Band    int
+	Weight  float64    // Boltzmann weight p_n
+	EnergyHz float64   // band mean energy E/h
+	Z       complex128 // overlap of the arms started in this level
+}
+
+// Result is the outcome of one shot.
+type Result struct {
+	Z            complex128 // sum_n p_n <psi_-|psi_+>, times the pulse factor
+	Contrast     float64    // |Z|
+	PhaseRad     float64    // arg Z
+	SagnacRad    float64    // 2 I phi(T) Omega_bg / hbar
+	ScaleFactorS float64    // K = 2 I phi(T) / hbar, rad per rad/s
+	BiasRad      float64    // wrap(Phase - Sagnac) to (-pi, pi]
+	BiasRadS     float64    // BiasRad / K
+	BiasDegPerH  float64    // BiasRadS in deg/h
+	// GroundAfterRampUp is each arm's ground-band population (of the
+	// co-moving lattice) at the end of the ramp-up, for the lowest level.
+	GroundAfterRampUp [2]float64
+	Levels            []Level
+	Grid              int
+	StepS             float64
+	Elapsed           time.Duration
+}
+
+// Simulator runs shots of one configuration.
+type Simulator struct {
+	cfg   Config
+	basis Basis
+	step  float64
+	lev   int
+}
+
+// NewSimulator validates cfg, fixes the numerics and returns a simulator.
+func NewSimulator(cfg Config) (*Simulator, error) {
+	if err := cfg.Validate(); err != nil {
+		return nil, err
+	}
+	grid, step := cfg.Grid, cfg.StepS
+	auto := AutoNumerics(cfg)
+	if grid == 0 {
+		grid = auto.Grid
+	}
+	if step == 0 {
+		step = auto.StepS
+	}
+	b, err := NewBasis(cfg.Ring.Sites, grid)
+	if err != nil {
+		return nil, err
+	}
+	lev := cfg.Levels
+	if lev == 0 {
+		lev = auto.Levels
+	}
+	if lev > b.Block {
+		lev = b.Block
+	}
+	return &Simulator{cfg: cfg, basis: b, step: step, lev: lev}, nil
+}
+
+// Config returns the configuration with the numerics in use filled in.
+func (s *Simulator) Config() Config {
+	c := s.cfg
+	c.Grid, c.StepS, c.Levels = s.basis.Size(), s.step, s.lev
+	return c
+}
+
+// drives returns the two arms' drives for a shot.
+func (s *Simulator) drives(sh Shot) [2]Drive {
+	var d [2]Drive
+	delay := [2]float64{0, sh.SkewS}
+	if sh.SkewS < 0 {
+		delay = [2]float64{-sh.SkewS, 0}
+	}
+	for a, sign := range [2]float64{1, -1} {
+		d[a] = Drive{
+			Seq:          s.cfg.Sequence,
+			Sign:         sign,
+			Rate:         1 + sh.ClockRel,
+			Scale:        1 + sh.SpeedRel,
+			DelayS:       delay[a],
+			RotationRadS: s.cfg.RotationRadS,
+			DepthRel:     sh.DepthRel[a],
+			Jitter:       sh.Jitter[a],
+			DepthNoise:   sh.DepthNoise[a],
+		}
+	}
+	return d
+}
+
+// Run simulates one shot. If obs is not nil it is called with the state of
+// each arm along the way (see Observer).
+func (s *Simulator) Run(sh Shot, obs Observer) Result {
+	start := time.Now()
+	cfg, b := s.cfg, s.basis
+	v0 := 2 * math.Pi * cfg.DepthHz
+	rot := cfg.Ring.rotationalRate()
+	gStart := 1 + (sh.DepthRel[0]+sh.DepthRel[1])/2
+	es0 := diagonalise(b, rot, cfg.RotationRadS, gStart*v0)
+	means := bandMeans(es0)
+	temp := cfg.TemperatureK
+	if sh.TemperatureK > 0 {
+		temp = sh.TemperatureK
+	}
+	weights := thermalWeights(means[:s.lev], temp)
+	trap := 2 * math.Pi * cfg.Ring.TrapHz(cfg.DepthHz*gStart)
+
+	drives := s.drives(sh)
+	end := math.Max(drives[0].times()[3], drives[1].times()[3])
+	noiseStep := math.Inf(1)
+	for _, d := range drives {
+		for _, x := range []*Series{d.Jitter, d.DepthNoise} {
+			if x != nil {
+				noiseStep = math.Min(noiseStep, x.StepS)
+			}
+		}
+	}
+
+	var res Result
+	var fields [2]*field
+	for a, d := range drives {
+		f := newField(b, s.lev)
+		for n := range s.lev {
+			f.set(n, wannier(b, cfg.Ring, es0, n, trap))
+		}
+		p := newPropagator(b, cfg.Ring, v0, s.lev)
+		tm := d.times()
+		rest := p.stretch(f, d, cfg.RotationRadS, 0, tm[0], noiseStep, nil)
+		p.observe(obs, a, tm[0], f, d, rest)
+		p.splitStepsObserved(f, d, tm[0], tm[1], s.steps(tm[1]-tm[0]), obs, a)
+		cruise := diagonaliseFor(p, d.cruiseSpeed(), 1+d.DepthRel)
+		res.GroundAfterRampUp[a] = groundPopulation(f, cruise, 0)
+		p.observe(obs, a, tm[1], f, d, cruise)
+		p.stretchObserved(f, d, d.cruiseSpeed(), tm[1], tm[2], noiseStep, cruise, obs, a)
+		p.splitStepsObserved(f, d, tm[2], tm[3], s.steps(tm[3]-tm[2]), obs, a)
+		p.stretch(f, d, cfg.RotationRadS, tm[3], end, noiseStep, rest)
+		p.observe(obs, a, end, f, d, rest)
+		fields[a] = f
+	}
+
+	// Lab frame: psi_l = chi_l exp(-i l a(T)).
+	da := drives[0].Angle(end) - drives[1].Angle(end)
+	pulse := math.Sin(math.Pi/2*(1+sh.PulseAreaRel[0])) * math.Sin(math.Pi/2*(1+sh.PulseAreaRel[1]))
+	for n := range s.lev {
+		plus, minus := fields[0].get(n), fields[1].get(n)
+		var z complex128
+		for i := range plus.Amp {
+			l := float64(b.LMin() + i)
+			z += complexConj(minus.Amp[i]) * plus.Amp[i] * cis(-l*da)
+		}
+		res.Levels = append(res.Levels, Level{Band: n, Weight: weights[n], EnergyHz: means[n] / (2 * math.Pi), Z: z})
+		res.Z += complex(weights[n]*pulse, 0) * z
+	}
+	phi := cfg.Sequence.TotalAngle()
+	res.Contrast = cmplxAbs(res.Z)
+	res.PhaseRad = math.Atan2(imag(res.Z), real(res.Z))
+	res.ScaleFactorS = cfg.Ring.ScaleFactor(phi)
+	res.SagnacRad = res.ScaleFactorS * cfg.RotationRadS
+	res.BiasRad = Wrap(res.PhaseRad - res.SagnacRad)
+	res.BiasRadS = res.BiasRad / res.ScaleFactorS
+	res.BiasDegPerH = RadPerSToDegPerH(res.BiasRadS)
+	res.Grid, res.StepS = b.Size(), s.step
+	res.Elapsed = time.Since(start)
+	return res
+}
+
+func (s *Simulator) steps(d float64) int {
+	if d <= 0 {
+		return 0
+	}
+	return int(math.Ceil(d/s.step - 1e-9))
+}
+
+func diagonaliseFor(p *propagator, w, g float64) *eigensystem {
+	e := diagonalise(p.b, p.rot, w, g*p.v0)
+	return &e
+}
+
+// Wrap returns x wrapped to (-pi, pi].
+func Wrap(x float64) float64 {
+	y := math.Mod(x+math.Pi, 2*math.Pi)
+	if y <= 0 {
+		y += 2 * math.Pi
+	}
+	return y - math.Pi
+}
+
+// RadPerSToDegPerH converts a rotation rate from rad/s to deg/h.
+func RadPerSToDegPerH(x float64) float64 { return x * 180 / math.Pi * 3600 }
+
+func complexConj(z complex128) complex128 { return complex(real(z), -imag(z)) }
+
+func cmplxAbs(z complex128) float64 { return math.Hypot(real(z), imag(z)) }
