@@ -72,10 +72,10 @@ type Shot struct {
 
 // Level is the contribution of one of the site's levels to a thermal start.
 type Level struct {
-	Band    int
-	Weight  float64    // Boltzmann weight p_n
-	EnergyHz float64   // band mean energy E/h
-	Z       complex128 // overlap of the arms started in this level
+	Band     int
+	Weight   float64    // Boltzmann weight p_n
+	EnergyHz float64    // band mean energy E/h
+	Z        complex128 // overlap of the arms started in this level
 }
 
 // Result is the outcome of one shot.

@@ -67,13 +67,13 @@ func (r MinJerk) Angle(t float64) float64 {
 //
 //	v(s) = Omega_0 (35 s^4 - 84 s^5 + 70 s^6 - 20 s^7),  s = t / t_r,
 //
-// which has v, v', v'' and v''' fixed at both ends, and the lattice is driven
+// which has v, v', v” and v”' fixed at both ends, and the lattice is driven
 // at
 //
 //	Omega = v + v'' / omega^2,
 //
 // where omega = 2 pi nu is the harmonic trap frequency at the design depth and
-// v'' the second time derivative. The packet then ends at rest in the moving
+// v” the second time derivative. The packet then ends at rest in the moving
 // trap for any t_r in a harmonic trap; short ramps overshoot and may reverse.
 //
 // References:
