@@ -1,0 +1,40 @@
+// Package mc runs Monte Carlo ensembles of the interferometer simulation and
+// turns them into statistics and decisions.
+//
+// # Sampling
+//
+// An ensemble is a set of realisations i = 0, 1, ..., n-1. Everything random in
+// realisation i derives from the pair (seed, i) alone, through [Stream] and
+// [Substream], so that realisation i is the same whatever the number of workers,
+// the order in which realisations complete, or a resume after an interruption.
+// Static parameters (a depth error, a clock-rate error, a temperature) are drawn
+// as points of the unit hypercube [0,1)^d by a [Sampler]: independent
+// pseudo-random points ([NewRandom]), a Latin hypercube ([NewLatinHypercube]) or
+// a Sobol' low-discrepancy sequence ([NewSobol]), each of which gives point i
+// without computing the others. [Normal] maps a sampler's points to standard
+// normal variates by the inverse normal distribution function.
+//
+// # Statistics
+//
+// Per realisation the ensemble yields a contrast C_i, a bias b_i and an overlap
+// z_i. [Mean], [StdDev] and [Quantile] (Hyndman and Fan type 7, NumPy's default)
+// summarise a sample; [Bootstrap] gives percentile confidence intervals for any
+// statistic and [PairedBootstrap] for the difference of a statistic between two
+// ramps run on common random numbers. A yield, the fraction of realisations
+// inside a specification, has the exact binomial interval of Clopper and
+// Pearson ([ClopperPearson]); with no failures [RuleOfThree] and
+// [ZeroFailureUpper] bound the failure rate. [Histogram] counts fixed bins.
+// [SobolIndices] apportions the variance of an output among the static
+// parameters (first-order and total Sobol' indices).
+//
+// # Decisions
+//
+// A verdict compares an interval with a threshold: clear above, clear below, or
+// undecided while the interval straddles it. For an undecided verdict,
+// [AdditionalSamples] and [AdditionalTrials] estimate how many more
+// realisations would settle it.
+//
+// Confidence levels are fractions in (0, 1), such as 0.95. Programmer misuse
+// (a negative realisation index, a confidence outside (0, 1), mismatched slice
+// lengths) panics with an "mc: " prefix.
+package mc
