@@ -199,7 +199,11 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		}
 		p := newPropagator(b, cfg.Ring, v0, s.lev)
 		tm := d.times()
-		rest := p.stretch(f, d, cfg.RotationRadS, 0, tm[0], noiseStep, nil)
+		var rest *eigensystem
+		if d.DepthRel == gStart-1 {
+			rest = &es0
+		}
+		rest = p.stretch(f, d, cfg.RotationRadS, 0, tm[0], noiseStep, rest)
 		p.observe(obs, a, tm[0], f, d, rest)
 		p.splitStepsObserved(f, d, tm[0], tm[1], s.steps(tm[1]-tm[0]), obs, a)
 		cruise := diagonaliseFor(p, d.cruiseSpeed(), 1+d.DepthRel)

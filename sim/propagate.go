@@ -32,15 +32,17 @@ type propagator struct {
 	u   []float64 // DST-I matrix, K x K, symmetric and its own inverse
 	lam []float64 // eigenvalues of the unit-depth block lattice, rad/s per (rad/s of v0)
 
-	kinTab []complex128 // exp(-i rot l^2 h) for kinH
-	kinH   float64
+	scheme scheme
+
+	kinTabs [][]complex128 // exp(-i rot l^2 h) for the durations in kinHs
+	kinHs   []float64
 	s, d   []float64 // scratch: even and odd halves, K/2 x 2W
 	y      []float64 // scratch: K x 2W
 }
 
 func newPropagator(b Basis, r Ring, v0 float64, levels int) *propagator {
 	k := b.Block
-	p := &propagator{b: b, rot: r.rotationalRate(), v0: v0}
+	p := &propagator{b: b, rot: r.rotationalRate(), v0: v0, scheme: defaultScheme}
 	p.u = make([]float64, k*k)
 	p.lam = make([]float64, k)
 	norm := math.Sqrt(2 / float64(k+1))
@@ -52,8 +54,6 @@ func newPropagator(b Basis, r Ring, v0 float64, levels int) *propagator {
 	for m := range k {
 		p.lam[m] = -0.5 - 0.5*math.Cos(math.Pi*float64(m+1)/float64(k+1))
 	}
-	p.kinTab = make([]complex128, b.Size())
-	p.kinH = math.NaN()
 	cols := 2 * b.Sites * levels
 	p.s = make([]float64, k/2*cols)
 	p.d = make([]float64, k/2*cols)
@@ -83,11 +83,25 @@ func (p *propagator) sine(x []float64, cols int) {
 		}
 		y := p.y[m*cols : (m+1)*cols]
 		clear(y)
-		for j := range h {
+		j := 0
+		for ; j+4 <= h; j += 4 {
+			c0, c1, c2, c3 := p.u[j*k+m], p.u[(j+1)*k+m], p.u[(j+2)*k+m], p.u[(j+3)*k+m]
+			r0 := src[j*cols : (j+1)*cols]
+			r1 := src[(j+1)*cols : (j+2)*cols]
+			r2 := src[(j+2)*cols : (j+3)*cols]
+			r3 := src[(j+3)*cols : (j+4)*cols]
+			r1, r2, r3 = r1[:len(r0)], r2[:len(r0)], r3[:len(r0)]
+			y := y[:len(r0)]
+			for q, x := range r0 {
+				y[q] += c0*x + c1*r1[q] + c2*r2[q] + c3*r3[q]
+			}
+		}
+		for ; j < h; j++ {
 			c := p.u[j*k+m]
 			row := src[j*cols : (j+1)*cols]
-			for q := range y {
-				y[q] += c * row[q]
+			y := y[:len(row)]
+			for q, x := range row {
+				y[q] += c * x
 			}
 		}
 	}
@@ -115,13 +129,7 @@ func (p *propagator) latticeStep(f *field, g, dt float64) {
 // kineticStep applies exp(-i rot l^2 h + i l da) to f.
 func (p *propagator) kineticStep(f *field, h, da float64) {
 	b := p.b
-	if h != p.kinH {
-		for i := range p.kinTab {
-			l := float64(b.LMin() + i)
-			p.kinTab[i] = cis(-p.rot * l * l * h)
-		}
-		p.kinH = h
-	}
+	tab := p.kineticTable(h)
 	n, w := b.Sites, f.width()
 	step := cis(da)
 	cur := cis(float64(b.LMin()) * da)
@@ -129,7 +137,7 @@ func (p *propagator) kineticStep(f *field, h, da float64) {
 		row := f.x[2*w*j : 2*w*(j+1)]
 		re, im := row[:w], row[w:]
 		for c := range n {
-			ph := p.kinTab[n*j+c] * cur
+			ph := tab[n*j+c] * cur
 			cur *= step
 			cs, sn := real(ph), imag(ph)
 			for q := c; q < w; q += n {
@@ -141,6 +149,27 @@ func (p *propagator) kineticStep(f *field, h, da float64) {
 	}
 }
 
+// kineticTable returns exp(-i rot l^2 h) for every l, cached for the few
+// durations a scheme uses.
+func (p *propagator) kineticTable(h float64) []complex128 {
+	for i, x := range p.kinHs {
+		if x == h {
+			return p.kinTabs[i]
+		}
+	}
+	tab := make([]complex128, p.b.Size())
+	for i := range tab {
+		l := float64(p.b.LMin() + i)
+		tab[i] = cis(-p.rot * l * l * h)
+	}
+	if len(p.kinHs) >= 8 {
+		p.kinHs, p.kinTabs = p.kinHs[1:], p.kinTabs[1:]
+	}
+	p.kinHs = append(p.kinHs, h)
+	p.kinTabs = append(p.kinTabs, tab)
+	return tab
+}
+
 // motion is what the propagator needs to know of an arm: the lattice angle
 // a(t) in the inertial frame and the relative depth g(t).
 type motion interface {
@@ -148,28 +177,70 @@ type motion interface {
 	depth(t float64) float64
 }
 
-// splitSteps advances f from t0 to t1 in n Strang steps.
+// scheme is a composition of Strang steps: step dt is made of Strang
+// sub-steps of w_i dt (a negative w_i steps back in time).
+type scheme []float64
+
+var (
+	strang = scheme{1}
+	// defaultScheme is the composition Simulator uses.
+	defaultScheme = suzuki4
+	// suzuki4 is Suzuki's fourth-order fractal composition
+	// S(p) S(p) S(1-4p) S(p) S(p), p = 1/(4 - 4^(1/3)).
+	//
+	// References:
+	//
+	//	M. Suzuki, "Fractal decomposition of exponential operators with
+	//	applications to many-body theories and Monte Carlo simulations",
+	//	Phys. Lett. A 146, 319 (1990).
+	suzuki4 = func() scheme {
+		p := 1 / (4 - math.Cbrt(4))
+		return scheme{p, p, 1 - 4*p, p, p}
+	}()
+	// yoshida4 is the fourth-order triple jump S(x1) S(x0) S(x1),
+	// x1 = 1/(2 - 2^(1/3)), x0 = 1 - 2 x1.
+	//
+	// References:
+	//
+	//	H. Yoshida, "Construction of higher order symplectic integrators",
+	//	Phys. Lett. A 150, 262 (1990).
+	yoshida4 = func() scheme {
+		x1 := 1 / (2 - math.Cbrt(2))
+		return scheme{x1, 1 - 2*x1, x1}
+	}()
+)
+
+// splitSteps advances f from t0 to t1 in n steps of the propagator's scheme.
+// Kinetic factors between lattice factors are merged; each is integrated
+// exactly over its own time interval, so time runs backwards inside a
+// negative sub-step as the composition requires.
 func (p *propagator) splitSteps(f *field, m motion, t0, t1 float64, n int) {
 	if n < 1 || t1 <= t0 {
 		return
 	}
-	dt := (t1 - t0) / float64(n)
-	prevT, prevA := t0, m.angle(t0)
-	mid := t0 + dt/2
-	a := m.angle(mid)
-	p.kineticStep(f, dt/2, a-prevA)
-	prevT, prevA = mid, a
-	for i := range n {
-		p.latticeStep(f, m.depth(prevT), dt)
-		next := t0 + (float64(i)+1.5)*dt
-		h := dt
-		if i == n-1 {
-			next, h = t1, dt/2
-		}
-		a = m.angle(next)
-		p.kineticStep(f, h, a-prevA)
-		prevT, prevA = next, a
+	sch := p.scheme
+	if sch == nil {
+		sch = strang
 	}
+	dt := (t1 - t0) / float64(n)
+	t, a := t0, m.angle(t0)
+	pending := 0.0 // kinetic time not yet applied since t
+	for i := range n {
+		base := t0 + float64(i)*dt
+		tau := base
+		for _, w := range sch {
+			h := w * dt
+			mid := tau + h/2
+			am := m.angle(mid)
+			p.kineticStep(f, pending+h/2, am-a)
+			t, a = mid, am
+			p.latticeStep(f, m.depth(mid), h)
+			tau += h
+			pending = h / 2
+		}
+	}
+	_ = t
+	p.kineticStep(f, pending, m.angle(t1)-a)
 }
 
 // exactStep advances f by tau under the constant H'(w) at relative depth g,

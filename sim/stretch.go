@@ -101,9 +101,6 @@ func (p *propagator) kick(f *field, da float64) {
 func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem) *eigensystem {
 	g0 := 1 + d.DepthRel
 	if t1 <= t0 {
-		if es == nil {
-			return p.exactStep(f, nil, w, g0, 0)
-		}
 		return es
 	}
 	if !d.noisy() || !(noiseStep > 0) {

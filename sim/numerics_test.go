@@ -1,0 +1,123 @@
+package sim
+
+import (
+	"math"
+	"testing"
+)
+
+// TestAutoNumericsAccuracy checks the promise of AutoNumerics: contrast
+// within 1e-4 and phase within 1e-6 rad of a refined calculation (grid x1.5,
+// step / 4; the composed step is fourth order, so the refined step's own
+// error is about 256 times smaller). The shots are deliberately asymmetric
+// (differential depth and skew) so that the phase is not protected by the
+// mirror symmetry of the arms. Scenarios span shallow to deep lattices,
+// fast and slow ramps and a thermal start; all keep a contrast above 0.5,
+// below which a phase is of little use.
+func TestAutoNumericsAccuracy(t *testing.T) {
+	if testing.Short() {
+		t.Skip("convergence study")
+	}
+	const tolC, tolPhi = 1e-4, 1e-6 // the accuracy targets
+	cases := []struct {
+		shape   string
+		rampS   float64
+		cruise  float64 // rad/s
+		depthHz float64
+		tempK   float64
+		laps    float64
+	}{
+		{"sin2", 150e-6, 500, 20e3, 0, 1},      // the benchmark scenario
+		{"inverse", 150e-6, 500, 20e3, 0, 1},   // the demo's shortcut ramp
+		{"inverse", 60e-6, 500, 20e3, 0, 1},    // shorter than a quarter trap period
+		{"sin2", 300e-6, 500, 5e3, 0, 1},       // shallow
+		{"sin2", 150e-6, 500, 20e3, 200e-9, 1}, // thermal, five levels
+		{"sin2", 1e-3, 300, 2e3, 0, 0.5},       // very shallow, half a lap
+	}
+	shot := Shot{DepthRel: [2]float64{1e-3, -1e-3}, SkewS: 20e-9}
+	for _, tc := range cases {
+		c := benchConfig(t, 1)
+		c.DepthHz, c.TemperatureK = tc.depthHz, tc.tempK
+		up, err := NewShape(tc.shape, tc.rampS, tc.cruise, c.TrapRadS())
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c.Sequence, err = NewSequence(up, tc.laps); err != nil {
+			t.Fatal(err)
+		}
+		auto := AutoNumerics(c)
+		fine := c
+		unit := 2 * c.Ring.Sites
+		fine.Grid = (auto.Grid*3/2 + unit - 1) / unit * unit
+		fine.StepS = auto.StepS / 4
+		s, err := NewSimulator(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := NewSimulator(fine)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, want := s.Run(shot, nil), f.Run(shot, nil)
+		if d := math.Abs(got.Contrast - want.Contrast); d > tolC {
+			t.Errorf("%s %g us %g kHz: contrast %.8f, refined %.8f: error %.2g (tol %g)", tc.shape, tc.rampS*1e6, tc.depthHz/1e3, got.Contrast, want.Contrast, d, tolC)
+		}
+		if d := math.Abs(Wrap(got.PhaseRad - want.PhaseRad)); d > tolPhi {
+			t.Errorf("%s %g us %g kHz: phase %.9f rad, refined %.9f rad: error %.2g (tol %g)", tc.shape, tc.rampS*1e6, tc.depthHz/1e3, got.PhaseRad, want.PhaseRad, d, tolPhi)
+		}
+	}
+}
+
+// TestSchemeOrder checks the order of the split-step compositions on the
+// benchmark ramp: halving the step divides the error of Strang's scheme by
+// about 4 and that of Suzuki's by about 16 (G. Strang, SIAM J. Numer. Anal.
+// 5, 506 (1968); M. Suzuki, Phys. Lett. A 146, 319 (1990)). The error is
+// measured on the state after the ramp-up against a step 16 times smaller.
+func TestSchemeOrder(t *testing.T) {
+	c := benchConfig(t, 1)
+	s, err := NewSimulator(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b := s.basis
+	es := diagonalise(b, c.Ring.rotationalRate(), 0, 2*math.Pi*c.DepthHz)
+	start := wannier(b, c.Ring, es, 0, c.TrapRadS())
+	d := s.drives(Shot{})[0]
+	tr := c.Sequence.Up.Duration()
+	run := func(sch scheme, n int) State {
+		p := newPropagator(b, c.Ring, 2*math.Pi*c.DepthHz, 1)
+		p.scheme = sch
+		f := newField(b, 1)
+		f.set(0, start)
+		p.splitSteps(f, d, 0, tr, n)
+		return f.get(0)
+	}
+	distance := func(a, b State) float64 {
+		var s float64
+		for i := range a.Amp {
+			x := a.Amp[i] - b.Amp[i]
+			s += real(x)*real(x) + imag(x)*imag(x)
+		}
+		return math.Sqrt(s)
+	}
+	for _, tc := range []struct {
+		name  string
+		sch   scheme
+		n     int
+		ratio float64 // 2^order
+	}{
+		{"strang", strang, 8, 4},
+		{"suzuki4", suzuki4, 10, 16},
+	} {
+		ref := run(tc.sch, 16*tc.n)
+		e1 := distance(run(tc.sch, tc.n), ref)
+		e2 := distance(run(tc.sch, 2*tc.n), ref)
+		// The reference has an error of its own; with order p it is
+		// (1/16)^p of e1, negligible. Tolerance: 20 % on the ratio, the
+		// higher-order terms at these step sizes.
+		r := e1 / e2
+		t.Logf("%s: errors %.3g, %.3g, ratio %.3g", tc.name, e1, e2, r)
+		if math.Abs(r-tc.ratio) > 0.2*tc.ratio {
+			t.Errorf("%s: error ratio on halving the step %.3g (errors %.3g, %.3g), want %g (tol 20%%)", tc.name, r, e1, e2, tc.ratio)
+		}
+	}
+}
