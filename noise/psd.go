@@ -52,20 +52,45 @@ func (s Sum) Integral(fLow, fHigh float64) float64 {
 	return v
 }
 
-// powerLawIntegral returns ∫_a^b s0 (f/f0)^alpha df for 0 < a <= b, written as
+// powerLawIntegral returns ∫_a^b s0 (f/f0)^alpha df for 0 < a <= b. With
+// k = alpha + 1 and L = ln(b/a) it is written from the end that dominates,
 //
-//	s0 (a/f0)^alpha a (exp(k ln(b/a)) - 1)/k,  k = alpha + 1,
+//	s0 (b/f0)^alpha b (1 - exp(-k L))/k   for k > 0,
+//	s0 (a/f0)^alpha a (exp(k L) - 1)/k    for k < 0,
+//	s0 (a/f0)^alpha a L                   for k = 0,
 //
-// which stays accurate as k -> 0, where it tends to s0 (a/f0)^alpha a ln(b/a).
+// so that neither cancellation as k -> 0 nor overflow of exp(k L) over a wide
+// band spoils a finite result.
 func powerLawIntegral(s0, f0, alpha, a, b float64) float64 {
 	if a == b {
 		return 0
 	}
 	k := alpha + 1
-	l := math.Log(b / a)
-	g := l
-	if k != 0 {
-		g = math.Expm1(k*l) / k
+	l := logRatio(b, a)
+	switch {
+	case k > 0:
+		return s0 * ratioPow(b, f0, alpha) * b * (-math.Expm1(-k*l) / k)
+	case k < 0:
+		return s0 * ratioPow(a, f0, alpha) * a * (math.Expm1(k*l) / k)
 	}
-	return s0 * math.Pow(a/f0, alpha) * a * g
+	return s0 * ratioPow(a, f0, alpha) * a * l
+}
+
+// logRatio returns ln(b/a) for positive a, b, from the ratio where it is a
+// normal float64 (more accurate) and from the two logarithms where it would
+// overflow or underflow.
+func logRatio(b, a float64) float64 {
+	if r := b / a; r >= 0x1p-1022 && r <= math.MaxFloat64 {
+		return math.Log(r)
+	}
+	return math.Log(b) - math.Log(a)
+}
+
+// ratioPow returns (b/a)^alpha for positive a, b, also where b/a itself is
+// out of the range of float64.
+func ratioPow(b, a, alpha float64) float64 {
+	if r := b / a; r >= 0x1p-1022 && r <= math.MaxFloat64 {
+		return math.Pow(r, alpha)
+	}
+	return math.Exp(alpha * logRatio(b, a))
 }

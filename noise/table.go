@@ -58,7 +58,7 @@ func NewTable(freqHz, density []float64) (*Table, error) {
 func newTable(freqHz, density []float64) *Table {
 	t := &Table{freq: freqHz, density: density, slope: make([]float64, len(freqHz)-1)}
 	for i := range t.slope {
-		t.slope[i] = math.Log(t.density[i+1]/t.density[i]) / math.Log(t.freq[i+1]/t.freq[i])
+		t.slope[i] = logRatio(t.density[i+1], t.density[i]) / logRatio(t.freq[i+1], t.freq[i])
 	}
 	return t
 }
@@ -73,9 +73,12 @@ func (t *Table) Density(f float64) float64 {
 	case f >= t.freq[last]:
 		return t.density[last]
 	}
-	// i is the interval with t.freq[i] < f <= t.freq[i+1].
-	i := sort.SearchFloat64s(t.freq, f) - 1
-	return t.density[i] * math.Pow(f/t.freq[i], t.slope[i])
+	i := sort.SearchFloat64s(t.freq, f)
+	if t.freq[i] == f {
+		return t.density[i]
+	}
+	// f is inside interval i-1.
+	return t.density[i-1] * ratioPow(f, t.freq[i-1], t.slope[i-1])
 }
 
 // Integral returns ∫_fLow^fHigh S(f) df exactly for the interpolant: each
