@@ -34,6 +34,10 @@ type statsReference struct {
 		Dim, Start int
 		Points     [][]float64
 	} `json:"sobol_unscrambled"`
+	PercentileCoverage []struct {
+		N                    int
+		Confidence, Coverage float64
+	} `json:"percentile_coverage_normal_mean"`
 	Ishigami struct {
 		A, B, Variance float64
 		First, Total   []float64

@@ -18,6 +18,10 @@ Contents:
 - normal_quantile: scipy.stats.norm.ppf.
 - sobol_unscrambled: scipy.stats.qmc.Sobol(d, scramble=False) points in SciPy's
   Gray-code order, from index start (via fast_forward).
+- percentile_coverage_normal_mean: the large-B coverage of the bootstrap
+  percentile interval for the mean of n normal values, which is close to
+  mean +- z s sqrt((n-1)/n) / sqrt(n): P(|t_(n-1)| < z sqrt((n-1)/n)),
+  z = norm.ppf((1+confidence)/2).
 - ishigami: analytic Sobol' indices of f = sin x1 + a sin^2 x2 + b x3^4 sin x1,
   x_i uniform on [-pi, pi] (T. Ishigami and T. Homma, Proc. ISUMA 1990, 398;
   variances as in A. Saltelli et al., Global Sensitivity Analysis: The Primer,
@@ -105,6 +109,11 @@ def main():
         "sobol_unscrambled": [
             sobol_points(32, 0, 64),
             sobol_points(256, 1048573, 8),
+        ],
+        "percentile_coverage_normal_mean": [
+            {"n": n, "confidence": 0.95,
+             "coverage": float(2 * stats.t.cdf(stats.norm.ppf(0.975) * math.sqrt((n - 1) / n), n - 1) - 1)}
+            for n in (50, 100)
         ],
         "ishigami": ishigami(7.0, 0.1),
     }
