@@ -63,9 +63,11 @@ type Shot struct {
 	SpeedRel     float64    // drive-frequency scale error k: speeds and angles scale by (1+k)
 	SkewS        float64    // the arm s = -1 drive starts SkewS after the arm s = +1 drive (negative: before)
 	PulseAreaRel [2]float64 // relative area errors of the two pi/2 pulses
-	// TemperatureK, if positive, replaces the configured temperature for
-	// the Boltzmann weights (the propagated levels stay those of Config).
-	TemperatureK float64
+	// TemperatureOffsetK shifts the start temperature of this shot from
+	// Config.TemperatureK (clamped at 0). The levels propagated are those
+	// with a weight above LevelCutoff at the shot's temperature, at most
+	// Config.Levels.
+	TemperatureOffsetK float64
 	Jitter       [2]*Series // lattice angle noise delta a_s(t) in rad
 	DepthNoise   [2]*Series // relative depth noise eps_s(t)
 }
@@ -172,11 +174,9 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	gStart := 1 + (sh.DepthRel[0]+sh.DepthRel[1])/2
 	es0 := diagonalise(b, rot, cfg.RotationRadS, gStart*v0)
 	means := bandMeans(es0)
-	temp := cfg.TemperatureK
-	if sh.TemperatureK > 0 {
-		temp = sh.TemperatureK
-	}
-	weights := thermalWeights(means[:s.lev], temp)
+	temp := math.Max(0, cfg.TemperatureK+sh.TemperatureOffsetK)
+	lev := min(s.lev, thermalLevels(means, temp))
+	weights := thermalWeights(means[:lev], temp)
 	trap := 2 * math.Pi * cfg.Ring.TrapHz(cfg.DepthHz*gStart)
 
 	drives := s.drives(sh)
@@ -193,11 +193,11 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	var res Result
 	var fields [2]*field
 	for a, d := range drives {
-		f := newField(b, s.lev)
-		for n := range s.lev {
+		f := newField(b, lev)
+		for n := range lev {
 			f.set(n, wannier(b, cfg.Ring, es0, n, trap))
 		}
-		p := newPropagator(b, cfg.Ring, v0, s.lev)
+		p := newPropagator(b, cfg.Ring, v0, lev)
 		tm := d.times()
 		var rest *eigensystem
 		if d.DepthRel == gStart-1 {
@@ -219,7 +219,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	// Lab frame: psi_l = chi_l exp(-i l a(T)).
 	da := drives[0].Angle(end) - drives[1].Angle(end)
 	pulse := math.Sin(math.Pi/2*(1+sh.PulseAreaRel[0])) * math.Sin(math.Pi/2*(1+sh.PulseAreaRel[1]))
-	for n := range s.lev {
+	for n := range lev {
 		plus, minus := fields[0].get(n), fields[1].get(n)
 		var z complex128
 		for i := range plus.Amp {
