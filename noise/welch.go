@@ -17,16 +17,25 @@ import (
 // by the periodic Hann window w_k = sin²(π k/segment); with X_j its DFT and
 // U = Σ_k w_k², the estimate is
 //
-//	S_j = c_j dt / (K U) Σ_segments |X_j|²,  c_j = 2 for 0 < j < segment/2, 1 at j = 0 and segment/2,
+//	S_j = 2 dt/(K U) Σ_segments |X_j|²,
 //
-// so that Σ_j S_j / (segment dt) equals the window-weighted mean square of the
-// segments (Parseval): the integral of the estimate is the variance. The
-// estimate of a Gaussian process has a relative standard deviation of about
-// sqrt(1.06/K) per frequency (the 1.06 accounts for the 17% correlation of
-// half-overlapping Hann segments, F. J. Harris, Proc. IEEE 66, 51 (1978),
-// Table 1), and neighbouring frequencies are correlated by the window.
+// so that each S_j estimates S(f_j), the end bins j = 0 and segment/2
+// included (scipy.signal.welch reports those two at half this value), and the
+// trapezoidal integral of the estimate, Σ_j S_j Δf with half weight on the end
+// bins, equals the window-weighted mean square of the segments (Parseval):
+// the integral of the estimate is the variance.
 //
-// Welch panics if segment is not even and at least 4, or exceeds len(x).
+// Removing each segment's mean leaves bin 0 and, because the window spreads
+// it over bins 0 and ±1, bin 1 biased low: for white noise they come out at
+// 1/3 and 5/6 of S. Read spectra from bin 2 up. Elsewhere the estimate of a
+// Gaussian process has a relative standard deviation of about sqrt(1.06/K)
+// (the 1.06 accounts for the 17% correlation of half-overlapping Hann
+// segments, F. J. Harris, Proc. IEEE 66, 51 (1978), Table 1), sqrt(2) more at
+// the Nyquist bin, whose coefficient is real; neighbouring bins are correlated
+// through the window.
+//
+// Welch panics if segment is not even and at least 4, or exceeds len(x), or
+// dtS is not positive.
 //
 // References:
 //   - P. D. Welch, The use of fast Fourier transform for the estimation of
@@ -72,11 +81,7 @@ func Welch(x []float64, dtS float64, segment int) (freqHz, density []float64) {
 	freqHz = make([]float64, len(density))
 	scale := dtS / (float64(k) * u)
 	for j := range density {
-		c := 2.0
-		if j == 0 || j == segment/2 {
-			c = 1
-		}
-		density[j] *= c * scale
+		density[j] *= 2 * scale
 		freqHz[j] = float64(j) / (float64(segment) * dtS)
 	}
 	return freqHz, density
