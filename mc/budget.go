@@ -1,0 +1,125 @@
+package mc
+
+import (
+	"fmt"
+	"math"
+
+	"rampart/noise"
+)
+
+// Budget is the hardware noise a Monte Carlo ensemble draws from, in SI
+// units. A zero field switches its source off.
+type Budget struct {
+	// Static, shot-to-shot errors (standard deviations of normal draws).
+	DepthCommonRel       float64 // relative depth error common to both spin states
+	DepthDifferentialRel float64 // relative depth difference eps_+ - eps_- between the spin states
+	ClockRel             float64 // waveform time-base error kappa: the profile plays (1+kappa) faster
+	SpeedRel             float64 // drive-frequency scale error: speeds and angles scale by (1+k)
+	SkewS                float64 // delay of the s = -1 arm's drive after the s = +1 arm's
+	TemperatureSpreadK   float64 // shot-to-shot spread of the start temperature (clamped at 0 K)
+	PulseAreaRel         float64 // relative area error of each pi/2 pulse, independent
+
+	// Noise during the shot.
+	// RIN is the one-sided PSD of the relative intensity noise eps(t) in
+	// 1/Hz, common to both spin states (one laser); nil: none.
+	RIN     noise.PSD
+	RINBand noise.Band
+	// Phase is the one-sided PSD S_alpha(f) in rad^2/Hz of each arm's drive
+	// phase; the lattice angle moves by alpha/N. nil: none.
+	Phase noise.PSD
+	// PhaseCorrelation is the correlation coefficient of the two arms'
+	// drive phase noise, in [-1, 1].
+	PhaseCorrelation float64
+}
+
+// Static parameter names, in sampler order when active.
+const (
+	ParamDepthCommon       = "depth_common_rel"
+	ParamDepthDifferential = "depth_differential_rel"
+	ParamClock             = "clock_rel"
+	ParamSpeed             = "speed_rel"
+	ParamSkew              = "skew_s"
+	ParamTemperature       = "temperature_offset_k"
+	ParamPulse1            = "pulse1_area_rel"
+	ParamPulse2            = "pulse2_area_rel"
+)
+
+// Param is one static parameter drawn per realisation: value = Sigma * x,
+// x standard normal.
+type Param struct {
+	Name  string
+	Sigma float64
+}
+
+// Params returns the active static parameters of b in sampler order.
+func (b Budget) Params() []Param {
+	all := []Param{
+		{ParamDepthCommon, b.DepthCommonRel},
+		{ParamDepthDifferential, b.DepthDifferentialRel},
+		{ParamClock, b.ClockRel},
+		{ParamSpeed, b.SpeedRel},
+		{ParamSkew, b.SkewS},
+		{ParamTemperature, b.TemperatureSpreadK},
+		{ParamPulse1, b.PulseAreaRel},
+		{ParamPulse2, b.PulseAreaRel},
+	}
+	var out []Param
+	for _, p := range all {
+		if p.Sigma != 0 {
+			out = append(out, p)
+		}
+	}
+	return out
+}
+
+// Dynamic reports whether any noise source changes during a shot.
+func (b Budget) Dynamic() bool { return b.RIN != nil || b.Phase != nil }
+
+// Validate checks that every amplitude is finite and non-negative.
+func (b Budget) Validate() error {
+	for _, p := range []Param{
+		{ParamDepthCommon, b.DepthCommonRel},
+		{ParamDepthDifferential, b.DepthDifferentialRel},
+		{ParamClock, b.ClockRel},
+		{ParamSpeed, b.SpeedRel},
+		{ParamSkew, b.SkewS},
+		{ParamTemperature, b.TemperatureSpreadK},
+		{"pulse_area_rel", b.PulseAreaRel},
+	} {
+		if p.Sigma < 0 || math.IsNaN(p.Sigma) || math.IsInf(p.Sigma, 0) {
+			return fmt.Errorf("noise amplitude %s = %g is not a finite non-negative number", p.Name, p.Sigma)
+		}
+	}
+	if !(b.PhaseCorrelation >= -1 && b.PhaseCorrelation <= 1) {
+		return fmt.Errorf("drive phase correlation %g is outside [-1, 1]", b.PhaseCorrelation)
+	}
+	return nil
+}
+
+// Scaled returns the budget with every source's amplitude multiplied by k
+// (standard deviations by k, PSDs by k^2): the budget's tolerance axis.
+func (b Budget) Scaled(k float64) Budget {
+	c := b
+	c.DepthCommonRel *= k
+	c.DepthDifferentialRel *= k
+	c.ClockRel *= k
+	c.SpeedRel *= k
+	c.SkewS *= k
+	c.TemperatureSpreadK *= k
+	c.PulseAreaRel *= k
+	if b.RIN != nil {
+		c.RIN = scaledPSD{b.RIN, k * k}
+	}
+	if b.Phase != nil {
+		c.Phase = scaledPSD{b.Phase, k * k}
+	}
+	return c
+}
+
+// scaledPSD is a PSD multiplied by a constant.
+type scaledPSD struct {
+	s noise.PSD
+	k float64
+}
+
+func (s scaledPSD) Density(f float64) float64 { return s.k * s.s.Density(f) }

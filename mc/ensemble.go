@@ -1,0 +1,217 @@
+package mc
+
+import (
+	"fmt"
+	"math"
+
+	"rampart/noise"
+	"rampart/sim"
+)
+
+// Ensemble is a Monte Carlo ensemble of shots of one interferometer
+// configuration under a noise budget.
+type Ensemble struct {
+	Config  sim.Config
+	Budget  Budget
+	Samples int
+	Seed    uint64
+	// Sampler is the design of the static parameters: "random" (the
+	// default when empty), "lhs" (Latin hypercube) or "sobol" (Owen-scrambled
+	// Sobol' points).
+	Sampler string
+}
+
+// Samplers lists the accepted values of Ensemble.Sampler.
+var Samplers = []string{"random", "lhs", "sobol"}
+
+// Realiser turns realisation indices into shots and runs them. It is safe
+// for concurrent use when each goroutine has its own Worker.
+type Realiser struct {
+	ens       Ensemble
+	sim       *sim.Simulator
+	params    []Param
+	design    Sampler
+	noiseStep float64
+	rin       *noise.Synthesizer
+	phase     *noise.Synthesizer
+}
+
+// NewRealiser validates the ensemble and prepares its simulator, design and
+// noise synthesisers. The grid and step of the nominal shot serve every
+// realisation, so that realisations differ only by what they perturb; the
+// propagated levels cover the start temperature plus four spreads.
+func NewRealiser(e Ensemble) (*Realiser, error) {
+	if e.Samples < 1 {
+		return nil, fmt.Errorf("samples = %d, need at least 1", e.Samples)
+	}
+	if err := e.Budget.Validate(); err != nil {
+		return nil, err
+	}
+	cfg := e.Config
+	if e.Budget.TemperatureSpreadK > 0 && cfg.Levels == 0 {
+		hot := cfg
+		hot.TemperatureK += 4 * e.Budget.TemperatureSpreadK
+		cfg.Levels = sim.AutoNumerics(hot).Levels
+		if cfg.Grid == 0 {
+			cfg.Grid = sim.AutoNumerics(hot).Grid
+		}
+	}
+	s, err := sim.NewSimulator(cfg)
+	if err != nil {
+		return nil, err
+	}
+	r := &Realiser{ens: e, sim: s, params: e.Budget.Params()}
+	r.ens.Config = s.Config()
+	if d := len(r.params); d > 0 {
+		switch e.Sampler {
+		case "", "random":
+			r.design = Normal(NewRandom(d, e.Samples, e.Seed))
+		case "lhs":
+			r.design = Normal(NewLatinHypercube(d, e.Samples, e.Seed))
+		case "sobol":
+			if d > SobolMaxDim {
+				return nil, fmt.Errorf("sobol sampler supports at most %d parameters, the budget has %d", SobolMaxDim, d)
+			}
+			r.design = Normal(NewSobol(d, e.Samples, e.Seed, Owen))
+		default:
+			return nil, fmt.Errorf("unknown sampler %q (want random, lhs or sobol)", e.Sampler)
+		}
+	}
+	if e.Budget.Dynamic() {
+		if err := r.prepareNoise(); err != nil {
+			return nil, err
+		}
+	}
+	return r, nil
+}
+
+// prepareNoise sets up the noise grid: the split step of the simulation
+// (which resolves the trap motion) over the longest shot the static draws
+// can make, six standard deviations out.
+func (r *Realiser) prepareNoise() error {
+	cfg, b := r.ens.Config, r.ens.Budget
+	r.noiseStep = cfg.StepS
+	long := cfg.Sequence.Duration()*(1+6*b.ClockRel) + 6*b.SkewS
+	n := int(math.Ceil(long/r.noiseStep)) + 2
+	var err error
+	if b.RIN != nil {
+		if r.rin, err = noise.NewSynthesizer(b.RIN, n, r.noiseStep, b.RINBand); err != nil {
+			return fmt.Errorf("intensity noise: %w", err)
+		}
+	}
+	if b.Phase != nil {
+		if r.phase, err = noise.NewSynthesizer(b.Phase, n, r.noiseStep, noise.Band{}); err != nil {
+			return fmt.Errorf("drive phase noise: %w", err)
+		}
+	}
+	return nil
+}
+
+// Config returns the nominal configuration with its numerics filled in.
+func (r *Realiser) Config() sim.Config { return r.ens.Config }
+
+// Ensemble returns the ensemble.
+func (r *Realiser) Ensemble() Ensemble { return r.ens }
+
+// Params returns the active static parameters.
+func (r *Realiser) Params() []Param { return r.params }
+
+// NoiseStepS returns the time step of the synthesised noise records (0
+// without noise during the shot).
+func (r *Realiser) NoiseStepS() float64 { return r.noiseStep }
+
+// Worker holds one goroutine's scratch space.
+type Worker struct {
+	r       *Realiser
+	point   []float64
+	rin     *noise.Synthesizer
+	phase   *noise.Synthesizer
+	bufRIN  []float64
+	bufA    []float64
+	bufB    []float64
+}
+
+// NewWorker returns scratch space for one goroutine.
+func (r *Realiser) NewWorker() *Worker {
+	w := &Worker{r: r, point: make([]float64, len(r.params))}
+	if r.rin != nil {
+		w.rin = r.rin.Clone()
+		w.bufRIN = make([]float64, r.rin.Len())
+	}
+	if r.phase != nil {
+		w.phase = r.phase.Clone()
+		w.bufA = make([]float64, r.phase.Len())
+		w.bufB = make([]float64, r.phase.Len())
+	}
+	return w
+}
+
+// Shot returns the perturbation of realisation i and the drawn static
+// inputs, in the order of Params.
+func (w *Worker) Shot(i int) (sim.Shot, Record) {
+	r := w.r
+	rec := Record{Index: i, Inputs: make([]float64, len(r.params))}
+	var sh sim.Shot
+	if r.design != nil {
+		r.design.Point(i, w.point)
+	}
+	pulse := 0
+	for k, p := range r.params {
+		v := p.Sigma * w.point[k]
+		rec.Inputs[k] = v
+		switch p.Name {
+		case ParamDepthCommon:
+			sh.DepthRel[0] += v
+			sh.DepthRel[1] += v
+		case ParamDepthDifferential:
+			sh.DepthRel[0] += v / 2
+			sh.DepthRel[1] -= v / 2
+		case ParamClock:
+			sh.ClockRel = v
+		case ParamSpeed:
+			sh.SpeedRel = v
+		case ParamSkew:
+			sh.SkewS = v
+		case ParamTemperature:
+			sh.TemperatureOffsetK = v
+		case ParamPulse1, ParamPulse2:
+			sh.PulseAreaRel[pulse] = v
+			pulse++
+		}
+	}
+	if w.rin != nil {
+		x := w.rin.Synthesize(w.bufRIN, Substream(r.ens.Seed, i, "noise/rin"))
+		s := &sim.Series{StepS: r.noiseStep, Values: x}
+		sh.DepthNoise = [2]*sim.Series{s, s}
+		rec.RINRms = rms(x)
+	}
+	if w.phase != nil {
+		w.phase.SynthesizePair(w.bufA, w.bufB, r.ens.Budget.PhaseCorrelation, Substream(r.ens.Seed, i, "noise/phase"))
+		n := float64(r.ens.Config.Ring.Sites)
+		a, b := make([]float64, len(w.bufA)), make([]float64, len(w.bufB))
+		for j := range a {
+			a[j], b[j] = w.bufA[j]/n, w.bufB[j]/n
+		}
+		sh.Jitter = [2]*sim.Series{{StepS: r.noiseStep, Values: a}, {StepS: r.noiseStep, Values: b}}
+		rec.PhaseRms = [2]float64{rms(w.bufA), rms(w.bufB)}
+	}
+	return sh, rec
+}
+
+// Realise runs realisation i.
+func (w *Worker) Realise(i int) Record {
+	sh, rec := w.Shot(i)
+	res := w.r.sim.Run(sh, nil)
+	rec.Contrast, rec.PhaseRad, rec.BiasRad = res.Contrast, res.PhaseRad, res.BiasRad
+	rec.Z = res.Z
+	rec.Ground = res.GroundAfterRampUp
+	return rec
+}
+
+func rms(x []float64) float64 {
+	var s float64
+	for _, v := range x {
+		s += v * v
+	}
+	return math.Sqrt(s / float64(len(x)))
+}
