@@ -14,6 +14,15 @@
 // without computing the others. [Normal] maps a sampler's points to standard
 // normal variates by the inverse normal distribution function.
 //
+// # Ensembles
+//
+// Realisation i of an ensemble takes its static parameters from point i of the
+// sampler and each noise series from its own named substream of (seed, i), so
+// adding a noise source, or switching one off, leaves the draws of the others
+// unchanged. Two ramps run with the same seed see the same static errors and
+// the same noise (common random numbers), so their paired differences have
+// much smaller errors than their separate estimates.
+//
 // # Statistics
 //
 // Per realisation the ensemble yields a contrast C_i, a bias b_i and an overlap

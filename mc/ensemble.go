@@ -122,13 +122,13 @@ func (r *Realiser) NoiseStepS() float64 { return r.noiseStep }
 
 // Worker holds one goroutine's scratch space.
 type Worker struct {
-	r       *Realiser
-	point   []float64
-	rin     *noise.Synthesizer
-	phase   *noise.Synthesizer
-	bufRIN  []float64
-	bufA    []float64
-	bufB    []float64
+	r      *Realiser
+	point  []float64
+	rin    *noise.Synthesizer
+	phase  *noise.Synthesizer
+	bufRIN []float64
+	bufA   []float64
+	bufB   []float64
 }
 
 // NewWorker returns scratch space for one goroutine.
