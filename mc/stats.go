@@ -15,6 +15,9 @@ func Mean(x []float64) float64 {
 		s += v
 	}
 	m := s / float64(len(x))
+	if math.IsInf(m, 0) || math.IsNaN(m) {
+		return m
+	}
 	// One correction pass removes most of the rounding error of the sum.
 	var c float64
 	for _, v := range x {

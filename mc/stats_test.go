@@ -72,6 +72,10 @@ func TestVarianceLargeOffset(t *testing.T) {
 	if got := Mean(x); got != 1e9+10 {
 		t.Errorf("Mean: got %v, want %v (exact)", got, 1e9+10)
 	}
+	// IEEE arithmetic: an infinite value makes the mean infinite, as numpy.mean.
+	if got := Mean([]float64{1, math.Inf(1)}); !math.IsInf(got, 1) {
+		t.Errorf("Mean with +Inf: got %v, want +Inf", got)
+	}
 }
 
 func TestMeanComplex(t *testing.T) {
