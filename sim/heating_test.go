@@ -1,0 +1,146 @@
+package sim
+
+import (
+	"math"
+	"math/rand/v2"
+	"sync"
+	"testing"
+
+	"rampart/noise"
+)
+
+// heatingMotion is a lattice at rest but for noise: angle jitter and
+// relative depth noise.
+type heatingMotion struct {
+	jitter, depthNoise *Series
+}
+
+func (m heatingMotion) angle(t float64) float64 { return m.jitter.At(t) }
+func (m heatingMotion) depth(t float64) float64 { return 1 + m.depthNoise.At(t) }
+
+// latticeEnergy returns <chi| E_rot l^2 + V |chi> in rad/s (energy/hbar) for
+// level 0 of f, with the lattice at rest at angle 0 of f's frame.
+func latticeEnergy(f *field, rot, v0 float64) float64 {
+	b := f.b
+	k, n, wd := b.Block, b.Sites, f.width()
+	cols := 2 * wd
+	var e float64
+	for c := range n {
+		for j := range k {
+			l := float64(b.L(c, j))
+			xr, xi := f.x[j*cols+c], f.x[j*cols+wd+c]
+			e += (rot*l*l - v0/2) * (xr*xr + xi*xi)
+			if j+1 < k {
+				yr, yi := f.x[(j+1)*cols+c], f.x[(j+1)*cols+wd+c]
+				e += 2 * (-v0 / 4) * (xr*yr + xi*yi)
+			}
+		}
+	}
+	return e
+}
+
+// TestHeatingHarmonicLimit checks the ensemble heating of the ground state
+// of a deep lattice under intensity noise and under lattice-angle noise
+// against the harmonic-trap rates of M. E. Savard, K. M. O'Hara and
+// J. E. Thomas, Phys. Rev. A 56, R1095 (1997), with one-sided PSDs per Hz:
+//
+//	intensity: d<E>/dt = Gamma <E>,  Gamma = pi^2 nu^2 S_eps(2 nu)
+//	angle:     d<E>/dt = 4 pi^4 I nu^4 S_a(nu)   (M -> I, x -> lattice angle)
+//
+// (re-derived here with Fermi's golden rule: the transitions 0 -> 2 at rate
+// (omega^2/16) S_eps(2 nu) and 0 -> 1 at rate (I omega^3 / 4 hbar) S_a(nu)).
+// The ring has 4 sites at a trap frequency near 1 kHz (q ~ 720, so
+// anharmonic corrections are of order 1/(4 sqrt q) ~ 1 %); the noise is
+// white in a band around the resonance, so its level is S there, and weak
+// enough that Gamma T ~ 0.2 over T = 20 trap periods keeps the growth
+// linear. The energy gain of one realisation is |a|^2 with a a complex
+// Gaussian amplitude, exponentially distributed; with M realisations the
+// standard error of the mean is measured from the sample and the tolerance
+// is 3 standard errors plus 5 % for the anharmonicity and the finite time.
+func TestHeatingHarmonicLimit(t *testing.T) {
+	if testing.Short() {
+		t.Skip("ensemble heating")
+	}
+	r := Ring{Sites: 4, RadiusM: 5e-6, MassKg: Rb87MassU * AtomicMassUnit}
+	depthHz := 26.9e3 // trap frequency N sqrt(V0 E_rot) = 1000.6 Hz
+	nu := r.TrapHz(depthHz)
+	b, err := NewBasis(r.Sites, 216) // (sqrt(7) + 4.5) oscillator momenta: levels up to n = 3
+	if err != nil {
+		t.Fatal(err)
+	}
+	rot, v0 := r.rotationalRate(), 2*math.Pi*depthHz
+	es := diagonalise(b, rot, 0, v0)
+	omega := 2 * math.Pi * nu
+	start := wannier(b, r, es, 0, omega)
+	const periods, stepsPerPeriod, realisations = 20, 40, 128
+	total := periods / nu
+	steps := periods * stepsPerPeriod
+	dt := total / float64(steps)
+
+	zeroPoint := latticeEnergy(levelField(b, start), rot, v0) + v0 // above the bottom of the site, rad/s
+	cases := []struct {
+		name  string
+		band  noise.Band
+		level float64 // one-sided PSD in the band
+		angle bool
+		want  func(s float64) float64 // d<E>/dt / hbar in rad/s^2
+	}{
+		{"intensity", noise.Band{LowHz: 1.5 * nu, HighHz: 2.5 * nu}, 1e-6, false,
+			func(s float64) float64 { return math.Pi * math.Pi * nu * nu * s * zeroPoint }},
+		{"angle", noise.Band{LowHz: 0.5 * nu, HighHz: 1.5 * nu}, 4e-10, true,
+			func(s float64) float64 { return 4 * math.Pow(math.Pi, 4) * r.Inertia() * math.Pow(nu, 4) * s / Hbar }},
+	}
+	for _, tc := range cases {
+		syn, err := noise.NewSynthesizer(noise.White{Level: tc.level}, steps+2, dt, tc.band)
+		if err != nil {
+			t.Fatal(err)
+		}
+		gains := make([]float64, realisations)
+		var wg sync.WaitGroup
+		for w := range 2 {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				z := syn.Clone()
+				p := newPropagator(b, r, v0, 1)
+				p.scheme = strang
+				for i := w; i < realisations; i += 2 {
+					x := z.Synthesize(nil, rand.New(rand.NewPCG(1997, uint64(i))))
+					s := &Series{StepS: dt, Values: x}
+					m := heatingMotion{depthNoise: s}
+					if tc.angle {
+						m = heatingMotion{jitter: s}
+					}
+					f := levelField(b, start)
+					p.splitSteps(f, m, 0, total, steps)
+					// energy in the frame of the lattice where it now is
+					p.kick(f, m.angle(total))
+					gains[i] = latticeEnergy(f, rot, v0) + v0 - zeroPoint
+				}
+			}()
+		}
+		wg.Wait()
+		var mean, sq float64
+		for _, g := range gains {
+			mean += g
+		}
+		mean /= realisations
+		for _, g := range gains {
+			sq += (g - mean) * (g - mean)
+		}
+		se := math.Sqrt(sq/(realisations-1)) / math.Sqrt(realisations)
+		rate, want := mean/total, tc.want(tc.level)
+		tol := 3*se/total + 0.05*want
+		t.Logf("%s: d<E>/dt = %.4g hbar/s^2 +- %.2g (s.e.), Savard et al. %.4g; gain over the run %.3g of hbar omega",
+			tc.name, rate, se/total, want, mean/omega)
+		if math.Abs(rate-want) > tol {
+			t.Errorf("%s heating rate: got %.4g, want %.4g (tol %.2g: 3 standard errors + 5 %%)", tc.name, rate, want, tol)
+		}
+	}
+}
+
+func levelField(b Basis, s State) *field {
+	f := newField(b, 1)
+	f.set(0, s)
+	return f
+}
