@@ -87,8 +87,11 @@ func allanExpected(s PSD, band Band, m int) float64 {
 
 func TestAllanPowerLaws(t *testing.T) {
 	// IEEE Std 1139 relations between S_y(f) = h_α f^α and the Allan variance
-	// (as tabulated, e.g., in the allantools ieee1139_* examples; the flicker
-	// constant 2 ln 2 is ∫_0^∞ 2 sin⁴x/x³ dx, from memory and re-derived):
+	// (white and random walk FM as tabulated from the standard in the
+	// allantools examples ieee1139_white_fm.py and ieee1139_randomwalk_fm.py;
+	// flicker FM from memory, re-derived: σ² = 2 ∫ S_y sin⁴(πfτ)/(πfτ)² df
+	// gives 2 h_-1 ∫_0^∞ sin⁴x/x³ dx = 2 ln2 h_-1, the integral checked
+	// numerically to 1e-7):
 	//   white FM       α =  0:  σ² = h_0/(2τ)
 	//   flicker FM     α = -1:  σ² = 2 ln2 h_-1
 	//   random walk FM α = -2:  σ² = (2π²/3) h_-2 τ

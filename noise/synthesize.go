@@ -31,8 +31,9 @@ type Band struct {
 // m = 4n and 2.5% at m = 8n, while the end-to-end difference and
 // well-separated frequencies are right to better than 0.5% from m = 4n on
 // (measured for n = 400 by comparing Σ_j W_j |H(f_j)|² with ∫ S |H|² df for
-// those weightings H). Four is the chosen compromise at twice the cost of the
-// minimum; TestSynthesizerEndToEnd checks the end-to-end case.
+// those weightings H; TestSynthesizerLineApproximation repeats the m = 4n
+// figures at n = 256). Four is the chosen compromise at twice the cost of the
+// minimum.
 const oversampling = 4
 
 // maxFFTLength bounds the FFT a Synthesizer may need (2^24 points, 0.4 GB of
