@@ -51,9 +51,13 @@ type Param struct {
 	Sigma float64
 }
 
-// Params returns the active static parameters of b in sampler order.
-func (b Budget) Params() []Param {
-	all := []Param{
+// allParams returns every static parameter of b, active or not, in the
+// fixed order of the sampler's coordinates: coordinate k always drives
+// parameter k, so that switching a source off or rescaling it leaves the
+// draws of the others, and its own normal variates, unchanged (common
+// random numbers across budgets).
+func (b Budget) allParams() []Param {
+	return []Param{
 		{ParamDepthCommon, b.DepthCommonRel},
 		{ParamDepthDifferential, b.DepthDifferentialRel},
 		{ParamClock, b.ClockRel},
@@ -63,8 +67,15 @@ func (b Budget) Params() []Param {
 		{ParamPulse1, b.PulseAreaRel},
 		{ParamPulse2, b.PulseAreaRel},
 	}
+}
+
+// StaticDim is the dimension of the static parameters' design.
+const StaticDim = 8
+
+// Params returns the active static parameters of b in sampler order.
+func (b Budget) Params() []Param {
 	var out []Param
-	for _, p := range all {
+	for _, p := range b.allParams() {
 		if p.Sigma != 0 {
 			out = append(out, p)
 		}

@@ -19,6 +19,12 @@ type Ensemble struct {
 	// default when empty), "lhs" (Latin hypercube) or "sobol" (Owen-scrambled
 	// Sobol' points).
 	Sampler string
+	// NoiseStepS and NoiseDurationS fix the grid of the noise records. If
+	// zero, the step is the simulation's split step and the duration the
+	// longest shot the static draws can make; ensembles compared on common
+	// random numbers (several ramps) must share one grid.
+	NoiseStepS     float64
+	NoiseDurationS float64
 }
 
 // Samplers lists the accepted values of Ensemble.Sampler.
@@ -62,7 +68,7 @@ func NewRealiser(e Ensemble) (*Realiser, error) {
 	}
 	r := &Realiser{ens: e, sim: s, params: e.Budget.Params()}
 	r.ens.Config = s.Config()
-	if d := len(r.params); d > 0 {
+	if d := StaticDim; len(r.params) > 0 {
 		switch e.Sampler {
 		case "", "random":
 			r.design = Normal(NewRandom(d, e.Samples, e.Seed))
@@ -91,7 +97,13 @@ func NewRealiser(e Ensemble) (*Realiser, error) {
 func (r *Realiser) prepareNoise() error {
 	cfg, b := r.ens.Config, r.ens.Budget
 	r.noiseStep = cfg.StepS
+	if r.ens.NoiseStepS > 0 {
+		r.noiseStep = r.ens.NoiseStepS
+	}
 	long := cfg.Sequence.Duration()*(1+6*b.ClockRel) + 6*b.SkewS
+	if r.ens.NoiseDurationS > 0 {
+		long = r.ens.NoiseDurationS
+	}
 	n := int(math.Ceil(long/r.noiseStep)) + 2
 	var err error
 	if b.RIN != nil {
@@ -133,7 +145,7 @@ type Worker struct {
 
 // NewWorker returns scratch space for one goroutine.
 func (r *Realiser) NewWorker() *Worker {
-	w := &Worker{r: r, point: make([]float64, len(r.params))}
+	w := &Worker{r: r, point: make([]float64, StaticDim)}
 	if r.rin != nil {
 		w.rin = r.rin.Clone()
 		w.bufRIN = make([]float64, r.rin.Len())
@@ -149,16 +161,36 @@ func (r *Realiser) NewWorker() *Worker {
 // Shot returns the perturbation of realisation i and the drawn static
 // inputs, in the order of Params.
 func (w *Worker) Shot(i int) (sim.Shot, Record) {
-	r := w.r
-	rec := Record{Index: i, Inputs: make([]float64, len(r.params))}
-	var sh sim.Shot
-	if r.design != nil {
-		r.design.Point(i, w.point)
+	if w.r.design != nil {
+		w.r.design.Point(i, w.point)
 	}
-	pulse := 0
-	for k, p := range r.params {
-		v := p.Sigma * w.point[k]
-		rec.Inputs[k] = v
+	return w.ShotAt(i, w.point, [2]int{i, i})
+}
+
+// ShotAt returns the perturbation of a shot whose static parameters are
+// the standard normal variates z (length StaticDim, coordinate k for the
+// k-th parameter of the budget whether active or not) and whose intensity
+// and drive phase noise records are those of realisations noise[0] and
+// noise[1]. Designs that recombine inputs (Sobol' indices) use it; Shot(i)
+// is ShotAt(i, point i of the design, {i, i}).
+func (w *Worker) ShotAt(index int, z []float64, noise [2]int) (sim.Shot, Record) {
+	r := w.r
+	if len(z) != StaticDim {
+		panic("mc: ShotAt needs StaticDim normal variates")
+	}
+	rec := Record{Index: index, Inputs: make([]float64, len(r.params))}
+	var sh sim.Shot
+	pulse, active := 0, 0
+	for k, p := range r.ens.Budget.allParams() {
+		if p.Sigma == 0 {
+			if p.Name == ParamPulse1 || p.Name == ParamPulse2 {
+				pulse++
+			}
+			continue
+		}
+		v := p.Sigma * z[k]
+		rec.Inputs[active] = v
+		active++
 		switch p.Name {
 		case ParamDepthCommon:
 			sh.DepthRel[0] += v
@@ -180,13 +212,13 @@ func (w *Worker) Shot(i int) (sim.Shot, Record) {
 		}
 	}
 	if w.rin != nil {
-		x := w.rin.Synthesize(w.bufRIN, Substream(r.ens.Seed, i, "noise/rin"))
+		x := w.rin.Synthesize(w.bufRIN, Substream(r.ens.Seed, noise[0], "noise/rin"))
 		s := &sim.Series{StepS: r.noiseStep, Values: x}
 		sh.DepthNoise = [2]*sim.Series{s, s}
 		rec.RINRms = rms(x)
 	}
 	if w.phase != nil {
-		w.phase.SynthesizePair(w.bufA, w.bufB, r.ens.Budget.PhaseCorrelation, Substream(r.ens.Seed, i, "noise/phase"))
+		w.phase.SynthesizePair(w.bufA, w.bufB, r.ens.Budget.PhaseCorrelation, Substream(r.ens.Seed, noise[1], "noise/phase"))
 		n := float64(r.ens.Config.Ring.Sites)
 		a, b := make([]float64, len(w.bufA)), make([]float64, len(w.bufB))
 		for j := range a {
@@ -201,6 +233,11 @@ func (w *Worker) Shot(i int) (sim.Shot, Record) {
 // Realise runs realisation i.
 func (w *Worker) Realise(i int) Record {
 	sh, rec := w.Shot(i)
+	return w.RunShot(sh, rec)
+}
+
+// RunShot runs a shot from Shot or ShotAt and fills in its outcome.
+func (w *Worker) RunShot(sh sim.Shot, rec Record) Record {
 	res := w.r.sim.Run(sh, nil)
 	rec.Contrast, rec.PhaseRad, rec.BiasRad = res.Contrast, res.PhaseRad, res.BiasRad
 	rec.Z = res.Z
