@@ -20,7 +20,7 @@ type Ensemble struct {
 	// Sobol' points).
 	Sampler string
 	// NoiseStepS and NoiseDurationS fix the grid of the noise records. If
-	// zero, the step is the simulation's split step and the duration the
+	// zero, the step is a quarter of the simulation's split step and the duration the
 	// longest shot the static draws can make; ensembles compared on common
 	// random numbers (several ramps) must share one grid.
 	NoiseStepS     float64
@@ -96,7 +96,10 @@ func NewRealiser(e Ensemble) (*Realiser, error) {
 // can make, six standard deviations out.
 func (r *Realiser) prepareNoise() error {
 	cfg, b := r.ens.Config, r.ens.Budget
-	r.noiseStep = cfg.StepS
+	// Four samples per split step: the propagator interpolates the records
+	// linearly, which filters their PSD by sinc^4(pi f dt); at a quarter
+	// step that costs 0.3 % at twice the trap frequency.
+	r.noiseStep = cfg.StepS / NoiseSamplesPerStep
 	if r.ens.NoiseStepS > 0 {
 		r.noiseStep = r.ens.NoiseStepS
 	}
@@ -118,6 +121,9 @@ func (r *Realiser) prepareNoise() error {
 	}
 	return nil
 }
+
+// NoiseSamplesPerStep is the number of noise samples per split step.
+const NoiseSamplesPerStep = 4
 
 // Config returns the nominal configuration with its numerics filled in.
 func (r *Realiser) Config() sim.Config { return r.ens.Config }

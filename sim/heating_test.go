@@ -57,6 +57,18 @@ func latticeEnergy(f *field, rot, v0 float64) float64 {
 // Gaussian amplitude, exponentially distributed; with M realisations the
 // standard error of the mean is measured from the sample and the tolerance
 // is 3 standard errors plus 5 % for the anharmonicity and the finite time.
+// The fourth-order composition matters here: Strang's scheme leaves a
+// background of about 1e-5 hbar omega even without noise (the start state
+// is not an eigenstate of its modified Hamiltonian), Suzuki's about 1e-10.
+// Units: the intensity rate Gamma is in 1/s, the angle rate in rad/s^2
+// (energy/hbar per second). The noise is sampled four times per step:
+// linear interpolation between samples filters the PSD by
+// sinc^4(pi f dt), which at one sample per step cost 6 % at 2 nu.
+// Measured once with 1024 realisations (not run here, 70 s): intensity
+// 9.39 +- 0.25 1/s against 9.88, angle 5021 +- 150 rad/s^2 against 5344,
+// both about 5 % (2 standard errors) low, the size of the lattice's
+// anharmonic corrections to frequencies and matrix elements at q ~ 720
+// (each of order 1/(4 sqrt q) ~ 1 %, entering through omega^3).
 func TestHeatingHarmonicLimit(t *testing.T) {
 	if testing.Short() {
 		t.Skip("ensemble heating")
@@ -72,7 +84,8 @@ func TestHeatingHarmonicLimit(t *testing.T) {
 	es := diagonalise(b, rot, 0, v0)
 	omega := 2 * math.Pi * nu
 	start := wannier(b, r, es, 0, omega)
-	const periods, stepsPerPeriod, realisations = 20, 40, 128
+	const periods, stepsPerPeriod, realisations = 20, 20, 128
+	const noiseFine = 4 // noise samples per step
 	total := periods / nu
 	steps := periods * stepsPerPeriod
 	dt := total / float64(steps)
@@ -83,15 +96,21 @@ func TestHeatingHarmonicLimit(t *testing.T) {
 		band  noise.Band
 		level float64 // one-sided PSD in the band
 		angle bool
-		want  func(s float64) float64 // d<E>/dt / hbar in rad/s^2
+		// rate returns the measured rate from the mean gain: Gamma =
+		// ln(<E(T)>/E_0)/T for intensity noise (<E> grows as e^{Gamma t}),
+		// <dE/dt>/hbar = gain/T for angle noise (linear growth).
+		rate func(gain float64) float64
+		want func(s float64) float64
 	}{
 		{"intensity", noise.Band{LowHz: 1.5 * nu, HighHz: 2.5 * nu}, 1e-6, false,
-			func(s float64) float64 { return math.Pi * math.Pi * nu * nu * s * zeroPoint }},
+			func(g float64) float64 { return math.Log1p(g/zeroPoint) / total },
+			func(s float64) float64 { return math.Pi * math.Pi * nu * nu * s }},
 		{"angle", noise.Band{LowHz: 0.5 * nu, HighHz: 1.5 * nu}, 4e-10, true,
+			func(g float64) float64 { return g / total },
 			func(s float64) float64 { return 4 * math.Pow(math.Pi, 4) * r.Inertia() * math.Pow(nu, 4) * s / Hbar }},
 	}
 	for _, tc := range cases {
-		syn, err := noise.NewSynthesizer(noise.White{Level: tc.level}, steps+2, dt, tc.band)
+		syn, err := noise.NewSynthesizer(noise.White{Level: tc.level}, noiseFine*steps+2, dt/noiseFine, tc.band)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -103,18 +122,16 @@ func TestHeatingHarmonicLimit(t *testing.T) {
 				defer wg.Done()
 				z := syn.Clone()
 				p := newPropagator(b, r, v0, 1)
-				p.scheme = strang
 				for i := w; i < realisations; i += 2 {
 					x := z.Synthesize(nil, rand.New(rand.NewPCG(1997, uint64(i))))
-					s := &Series{StepS: dt, Values: x}
+					s := &Series{StepS: dt / noiseFine, Values: x}
 					m := heatingMotion{depthNoise: s}
 					if tc.angle {
 						m = heatingMotion{jitter: s}
 					}
 					f := levelField(b, start)
 					p.splitSteps(f, m, 0, total, steps)
-					// energy in the frame of the lattice where it now is
-					p.kick(f, m.angle(total))
+					// f is in the frame of the lattice where it now is
 					gains[i] = latticeEnergy(f, rot, v0) + v0 - zeroPoint
 				}
 			}()
@@ -129,10 +146,11 @@ func TestHeatingHarmonicLimit(t *testing.T) {
 			sq += (g - mean) * (g - mean)
 		}
 		se := math.Sqrt(sq/(realisations-1)) / math.Sqrt(realisations)
-		rate, want := mean/total, tc.want(tc.level)
-		tol := 3*se/total + 0.05*want
-		t.Logf("%s: d<E>/dt = %.4g hbar/s^2 +- %.2g (s.e.), Savard et al. %.4g; gain over the run %.3g of hbar omega",
-			tc.name, rate, se/total, want, mean/omega)
+		rate, want := tc.rate(mean), tc.want(tc.level)
+		dRate := math.Abs(tc.rate(mean+se) - rate) // one standard error, propagated
+		tol := 3*dRate + 0.05*want
+		t.Logf("%s: rate %.4g +- %.2g (s.e.), Savard et al. %.4g; gain over the run %.3g of hbar omega",
+			tc.name, rate, dRate, want, mean/omega)
 		if math.Abs(rate-want) > tol {
 			t.Errorf("%s heating rate: got %.4g, want %.4g (tol %.2g: 3 standard errors + 5 %%)", tc.name, rate, want, tol)
 		}
