@@ -68,8 +68,8 @@ type Shot struct {
 	// with a weight above LevelCutoff at the shot's temperature, at most
 	// Config.Levels.
 	TemperatureOffsetK float64
-	Jitter       [2]*Series // lattice angle noise delta a_s(t) in rad
-	DepthNoise   [2]*Series // relative depth noise eps_s(t)
+	Jitter             [2]*Series // lattice angle noise delta a_s(t) in rad
+	DepthNoise         [2]*Series // relative depth noise eps_s(t)
 }
 
 // Level is the contribution of one of the site's levels to a thermal start.
@@ -181,14 +181,9 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 
 	drives := s.drives(sh)
 	end := math.Max(drives[0].times()[3], drives[1].times()[3])
-	noiseStep := math.Inf(1)
-	for _, d := range drives {
-		for _, x := range []*Series{d.Jitter, d.DepthNoise} {
-			if x != nil {
-				noiseStep = math.Min(noiseStep, x.StepS)
-			}
-		}
-	}
+	// Noisy constant stretches are cut into intervals of the split step,
+	// which resolves the trap motion (the records may be sampled finer).
+	noiseStep := s.step
 
 	var res Result
 	var fields [2]*field

@@ -36,8 +36,8 @@ type propagator struct {
 
 	kinTabs [][]complex128 // exp(-i rot l^2 h) for the durations in kinHs
 	kinHs   []float64
-	s, d   []float64 // scratch: even and odd halves, K/2 x 2W
-	y      []float64 // scratch: K x 2W
+	s, d    []float64 // scratch: even and odd halves, K/2 x 2W
+	y       []float64 // scratch: K x 2W
 }
 
 func newPropagator(b Basis, r Ring, v0 float64, levels int) *propagator {
