@@ -1,0 +1,354 @@
+package scenario
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"math"
+	"reflect"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/BurntSushi/toml"
+
+	"rampart/sim"
+)
+
+// entry is one key's value and where it came from.
+type entry struct {
+	key  *key
+	path []string // as written in the file, for line look-ups
+	val  any      // as decoded from TOML
+	flag string   // the override it came from; empty: the file
+}
+
+// decoder turns a TOML document and overrides into a Scenario.
+type decoder struct {
+	s       *Scenario
+	data    []byte
+	md      toml.MetaData
+	entries []*entry
+	byKey   map[string]*entry
+}
+
+func parse(fsys fs.FS, name string, data []byte, overrides []string) (*Scenario, error) {
+	d := &decoder{
+		s:     &Scenario{Name: name, fsys: fsys, Atom: Atom{MassU: sim.Rb87MassU}},
+		data:  data,
+		byKey: map[string]*entry{},
+	}
+	var raw map[string]any
+	md, err := toml.Decode(string(data), &raw)
+	if err != nil {
+		return nil, d.syntaxError(err)
+	}
+	d.md = md
+	if err := d.collect(raw); err != nil {
+		return nil, err
+	}
+	for _, o := range overrides {
+		if err := d.override(o); err != nil {
+			return nil, err
+		}
+	}
+	for _, e := range d.entries {
+		v, err := e.key.convert(e.val)
+		if err != nil {
+			return nil, d.fail(e.key.name, err)
+		}
+		if e.key.kind == file && e.flag == "" {
+			v = d.s.resolve(v.(string))
+		}
+		e.key.set(d.s, v)
+	}
+	if err := d.check(); err != nil {
+		return nil, err
+	}
+	if _, kerr := d.s.config(); kerr != nil {
+		return nil, d.fail(kerr.key, kerr.err)
+	}
+	return d.s, nil
+}
+
+func (d *decoder) syntaxError(err error) error {
+	var pe toml.ParseError
+	if errors.As(err, &pe) {
+		return &Error{File: d.s.Name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", pe.Message)}
+	}
+	return &Error{File: d.s.Name, Err: fmt.Errorf("not valid TOML: %w", err)}
+}
+
+// collect records the values of the known keys in file order and refuses the
+// first unknown one.
+func (d *decoder) collect(raw map[string]any) error {
+	for _, k := range d.md.Keys() {
+		name := strings.Join(k, ".")
+		v := lookup(raw, k)
+		if err := d.unknown(k, v); err != nil {
+			return &Error{File: d.s.Name, Line: d.line(k), Key: name, Err: err}
+		}
+		if _, isTable := tables[name]; isTable {
+			if _, ok := v.(map[string]any); !ok {
+				return &Error{File: d.s.Name, Line: d.line(k), Key: name,
+					Err: fmt.Errorf("%s must be a table [%s], got %s", name, name, typeName(v))}
+			}
+			continue
+		}
+		e := &entry{key: keyByName[name], path: k, val: v}
+		d.entries = append(d.entries, e)
+		d.byKey[name] = e
+	}
+	return nil
+}
+
+// unknown returns an error if path, or a table on the way to it, is not in
+// the schema.
+func (d *decoder) unknown(path []string, v any) error {
+	for i := range path {
+		name := strings.Join(path[:i+1], ".")
+		if keyByName[name] != nil {
+			if i < len(path)-1 {
+				return fmt.Errorf("%s is a value, not a table: want %s", name, keyByName[name].want())
+			}
+			return nil
+		}
+		if _, ok := tables[name]; ok {
+			continue
+		}
+		parent := strings.Join(path[:i], ".")
+		if _, isTable := v.(map[string]any); i == len(path)-1 && !isTable {
+			if parent == "" {
+				return fmt.Errorf("unknown key %s: a scenario holds only the tables %s", name, strings.Join(tables[""], ", "))
+			}
+			return fmt.Errorf("unknown key %s: [%s] takes %s%s", name, parent, strings.Join(tables[parent], ", "), elsewhere(path[i]))
+		}
+		if parent == "" {
+			return fmt.Errorf("unknown table [%s]: a scenario has the tables %s", name, strings.Join(tables[""], ", "))
+		}
+		return fmt.Errorf("unknown table [%s]: [%s] takes %s", name, parent, strings.Join(tables[parent], ", "))
+	}
+	return nil
+}
+
+// elsewhere names the table a misplaced key belongs in, if any.
+func elsewhere(leaf string) string {
+	for _, k := range keys {
+		if strings.HasSuffix(k.name, "."+leaf) {
+			return fmt.Sprintf(" (%s belongs in [%s])", leaf, k.table())
+		}
+	}
+	return ""
+}
+
+// override applies one "table.key=value" override. The value is a TOML
+// value; for string keys, text that is not a quoted TOML string is taken as
+// it stands.
+func (d *decoder) override(o string) error {
+	bad := func(key string, err error) error { return &Error{File: d.s.Name, Flag: o, Key: key, Err: err} }
+	name, text, ok := strings.Cut(o, "=")
+	name = strings.TrimSpace(name)
+	if !ok || name == "" {
+		return bad("", fmt.Errorf("want table.key=value, for example ring.sites=24"))
+	}
+	k := keyByName[name]
+	if k == nil {
+		path := strings.Split(name, ".")
+		err := d.unknown(path, nil)
+		if err == nil {
+			err = fmt.Errorf("%s is a table, not a key: [%s] takes %s", name, name, strings.Join(tables[name], ", "))
+		}
+		return bad(name, err)
+	}
+	v, err := overrideValue(k, text)
+	if err != nil {
+		return bad(name, err)
+	}
+	if e := d.byKey[name]; e != nil {
+		e.val, e.flag = v, o
+		return nil
+	}
+	e := &entry{key: k, val: v, flag: o}
+	d.entries = append(d.entries, e)
+	d.byKey[name] = e
+	return nil
+}
+
+func overrideValue(k *key, value string) (any, error) {
+	t := strings.TrimSpace(value)
+	quoted := strings.HasPrefix(t, `"`) || strings.HasPrefix(t, `'`)
+	if (k.kind == text || k.kind == file) && !quoted {
+		return t, nil
+	}
+	if strings.ContainsAny(t, "\n\r") {
+		return nil, fmt.Errorf("the value of %s spans several lines: want one TOML value, %s", k.name, k.want())
+	}
+	var m map[string]any
+	if _, err := toml.Decode("v = "+t, &m); err != nil || len(m) != 1 {
+		return nil, fmt.Errorf("%q is not a TOML value: want %s", t, k.want())
+	}
+	return m["v"], nil
+}
+
+// check tests what single keys cannot: required keys, and keys that must fit
+// together.
+func (d *decoder) check() error {
+	s := d.s
+	for _, k := range keys {
+		if k.required && d.byKey[k.name] == nil {
+			return &Error{File: s.Name, Key: k.name, Err: fmt.Errorf("missing %s: want %s", k.name, k.want())}
+		}
+	}
+	if s.Ramp.Shape != "file" && d.byKey["ramp.duration_us"] == nil {
+		k := keyByName["ramp.duration_us"]
+		return &Error{File: s.Name, Key: k.name, Err: fmt.Errorf("missing %s, which shape %q needs: want %s", k.name, s.Ramp.Shape, k.want())}
+	}
+	if s.Ramp.Shape == "file" && s.Ramp.File == "" {
+		return d.fail("ramp.shape", fmt.Errorf(`ramp.shape = "file" needs ramp.file, the ramp table (a CSV file relative to the scenario file)`))
+	}
+	if s.Ramp.Shape != "file" && s.Ramp.File != "" {
+		return d.fail("ramp.file", fmt.Errorf(`ramp.file is given but ramp.shape = %q: set shape = "file" to use the table, or leave file out`, s.Ramp.Shape))
+	}
+	if s.Ramp.Shape != "inverse" && s.Ramp.DesignDepthKHz != 0 {
+		return d.fail("ramp.design_depth_khz", fmt.Errorf(`ramp.design_depth_khz applies to shape "inverse" only, not %q: leave it out or set it to 0`, s.Ramp.Shape))
+	}
+	if g, m := s.Numerics.Grid, 2*s.Ring.Sites; g%m != 0 {
+		such := fmt.Sprint(m)
+		if lo := g / m * m; lo > 0 {
+			such = fmt.Sprintf("%d or %d", lo, lo+m)
+		}
+		return d.fail("numerics.grid", fmt.Errorf("numerics.grid = %d is not a multiple of 2*sites = %d: want 0 (automatic) or a multiple such as %s", g, m, such))
+	}
+	if s.Noise.Drive.PhaseDBcPerHz != 0 && s.Noise.Drive.PhaseTable != "" {
+		return d.fail("noise.drive.phase_table", fmt.Errorf("noise.drive.phase_table and noise.drive.phase_dbc_hz are both given: the table replaces the white floor, so give one of them"))
+	}
+	if p := s.Noise.Drive.PhaseTable; p != "" {
+		if _, err := s.ReadFile(p); err != nil {
+			return d.fail("noise.drive.phase_table", fmt.Errorf("phase-noise table %q: %w", p, readError(err)))
+		}
+	}
+	if (s.Readout.Atoms > 0) != (s.Readout.CycleS > 0) {
+		given, other := "readout.atoms", "readout.cycle_s"
+		if s.Readout.CycleS > 0 {
+			given, other = other, given
+		}
+		return d.fail(given, fmt.Errorf("%s needs %s too: give both for gyroscope figures, or neither", given, other))
+	}
+	return nil
+}
+
+// fail attaches err to the key whose value caused it: its line in the file,
+// or the override it came from.
+func (d *decoder) fail(name string, err error) error {
+	e := &Error{File: d.s.Name, Key: name, Err: err}
+	if x := d.byKey[name]; x != nil {
+		e.Flag = x.flag
+		if x.flag == "" {
+			e.Line = d.line(x.path)
+		}
+	}
+	return e
+}
+
+// line returns the line of the key at path, or 0 if it cannot be told.
+//
+// BurntSushi/toml keeps key positions private but reports one in the error
+// of an Unmarshaler: decoding into a struct that reaches only path, with a
+// probe that always fails, makes the decoder name the line. The decoder
+// matches keys case-insensitively, so when a sibling differs only in case
+// the answer could be either key's line and none is given.
+func (d *decoder) line(path []string) int {
+	for _, k := range d.md.Keys() {
+		for i := 0; i < len(k) && i < len(path); i++ {
+			if k[i] != path[i] {
+				if strings.EqualFold(k[i], path[i]) {
+					return 0
+				}
+				break
+			}
+		}
+	}
+	t := reflect.TypeFor[probe]()
+	for i := len(path) - 1; i >= 0; i-- {
+		t = reflect.StructOf([]reflect.StructField{{Name: "F", Type: t, Tag: reflect.StructTag(fmt.Sprintf("toml:%q", path[i]))}})
+	}
+	_, err := toml.Decode(string(d.data), reflect.New(t).Interface())
+	var pe toml.ParseError
+	if errors.As(err, &pe) && pe.Message == errProbe.Error() {
+		return pe.Position.Line
+	}
+	return 0
+}
+
+type probe struct{}
+
+var errProbe = errors.New("probe")
+
+func (probe) UnmarshalTOML(any) error { return errProbe }
+
+func lookup(m map[string]any, path []string) any {
+	var v any = m
+	for _, p := range path {
+		t, ok := v.(map[string]any)
+		if !ok {
+			return nil
+		}
+		v = t[p]
+	}
+	return v
+}
+
+// show renders a decoded TOML value for a message.
+func show(v any) string {
+	switch x := v.(type) {
+	case string:
+		return strconv.Quote(x)
+	case float64:
+		switch {
+		case math.IsNaN(x):
+			return "nan"
+		case math.IsInf(x, 1):
+			return "inf"
+		case math.IsInf(x, -1):
+			return "-inf"
+		}
+		f := strconv.FormatFloat(x, 'g', -1, 64)
+		if !strings.ContainsAny(f, ".e") {
+			f += ".0" // a float that looks like an integer would puzzle "want an integer"
+		}
+		return f
+	case int64:
+		return strconv.FormatInt(x, 10)
+	case bool:
+		return strconv.FormatBool(x)
+	case []any:
+		parts := make([]string, len(x))
+		for i, e := range x {
+			parts[i] = show(e)
+		}
+		return "[" + strings.Join(parts, ", ") + "]"
+	case map[string]any:
+		return "{...}"
+	}
+	return fmt.Sprint(v)
+}
+
+func typeName(v any) string {
+	switch v.(type) {
+	case string:
+		return "a string"
+	case float64:
+		return "a float"
+	case int64:
+		return "an integer"
+	case bool:
+		return "a boolean"
+	case []any, []map[string]any:
+		return "an array"
+	case map[string]any:
+		return "a table"
+	case time.Time:
+		return "a date or time"
+	}
+	return fmt.Sprintf("a %T", v)
+}

@@ -1,0 +1,259 @@
+package scenario
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// kind is the TOML type a key takes.
+type kind int
+
+const (
+	number  kind = iota // a float; an integer literal is accepted
+	integer             // an integer literal only
+	text                // a string
+	file                // a string naming a file, relative to the scenario file
+	band                // an array [low, high] of two numbers, 0 <= low < high
+)
+
+// bound is the accepted range of a number.
+type bound struct {
+	ok   func(x float64) bool
+	text string // for messages, after "a number" or "an integer"
+}
+
+var (
+	anyFinite    = bound{func(float64) bool { return true }, ""}
+	positive     = bound{func(x float64) bool { return x > 0 }, "> 0"}
+	atLeastOne   = bound{func(x float64) bool { return x >= 1 }, ">= 1"}
+	nonNegative  = bound{func(x float64) bool { return x >= 0 }, ">= 0"}
+	relSigma     = bound{func(x float64) bool { return x >= 0 && x < 1 }, "from 0 up to but not including 1 (0: off)"}
+	ppmSigma     = bound{func(x float64) bool { return x >= 0 && x < 1e6 }, "from 0 up to but not including 1e6 (0: off)"}
+	unitInterval = bound{func(x float64) bool { return x >= -1 && x <= 1 }, "from -1 to 1"}
+)
+
+// zeroOrAbove accepts x >= 0, zero meaning what zero says.
+func zeroOrAbove(zero string) bound { return bound{nonNegative.ok, ">= 0 (0: " + zero + ")"} }
+
+// levelOrOff accepts a level in dB below the carrier, zero switching it off.
+func levelOrOff(unit string) bound {
+	return bound{func(x float64) bool { return x <= 0 }, "< 0 " + unit + " (0: off)"}
+}
+
+// key is one key of the scenario file.
+type key struct {
+	name     string // dotted, "ring.radius_um"
+	kind     kind
+	bound    bound    // number and integer keys
+	choices  []string // text keys with a fixed set of values
+	required bool
+	meaning  string              // what the value is, with its unit
+	field    func(*Scenario) any // pointer to the Scenario field
+}
+
+// shapes are the values of ramp.shape.
+var shapes = []string{"sin2", "minjerk", "inverse", "file"}
+
+// keys is the scenario schema, in the order of the reference in README.md.
+var keys = []*key{
+	{name: "atom.mass_u", kind: number, bound: positive, meaning: "the atom mass in u",
+		field: func(s *Scenario) any { return &s.Atom.MassU }},
+	{name: "ring.radius_um", kind: number, bound: positive, required: true, meaning: "the ring radius in um",
+		field: func(s *Scenario) any { return &s.Ring.RadiusUM }},
+	{name: "ring.sites", kind: integer, bound: atLeastOne, required: true, meaning: "the number of lattice sites",
+		field: func(s *Scenario) any { return &s.Ring.Sites }},
+	{name: "lattice.depth_khz", kind: number, bound: positive, required: true, meaning: "the lattice depth V0/h in kHz",
+		field: func(s *Scenario) any { return &s.Lattice.DepthKHz }},
+	{name: "motion.cruise_rad_s", kind: number, bound: positive, required: true, meaning: "each arm's cruise speed in rad/s",
+		field: func(s *Scenario) any { return &s.Motion.CruiseRadS }},
+	{name: "motion.laps", kind: number, bound: positive, required: true, meaning: "each arm's one-way angle in turns, with 2*laps a whole number",
+		field: func(s *Scenario) any { return &s.Motion.Laps }},
+	{name: "motion.rotation_rad_s", kind: number, bound: anyFinite, meaning: "the background rotation in rad/s",
+		field: func(s *Scenario) any { return &s.Motion.RotationRadS }},
+	{name: "ramp.shape", kind: text, choices: shapes, required: true, meaning: "the ramp shape",
+		field: func(s *Scenario) any { return &s.Ramp.Shape }},
+	{name: "ramp.duration_us", kind: number, bound: positive, meaning: "the ramp-up time in us",
+		field: func(s *Scenario) any { return &s.Ramp.DurationUS }},
+	{name: "ramp.design_depth_khz", kind: number, bound: zeroOrAbove("the lattice depth"), meaning: "the depth V0/h in kHz the inverse ramp is designed for",
+		field: func(s *Scenario) any { return &s.Ramp.DesignDepthKHz }},
+	{name: "ramp.file", kind: file, meaning: "the ramp table, a CSV file relative to the scenario file",
+		field: func(s *Scenario) any { return &s.Ramp.File }},
+	{name: "start.temperature_nk", kind: number, bound: zeroOrAbove("the ground state"), meaning: "the start temperature in nK",
+		field: func(s *Scenario) any { return &s.Start.TemperatureNK }},
+	{name: "numerics.grid", kind: integer, bound: zeroOrAbove("automatic"), meaning: "the number of momentum states, a multiple of 2*sites",
+		field: func(s *Scenario) any { return &s.Numerics.Grid }},
+	{name: "numerics.step_us", kind: number, bound: zeroOrAbove("automatic"), meaning: "the split-step time step in us",
+		field: func(s *Scenario) any { return &s.Numerics.StepUS }},
+	{name: "noise.depth.common_rel", kind: number, bound: relSigma, meaning: "the sigma of the relative depth error of both spin states",
+		field: func(s *Scenario) any { return &s.Noise.Depth.CommonRel }},
+	{name: "noise.depth.differential_rel", kind: number, bound: relSigma, meaning: "the sigma of the relative depth difference between the spin states",
+		field: func(s *Scenario) any { return &s.Noise.Depth.DifferentialRel }},
+	{name: "noise.depth.rin_db_hz", kind: number, bound: levelOrOff("dB/Hz"), meaning: "the white relative intensity noise in dB/Hz",
+		field: func(s *Scenario) any { return &s.Noise.Depth.RINDBPerHz }},
+	{name: "noise.depth.rin_band_hz", kind: band, meaning: "the band of the intensity noise in Hz",
+		field: func(s *Scenario) any { return &s.Noise.Depth.RINBandHz }},
+	{name: "noise.drive.phase_dbc_hz", kind: number, bound: levelOrOff("dBc/Hz"), meaning: "the white single-sideband phase noise of each arm's drive in dBc/Hz",
+		field: func(s *Scenario) any { return &s.Noise.Drive.PhaseDBcPerHz }},
+	{name: "noise.drive.phase_table", kind: file, meaning: "the phase-noise table, a CSV file of f_hz,l_dbc_hz relative to the scenario file",
+		field: func(s *Scenario) any { return &s.Noise.Drive.PhaseTable }},
+	{name: "noise.drive.correlation", kind: number, bound: unitInterval, meaning: "the correlation of the two arms' drive phase noise",
+		field: func(s *Scenario) any { return &s.Noise.Drive.Correlation }},
+	{name: "noise.timing.clock_ppm", kind: number, bound: ppmSigma, meaning: "the sigma of the waveform time-base error in ppm",
+		field: func(s *Scenario) any { return &s.Noise.Timing.ClockPPM }},
+	{name: "noise.timing.speed_ppm", kind: number, bound: ppmSigma, meaning: "the sigma of the drive-frequency scale error in ppm",
+		field: func(s *Scenario) any { return &s.Noise.Timing.SpeedPPM }},
+	{name: "noise.timing.skew_ns", kind: number, bound: zeroOrAbove("off"), meaning: "the sigma of the delay between the arms' drives in ns",
+		field: func(s *Scenario) any { return &s.Noise.Timing.SkewNS }},
+	{name: "noise.temperature.spread_nk", kind: number, bound: zeroOrAbove("off"), meaning: "the sigma of the shot-to-shot temperature in nK",
+		field: func(s *Scenario) any { return &s.Noise.Temperature.SpreadNK }},
+	{name: "noise.pulses.area_rel", kind: number, bound: relSigma, meaning: "the sigma of the relative area error of each pi/2 pulse",
+		field: func(s *Scenario) any { return &s.Noise.Pulses.AreaRel }},
+	{name: "readout.atoms", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the atoms detected per shot",
+		field: func(s *Scenario) any { return &s.Readout.Atoms }},
+	{name: "readout.cycle_s", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the cycle time of one shot in s",
+		field: func(s *Scenario) any { return &s.Readout.CycleS }},
+}
+
+var (
+	keyByName = map[string]*key{}
+	tables    = map[string][]string{} // table -> its keys and sub-tables, in schema order; "" is the top level
+)
+
+func init() {
+	for _, k := range keys {
+		keyByName[k.name] = k
+		parts := strings.Split(k.name, ".")
+		for i := range parts {
+			parent := strings.Join(parts[:i], ".")
+			if !contains(tables[parent], parts[i]) {
+				tables[parent] = append(tables[parent], parts[i])
+			}
+		}
+	}
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+// table returns the table a key belongs to.
+func (k *key) table() string { return k.name[:strings.LastIndexByte(k.name, '.')] }
+
+// want says what the key accepts: "a finite number > 0 for the ring radius in um".
+func (k *key) want() string {
+	var w string
+	switch k.kind {
+	case number:
+		w = strings.TrimSpace("a finite number " + k.bound.text)
+	case integer:
+		w = strings.TrimSpace("an integer " + k.bound.text)
+	case text:
+		q := make([]string, len(k.choices))
+		for i, c := range k.choices {
+			q[i] = fmt.Sprintf("%q", c)
+		}
+		w = "one of " + strings.Join(q, ", ")
+	case file:
+		w = "a file path (a string)"
+	case band:
+		w = "an array [low, high] of two finite numbers with 0 <= low < high"
+	}
+	return w + " for " + k.meaning
+}
+
+// convert checks a decoded TOML value against the key and returns it as
+// float64, int, string or [2]float64.
+func (k *key) convert(v any) (any, error) {
+	wrongType := func() error {
+		if _, isArray := v.([]any); isArray && k.kind == band {
+			return fmt.Errorf("%s = %s: want %s", k.name, show(v), k.want())
+		}
+		return fmt.Errorf("%s = %s: want %s, got %s", k.name, show(v), k.want(), typeName(v))
+	}
+	outOfRange := func() error {
+		if k.kind == text {
+			return fmt.Errorf("%s = %s is unknown: want %s", k.name, show(v), k.want())
+		}
+		return fmt.Errorf("%s = %s is out of range: want %s", k.name, show(v), k.want())
+	}
+	switch k.kind {
+	case number, integer:
+		var x float64
+		switch n := v.(type) {
+		case int64:
+			x = float64(n)
+			if k.kind == integer && int64(int(n)) != n {
+				return nil, outOfRange()
+			}
+		case float64:
+			if k.kind == integer {
+				return nil, wrongType()
+			}
+			x = n
+		default:
+			return nil, wrongType()
+		}
+		if math.IsNaN(x) || math.IsInf(x, 0) || !k.bound.ok(x) {
+			return nil, outOfRange()
+		}
+		if k.kind == integer {
+			return int(v.(int64)), nil
+		}
+		return x, nil
+	case text, file:
+		s, ok := v.(string)
+		if !ok {
+			return nil, wrongType()
+		}
+		if k.choices != nil && !contains(k.choices, s) {
+			return nil, outOfRange()
+		}
+		return s, nil
+	case band:
+		a, ok := v.([]any)
+		if !ok || len(a) != 2 {
+			return nil, wrongType()
+		}
+		var p [2]float64
+		for i, e := range a {
+			switch n := e.(type) {
+			case int64:
+				p[i] = float64(n)
+			case float64:
+				p[i] = n
+			default:
+				return nil, wrongType()
+			}
+			if math.IsNaN(p[i]) || math.IsInf(p[i], 0) {
+				return nil, outOfRange()
+			}
+		}
+		if !(p[0] >= 0 && p[0] < p[1]) {
+			return nil, outOfRange()
+		}
+		return p, nil
+	}
+	panic("scenario: unknown key kind")
+}
+
+// set stores a converted value in the Scenario field of the key.
+func (k *key) set(s *Scenario, v any) {
+	switch p := k.field(s).(type) {
+	case *float64:
+		*p = v.(float64)
+	case *int:
+		*p = v.(int)
+	case *string:
+		*p = v.(string)
+	case *[2]float64:
+		*p = v.([2]float64)
+	default:
+		panic("scenario: unsupported field type")
+	}
+}

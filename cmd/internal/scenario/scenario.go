@@ -1,0 +1,309 @@
+package scenario
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io/fs"
+	"math"
+	"os"
+	"path"
+	"path/filepath"
+
+	"rampart/sim"
+)
+
+// Scenario is one scenario file, in the file's units.
+type Scenario struct {
+	// Name is the scenario file as the caller named it, used in messages.
+	Name string
+
+	Atom     Atom
+	Ring     Ring
+	Lattice  Lattice
+	Motion   Motion
+	Ramp     Ramp
+	Start    Start
+	Numerics Numerics
+	Noise    Noise
+	Readout  Readout
+
+	fsys fs.FS // where File and PhaseTable are read; nil: the operating system
+}
+
+// Atom is the [atom] table.
+type Atom struct {
+	MassU float64 // atom mass in u (default: rubidium-87, sim.Rb87MassU)
+}
+
+// Ring is the [ring] table.
+type Ring struct {
+	RadiusUM float64 // ring radius R in um
+	Sites    int     // number of lattice sites N
+}
+
+// Lattice is the [lattice] table.
+type Lattice struct {
+	DepthKHz float64 // lattice depth V0/h in kHz
+}
+
+// Motion is the [motion] table.
+type Motion struct {
+	CruiseRadS   float64 // each arm's cruise speed Omega_0 in the apparatus frame, rad/s
+	Laps         float64 // each arm's one-way angle phi(T) in turns; 2 Laps is a whole number
+	RotationRadS float64 // background rotation Omega_bg being measured, rad/s (default 0)
+}
+
+// Ramp is the [ramp] table.
+type Ramp struct {
+	Shape string // "sin2", "minjerk", "inverse" or "file"
+	// DurationUS is the ramp-up time t_r in us. For the "file" shape zero
+	// means the time of the file's last row.
+	DurationUS float64
+	// DesignDepthKHz is the depth V0/h in kHz at whose harmonic trap
+	// frequency the "inverse" ramp is designed. Zero means the lattice depth.
+	DesignDepthKHz float64
+	// File is the ramp table of the "file" shape: a path relative to the
+	// scenario file's directory in the file, already joined to that
+	// directory here. Read it with Scenario.ReadFile.
+	File string
+}
+
+// Start is the [start] table.
+type Start struct {
+	TemperatureNK float64 // 0: the ground state; otherwise a thermal mixture over the site's levels
+}
+
+// Numerics is the [numerics] table. Zero values mean automatic choices
+// (sim.AutoNumerics).
+type Numerics struct {
+	Grid   int     // momentum states in all, a multiple of 2 Sites
+	StepUS float64 // split-step time step in us
+}
+
+// Noise is the [noise.*] tables: the hardware noise budget of an ensemble.
+// A zero field switches its source off.
+type Noise struct {
+	Depth       DepthNoise
+	Drive       DriveNoise
+	Timing      TimingNoise
+	Temperature TemperatureNoise
+	Pulses      PulseNoise
+}
+
+// DepthNoise is the [noise.depth] table.
+type DepthNoise struct {
+	CommonRel       float64 // sigma of the shot-to-shot relative depth error of both spin states
+	DifferentialRel float64 // sigma of the relative depth difference between the spin states
+	RINDBPerHz      float64 // white relative intensity noise, one-sided, dB/Hz (negative)
+	// RINBandHz is the [low, high] band of the intensity noise in Hz.
+	// The zero value means the band the time grid resolves.
+	RINBandHz [2]float64
+}
+
+// DriveNoise is the [noise.drive] table.
+type DriveNoise struct {
+	PhaseDBcPerHz float64 // white single-sideband phase noise L(f) of each arm's drive, dBc/Hz (negative)
+	// PhaseTable is a CSV table of f_hz, l_dbc_hz used instead of a white
+	// floor, joined to the scenario's directory like Ramp.File.
+	PhaseTable  string
+	Correlation float64 // correlation of the two arms' drive phase noise, -1 to 1
+}
+
+// TimingNoise is the [noise.timing] table.
+type TimingNoise struct {
+	ClockPPM float64 // sigma of the waveform time-base error, ppm (the profile plays faster, angle kept)
+	SpeedPPM float64 // sigma of the drive-frequency scale error, ppm (speed and angle scale)
+	SkewNS   float64 // sigma of the delay between the two arms' drives, ns
+}
+
+// TemperatureNoise is the [noise.temperature] table.
+type TemperatureNoise struct {
+	SpreadNK float64 // sigma of the shot-to-shot temperature, nK
+}
+
+// PulseNoise is the [noise.pulses] table.
+type PulseNoise struct {
+	AreaRel float64 // sigma of the relative area error of each pi/2 pulse
+}
+
+// Readout is the [readout] table, for gyroscope figures. Both fields are
+// zero (no read-out given) or both positive.
+type Readout struct {
+	Atoms  float64 // atoms detected per shot
+	CycleS float64 // cycle time of one shot, s
+}
+
+// Load reads the scenario file at path from the operating system and applies
+// the overrides, each "table.key=value" (see Override). Relative paths in the
+// file are taken relative to the file's directory.
+func Load(path string, overrides []string) (*Scenario, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, &Error{File: path, Err: readError(err)}
+	}
+	return parse(nil, path, data, overrides)
+}
+
+// LoadFS is Load for a scenario held in fsys, such as the embedded demo.
+func LoadFS(fsys fs.FS, name string, overrides []string) (*Scenario, error) {
+	data, err := fs.ReadFile(fsys, name)
+	if err != nil {
+		return nil, &Error{File: name, Err: readError(err)}
+	}
+	return parse(fsys, name, data, overrides)
+}
+
+// readError drops the path an fs.PathError repeats, which messages already name.
+func readError(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return fmt.Errorf("cannot read the file: %w", pe.Err)
+	}
+	return err
+}
+
+// ReadFile reads a file the scenario refers to (Ramp.File, Noise.Drive.PhaseTable)
+// from where the scenario was loaded.
+func (s *Scenario) ReadFile(name string) ([]byte, error) {
+	if s.fsys != nil {
+		return fs.ReadFile(s.fsys, name)
+	}
+	return os.ReadFile(name)
+}
+
+// resolve joins a path written in the scenario file to the file's directory.
+func (s *Scenario) resolve(p string) string {
+	if p == "" {
+		return ""
+	}
+	if s.fsys != nil {
+		return path.Join(path.Dir(s.Name), p)
+	}
+	if filepath.IsAbs(p) {
+		return p
+	}
+	return filepath.Join(filepath.Dir(s.Name), p)
+}
+
+// Thermal reports whether the start is a thermal mixture.
+func (s *Scenario) Thermal() bool { return s.Start.TemperatureNK > 0 }
+
+// Config returns the simulation configuration of the scenario in SI units:
+//
+//	radius m = radius_um 1e-6, mass kg = mass_u m_u, depth Hz = depth_khz 1e3,
+//	t_r s = duration_us 1e-6, step s = step_us 1e-6, T K = temperature_nk 1e-9.
+//
+// The ramp comes from sim.NewShape or, for the "file" shape, from the ramp
+// file; the inverse ramp is designed for omega = 2 pi sim.Ring.TrapHz at the
+// design depth. The sequence is sim.NewSequence(ramp, laps).
+func (s *Scenario) Config() (sim.Config, error) {
+	cfg, err := s.config()
+	if err != nil {
+		return sim.Config{}, &Error{File: s.Name, Key: err.key, Err: err.err}
+	}
+	return cfg, nil
+}
+
+// RampUp returns the ramp-up of the scenario's drive.
+func (s *Scenario) RampUp() (sim.Ramp, error) {
+	r, err := s.rampUp()
+	if err != nil {
+		return nil, &Error{File: s.Name, Key: err.key, Err: err.err}
+	}
+	return r, nil
+}
+
+// simRing returns the ring of the scenario in SI units.
+func (s *Scenario) simRing() sim.Ring {
+	return sim.Ring{
+		Sites:   s.Ring.Sites,
+		RadiusM: s.Ring.RadiusUM * 1e-6,
+		MassKg:  s.Atom.MassU * sim.AtomicMassUnit,
+	}
+}
+
+// designDepthHz returns the depth V0/h in Hz the inverse ramp is designed for.
+func (s *Scenario) designDepthHz() float64 {
+	if s.Ramp.DesignDepthKHz != 0 {
+		return s.Ramp.DesignDepthKHz * 1e3
+	}
+	return s.Lattice.DepthKHz * 1e3
+}
+
+// keyError is an error attached to the key whose value caused it.
+type keyError struct {
+	key string
+	err error
+}
+
+func (s *Scenario) config() (sim.Config, *keyError) {
+	if err := sim.CheckClosure(s.Motion.Laps, s.Ring.Sites); err != nil {
+		return sim.Config{}, &keyError{"motion.laps", err}
+	}
+	up, kerr := s.rampUp()
+	if kerr != nil {
+		return sim.Config{}, kerr
+	}
+	seq, err := sim.NewSequence(up, s.Motion.Laps)
+	if err != nil {
+		return sim.Config{}, &keyError{"motion.laps", err}
+	}
+	cfg := sim.Config{
+		Ring:         s.simRing(),
+		DepthHz:      s.Lattice.DepthKHz * 1e3,
+		Sequence:     seq,
+		RotationRadS: s.Motion.RotationRadS,
+		TemperatureK: s.Start.TemperatureNK * 1e-9,
+		Grid:         s.Numerics.Grid,
+		StepS:        s.Numerics.StepUS * 1e-6,
+	}
+	if err := cfg.Validate(); err != nil {
+		var ce *sim.ClosureError
+		if errors.As(err, &ce) {
+			return sim.Config{}, &keyError{"motion.laps", err}
+		}
+		return sim.Config{}, &keyError{"", err}
+	}
+	return cfg, nil
+}
+
+// durationAgreement is the relative difference allowed between
+// ramp.duration_us and the last time of a ramp file.
+const durationAgreement = 1e-6
+
+func (s *Scenario) rampUp() (sim.Ramp, *keyError) {
+	dur := s.Ramp.DurationUS * 1e-6
+	cruise := s.Motion.CruiseRadS
+	switch s.Ramp.Shape {
+	case "file":
+		data, err := s.ReadFile(s.Ramp.File)
+		if err != nil {
+			return nil, &keyError{"ramp.file", fmt.Errorf("ramp file %q: %w", s.Ramp.File, readError(err))}
+		}
+		tab, err := ParseRamp(bytes.NewReader(data), s.Ramp.File, s.Ring.Sites, cruise)
+		if err != nil {
+			return nil, &keyError{"ramp.file", err}
+		}
+		if dur != 0 && math.Abs(tab.Duration()-dur) > durationAgreement*tab.Duration() {
+			return nil, &keyError{"ramp.duration_us", fmt.Errorf(
+				"ramp.duration_us = %g but the ramp file %q ends at t = %g s (%g us): give that time or leave duration_us out",
+				s.Ramp.DurationUS, s.Ramp.File, tab.Duration(), tab.Duration()*1e6)}
+		}
+		return tab, nil
+	case "inverse":
+		trap := 2 * math.Pi * s.simRing().TrapHz(s.designDepthHz())
+		r, err := sim.NewShape("inverse", dur, cruise, trap)
+		if err != nil {
+			return nil, &keyError{"ramp", err}
+		}
+		inv := r.(sim.Inverse)
+		inv.DesignDepth = s.designDepthHz()
+		return inv, nil
+	}
+	r, err := sim.NewShape(s.Ramp.Shape, dur, cruise, 0)
+	if err != nil {
+		return nil, &keyError{"ramp", err}
+	}
+	return r, nil
+}
