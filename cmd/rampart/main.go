@@ -4,12 +4,25 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"os"
+	"time"
 )
 
 func main() {
-	if err := newRootCmd().Execute(); err != nil {
-		fmt.Fprintln(os.Stderr, "rampart:", err)
-		os.Exit(exitCode(err))
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr, env{now: time.Now}))
+}
+
+// run executes the command line args and returns the process exit code:
+// 0 on success, 2 for bad input, or the code a command chose.
+func run(args []string, stdout, stderr io.Writer, e env) int {
+	root := newRoot(e)
+	root.SetArgs(args)
+	root.SetOut(stdout)
+	root.SetErr(stderr)
+	if err := root.Execute(); err != nil {
+		fmt.Fprintln(stderr, "rampart:", err)
+		return exitCode(err)
 	}
+	return 0
 }

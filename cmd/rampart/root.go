@@ -2,6 +2,7 @@ package main
 
 import (
 	"errors"
+	"time"
 
 	"github.com/spf13/cobra"
 )
@@ -15,6 +16,8 @@ type exitError struct {
 func (e *exitError) Error() string { return e.err.Error() }
 func (e *exitError) Unwrap() error { return e.err }
 
+// exitCode is the process exit code for an error a command returned: 2 (bad
+// input) unless the command chose another.
 func exitCode(err error) int {
 	var ee *exitError
 	if errors.As(err, &ee) {
@@ -23,12 +26,23 @@ func exitCode(err error) int {
 	return 2
 }
 
-func newRootCmd() *cobra.Command {
+// env is what the commands take from the process besides their arguments and
+// output streams.
+type env struct {
+	// now is the clock elapsed times are measured with; tests fix it so
+	// that outputs do not depend on the machine's speed.
+	now func() time.Time
+}
+
+func newRoot(e env) *cobra.Command {
 	root := &cobra.Command{
 		Use:           "rampart",
 		Short:         "Robustness of ramps for guided-atom Sagnac interferometers",
 		SilenceUsage:  true,
 		SilenceErrors: true,
+		// Cobra's suggestions span several lines; errors here are one line.
+		DisableSuggestions: true,
 	}
+	root.AddCommand(newShotCmd(e), newRampCmd(e), newDemoCmd(e))
 	return root
 }

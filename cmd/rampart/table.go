@@ -1,0 +1,48 @@
+package main
+
+import (
+	"io"
+	"strconv"
+
+	"github.com/olekukonko/tablewriter"
+	"github.com/olekukonko/tablewriter/renderer"
+	"github.com/olekukonko/tablewriter/tw"
+)
+
+// newTable returns an ASCII table with the given header. The first column
+// (labels) and a column headed "Unit" are aligned left, the others (values)
+// right.
+func newTable(w io.Writer, header ...string) *tablewriter.Table {
+	align := make([]tw.Align, len(header))
+	for i, h := range header {
+		align[i] = tw.AlignRight
+		if i == 0 || h == "Unit" {
+			align[i] = tw.AlignLeft
+		}
+	}
+	t := tablewriter.NewTable(w,
+		tablewriter.WithRenderer(renderer.NewBlueprint(tw.Rendition{Symbols: tw.NewSymbols(tw.StyleASCII)})),
+		tablewriter.WithHeaderAutoFormat(tw.Off),
+		tablewriter.WithHeaderAlignmentConfig(tw.CellAlignment{PerColumn: align}),
+		tablewriter.WithRowAlignmentConfig(tw.CellAlignment{PerColumn: align}),
+	)
+	t.Header(header)
+	return t
+}
+
+// sig formats x with n significant digits, in exponent form when x is very
+// small or large.
+func sig(x float64, n int) string { return strconv.FormatFloat(x, 'g', n, 64) }
+
+// sci formats x in exponent form with n significant digits.
+func sci(x float64, n int) string { return strconv.FormatFloat(x, 'e', n-1, 64) }
+
+// fixed formats x with n digits after the decimal point.
+func fixed(x float64, n int) string { return strconv.FormatFloat(x, 'f', n, 64) }
+
+func yesNo(b bool) string {
+	if b {
+		return "yes"
+	}
+	return "no"
+}
