@@ -108,14 +108,21 @@ func (r *Realiser) prepareNoise() error {
 		long = r.ens.NoiseDurationS
 	}
 	n := int(math.Ceil(long/r.noiseStep)) + 2
+	// The default band is what the simulation's split step resolves; the
+	// records are sampled finer only to keep interpolation from filtering it.
+	top := r.sim.NoiseBandHz()
+	rinBand := b.RINBand
+	if rinBand.HighHz == 0 {
+		rinBand.HighHz = top
+	}
 	var err error
 	if b.RIN != nil {
-		if r.rin, err = noise.NewSynthesizer(b.RIN, n, r.noiseStep, b.RINBand); err != nil {
+		if r.rin, err = noise.NewSynthesizer(b.RIN, n, r.noiseStep, rinBand); err != nil {
 			return fmt.Errorf("intensity noise: %w", err)
 		}
 	}
 	if b.Phase != nil {
-		if r.phase, err = noise.NewSynthesizer(b.Phase, n, r.noiseStep, noise.Band{}); err != nil {
+		if r.phase, err = noise.NewSynthesizer(b.Phase, n, r.noiseStep, noise.Band{HighHz: top}); err != nil {
 			return fmt.Errorf("drive phase noise: %w", err)
 		}
 	}
