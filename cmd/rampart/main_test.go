@@ -85,6 +85,7 @@ func TestGolden(t *testing.T) {
 		{"shot-thermal-check.txt", []string{"shot", "--scenario", "testdata/scenarios/thermal.toml", "--check"}},
 		{"shot-file.txt", []string{"shot", "--scenario", "testdata/scenarios/file.toml"}},
 		{"shot-noise.json", []string{"shot", "--scenario", "testdata/scenarios/noise.toml", "--json"}},
+		{"shot-noise.txt", []string{"shot", "--scenario", "testdata/scenarios/noise.toml"}},
 		{"shot-set.txt", []string{"shot", "--scenario", "testdata/scenarios/benchmark.toml", "--set", "ramp.shape=inverse", "--set", "motion.laps=2.5"}},
 		{"ramp-inverse.txt", []string{"ramp", "--scenario", "testdata/scenarios/inverse.toml"}},
 		{"ramp-file-drive.txt", []string{"ramp", "--scenario", "testdata/scenarios/file-drive.toml"}},

@@ -262,6 +262,9 @@ func (rep *shotReport) print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	if err := t.Render(); err != nil {
 		return err
 	}
+	if sc.Noise != (scenario.Noise{}) {
+		fmt.Fprintln(w, "\nNote: the scenario's [noise.*] tables describe an ensemble; this shot is noise-free.")
+	}
 	if sc.Thermal() {
 		fmt.Fprintf(w, "\nThermal start at %s nK: the levels of the site\n", sig(sc.Start.TemperatureNK, 6))
 		lt := newTable(w, "Band n", "Weight p_n", "(E_n - E_0)/h (kHz)", "|z_n|", "arg z_n (rad)")
