@@ -222,7 +222,9 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		p.splitStepsObserved(f, d, tm[0], tm[1], s.steps(tm[1]-tm[0]), obs, a)
 		cruise := diagonaliseFor(p, d.cruiseSpeed(), 1+d.DepthRel)
 		res.GroundAfterRampUp[a] = groundPopulation(f, cruise, 0)
-		p.observe(obs, a, tm[1], f, d, cruise)
+		if tm[1] == tm[0] {
+			p.observe(obs, a, tm[1], f, d, cruise)
+		}
 		if s.splitOnly {
 			stretch(0, tm[1], tm[2], nil)
 		} else {
@@ -230,7 +232,9 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		}
 		p.splitStepsObserved(f, d, tm[2], tm[3], s.steps(tm[3]-tm[2]), obs, a)
 		stretch(cfg.RotationRadS, tm[3], end, rest)
-		p.observe(obs, a, end, f, d, rest)
+		if end > tm[3] {
+			p.observe(obs, a, end, f, d, rest)
+		}
 		fields[a] = f
 	}
 

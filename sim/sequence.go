@@ -81,8 +81,8 @@ type ClosureError struct {
 	Laps       float64 // each arm's one-way angle in turns
 	Sites      int
 	SitesApart float64 // separation of the arms' final sites, in site spacings (mod Sites)
-	Lower      float64 // nearest laps below that closes
-	Upper      float64 // nearest laps above that closes
+	Lower      float64 // nearest closing laps below, or 0.5 (the smallest that closes) for laps < 0.5
+	Upper      float64 // nearest closing laps above Lower
 }
 
 func (e *ClosureError) Error() string {
