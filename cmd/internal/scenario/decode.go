@@ -85,7 +85,7 @@ func (d *decoder) collect(raw map[string]any) error {
 	for _, k := range d.md.Keys() {
 		name := strings.Join(k, ".")
 		v := lookup(raw, k)
-		if err := d.unknown(k, v); err != nil {
+		if err := unknown(k, v); err != nil {
 			return &Error{File: d.s.Name, Line: d.line(k), Key: name, Err: err}
 		}
 		if _, isTable := tables[name]; isTable {
@@ -104,7 +104,7 @@ func (d *decoder) collect(raw map[string]any) error {
 
 // unknown returns an error if path, or a table on the way to it, is not in
 // the schema.
-func (d *decoder) unknown(path []string, v any) error {
+func unknown(path []string, v any) error {
 	for i := range path {
 		name := strings.Join(path[:i+1], ".")
 		if keyByName[name] != nil {
@@ -154,7 +154,7 @@ func (d *decoder) override(o string) error {
 	k := keyByName[name]
 	if k == nil {
 		path := strings.Split(name, ".")
-		err := d.unknown(path, nil)
+		err := unknown(path, nil)
 		if err == nil {
 			err = fmt.Errorf("%s is a table, not a key: [%s] takes %s", name, name, strings.Join(tables[name], ", "))
 		}
