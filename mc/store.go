@@ -50,13 +50,17 @@ type Manifest struct {
 	Format string `json:"format"`
 	// Fingerprint identifies the scenario and noise budget (the caller's
 	// hash of them); Scenario is their text, for the record.
-	Fingerprint string   `json:"fingerprint"`
-	Scenario    string   `json:"scenario,omitempty"`
-	Seed        uint64   `json:"seed"`
-	Samples     int      `json:"samples"`
-	Sampler     string   `json:"sampler"`
-	Shard       *Shard   `json:"shard,omitempty"`
-	Columns     []string `json:"columns"`
+	Fingerprint string `json:"fingerprint"`
+	Scenario    string `json:"scenario,omitempty"`
+	// SagnacRad and ScaleFactorS are those of the nominal sequence, for
+	// summaries of the records.
+	SagnacRad    float64  `json:"sagnac_rad"`
+	ScaleFactorS float64  `json:"scale_factor_s"`
+	Seed         uint64   `json:"seed"`
+	Samples      int      `json:"samples"`
+	Sampler      string   `json:"sampler"`
+	Shard        *Shard   `json:"shard,omitempty"`
+	Columns      []string `json:"columns"`
 }
 
 // Range returns the realisations the manifest's run covers.

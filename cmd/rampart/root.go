@@ -43,6 +43,6 @@ func newRoot(e env) *cobra.Command {
 		// Cobra's suggestions span several lines; errors here are one line.
 		DisableSuggestions: true,
 	}
-	root.AddCommand(newShotCmd(e), newRampCmd(e), newDemoCmd(e))
+	root.AddCommand(newShotCmd(e), newRampCmd(e), newRunCmd(e), newMergeCmd(e), newDemoCmd(e))
 	return root
 }

@@ -1,0 +1,212 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"path/filepath"
+	"runtime"
+	"syscall"
+	"time"
+
+	"github.com/schollz/progressbar/v3"
+	"github.com/spf13/cobra"
+	"golang.org/x/term"
+
+	"rampart/cmd/internal/scenario"
+	"rampart/mc"
+	"rampart/sim"
+)
+
+// ensembleOptions are the ensemble flags that run, rank, qualify, tolerance
+// and sensitivity share.
+type ensembleOptions struct {
+	samples    int
+	seed       uint64
+	workers    int
+	sampler    string
+	out        string
+	resume     string
+	shard      string
+	confidence float64
+}
+
+func addEnsembleFlags(cmd *cobra.Command, o *ensembleOptions, defaultSamples int) {
+	f := cmd.Flags()
+	f.IntVar(&o.samples, "samples", defaultSamples, "number of realisations `N` in the ensemble")
+	f.Uint64Var(&o.seed, "seed", 1, "seed `S`: realisation i depends only on (S, i)")
+	f.IntVar(&o.workers, "workers", 0, "worker goroutines `W` (0: one per core)")
+	f.StringVar(&o.sampler, "sampler", "random", "design of the static parameters: random, lhs or sobol")
+	f.StringVar(&o.out, "out", "", "write the realisations, summary and plots to `DIR`")
+	f.StringVar(&o.resume, "resume", "", "continue the interrupted run in `DIR` (same scenario and flags)")
+	f.StringVar(&o.shard, "shard", "", "run only slice `k/n` of the ensemble (merge the slices with rampart merge)")
+	f.Float64Var(&o.confidence, "confidence", 0.95, "confidence `level` of the intervals, in (0, 1)")
+}
+
+func (o *ensembleOptions) validate() error {
+	switch {
+	case o.samples < 1:
+		return fmt.Errorf("--samples %d: need at least 1 realisation", o.samples)
+	case o.workers < 0:
+		return fmt.Errorf("--workers %d: need 0 (one per core) or more", o.workers)
+	case !(o.confidence > 0 && o.confidence < 1):
+		return fmt.Errorf("--confidence %g: want a level in (0, 1), such as 0.95", o.confidence)
+	case o.out != "" && o.resume != "" && filepath.Clean(o.out) != filepath.Clean(o.resume):
+		return fmt.Errorf("--out %s and --resume %s name different directories; give one", o.out, o.resume)
+	}
+	for _, s := range mc.Samplers {
+		if o.sampler == s {
+			return nil
+		}
+	}
+	return fmt.Errorf("--sampler %q: want random, lhs or sobol", o.sampler)
+}
+
+// dir returns the output directory, if any.
+func (o *ensembleOptions) dir() string {
+	if o.resume != "" {
+		return o.resume
+	}
+	return o.out
+}
+
+// ensembleRun is a finished (or interrupted) ensemble of one configuration.
+type ensembleRun struct {
+	manifest mc.Manifest
+	records  []mc.Record
+	realiser *mc.Realiser
+	elapsed  time.Duration
+	fresh    int // realisations simulated in this invocation
+}
+
+// interruptedError reports an ensemble stopped by a signal; its exit code is
+// 130, the shell's convention for SIGINT.
+func interruptedError(done, total int, dir string) error {
+	msg := fmt.Sprintf("interrupted after %d of %d realisations", done, total)
+	if dir != "" {
+		msg += fmt.Sprintf("; they are kept in %s: continue with the same command and --resume %s", dir, dir)
+	} else {
+		msg += " (nothing kept: give --out DIR to keep realisations across an interruption)"
+	}
+	return &exitError{code: 130, err: errors.New(msg)}
+}
+
+// signalContext is cancelled by Ctrl-C or SIGTERM.
+func signalContext() (context.Context, context.CancelFunc) {
+	return signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+}
+
+// runEnsemble runs (or resumes) the ensemble of a scenario configuration
+// cfg under budget, storing it in the options' directory if one is given.
+func runEnsemble(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, o ensembleOptions, label string) (*ensembleRun, error) {
+	ens := mc.Ensemble{Config: cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+	return runEnsembleOf(ctx, e, stderr, sc, ens, o, o.dir(), label)
+}
+
+// runEnsembleOf is runEnsemble for a prepared ensemble and directory.
+func runEnsembleOf(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, ens mc.Ensemble, o ensembleOptions, dir, label string) (*ensembleRun, error) {
+	r, err := mc.NewRealiser(ens)
+	if err != nil {
+		return nil, fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
+	hash, text, err := fingerprint(sc)
+	if err != nil {
+		return nil, err
+	}
+	c := r.Config()
+	k := c.Ring.ScaleFactor(c.Sequence.TotalAngle())
+	m := mc.Manifest{
+		Format: mc.ManifestFormat, Fingerprint: hash, Scenario: text,
+		SagnacRad: k * c.RotationRadS, ScaleFactorS: k,
+		Seed: ens.Seed, Samples: ens.Samples, Sampler: ens.Sampler,
+		Columns: mc.Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
+	}
+	if o.shard != "" {
+		sh, err := mc.ParseShard(o.shard)
+		if err != nil {
+			return nil, fmt.Errorf("--shard: %w", err)
+		}
+		if sh.Count > ens.Samples {
+			return nil, fmt.Errorf("--shard %s: more shards than the %d realisations", o.shard, ens.Samples)
+		}
+		m.Shard = &sh
+	}
+	run := &ensembleRun{manifest: m, realiser: r}
+	emit := func(rec mc.Record) error { run.records = append(run.records, rec); return nil }
+	if dir != "" {
+		var st *mc.Store
+		if o.resume != "" {
+			st, run.records, err = mc.Resume(dir, m)
+		} else {
+			st, err = mc.Create(dir, m)
+		}
+		if err != nil {
+			return nil, err
+		}
+		defer st.Close()
+		emit = func(rec mc.Record) error {
+			if err := st.Append(rec); err != nil {
+				return err
+			}
+			run.records = append(run.records, rec)
+			return nil
+		}
+	}
+	from, to := m.Range()
+	start := from + len(run.records)
+	bar := newProgress(stderr, to-from, len(run.records), label)
+	workers := o.workers
+	if workers == 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	t0 := e.now()
+	n, err := r.Run(ctx, start, to, workers, func(rec mc.Record) error {
+		if err := emit(rec); err != nil {
+			return err
+		}
+		bar.Add(1)
+		return nil
+	})
+	bar.Finish()
+	run.elapsed, run.fresh = e.now().Sub(t0), n
+	if err != nil {
+		if errors.Is(err, context.Canceled) {
+			return run, interruptedError(len(run.records), to-from, dir)
+		}
+		return run, err
+	}
+	return run, nil
+}
+
+// progress is a progress bar on a terminal and silent elsewhere.
+type progress interface {
+	Add(int) error
+	Finish() error
+}
+
+type silent struct{}
+
+func (silent) Add(int) error { return nil }
+func (silent) Finish() error { return nil }
+
+func newProgress(w io.Writer, total, done int, label string) progress {
+	f, ok := w.(*os.File)
+	if !ok || !term.IsTerminal(int(f.Fd())) {
+		return silent{}
+	}
+	bar := progressbar.NewOptions(total,
+		progressbar.OptionSetWriter(w),
+		progressbar.OptionSetDescription(label),
+		progressbar.OptionShowCount(),
+		progressbar.OptionShowIts(),
+		progressbar.OptionSetItsString("shots"),
+		progressbar.OptionSetPredictTime(true),
+		progressbar.OptionThrottle(200*time.Millisecond),
+		progressbar.OptionClearOnFinish(),
+	)
+	bar.Add(done)
+	return bar
+}

@@ -1,0 +1,71 @@
+package main
+
+import (
+	"fmt"
+	"io"
+
+	"github.com/spf13/cobra"
+
+	"rampart/mc"
+)
+
+type mergeOptions struct {
+	out         string
+	confidence  float64
+	minContrast float64
+	maxBiasRad  float64
+	json        bool
+}
+
+func newMergeCmd(e env) *cobra.Command {
+	var o mergeOptions
+	cmd := &cobra.Command{
+		Use:   "merge DIR... [--out DIR]",
+		Short: "Combine the shards of an ensemble into the result of one run",
+		Long: `Combine the output directories of the shards of one ensemble (rampart run
+--shard k/n --out DIR, for example from the tasks of a cluster job array) into
+the result one unsharded run would have given: the same realisations file,
+summary and histograms. Every realisation must be present exactly once, and the
+shards must share the scenario, seed, sample count and sampler.`,
+		Args: cobra.MinimumNArgs(1),
+		RunE: func(cmd *cobra.Command, dirs []string) error {
+			return runMerge(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), dirs, o)
+		},
+	}
+	f := cmd.Flags()
+	f.StringVar(&o.out, "out", "", "write the merged ensemble to `DIR` (it must not hold a run)")
+	f.Float64Var(&o.confidence, "confidence", 0.95, "confidence `level` of the intervals, in (0, 1)")
+	f.Float64Var(&o.minContrast, "min-contrast", 0, "yield spec: contrast at least `X` (as for run)")
+	f.Float64Var(&o.maxBiasRad, "max-bias-rad", 0, "yield spec: |bias| at most `Y` rad (as for run)")
+	f.BoolVar(&o.json, "json", false, "print the summary as one JSON object (the same object as run --json)")
+	return cmd
+}
+
+func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) error {
+	if !(o.confidence > 0 && o.confidence < 1) {
+		return fmt.Errorf("--confidence %g: want a level in (0, 1), such as 0.95", o.confidence)
+	}
+	spec, err := (&runOptions{minContrast: o.minContrast, maxBiasRad: o.maxBiasRad}).spec()
+	if err != nil {
+		return err
+	}
+	m, recs, err := mc.Merge(dirs)
+	if err != nil {
+		return err
+	}
+	sum := summarise(m, recs, o.confidence, spec)
+	if o.out != "" {
+		if err := mc.WriteRun(o.out, m, recs); err != nil {
+			return err
+		}
+		if err := writeResults(o.out, sum, recs, spec); err != nil {
+			return err
+		}
+		fmt.Fprintf(stderr, "merged %d shards, %d realisations, into %s\n", len(dirs), len(recs), o.out)
+	}
+	if o.json {
+		return writeJSON(stdout, sum)
+	}
+	fmt.Fprintf(stdout, "Merged %d shards: %d realisations, seed %d, %s sampler\n\n", len(dirs), len(recs), m.Seed, m.Sampler)
+	return printSummary(stdout, sum)
+}
