@@ -1,0 +1,336 @@
+package spec
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"reflect"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/BurntSushi/toml"
+
+	"rampart/mc"
+)
+
+// Error is a problem with a spec file: a TOML syntax error, an unknown key,
+// a wrong type, a value out of range or keys that do not fit together.
+type Error struct {
+	File string // the spec file as named by the caller
+	Line int    // line of the offending key, 0 if the decoder does not give one
+	Key  string // dotted key such as "contrast.p05_min"; empty for the file as a whole
+	Err  error  // what is wrong and what would be accepted
+}
+
+func (e *Error) Error() string {
+	where := fmt.Sprintf("spec %q", e.File)
+	if e.Line > 0 {
+		where += fmt.Sprintf(" line %d", e.Line)
+	}
+	return where + ": " + e.Err.Error()
+}
+
+func (e *Error) Unwrap() error { return e.Err }
+
+// key is one number of the spec file, with its accepted range.
+type key struct {
+	name    string
+	lo, hi  float64 // the accepted range
+	loOpen  bool    // lo itself is not accepted
+	hiOpen  bool
+	meaning string
+	set     func(*mc.Requirements, float64)
+}
+
+// want says what the key accepts: "a number in (0, 1] for the least mean
+// contrast".
+func (k key) want() string {
+	l, r := "[", "]"
+	if k.loOpen {
+		l = "("
+	}
+	if k.hiOpen {
+		r = ")"
+	}
+	hi := strconv.FormatFloat(k.hi, 'g', 6, 64)
+	if math.IsInf(k.hi, 1) {
+		return fmt.Sprintf("a finite number > %g for %s", k.lo, k.meaning)
+	}
+	if k.hi == math.Pi {
+		hi = "pi"
+	}
+	return fmt.Sprintf("a number in %s%g, %s%s for %s", l, k.lo, hi, r, k.meaning)
+}
+
+func (k key) ok(x float64) bool {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return false
+	}
+	return (x > k.lo || !k.loOpen && x == k.lo) && (x < k.hi || !k.hiOpen && x == k.hi)
+}
+
+var keys = []key{
+	{"confidence", 0.5, 1, true, true, "the one-sided confidence of every verdict",
+		func(r *mc.Requirements, x float64) { r.Confidence = x }},
+	{"contrast.mean_min", 0, 1, true, false, "the least mean contrast",
+		func(r *mc.Requirements, x float64) { r.ContrastMeanMin = x }},
+	{"contrast.p05_min", 0, 1, true, false, "the least 5th-percentile contrast",
+		func(r *mc.Requirements, x float64) { r.ContrastP05Min = x }},
+	{"bias.abs_p95_max_rad", 0, math.Pi, true, false, "the largest 95th percentile of |bias| in rad",
+		func(r *mc.Requirements, x float64) { r.AbsBiasP95MaxRad = x }},
+	{"bias.abs_p95_max_deg_per_h", 0, math.Inf(1), true, true, "the largest 95th percentile of |bias| as a rotation rate in deg/h",
+		func(r *mc.Requirements, x float64) { r.AbsBiasP95MaxDegPerH = x }},
+	{"yield.min", 0, 1, true, true, "the least fraction of realisations inside the yield limits",
+		func(r *mc.Requirements, x float64) { r.YieldMin = x }},
+	{"yield.contrast_min", 0, 1, true, false, "the least contrast of a realisation inside the yield",
+		func(r *mc.Requirements, x float64) { r.Yield.MinContrast = x }},
+	{"yield.bias_max_rad", 0, math.Pi, true, false, "the largest |bias| in rad of a realisation inside the yield",
+		func(r *mc.Requirements, x float64) { r.Yield.MaxAbsBiasRad = x }},
+}
+
+var tables = []string{"contrast", "bias", "yield"}
+
+func keyNamed(name string) (key, bool) {
+	for _, k := range keys {
+		if k.name == name {
+			return k, true
+		}
+	}
+	return key{}, false
+}
+
+// keysOf lists the keys of a table ("" for the top level) for messages.
+func keysOf(table string) string {
+	var out []string
+	for _, k := range keys {
+		t, leaf, ok := strings.Cut(k.name, ".")
+		switch {
+		case table == "" && !ok:
+			out = append(out, k.name)
+		case ok && t == table:
+			out = append(out, leaf)
+		}
+	}
+	if table == "" {
+		for _, t := range tables {
+			out = append(out, "["+t+"]")
+		}
+	}
+	return strings.Join(out, ", ")
+}
+
+// Read reads the spec file at path.
+func Read(path string) (mc.Requirements, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return mc.Requirements{}, fmt.Errorf("read spec: %w", err)
+	}
+	return Parse(path, data)
+}
+
+// Parse reads a spec from data; name is the file's name for messages.
+func Parse(name string, data []byte) (mc.Requirements, error) {
+	p := parser{name: name, data: data}
+	var raw map[string]any
+	md, err := toml.Decode(string(data), &raw)
+	if err != nil {
+		var pe toml.ParseError
+		if errors.As(err, &pe) {
+			return mc.Requirements{}, &Error{File: name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", pe.Message)}
+		}
+		return mc.Requirements{}, &Error{File: name, Err: fmt.Errorf("not valid TOML: %w", err)}
+	}
+	p.md = md
+	req := mc.Requirements{Confidence: mc.DefaultConfidence}
+	given := map[string]bool{}
+	for _, path := range md.Keys() {
+		dotted := strings.Join(path, ".")
+		v := lookup(raw, path)
+		fail := func(format string, a ...any) error {
+			return &Error{File: name, Line: p.line(path), Key: dotted, Err: fmt.Errorf(format, a...)}
+		}
+		if len(path) == 1 && isTable(path[0]) {
+			if _, ok := v.(map[string]any); !ok {
+				return mc.Requirements{}, fail("%s must be a table [%s] of %s, got %s", dotted, dotted, keysOf(dotted), typeName(v))
+			}
+			continue
+		}
+		k, known := keyNamed(dotted)
+		if !known {
+			_, isMap := v.(map[string]any)
+			switch {
+			case len(path) == 1 && isMap:
+				return mc.Requirements{}, fail("unknown table [%s]: a spec holds %s", dotted, keysOf(""))
+			case len(path) == 1:
+				return mc.Requirements{}, fail("unknown key %s: a spec holds %s", dotted, keysOf(""))
+			case !isTable(path[0]):
+				return mc.Requirements{}, fail("unknown table [%s]: a spec holds %s", path[0], keysOf(""))
+			case isMap:
+				return mc.Requirements{}, fail("unknown table [%s]: [%s] takes %s", dotted, path[0], keysOf(path[0]))
+			}
+			return mc.Requirements{}, fail("unknown key %s: [%s] takes %s", dotted, path[0], keysOf(path[0]))
+		}
+		var x float64
+		switch n := v.(type) {
+		case int64:
+			x = float64(n)
+		case float64:
+			x = n
+		default:
+			return mc.Requirements{}, fail("%s = %s: want %s, got %s", dotted, show(v), k.want(), typeName(v))
+		}
+		if !k.ok(x) {
+			return mc.Requirements{}, fail("%s = %s is out of range: want %s", dotted, show(v), k.want())
+		}
+		k.set(&req, x)
+		given[dotted] = true
+	}
+	if err := p.check(req, given); err != nil {
+		return mc.Requirements{}, err
+	}
+	if err := req.Validate(); err != nil {
+		return mc.Requirements{}, &Error{File: name, Err: err}
+	}
+	return req, nil
+}
+
+type parser struct {
+	name string
+	data []byte
+	md   toml.MetaData
+}
+
+// check tests what single keys cannot: that there is a criterion, and that
+// the yield's keys come together.
+func (p parser) check(req mc.Requirements, given map[string]bool) error {
+	fail := func(dotted, format string, a ...any) error {
+		return &Error{File: p.name, Line: p.line(strings.Split(dotted, ".")), Key: dotted, Err: fmt.Errorf(format, a...)}
+	}
+	limits := given["yield.contrast_min"] || given["yield.bias_max_rad"]
+	switch {
+	case given["yield.min"] && !limits:
+		return fail("yield.min", "yield.min needs yield.contrast_min or yield.bias_max_rad, the limits a realisation must meet to count towards the yield")
+	case limits && !given["yield.min"]:
+		k := "yield.contrast_min"
+		if !given[k] {
+			k = "yield.bias_max_rad"
+		}
+		return fail(k, "%s is given without yield.min: want yield.min, the least fraction of realisations inside the yield limits, in (0, 1)", k)
+	}
+	for _, k := range []string{"contrast.mean_min", "contrast.p05_min", "bias.abs_p95_max_rad", "bias.abs_p95_max_deg_per_h", "yield.min"} {
+		if given[k] {
+			return nil
+		}
+	}
+	return &Error{File: p.name, Err: fmt.Errorf("no criterion: give at least one of contrast.mean_min, contrast.p05_min, bias.abs_p95_max_rad, bias.abs_p95_max_deg_per_h or yield.min")}
+}
+
+func isTable(name string) bool {
+	for _, t := range tables {
+		if t == name {
+			return true
+		}
+	}
+	return false
+}
+
+// line returns the line of the key at path, or 0 if it cannot be told.
+//
+// BurntSushi/toml keeps key positions private but reports one in the error
+// of an Unmarshaler: decoding into a struct that reaches only path, with a
+// probe that always fails, makes the decoder name the line. The decoder
+// matches keys case-insensitively, so when a sibling differs only in case
+// the answer could be either key's line and none is given.
+func (p parser) line(path []string) int {
+	for _, k := range p.md.Keys() {
+		for i := 0; i < len(k) && i < len(path); i++ {
+			if k[i] != path[i] {
+				if strings.EqualFold(k[i], path[i]) {
+					return 0
+				}
+				break
+			}
+		}
+	}
+	t := reflect.TypeFor[probe]()
+	for i := len(path) - 1; i >= 0; i-- {
+		t = reflect.StructOf([]reflect.StructField{{Name: "F", Type: t, Tag: reflect.StructTag(fmt.Sprintf("toml:%q", path[i]))}})
+	}
+	_, err := toml.Decode(string(p.data), reflect.New(t).Interface())
+	var pe toml.ParseError
+	if errors.As(err, &pe) && pe.Message == errProbe.Error() {
+		return pe.Position.Line
+	}
+	return 0
+}
+
+type probe struct{}
+
+var errProbe = errors.New("probe")
+
+func (probe) UnmarshalTOML(any) error { return errProbe }
+
+func lookup(m map[string]any, path []string) any {
+	var v any = m
+	for _, p := range path {
+		t, ok := v.(map[string]any)
+		if !ok {
+			return nil
+		}
+		v = t[p]
+	}
+	return v
+}
+
+// show renders a decoded TOML value for a message.
+func show(v any) string {
+	switch x := v.(type) {
+	case string:
+		return strconv.Quote(x)
+	case float64:
+		switch {
+		case math.IsNaN(x):
+			return "nan"
+		case math.IsInf(x, 1):
+			return "inf"
+		case math.IsInf(x, -1):
+			return "-inf"
+		}
+		return strconv.FormatFloat(x, 'g', -1, 64)
+	case int64:
+		return strconv.FormatInt(x, 10)
+	case bool:
+		return strconv.FormatBool(x)
+	case []any:
+		parts := make([]string, len(x))
+		for i, e := range x {
+			parts[i] = show(e)
+		}
+		return "[" + strings.Join(parts, ", ") + "]"
+	case map[string]any:
+		return "{...}"
+	}
+	return fmt.Sprint(v)
+}
+
+func typeName(v any) string {
+	switch v.(type) {
+	case string:
+		return "a string"
+	case float64:
+		return "a float"
+	case int64:
+		return "an integer"
+	case bool:
+		return "a boolean"
+	case []any, []map[string]any:
+		return "an array"
+	case map[string]any:
+		return "a table"
+	case time.Time:
+		return "a date or time"
+	}
+	return fmt.Sprintf("a %T", v)
+}
