@@ -118,13 +118,23 @@ func (b Budget) Scaled(k float64) Budget {
 	c.SkewS *= k
 	c.TemperatureSpreadK *= k
 	c.PulseAreaRel *= k
-	if b.RIN != nil {
-		c.RIN = scaledPSD{b.RIN, k * k}
-	}
-	if b.Phase != nil {
-		c.Phase = scaledPSD{b.Phase, k * k}
-	}
+	c.RIN = scalePSD(b.RIN, k*k)
+	c.Phase = scalePSD(b.Phase, k*k)
 	return c
+}
+
+// scalePSD returns s multiplied by k: white stays white, and a PSD with a
+// closed-form band integral keeps it.
+func scalePSD(s noise.PSD, k float64) noise.PSD {
+	switch p := s.(type) {
+	case nil:
+		return nil
+	case noise.White:
+		return noise.White{Level: k * p.Level}
+	case noise.Integrable:
+		return scaledIntegrable{scaledPSD{p, k}}
+	}
+	return scaledPSD{s, k}
 }
 
 // scaledPSD is a PSD multiplied by a constant.
@@ -134,3 +144,10 @@ type scaledPSD struct {
 }
 
 func (s scaledPSD) Density(f float64) float64 { return s.k * s.s.Density(f) }
+
+// scaledIntegrable is a scaled PSD that has a closed-form band integral.
+type scaledIntegrable struct{ scaledPSD }
+
+func (s scaledIntegrable) Integral(lo, hi float64) float64 {
+	return s.k * s.s.(noise.Integrable).Integral(lo, hi)
+}

@@ -36,12 +36,29 @@
 // [SobolIndices] apportions the variance of an output among the static
 // parameters (first-order and total Sobol' indices).
 //
+// # Running
+//
+// [NewRealiser] prepares an [Ensemble] (a configuration, a [Budget], a sample
+// count, a seed and a sampler); [Realiser.Run] realises a range of indices on
+// a pool of workers and emits the [Record]s in index order, cancellably. A
+// [Store] streams them to a directory as they complete; [Resume] continues an
+// interrupted run and [Merge] combines the shards of one ([Shard]) into the
+// records of a single run, byte for byte. [Summarise] gives the distributions
+// of contrast and bias with bootstrap intervals, the averaged-fringe contrast
+// and a yield.
+//
 // # Decisions
 //
 // A verdict compares an interval with a threshold: clear above, clear below, or
 // undecided while the interval straddles it. For an undecided verdict,
 // [AdditionalSamples] and [AdditionalTrials] estimate how many more
-// realisations would settle it.
+// realisations would settle it. On these rest [Rank] (ramps ordered by a
+// metric on common random numbers, with paired differences and whether each
+// place is resolved), [Qualify] (an ensemble against [Requirements]: pass,
+// fail or undecided), [ToleranceSearch] (the largest amplitude of each noise
+// source, or of the whole budget, at which the requirements still hold),
+// [SensitivityDesign] (Sobol' indices of each source on contrast and bias)
+// and [GyroFigures] (projection noise and angle random walk).
 //
 // Confidence levels are fractions in (0, 1), such as 0.95. Programmer misuse
 // (a negative realisation index, a confidence outside (0, 1), mismatched slice

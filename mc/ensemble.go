@@ -103,7 +103,7 @@ func (r *Realiser) prepareNoise() error {
 	if r.ens.NoiseStepS > 0 {
 		r.noiseStep = r.ens.NoiseStepS
 	}
-	long := cfg.Sequence.Duration()*(1+6*b.ClockRel) + 6*b.SkewS
+	long := NoiseDuration(cfg, b)
 	if r.ens.NoiseDurationS > 0 {
 		long = r.ens.NoiseDurationS
 	}
@@ -127,6 +127,15 @@ func (r *Realiser) prepareNoise() error {
 		}
 	}
 	return nil
+}
+
+// NoiseDuration returns the length of the noise records an ensemble of cfg
+// under b needs: the longest shot its static draws can make, six standard
+// deviations out in the clock-rate error and the skew. Ensembles that share
+// random numbers across budgets (a tolerance search) size one grid with the
+// widest budget they use.
+func NoiseDuration(cfg sim.Config, b Budget) float64 {
+	return cfg.Sequence.Duration()*(1+6*b.ClockRel) + 6*b.SkewS
 }
 
 // NoiseSamplesPerStep is the number of noise samples per split step.

@@ -14,6 +14,13 @@ import (
 // run the same way and is returned. It returns the number of records
 // emitted.
 func (r *Realiser) Run(ctx context.Context, from, to, workers int, emit func(Record) error) (int, error) {
+	return runOrdered(ctx, from, to, workers, func() func(int) Record { return r.NewWorker().Realise }, emit)
+}
+
+// runOrdered runs jobs [from, to) on workers goroutines, each with its own
+// job function from newJob, and emits the records in index order; see
+// Realiser.Run for cancellation and errors.
+func runOrdered(ctx context.Context, from, to, workers int, newJob func() func(int) Record, emit func(Record) error) (int, error) {
 	if workers < 1 {
 		workers = runtime.GOMAXPROCS(0)
 	}
@@ -22,7 +29,6 @@ func (r *Realiser) Run(ctx context.Context, from, to, workers int, emit func(Rec
 	}
 	ctx, cancel := context.WithCancel(ctx)
 	defer cancel()
-
 	jobs := make(chan int)
 	results := make(chan Record)
 	var wg sync.WaitGroup
@@ -30,9 +36,9 @@ func (r *Realiser) Run(ctx context.Context, from, to, workers int, emit func(Rec
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			w := r.NewWorker()
+			job := newJob()
 			for i := range jobs {
-				results <- w.Realise(i)
+				results <- job(i)
 			}
 		}()
 	}
@@ -50,7 +56,6 @@ func (r *Realiser) Run(ctx context.Context, from, to, workers int, emit func(Rec
 		wg.Wait()
 		close(results)
 	}()
-
 	pending := make(map[int]Record)
 	next, emitted := from, 0
 	var emitErr error

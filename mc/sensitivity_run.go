@@ -3,9 +3,7 @@ package mc
 import (
 	"context"
 	"fmt"
-	"runtime"
 	"slices"
-	"sync"
 
 	"rampart/sim"
 )
@@ -265,75 +263,4 @@ func LocalDerivatives(r *Realiser) []Derivative {
 		out = append(out, d)
 	}
 	return out
-}
-
-// runOrdered runs jobs [from, to) on workers goroutines, each with its own
-// job function from newJob, and emits the records in index order; see
-// Realiser.Run for cancellation and errors.
-func runOrdered(ctx context.Context, from, to, workers int, newJob func() func(int) Record, emit func(Record) error) (int, error) {
-	if workers < 1 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	if to <= from {
-		return 0, nil
-	}
-	ctx, cancel := context.WithCancel(ctx)
-	defer cancel()
-	jobs := make(chan int)
-	results := make(chan Record)
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			job := newJob()
-			for i := range jobs {
-				results <- job(i)
-			}
-		}()
-	}
-	go func() {
-		defer close(jobs)
-		for i := from; i < to; i++ {
-			select {
-			case jobs <- i:
-			case <-ctx.Done():
-				return
-			}
-		}
-	}()
-	go func() {
-		wg.Wait()
-		close(results)
-	}()
-	pending := make(map[int]Record)
-	next, emitted := from, 0
-	var emitErr error
-	for rec := range results {
-		if emitErr != nil {
-			continue // drain
-		}
-		pending[rec.Index] = rec
-		for {
-			p, ok := pending[next]
-			if !ok {
-				break
-			}
-			delete(pending, next)
-			if err := emit(p); err != nil {
-				emitErr = err
-				cancel()
-				break
-			}
-			next++
-			emitted++
-		}
-	}
-	if emitErr != nil {
-		return emitted, emitErr
-	}
-	if emitted < to-from {
-		return emitted, context.Cause(ctx)
-	}
-	return emitted, nil
 }

@@ -160,15 +160,6 @@ func budgetSource(b Budget) (source, error) {
 	return s, nil
 }
 
-// scalePSD returns k s, keeping a white PSD white (and so integrable in
-// closed form).
-func scalePSD(s noise.PSD, k float64) noise.PSD {
-	if w, ok := s.(noise.White); ok {
-		return noise.White{Level: k * w.Level}
-	}
-	return scaledPSD{s, k}
-}
-
 // highest returns the largest amplitude a search of s tries: Range above
 // the start, but not beyond the source's largest sensible amplitude unless
 // the start already is.
