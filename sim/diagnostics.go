@@ -18,7 +18,10 @@ type Diagnostics struct {
 type Observer func(Diagnostics)
 
 // TraceSamples is the number of samples an observer receives over each
-// ramp and over the cruise.
+// ramp and over the cruise. An observed shot takes at least TraceSamples
+// split steps on each ramp (finer than the automatic step of short ramps,
+// so its results can differ from an unobserved shot's within the numerical
+// tolerance).
 const TraceSamples = 100
 
 func (p *propagator) observe(obs Observer, arm int, t float64, f *field, d Drive, es *eigensystem) {
@@ -37,6 +40,7 @@ func (p *propagator) splitStepsObserved(f *field, d Drive, t0, t1 float64, n int
 		p.splitSteps(f, d, t0, t1, n)
 		return
 	}
+	n = max(n, TraceSamples)
 	chunk := max(1, n/TraceSamples)
 	dt := (t1 - t0) / float64(n)
 	for i := 0; i < n; i += chunk {

@@ -124,6 +124,9 @@ func NewSimulator(cfg Config) (*Simulator, error) {
 	if step == 0 {
 		step = auto.StepS
 	}
+	if grid > MaxGrid {
+		return nil, fmt.Errorf("the momentum grid would need %d states, more than the %d rampart handles (memory and time grow as grid^2 / sites): lower the cruise speed, the temperature or numerics.grid", grid, MaxGrid)
+	}
 	b, err := NewBasis(cfg.Ring.Sites, grid)
 	if err != nil {
 		return nil, err
@@ -263,6 +266,9 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	res.Elapsed = time.Since(start)
 	return res
 }
+
+// MaxGrid is the largest momentum grid a Simulator accepts.
+const MaxGrid = 1 << 14
 
 // shortStretch is the length, in split steps, below which a constant
 // stretch is split-stepped rather than diagonalised.

@@ -85,7 +85,19 @@ type Inverse struct {
 	DurationS   float64
 	CruiseRadS  float64
 	TrapRadS    float64 // omega at the design depth, rad/s
-	DesignDepth float64 // V0/h in Hz the trap frequency was taken at (for labels)
+	DesignDepth float64 // V0/h in Hz the trap frequency was taken at, for labels (NewInverse sets it)
+}
+
+// NewInverse returns the inverse-engineered ramp designed for the harmonic
+// trap of ring r at a depth V0/h of designDepthHz.
+func NewInverse(r Ring, durationS, cruiseRadS, designDepthHz float64) (Inverse, error) {
+	if err := checkRamp(durationS, cruiseRadS); err != nil {
+		return Inverse{}, err
+	}
+	if !(designDepthHz > 0) || math.IsInf(designDepthHz, 0) {
+		return Inverse{}, fmt.Errorf("inverse ramp design depth %g Hz is not a positive finite depth", designDepthHz)
+	}
+	return Inverse{DurationS: durationS, CruiseRadS: cruiseRadS, TrapRadS: 2 * math.Pi * r.TrapHz(designDepthHz), DesignDepth: designDepthHz}, nil
 }
 
 func (r Inverse) Duration() float64 { return r.DurationS }

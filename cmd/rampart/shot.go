@@ -79,14 +79,18 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 	if err != nil {
 		return err
 	}
-	var trace []sim.Diagnostics
-	var obs sim.Observer
-	if o.trace != "" {
-		obs = func(d sim.Diagnostics) { trace = append(trace, d) }
-	}
-	run, err := simulate(e, sc, cfg, obs)
+	run, err := simulate(e, sc, cfg, nil)
 	if err != nil {
 		return err
+	}
+	// The trace comes from a second, observed shot (which samples the ramps
+	// more finely), so that the table is that of an unobserved shot.
+	var trace []sim.Diagnostics
+	if o.trace != "" {
+		obs := func(d sim.Diagnostics) { trace = append(trace, d) }
+		if _, err := simulate(e, sc, cfg, obs); err != nil {
+			return err
+		}
 	}
 	rep := newShotReport(sc, run)
 	if o.check {

@@ -292,13 +292,10 @@ func (s *Scenario) rampUp() (sim.Ramp, *keyError) {
 		}
 		return tab, nil
 	case "inverse":
-		trap := 2 * math.Pi * s.simRing().TrapHz(s.designDepthHz())
-		r, err := sim.NewShape("inverse", dur, cruise, trap)
+		inv, err := sim.NewInverse(s.simRing(), dur, cruise, s.designDepthHz())
 		if err != nil {
 			return nil, &keyError{"ramp", err}
 		}
-		inv := r.(sim.Inverse)
-		inv.DesignDepth = s.designDepthHz()
 		return inv, nil
 	}
 	r, err := sim.NewShape(s.Ramp.Shape, dur, cruise, 0)
