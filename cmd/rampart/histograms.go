@@ -1,9 +1,52 @@
 package main
 
-import "rampart/mc"
+import (
+	"path/filepath"
+
+	"rampart/cmd/internal/plots"
+	"rampart/mc"
+)
+
+// ensembleFigures returns the contrast and bias histograms of an ensemble,
+// marking the 5th percentile of the contrast and the spec's limits.
+func ensembleFigures(sum mc.Summary, recs []mc.Record, spec mc.Spec) (contrast, bias *plots.Figure, err error) {
+	c := make([]float64, len(recs))
+	b := make([]float64, len(recs))
+	for i, r := range recs {
+		c[i], b[i] = r.Contrast, r.BiasRad
+	}
+	cm := []plots.Marker{{Label: "5th percentile " + fixed(sum.Contrast.P05, 4), Value: sum.Contrast.P05}}
+	if spec.MinContrast > 0 {
+		cm = append(cm, plots.Marker{Label: "spec: contrast ≥ " + sig(spec.MinContrast, 6), Value: spec.MinContrast})
+	}
+	var bm []plots.Marker
+	if spec.MaxAbsBiasRad > 0 {
+		bm = []plots.Marker{
+			{Label: "spec: bias ≥ −" + sig(spec.MaxAbsBiasRad, 6) + " rad", Value: -spec.MaxAbsBiasRad},
+			{Label: "spec: bias ≤ " + sig(spec.MaxAbsBiasRad, 6) + " rad", Value: spec.MaxAbsBiasRad},
+		}
+	}
+	n := sig(float64(len(recs)), 6) + " realisations"
+	contrast, err = plots.Histogram(c, plots.HistogramOptions{Title: "Contrast of the shots, " + n, XLabel: "contrast |z|", Markers: cm})
+	if err != nil {
+		return nil, nil, err
+	}
+	bias, err = plots.Histogram(b, plots.HistogramOptions{Title: "Bias of the shots, " + n, XLabel: "bias (rad)", Markers: bm})
+	if err != nil {
+		return nil, nil, err
+	}
+	return contrast, bias, nil
+}
 
 // writeHistograms writes the contrast and bias histograms of an ensemble
 // to dir as PNG and SVG.
 func writeHistograms(dir string, sum mc.Summary, recs []mc.Record, spec mc.Spec) error {
-	return nil // filled in with the plots package
+	c, b, err := ensembleFigures(sum, recs, spec)
+	if err != nil {
+		return err
+	}
+	if err := c.WriteFiles(filepath.Join(dir, "contrast")); err != nil {
+		return err
+	}
+	return b.WriteFiles(filepath.Join(dir, "bias"))
 }

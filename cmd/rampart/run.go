@@ -88,7 +88,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 		if err := writeResults(dir, sum, run.records, spec); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %d realisations and %s to %s\n", len(run.records), summaryFile, dir)
+		fmt.Fprintf(stderr, "wrote %d realisations, %s and contrast and bias histograms (PNG, SVG) to %s\n", len(run.records), summaryFile, dir)
 	}
 	if o.json {
 		return writeJSON(stdout, sum)
