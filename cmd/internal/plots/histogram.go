@@ -25,8 +25,8 @@ type HistogramOptions struct {
 	YLabel string // if empty, "realisations"
 
 	// Bins is the number of equal-width bins over the sample's range. If
-	// Bins is zero, it follows the Freedman-Diaconis rule, kept within 5 to
-	// 50 bins.
+	// Bins is zero, it is the larger of the Freedman-Diaconis and Sturges
+	// counts, kept within 5 to 50.
 	Bins int
 
 	// Markers are vertical lines, e.g. a spec limit or the 5th percentile.
@@ -70,13 +70,15 @@ func Histogram(values []float64, opts HistogramOptions) (*Figure, error) {
 	return f, nil
 }
 
-// bins sorts a copy of values into n equal-width bins, or into as many as
-// the Freedman-Diaconis rule gives (Freedman and Diaconis, Z. Wahrscheinlich-
-// keitstheorie verw. Gebiete 57, 453 (1981)) if n is zero,
+// bins sorts a copy of values into n equal-width bins or, if n is zero, into
+// the larger of the Freedman-Diaconis count (D. Freedman and P. Diaconis,
+// Z. Wahrscheinlichkeitstheorie verw. Gebiete 57, 453 (1981)),
 //
-//	width = 2 IQR / cbrt(len(values)),
+//	k = range / (2 IQR / cbrt(N)),
 //
-// falling back on sqrt(len(values)) bins when the interquartile range is zero.
+// and the Sturges count 1 + log2(N) (H. A. Sturges, J. Am. Stat. Assoc. 21,
+// 65 (1926)), kept within 5 to 50. The Sturges floor keeps a skewed sample,
+// such as contrasts piled up below 1, from a handful of wide bins.
 func bins(values []float64, n int) []plotter.HistogramBin {
 	sorted := slices.Clone(values)
 	slices.Sort(sorted)
@@ -89,10 +91,11 @@ func bins(values []float64, n int) []plotter.HistogramBin {
 		return []plotter.HistogramBin{{Min: lo - half, Max: hi + half, Weight: float64(len(values))}}
 	}
 	if n == 0 {
+		count := float64(len(sorted))
+		k := 1 + math.Log2(count)
 		iqr := stat.Quantile(0.75, stat.LinInterp, sorted, nil) - stat.Quantile(0.25, stat.LinInterp, sorted, nil)
-		k := math.Sqrt(float64(len(sorted)))
 		if iqr > 0 {
-			k = (hi - lo) / (2 * iqr / math.Cbrt(float64(len(sorted))))
+			k = math.Max(k, (hi-lo)/(2*iqr/math.Cbrt(count)))
 		}
 		n = int(math.Min(math.Max(math.Ceil(k), minAutoBins), maxAutoBins))
 	}

@@ -77,8 +77,8 @@ func TestBinsCounts(t *testing.T) {
 
 	// Freedman-Diaconis on N = 1000 standard normal values: IQR = 1.349
 	// (2 x 0.6745, normal quartiles), width = 2 x 1.349 / 10 = 0.27, so the
-	// range of about 6.5 gives about 24 bins; the bounds allow the sample's
-	// own range and IQR.
+	// range of about 6.5 gives about 24 bins (above Sturges' 11); the bounds
+	// allow for the sample's own range and IQR.
 	r := rand.New(rand.NewPCG(1, 2))
 	sample := make([]float64, 1000)
 	for i := range sample {
@@ -96,11 +96,26 @@ func TestBinsCounts(t *testing.T) {
 		t.Errorf("Freedman-Diaconis: got %d bins, want 18 to 32", n)
 	}
 
-	// A sample with a zero interquartile range falls back on sqrt(N) bins,
-	// clamped to at least 5.
+	// A sample with a zero interquartile range gets the Sturges count:
+	// ceil(1 + log2 10) = 5 bins.
 	flat := []float64{0, 1, 1, 1, 1, 1, 1, 1, 1, 2}
-	if n := len(bins(flat, 0)); n != minAutoBins {
-		t.Errorf("zero IQR: got %d bins, want %d", n, minAutoBins)
+	if n := len(bins(flat, 0)); n != 5 {
+		t.Errorf("zero IQR: got %d bins, want 5", n)
+	}
+	// A skewed sample whose wide IQR gives Freedman-Diaconis fewer bins
+	// than Sturges: 100 values, half at 0.5 to 0.6 and half at 0.99 to 1.
+	// IQR about 0.445, width 2 x 0.445 / 100^(1/3) = 0.19, so range 0.5 / 0.19
+	// = 2.6 bins; Sturges gives ceil(1 + log2 100) = 8.
+	skewed := make([]float64, 100)
+	for i := range skewed {
+		if i < 50 {
+			skewed[i] = 0.5 + 0.1*float64(i)/49
+		} else {
+			skewed[i] = 0.99 + 0.01*float64(i-50)/49
+		}
+	}
+	if n := len(bins(skewed, 0)); n != 8 {
+		t.Errorf("skewed: got %d bins, want the Sturges 8", n)
 	}
 }
 
