@@ -55,19 +55,40 @@ func (p *propagator) splitStepsObserved(f *field, d Drive, t0, t1 float64, n int
 	}
 }
 
-// stretchObserved is stretch with TraceSamples observations.
+// stretchObserved is stretch with observations: every sixteenth of a
+// trap period over the first and last EdgePeriods trap periods of the
+// stretch, where the motion left by a ramp shows, and TraceSamples evenly
+// in between (too few to resolve the oscillation there: plot the edges).
 func (p *propagator) stretchObserved(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem, obs Observer, arm int) {
 	if obs == nil || t1 <= t0 {
 		p.stretch(f, d, w, t0, t1, noiseStep, es)
 		return
 	}
-	for i := range TraceSamples {
-		ta := t0 + (t1-t0)*float64(i)/TraceSamples
-		tb := t0 + (t1-t0)*float64(i+1)/TraceSamples
+	period := 2 * math.Pi / (float64(p.b.Sites) * math.Sqrt(p.v0*p.rot))
+	edge := math.Min(EdgePeriods*period, (t1-t0)/2)
+	var times []float64
+	add := func(a, b float64, n int) {
+		for i := 1; i <= n; i++ {
+			times = append(times, a+(b-a)*float64(i)/float64(n))
+		}
+	}
+	m := int(math.Ceil(16 * edge / period))
+	add(t0, t0+edge, m)
+	if t1-edge > t0+edge {
+		add(t0+edge, t1-edge, TraceSamples)
+	}
+	add(t1-edge, t1, m)
+	ta := t0
+	for _, tb := range times {
 		es = p.stretch(f, d, w, ta, tb, noiseStep, es)
 		p.observe(obs, arm, tb, f, d, es)
+		ta = tb
 	}
 }
+
+// EdgePeriods is the number of trap periods at each end of a constant
+// stretch that an observer sees resolved.
+const EdgePeriods = 3
 
 func (p *propagator) diagnose(f *field, d Drive, arm int, t float64, es *eigensystem) Diagnostics {
 	b := f.b
