@@ -16,6 +16,7 @@ func main() {
 // run executes the command line args and returns the process exit code:
 // 0 on success, 2 for bad input, or the code a command chose.
 func run(args []string, stdout, stderr io.Writer, e env) int {
+	e.args = args
 	root := newRoot(e)
 	root.SetArgs(args)
 	root.SetOut(stdout)

@@ -32,6 +32,8 @@ type env struct {
 	// now is the clock elapsed times are measured with; tests fix it so
 	// that outputs do not depend on the machine's speed.
 	now func() time.Time
+	// args is the command line, for reports that say how to reproduce them.
+	args []string
 }
 
 func newRoot(e env) *cobra.Command {

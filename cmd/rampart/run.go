@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/outfile"
+	"rampart/cmd/internal/scenario"
 	"rampart/mc"
 )
 
@@ -20,6 +21,7 @@ type runOptions struct {
 	minContrast float64
 	maxBiasRad  float64
 	json        bool
+	report      string
 }
 
 func newRunCmd(e env) *cobra.Command {
@@ -48,6 +50,7 @@ the ensemble for a cluster job array; rampart merge combines the slices.`,
 	f.Float64Var(&o.minContrast, "min-contrast", 0, "yield spec: a realisation is inside when its contrast is at least `X`")
 	f.Float64Var(&o.maxBiasRad, "max-bias-rad", 0, "yield spec: a realisation is inside when its |bias| is at most `Y` rad")
 	f.BoolVar(&o.json, "json", false, "print the summary as one JSON object")
+	addReportFlag(cmd, &o.report)
 	return cmd
 }
 
@@ -90,6 +93,11 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 		}
 		fmt.Fprintf(stderr, "wrote %d realisations, %s and contrast and bias histograms (PNG, SVG) to %s\n", len(run.records), summaryFile, dir)
 	}
+	if o.report != "" {
+		if err := writeRunReport(e, stderr, o, sc, run, budget, sum, spec); err != nil {
+			return err
+		}
+	}
 	if o.json {
 		return writeJSON(stdout, sum)
 	}
@@ -97,6 +105,28 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	fmt.Fprintf(stdout, "Noise budget: %s\n", budgetLine(budget))
 	fmt.Fprintf(stdout, "%s\n\n", ensembleLine(run, o.ens))
 	return printSummary(stdout, sum)
+}
+
+// writeRunReport writes the report of an ensemble run.
+func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario, run *ensembleRun, budget mc.Budget, sum mc.Summary, spec mc.Spec) error {
+	cfg := run.realiser.Config()
+	r := newReport(e, "Monte Carlo ensemble of "+cfg.Sequence.Up.Name()+" on "+sc.Name, sc, scenarioText(o.scenario), o.sets, run.manifest.Seed)
+	name := cfg.Sequence.Up.Name()
+	drive, err := driveSection([]namedConfig{{name, cfg}})
+	if err != nil {
+		return err
+	}
+	dyn, err := dynamicsSection(name, cfg)
+	if err != nil {
+		return err
+	}
+	ens, err := ensembleSection("Ensemble", "ensemble-", sum, run.records, spec,
+		describe(sc, cfg, name+" ramp")+".\n\nNoise budget: "+budgetLine(budget)+".\n\n"+ensembleLine(run, o.ens)+".")
+	if err != nil {
+		return err
+	}
+	r.Sections = append(r.Sections, drive, dyn, ens)
+	return writeReport(stderr, r, o.report)
 }
 
 // summaryFile is the JSON summary in an output directory.
@@ -161,10 +191,25 @@ func interval(lo, hi float64, f func(float64) string) string {
 }
 
 func printSummary(w io.Writer, s mc.Summary) error {
+	for i, g := range summaryGrids(s) {
+		if i > 0 {
+			fmt.Fprintln(w)
+		}
+		if err := g.Render(w); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// summaryGrids returns the tables of an ensemble summary: the
+// distributions, then the fringe, bias spread, scale factor and yield.
+func summaryGrids(s mc.Summary) []*grid {
 	conf := fmt.Sprintf("%s %% interval", sig(100*s.Confidence, 3))
 	c5 := func(x float64) string { return fixed(x, 5) }
 	b3 := func(x float64) string { return sci(x, 3) }
-	t := newTable(w, "Statistic", "Contrast", conf, "Bias (rad)", conf, "Bias (deg/h)")
+	t := newGrid("Distributions over the realisations, with percentile-bootstrap intervals",
+		"Statistic", "Contrast", conf, "Bias (rad)", conf, "Bias (deg/h)")
 	rows := []struct {
 		name, key string
 		c, b, d   float64
@@ -181,15 +226,11 @@ func printSummary(w io.Writer, s mc.Summary) error {
 		ci, bi := s.Contrast.CI[r.key], s.BiasRad.CI[r.key]
 		t.Append(r.name, c5(r.c), interval(ci[0], ci[1], c5), b3(r.b), interval(bi[0], bi[1], b3), b3(r.d))
 	}
-	if err := t.Render(); err != nil {
-		return err
-	}
-	fmt.Fprintln(w)
-	t = newTable(w, "Quantity", "Value", conf, "Unit")
-	t.Append("Averaged-fringe contrast |mean z|", c5(s.FringeContrast.Value), interval(s.FringeContrast.Lo, s.FringeContrast.Hi, c5), "")
-	t.Append("Averaged-fringe bias arg(mean z) - Sagnac", b3(s.FringeBiasRad.Value), interval(s.FringeBiasRad.Lo, s.FringeBiasRad.Hi, b3), "rad")
-	t.Append("|bias| p95", b3(s.AbsBiasRad.P95), interval(s.AbsBiasRad.CI["p95"][0], s.AbsBiasRad.CI["p95"][1], b3), "rad")
-	t.Append("Scale factor K", sig(s.ScaleFactorS, 6), "", "s (rad per rad/s)")
+	u := newGrid("The averaged fringe, the bias spread and the yield", "Quantity", "Value", conf, "Unit")
+	u.Append("Averaged-fringe contrast |mean z|", c5(s.FringeContrast.Value), interval(s.FringeContrast.Lo, s.FringeContrast.Hi, c5), "")
+	u.Append("Averaged-fringe bias arg(mean z) - Sagnac", b3(s.FringeBiasRad.Value), interval(s.FringeBiasRad.Lo, s.FringeBiasRad.Hi, b3), "rad")
+	u.Append("|bias| p95", b3(s.AbsBiasRad.P95), interval(s.AbsBiasRad.CI["p95"][0], s.AbsBiasRad.CI["p95"][1], b3), "rad")
+	u.Append("Scale factor K", sig(s.ScaleFactorS, 6), "", "s (rad per rad/s)")
 	if y := s.Yield; y != nil {
 		var lim []string
 		if y.Spec.MinContrast > 0 {
@@ -198,10 +239,10 @@ func printSummary(w io.Writer, s mc.Summary) error {
 		if y.Spec.MaxAbsBiasRad > 0 {
 			lim = append(lim, "|bias| <= "+sig(y.Spec.MaxAbsBiasRad, 6)+" rad")
 		}
-		t.Append(fmt.Sprintf("Yield (%s): %d of %d", strings.Join(lim, ", "), y.Inside, s.Samples), fixed(y.Value, 4),
+		u.Append(fmt.Sprintf("Yield (%s): %d of %d", strings.Join(lim, ", "), y.Inside, s.Samples), fixed(y.Value, 4),
 			interval(y.Lo, y.Hi, func(x float64) string { return fixed(x, 4) })+" exact", "")
 	}
-	return t.Render()
+	return []*grid{t, u}
 }
 
 // jsonString is the compact JSON of v, for tests and messages.

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -111,5 +112,37 @@ func TestRunBadInput(t *testing.T) {
 	_, stderr, code = execute(t, "run", "--scenario", ensembleScenario, "--samples", "2", "--seed", "9", "--resume", out)
 	if code != 2 || !strings.Contains(stderr, "seed 1, not 9") {
 		t.Errorf("resume with another seed: exit %d, stderr %q", code, stderr)
+	}
+}
+
+// TestRunReport checks that run --report writes one page holding every
+// figure and the command that reproduces it (the page's rendering in a
+// browser is tested in package report).
+func TestRunReport(t *testing.T) {
+	dir := t.TempDir()
+	_, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--samples", "8", "--min-contrast", "0.5", "--report", dir)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	page := string(b)
+	text := regexp.MustCompile(`<[^>]*>`).ReplaceAllString(page, "")
+	if want := "rampart run --scenario testdata/scenarios/ensemble.toml --samples 8 --min-contrast 0.5 --report"; !strings.Contains(text, want) {
+		t.Errorf("report lacks the command %q", want)
+	}
+	for _, want := range []string{
+		`id="drive"`, `id="dynamics-offset-up"`, `id="dynamics-offset-down"`, `id="dynamics-velocity-up"`,
+		`id="dynamics-velocity-down"`, `id="dynamics-ground"`, `id="ensemble-contrast"`, `id="ensemble-bias"`,
+		"Yield (contrast &gt;= 0.5)", "[noise.depth]",
+	} {
+		if !strings.Contains(page, want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+	if n := strings.Count(page, "<figure"); n != 8 {
+		t.Errorf("report has %d figures, want 8", n)
 	}
 }

@@ -1,0 +1,33 @@
+package main
+
+import (
+	"io"
+
+	"rampart/cmd/internal/report"
+)
+
+// grid is a table's cells, rendered either on the terminal (tablewriter)
+// or into a report, so that both show the same numbers.
+type grid struct {
+	caption string
+	header  []string
+	rows    [][]string
+}
+
+func newGrid(caption string, header ...string) *grid { return &grid{caption: caption, header: header} }
+
+func (g *grid) Append(cells ...string) { g.rows = append(g.rows, cells) }
+
+// Render prints the grid as a terminal table.
+func (g *grid) Render(w io.Writer) error {
+	t := newTable(w, g.header...)
+	for _, r := range g.rows {
+		t.Append(r)
+	}
+	return t.Render()
+}
+
+// table returns the grid as a report table.
+func (g *grid) table() report.Table {
+	return report.Table{Caption: g.caption, Header: g.header, Rows: g.rows}
+}

@@ -1,0 +1,205 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/report"
+	"rampart/cmd/internal/scenario"
+	"rampart/mc"
+	"rampart/sim"
+)
+
+// addReportFlag adds --report DIR.
+func addReportFlag(cmd *cobra.Command, dir *string) {
+	cmd.Flags().StringVar(dir, "report", "", "write a self-contained HTML report (figures inline, no network) to `DIR`/report.html")
+}
+
+// newReport starts the report of a command on a scenario: the title, the
+// exact command line that reproduces it, the seed and the scenario's text.
+func newReport(e env, title string, sc *scenario.Scenario, text string, sets []string, seed uint64) *report.Report {
+	if len(sets) > 0 {
+		text += "\n# overridden on the command line:\n"
+		for _, s := range sets {
+			text += "#   --set " + s + "\n"
+		}
+	}
+	return &report.Report{
+		Title:    title,
+		Subtitle: "Scenario " + sc.Name,
+		Command:  commandLine(e.args),
+		Seed:     seed,
+		Scenario: text,
+	}
+}
+
+// scenarioText returns the text of the scenario file at path.
+func scenarioText(path string) string {
+	b, err := os.ReadFile(path)
+	if err != nil {
+		return ""
+	}
+	return string(b)
+}
+
+// commandLine quotes args for a POSIX shell.
+func commandLine(args []string) string {
+	parts := []string{"rampart"}
+	for _, a := range args {
+		if a != "" && strings.IndexFunc(a, func(r rune) bool {
+			return !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || strings.ContainsRune("-_./=:,+", r))
+		}) < 0 {
+			parts = append(parts, a)
+			continue
+		}
+		parts = append(parts, "'"+strings.ReplaceAll(a, "'", `'\''`)+"'")
+	}
+	return strings.Join(parts, " ")
+}
+
+// writeReport writes r to dir and says where.
+func writeReport(stderr io.Writer, r *report.Report, dir string) error {
+	path, err := r.Write(dir)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(stderr, "wrote the report to %s\n", path)
+	return nil
+}
+
+// figure renders f for a report.
+func figure(id, caption string, f *plots.Figure) (report.Figure, error) {
+	svg, err := f.SVG()
+	if err != nil {
+		return report.Figure{}, err
+	}
+	return report.Figure{ID: id, Caption: caption, SVG: svg}, nil
+}
+
+// namedConfig is a ramp's configuration in a report.
+type namedConfig struct {
+	name string
+	cfg  sim.Config
+}
+
+// driveSection plots the ramp-up of each configuration's drive.
+func driveSection(cfgs []namedConfig) (report.Section, error) {
+	var series []plots.Series
+	t := newGrid("The drives", "Ramp", "Ramp-up (us)", "Peak speed (rad/s)", "Reverses", "Cruise (ms)", "Total (ms)")
+	for _, c := range cfgs {
+		q := c.cfg.Sequence
+		tr := q.Up.Duration()
+		const n = 400
+		s := plots.Series{Name: c.name, X: make([]float64, n+1), Y: make([]float64, n+1)}
+		for i := range n + 1 {
+			x := tr * float64(i) / n
+			s.X[i], s.Y[i] = x*1e6, q.Speed(x)
+		}
+		series = append(series, s)
+		peak, rev := sim.PeakSpeed(q.Up)
+		t.Append(c.name, sig(tr*1e6, 6), sig(peak, 5), yesNo(rev), sig(q.CruiseS*1e3, 5), sig(q.Duration()*1e3, 5))
+	}
+	f, err := plots.Lines(series, plots.LinesOptions{Title: "Ramp-up of the drive (the ramp-down is its mirror)", XLabel: "t (us)", YLabel: "Ω (rad/s)"})
+	if err != nil {
+		return report.Section{}, err
+	}
+	fig, err := figure("drive", "The lattice speed Omega(t) of arm s = +1 over the ramp-up; arm s = -1 runs at -Omega.", f)
+	if err != nil {
+		return report.Section{}, err
+	}
+	return report.Section{
+		Heading: "Drive profiles",
+		Text:    "Each arm's lattice ramps up to the cruise speed, cruises for the laps and ramps down as the time mirror of the ramp-up.",
+		Tables:  []report.Table{t.table()},
+		Figures: []report.Figure{fig},
+	}, nil
+}
+
+// dynamicsSection traces the nominal shot of cfg and plots each arm's
+// motion in the frame co-moving with its lattice: the offset and velocity
+// error around the ramp-up and around the ramp-down (the cruise between is
+// one exact step, over which the motion the ramp-up left goes on), and the
+// ground-band population over the whole sequence.
+func dynamicsSection(name string, cfg sim.Config) (report.Section, error) {
+	s, err := sim.NewSimulator(cfg)
+	if err != nil {
+		return report.Section{}, err
+	}
+	var rows []sim.Diagnostics
+	s.Run(sim.Shot{}, func(d sim.Diagnostics) { rows = append(rows, d) })
+	q := cfg.Sequence
+	edge := q.Up.Duration() + sim.EdgePeriods/cfg.Ring.TrapHz(cfg.DepthHz)
+	up := [2]float64{0, edge}
+	down := [2]float64{q.Duration() - edge, q.Duration()}
+	all := [2]float64{0, q.Duration()}
+	type panel struct {
+		id, label, caption string
+		window             [2]float64
+		get                func(sim.Diagnostics) float64
+	}
+	offset := func(d sim.Diagnostics) float64 { return 1e3 * d.OffsetRad }
+	velocity := func(d sim.Diagnostics) float64 { return d.VelocityErrRadS }
+	panels := []panel{
+		{"offset-up", "offset from the lattice minimum (mrad)", "Mean angular offset of each packet from its lattice minimum, over the ramp-up and the first trap periods of the cruise.", up, offset},
+		{"offset-down", "offset from the lattice minimum (mrad)", "The same over the last trap periods of the cruise and the ramp-down: what is left at the end is lost contrast.", down, offset},
+		{"velocity-up", "velocity error (rad/s)", "Each packet's angular velocity <L>/I less its lattice's, over the ramp-up.", up, velocity},
+		{"velocity-down", "velocity error (rad/s)", "The same over the ramp-down.", down, velocity},
+		{"ground", "ground-band population", "Population in the lowest band of the moving lattice over the whole sequence.", all,
+			func(d sim.Diagnostics) float64 { return d.GroundBand }},
+	}
+	sec := report.Section{
+		Heading: "Co-moving dynamics, nominal shot (" + name + ")",
+		Text: "The lowest level of each arm of the noise-free shot, in the frame that moves with its lattice. " +
+			"Over the cruise the motion the ramp-up left oscillates at the trap frequency (the cruise is one exact step); " +
+			"the ramp-down adds its own, and the two interfere.",
+	}
+	for _, pn := range panels {
+		var series []plots.Series
+		for arm, label := range []string{"arm s = +1", "arm s = −1"} {
+			sr := plots.Series{Name: label}
+			for _, d := range rows {
+				if d.Arm == arm && d.TimeS >= pn.window[0] && d.TimeS <= pn.window[1] {
+					sr.X = append(sr.X, d.TimeS*1e3)
+					sr.Y = append(sr.Y, pn.get(d))
+				}
+			}
+			series = append(series, sr)
+		}
+		f, err := plots.Lines(series, plots.LinesOptions{XLabel: "t (ms)", YLabel: pn.label})
+		if err != nil {
+			return report.Section{}, err
+		}
+		fig, err := figure("dynamics-"+pn.id, pn.caption, f)
+		if err != nil {
+			return report.Section{}, err
+		}
+		sec.Figures = append(sec.Figures, fig)
+	}
+	return sec, nil
+}
+
+// ensembleSection shows an ensemble's summary tables and histograms.
+func ensembleSection(heading, idPrefix string, sum mc.Summary, recs []mc.Record, spec mc.Spec, text string) (report.Section, error) {
+	c, b, err := ensembleFigures(sum, recs, spec)
+	if err != nil {
+		return report.Section{}, err
+	}
+	fc, err := figure(idPrefix+"contrast", "Contrast of the realisations.", c)
+	if err != nil {
+		return report.Section{}, err
+	}
+	fb, err := figure(idPrefix+"bias", "Bias of the realisations (interferometer phase less the Sagnac phase).", b)
+	if err != nil {
+		return report.Section{}, err
+	}
+	sec := report.Section{Heading: heading, Text: text, Figures: []report.Figure{fc, fb}}
+	for _, g := range summaryGrids(sum) {
+		sec.Tables = append(sec.Tables, g.table())
+	}
+	return sec, nil
+}
