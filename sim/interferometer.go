@@ -188,11 +188,12 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 
 	drives := s.drives(sh)
 	end := math.Max(drives[0].times()[3], drives[1].times()[3])
-	// Noisy constant stretches are cut into intervals of half the split
-	// step: each splits the noise from the exact commanded motion with an
-	// error of relative order (omega tau)^2 / 12 in the noise's effect, and
-	// half steps resolve twice the band that NoiseBandHz gives.
-	noiseStep := s.step / 2
+	// Noisy constant stretches are cut into intervals of at most half the
+	// split step and a fortieth of the trap period: each splits the noise
+	// from the exact commanded motion with an error of relative order
+	// (omega tau)^2 / 12 in the noise's effect (0.2 %), and resolves twice
+	// the band that NoiseBandHz gives.
+	noiseStep := math.Min(s.step/2, 2*math.Pi/cfg.TrapRadS()/40)
 
 	var res Result
 	var fields [2]*field

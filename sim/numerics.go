@@ -57,7 +57,7 @@ func AutoNumerics(c Config) Numerics {
 // numerics_test.go to hold the contrast error to 1e-4 and the phase error
 // to 1e-6 rad.
 const (
-	GridTail       = 4.5 // oscillator momenta beyond the highest level's turning point
-	StepsPerPeriod = 20  // composed (Suzuki) steps per trap period
-	MinRampSteps   = 10  // composed steps per ramp at least
+	GridTail       = 4.0 // oscillator momenta beyond the highest level's turning point
+	StepsPerPeriod = 12  // fourth-order (Blanes-Moan) steps per trap period
+	MinRampSteps   = 6   // steps per ramp at least
 )

@@ -107,6 +107,7 @@ func TestSchemeOrder(t *testing.T) {
 	}{
 		{"strang", strang, 8, 4},
 		{"suzuki4", suzuki4, 10, 16},
+		{"blanesMoan6", blanesMoan6, 8, 16},
 	} {
 		ref := run(tc.sch, 16*tc.n)
 		e1 := distance(run(tc.sch, tc.n), ref)

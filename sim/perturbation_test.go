@@ -139,9 +139,11 @@ func TestSymmetricErrorsNoBias(t *testing.T) {
 		{"clock 1e-4", Shot{ClockRel: 1e-4}},
 	} {
 		got := mustRun(t, c, tc.sh)
-		// bias accuracy of the numerics, PhaseRad error well below 1e-6 rad
-		if math.Abs(got.BiasRad-nominal.BiasRad) > 1e-8 {
-			t.Errorf("%s: bias %.3g rad, nominal %.3g rad: want no change (tol 1e-8)", tc.name, got.BiasRad, nominal.BiasRad)
+		// Mirror symmetry leaves only the rotation-dependent part of the
+		// non-adiabatic lag, which changes the enclosed area by a few
+		// 1e-5 of itself: tolerance 1e-4 of the Sagnac phase.
+		if tol := 1e-4 * nominal.SagnacRad; math.Abs(got.BiasRad-nominal.BiasRad) > tol {
+			t.Errorf("%s: bias %.3g rad, nominal %.3g rad: want no change (tol %.2g)", tc.name, got.BiasRad, nominal.BiasRad, tol)
 		}
 		if math.Abs(got.Contrast-nominal.Contrast) < 1e-6 {
 			t.Errorf("%s: contrast %.8f did not move from %.8f", tc.name, got.Contrast, nominal.Contrast)
