@@ -77,3 +77,14 @@ func fingerprint(sc *scenario.Scenario) (hash, text string, err error) {
 	sum := sha256.Sum256(b)
 	return hex.EncodeToString(sum[:]), string(b), nil
 }
+
+// withTag extends a scenario's fingerprint and text by a tag: what, beside
+// the scenario, sets a run's records apart from another's.
+func withTag(hash, text string, tag any) (string, string, error) {
+	b, err := json.Marshal(tag)
+	if err != nil {
+		return "", "", err
+	}
+	sum := sha256.Sum256([]byte(hash + "\n" + string(b)))
+	return hex.EncodeToString(sum[:]), text + "\n" + string(b), nil
+}

@@ -112,16 +112,46 @@ func runEnsembleOf(ctx context.Context, e env, stderr io.Writer, sc *scenario.Sc
 	if err != nil {
 		return nil, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
+	return runJob(ctx, e, stderr, sc, ensembleJob{realiser: r, runner: r, records: ens.Samples}, o, dir, label)
+}
+
+// ensembleJob is a run of records to store: records [0, records) of runner
+// (the realiser itself, or a sensitivity design of its shots).
+type ensembleJob struct {
+	realiser *mc.Realiser
+	runner   interface {
+		Run(ctx context.Context, from, to, workers int, emit func(mc.Record) error) (int, error)
+	}
+	records int
+	// tag is what, beside the scenario, sets this run's records apart from
+	// another's (a design, a searched amplitude, a shared noise grid); it is
+	// hashed into the fingerprint. Nil for a plain ensemble of the scenario.
+	tag any
+	// resume is the directory an interruption message tells the user to
+	// resume, if not the run's own (a command that keeps several runs in
+	// one directory resumes them all at once).
+	resume string
+}
+
+// runJob runs (or resumes) a job, storing it in dir if one is given.
+func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir, label string) (*ensembleRun, error) {
+	r := job.realiser
+	ens := r.Ensemble()
 	hash, text, err := fingerprint(sc)
 	if err != nil {
 		return nil, err
+	}
+	if job.tag != nil {
+		if hash, text, err = withTag(hash, text, job.tag); err != nil {
+			return nil, err
+		}
 	}
 	c := r.Config()
 	k := c.Ring.ScaleFactor(c.Sequence.TotalAngle())
 	m := mc.Manifest{
 		Format: mc.ManifestFormat, Fingerprint: hash, Scenario: text,
 		SagnacRad: k * c.RotationRadS, ScaleFactorS: k,
-		Seed: ens.Seed, Samples: ens.Samples, Sampler: ens.Sampler,
+		Seed: ens.Seed, Samples: job.records, Sampler: ens.Sampler,
 		Columns: mc.Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
 	}
 	if o.shard != "" {
@@ -129,8 +159,8 @@ func runEnsembleOf(ctx context.Context, e env, stderr io.Writer, sc *scenario.Sc
 		if err != nil {
 			return nil, fmt.Errorf("--shard: %w", err)
 		}
-		if sh.Count > ens.Samples {
-			return nil, fmt.Errorf("--shard %s: more shards than the %d realisations", o.shard, ens.Samples)
+		if sh.Count > job.records {
+			return nil, fmt.Errorf("--shard %s: more shards than the %d realisations", o.shard, job.records)
 		}
 		m.Shard = &sh
 	}
@@ -163,7 +193,7 @@ func runEnsembleOf(ctx context.Context, e env, stderr io.Writer, sc *scenario.Sc
 		workers = runtime.GOMAXPROCS(0)
 	}
 	t0 := e.now()
-	n, err := r.Run(ctx, start, to, workers, func(rec mc.Record) error {
+	n, err := job.runner.Run(ctx, start, to, workers, func(rec mc.Record) error {
 		if err := emit(rec); err != nil {
 			return err
 		}
@@ -174,7 +204,11 @@ func runEnsembleOf(ctx context.Context, e env, stderr io.Writer, sc *scenario.Sc
 	run.elapsed, run.fresh = e.now().Sub(t0), n
 	if err != nil {
 		if errors.Is(err, context.Canceled) {
-			return run, interruptedError(len(run.records), to-from, dir)
+			hint := dir
+			if job.resume != "" {
+				hint = job.resume
+			}
+			return run, interruptedError(len(run.records), to-from, hint)
 		}
 		return run, err
 	}

@@ -45,6 +45,6 @@ func newRoot(e env) *cobra.Command {
 		// Cobra's suggestions span several lines; errors here are one line.
 		DisableSuggestions: true,
 	}
-	root.AddCommand(newShotCmd(e), newRampCmd(e), newRunCmd(e), newMergeCmd(e), newDemoCmd(e))
+	root.AddCommand(newShotCmd(e), newRampCmd(e), newRunCmd(e), newMergeCmd(e), newRankCmd(e), newQualifyCmd(e), newToleranceCmd(e), newSensitivityCmd(e), newDemoCmd(e))
 	return root
 }

@@ -1,0 +1,269 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"path/filepath"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"rampart/cmd/internal/outfile"
+	"rampart/cmd/internal/spec"
+	"rampart/mc"
+)
+
+type qualifyOptions struct {
+	scenario string
+	sets     []string
+	spec     string
+	ens      ensembleOptions
+	readout  readoutOptions
+	json     bool
+}
+
+// qualificationFile is the verdict in the output directory of qualify.
+const qualificationFile = "qualification.json"
+
+func newQualifyCmd(e env) *cobra.Command {
+	var o qualifyOptions
+	cmd := &cobra.Command{
+		Use:   "qualify --scenario FILE --spec SPEC.toml",
+		Short: "Qualify the scenario's ramp against a spec: pass, fail or undecided",
+		Long: `Run a Monte Carlo ensemble of the scenario under its noise budget (as rampart
+run does) and check it against the criteria of a spec file: mean and
+5th-percentile contrast, 95th percentile of |bias| (in rad or deg/h) and the
+yield of realisations inside a contrast and a bias limit. Each criterion gets
+its measured value, its one-sided confidence bounds at the spec's confidence
+(--confidence overrides it), its margin and a verdict: pass when the bound on
+the bad side clears the limit, fail when the bound on the good side misses it,
+undecided otherwise, with an estimate of how many more realisations would
+decide it. The exit code gates lab automation: 0 pass, 1 fail, 3 undecided,
+2 bad input.
+
+--out DIR keeps the ensemble as rampart run does, with the verdict in
+qualification.json; --resume DIR continues it (with more --samples too).
+--shard k/n runs slice k into DIR and prints how to merge the slices and
+qualify the merged ensemble.`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			return runQualify(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
+		},
+	}
+	addScenarioFlags(cmd, &o.scenario, &o.sets)
+	addEnsembleFlags(cmd, &o.ens, 1000)
+	addReadoutFlags(cmd, &o.readout)
+	f := cmd.Flags()
+	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
+	f.BoolVar(&o.json, "json", false, "print the qualification as one JSON object")
+	cmd.MarkFlagRequired("spec")
+	return cmd
+}
+
+// qualifyReport is what qualify --json prints.
+type qualifyReport struct {
+	mc.Qualification
+	Spec    string     `json:"spec"`
+	Summary mc.Summary `json:"summary"`
+	Gyro    *mc.Gyro   `json:"gyro,omitempty"`
+}
+
+// readRequirements reads a spec file; a --confidence given on the command
+// line (override) replaces the file's.
+func readRequirements(path string, confidence float64, override bool) (mc.Requirements, error) {
+	req, err := spec.Read(path)
+	if err != nil {
+		return mc.Requirements{}, err
+	}
+	if override {
+		req.Confidence = confidence
+		if err := req.Validate(); err != nil {
+			return mc.Requirements{}, fmt.Errorf("--confidence %g for spec %q: %w", confidence, path, err)
+		}
+	}
+	if req.Confidence == 0 {
+		req.Confidence = mc.DefaultConfidence
+	}
+	return req, nil
+}
+
+func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiven bool) error {
+	if err := o.ens.validate(); err != nil {
+		return err
+	}
+	if o.ens.shard != "" && o.ens.dir() == "" {
+		return fmt.Errorf("--shard %s needs --out DIR: the slice is kept there for rampart merge", o.ens.shard)
+	}
+	req, err := readRequirements(o.spec, o.ens.confidence, confidenceGiven)
+	if err != nil {
+		return err
+	}
+	o.ens.confidence = req.Confidence
+	sc, cfg, err := loadScenario(o.scenario, o.sets)
+	if err != nil {
+		return err
+	}
+	budget, err := budgetOf(sc)
+	if err != nil {
+		return err
+	}
+	ro, err := o.readout.of(sc)
+	if err != nil {
+		return err
+	}
+	ctx, stop := signalContext()
+	defer stop()
+	run, err := runEnsemble(ctx, e, stderr, sc, cfg, budget, o.ens, "qualify")
+	if err != nil {
+		return err
+	}
+	if err := checkRecords(run.records); err != nil {
+		return fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
+	sum := summarise(run.manifest, run.records, req.Confidence, req.Yield)
+	dir := o.ens.dir()
+	if o.ens.shard != "" {
+		if err := writeResults(dir, sum, run.records, req.Yield); err != nil {
+			return err
+		}
+		return printShardNote(stdout, o.ens, []string{""}, "qualify the merged ensemble")
+	}
+	q := mc.Qualify(run.records, req, run.manifest.ScaleFactorS, run.manifest.Seed)
+	rep := qualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.gyro(sum)}
+	if dir != "" {
+		if err := writeResults(dir, sum, run.records, req.Yield); err != nil {
+			return err
+		}
+		if err := outfile.Write(filepath.Join(dir, qualificationFile), func(w io.Writer) error { return writeJSON(w, rep) }); err != nil {
+			return err
+		}
+		fmt.Fprintf(stderr, "wrote %d realisations, %s and %s to %s\n", len(run.records), summaryFile, qualificationFile, dir)
+	}
+	if o.json {
+		if err := writeJSON(stdout, rep); err != nil {
+			return err
+		}
+	} else {
+		fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, describe(sc, run.realiser.Config(), run.realiser.Config().Sequence.Up.Name()+" ramp"))
+		fmt.Fprintf(stdout, "Noise budget: %s\n", budgetLine(budget))
+		fmt.Fprintf(stdout, "%s\n", ensembleLine(run, o.ens))
+		fmt.Fprintf(stdout, "Spec: %s\n\n", o.spec)
+		if err := printQualification(stdout, rep); err != nil {
+			return err
+		}
+	}
+	if q.Verdict == mc.Pass {
+		return nil
+	}
+	return &exitError{code: q.ExitCode(), err: fmt.Errorf("%s against spec %q: %s", q.Verdict, o.spec, strings.Join(deciding(q), "; "))}
+}
+
+// checkRecords refuses records whose contrast or bias is not a number (a
+// shot whose arms do not overlap at all has no phase), on which no
+// statistic can be decided.
+func checkRecords(recs []mc.Record) error {
+	for _, r := range recs {
+		if r.Contrast != r.Contrast || r.BiasRad != r.BiasRad {
+			return fmt.Errorf("realisation %d has contrast %g and bias %g rad: no statistic is defined over it; the noise budget is too large for this sequence", r.Index, r.Contrast, r.BiasRad)
+		}
+	}
+	return nil
+}
+
+// deciding lists the criteria behind an overall verdict other than pass:
+// those that fail, or else those undecided with what would decide them.
+func deciding(q mc.Qualification) []string {
+	var out []string
+	for _, c := range q.Criteria {
+		if c.Verdict != q.Verdict {
+			continue
+		}
+		s := c.Name
+		if c.Verdict == mc.Undecided {
+			s += " (" + toDecide(c) + ")"
+		}
+		out = append(out, s)
+	}
+	return out
+}
+
+// toDecide says how many more realisations would decide an undecided
+// criterion.
+func toDecide(c mc.Criterion) string {
+	switch {
+	case c.Verdict != mc.Undecided:
+		return ""
+	case c.OutOfReach:
+		return "out of reach: the value sits on the limit"
+	}
+	return fmt.Sprintf("about %d more realisations", c.Extra)
+}
+
+// criterionLabels name the statistics of the criteria in figures.
+var criterionLabels = map[string]string{
+	mc.CriterionContrastMean: "mean contrast",
+	mc.CriterionContrastP05:  "contrast p05",
+	mc.CriterionBiasRad:      "|bias| p95 (rad)",
+	mc.CriterionBiasDegPerH:  "|bias| p95 (deg/h)",
+	mc.CriterionYield:        "yield",
+}
+
+// criterionFormat formats the values of a criterion in its unit.
+func criterionFormat(c mc.Criterion) func(float64) string {
+	if c.Unit == "" {
+		return func(x float64) string { return fixed(x, 5) }
+	}
+	return func(x float64) string { return sci(x, 3) }
+}
+
+func printQualification(w io.Writer, rep qualifyReport) error {
+	q, s := rep.Qualification, rep.Summary
+	conf := sig(100*q.Confidence, 3) + " %"
+	t := newTable(w, "Criterion", "Limit", "Unit", "Measured", "Lower bound ("+conf+" one-sided)", "Upper bound ("+conf+" one-sided)",
+		"Margin", "Verdict", "To decide", "Measured (deg/h)")
+	for _, c := range q.Criteria {
+		f := criterionFormat(c)
+		limit := "<= " + f(c.Limit)
+		if c.AtLeast {
+			limit = ">= " + f(c.Limit)
+		}
+		degPerH := ""
+		if c.Unit == "rad" {
+			degPerH = sci(mc.BiasDegPerH(c.Value, s.ScaleFactorS), 3)
+		}
+		t.Append(c.Name, limit, c.Unit, f(c.Value), f(c.Lo), f(c.Hi), f(c.Margin), c.Verdict.String(), toDecide(c), degPerH)
+	}
+	if err := t.Render(); err != nil {
+		return err
+	}
+	if y := s.Yield; y != nil {
+		fmt.Fprintf(w, "Yield: %d of %d realisations inside %s.\n", y.Inside, s.Samples, yieldLimits(y.Spec, s.ScaleFactorS))
+	}
+	fmt.Fprintln(w, "A limit \"at least\" passes when the lower bound clears it and fails when the upper bound misses it; \"at most\" the other way round.")
+	fmt.Fprintln(w)
+	if err := printGyro(w, s, rep.Gyro); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
+	switch q.Verdict {
+	case mc.Pass:
+		fmt.Fprintf(w, "Verdict: pass. Every criterion is met with %s confidence over %d realisations.\n", conf, q.Samples)
+	case mc.Fail:
+		fmt.Fprintf(w, "Verdict: fail. Missed with %s confidence: %s.\n", conf, strings.Join(deciding(q), ", "))
+	default:
+		fmt.Fprintf(w, "Verdict: undecided. Not decided at %s confidence over %d realisations: %s.\n", conf, q.Samples, strings.Join(deciding(q), ", "))
+	}
+	return nil
+}
+
+// yieldLimits describes a yield spec, with its bias limit as a rotation rate.
+func yieldLimits(y mc.Spec, scaleFactorS float64) string {
+	var lim []string
+	if y.MinContrast > 0 {
+		lim = append(lim, "contrast >= "+sig(y.MinContrast, 6))
+	}
+	if y.MaxAbsBiasRad > 0 {
+		lim = append(lim, fmt.Sprintf("|bias| <= %s rad (%s deg/h)", sig(y.MaxAbsBiasRad, 6), sig(mc.BiasDegPerH(y.MaxAbsBiasRad, scaleFactorS), 3)))
+	}
+	return strings.Join(lim, " and ")
+}

@@ -1,0 +1,272 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"path/filepath"
+	"slices"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"rampart/cmd/internal/outfile"
+	"rampart/cmd/internal/plots"
+	"rampart/mc"
+	"rampart/sim"
+)
+
+type rankOptions struct {
+	scenario    string
+	sets        []string
+	ramps       []string
+	metric      string
+	minContrast float64
+	maxBiasRad  float64
+	ens         ensembleOptions
+	readout     readoutOptions
+	json        bool
+}
+
+// rankingFile is the ranking in the output directory of rank.
+const rankingFile = "ranking.json"
+
+func newRankCmd(e env) *cobra.Command {
+	var o rankOptions
+	cmd := &cobra.Command{
+		Use:   "rank --scenario FILE --ramp NAME=SPEC... [SCENARIO...]",
+		Short: "Rank ramps by a statistic of their ensembles on common random numbers",
+		Long: `Rank ramps by a statistic of their Monte Carlo ensembles under the scenario's
+noise budget. Every ramp sees the same noise draws (common random numbers: the
+same seed, sampler, sample count and noise grid), so the paired differences
+between ramps are much sharper than their separate intervals.
+
+The ramps are given as --ramp NAME=SPEC on the scenario FILE, with SPEC one of
+` + rampSpecs + ` (a shape keeps the scenario's ramp-up time; a ramp file,
+relative to the current directory, has its own). Scenario files given after
+the flags add their ramps, and then FILE's own ramp takes part too, each named
+after its file; they must agree with FILE in everything but [ramp].
+
+The metric (--metric) is p05, the 5th-percentile contrast (the default),
+mean (mean contrast), yield (the fraction of realisations inside
+--min-contrast and --max-bias-rad) or bias-spread (the 95th percentile of
+|bias|, lower is better). The table lists the ramps best first with the
+metric and its interval, the paired difference to the best with its interval,
+whether each place is resolved (the paired intervals to its neighbours exclude
+zero), and for context each ramp's mean contrast and |bias| p95.
+
+--out DIR keeps each ramp's ensemble in DIR/NAME (a run directory, as rampart
+run writes) with the ranking and its figure; --resume DIR reuses the complete
+runs and continues the others. --shard k/n runs slice k of every ramp into
+DIR/NAME and prints how to merge the slices and rank the merged set.`,
+		Args: cobra.ArbitraryArgs,
+		RunE: func(cmd *cobra.Command, files []string) error {
+			return runRank(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, files)
+		},
+	}
+	addScenarioFlags(cmd, &o.scenario, &o.sets)
+	addEnsembleFlags(cmd, &o.ens, 1000)
+	addReadoutFlags(cmd, &o.readout)
+	f := cmd.Flags()
+	f.StringArrayVar(&o.ramps, "ramp", nil, "a ramp to rank, `NAME=SPEC` with SPEC "+rampSpecs+"; repeatable")
+	f.StringVar(&o.metric, "metric", mc.MetricP05, "ranking `metric`: "+strings.Join(mc.Metrics, ", "))
+	f.Float64Var(&o.minContrast, "min-contrast", 0, "yield spec: a realisation is inside when its contrast is at least `X`")
+	f.Float64Var(&o.maxBiasRad, "max-bias-rad", 0, "yield spec: a realisation is inside when its |bias| is at most `Y` rad")
+	f.BoolVar(&o.json, "json", false, "print the ranking as one JSON object")
+	return cmd
+}
+
+// rankReport is what rank --json prints: the ranking and, for context,
+// each ramp's ensemble.
+type rankReport struct {
+	mc.Ranking
+	Ramps []rampReport `json:"ramps"`
+}
+
+// rampReport is one ramp's ensemble in a ranking.
+type rampReport struct {
+	Name              string     `json:"name"`
+	Spec              string     `json:"spec"`
+	RampUpS           float64    `json:"ramp_up_s"`
+	Dir               string     `json:"dir,omitempty"`
+	ContrastMean      float64    `json:"contrast_mean"`
+	AbsBiasP95Rad     float64    `json:"abs_bias_p95_rad"`
+	AbsBiasP95DegPerH float64    `json:"abs_bias_p95_deg_per_h"`
+	Summary           mc.Summary `json:"summary"`
+	Gyro              *mc.Gyro   `json:"gyro,omitempty"`
+}
+
+func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) error {
+	if err := o.ens.validate(); err != nil {
+		return err
+	}
+	spec, err := (&runOptions{minContrast: o.minContrast, maxBiasRad: o.maxBiasRad}).spec()
+	if err != nil {
+		return err
+	}
+	switch {
+	case !slices.Contains(mc.Metrics, o.metric):
+		return fmt.Errorf("--metric %q: want one of %s", o.metric, strings.Join(mc.Metrics, ", "))
+	case o.metric == mc.MetricYield && !spec.Active():
+		return fmt.Errorf("--metric yield needs the spec of a good realisation: give --min-contrast X, --max-bias-rad Y or both")
+	case o.ens.shard != "" && o.ens.dir() == "":
+		return fmt.Errorf("--shard %s needs --out DIR: each ramp's slice is kept in DIR/NAME for rampart merge", o.ens.shard)
+	}
+	sc, cfg, err := loadScenario(o.scenario, o.sets)
+	if err != nil {
+		return err
+	}
+	budget, err := budgetOf(sc)
+	if err != nil {
+		return err
+	}
+	ro, err := o.readout.of(sc)
+	if err != nil {
+		return err
+	}
+	cs, err := contestants(sc, cfg, o.ramps, files, o.sets)
+	if err != nil {
+		return err
+	}
+	cfgs := make([]sim.Config, len(cs))
+	for i, c := range cs {
+		cfgs[i] = c.cfg
+	}
+	grid, err := sharedGrid(cfgs, budget)
+	if err != nil {
+		return err
+	}
+	ctx, stop := signalContext()
+	defer stop()
+	names := make([]string, len(cs))
+	recs := make([][]mc.Record, len(cs))
+	rep := rankReport{Ramps: make([]rampReport, len(cs))}
+	var work ensembleWork
+	for i, c := range cs {
+		ens := mc.Ensemble{Config: c.cfg, Budget: budget, Samples: o.ens.samples, Seed: o.ens.seed, Sampler: o.ens.sampler}
+		tag := grid.apply(&ens)
+		run, dir, err := runPart(ctx, e, stderr, c.sc, ens, tag, o.ens, c.name, "rank "+c.name)
+		if err != nil {
+			return err
+		}
+		work.add(run)
+		sum := summarise(run.manifest, run.records, o.ens.confidence, spec)
+		if dir != "" {
+			if err := writeResults(dir, sum, run.records, spec); err != nil {
+				return err
+			}
+		}
+		names[i], recs[i] = c.name, run.records
+		rep.Ramps[i] = rampReport{
+			Name: c.name, Spec: c.spec, RampUpS: c.cfg.Sequence.Up.Duration(), Dir: dir,
+			ContrastMean: sum.Contrast.Mean, AbsBiasP95Rad: sum.AbsBiasRad.P95, AbsBiasP95DegPerH: absBiasP95DegPerH(sum),
+			Summary: sum, Gyro: ro.gyro(sum),
+		}
+	}
+	if o.ens.shard != "" {
+		return printShardNote(stdout, o.ens, names, "rank the merged set")
+	}
+	rep.Ranking, err = mc.Rank(names, recs, o.metric, spec, o.ens.confidence, o.ens.seed)
+	if err != nil {
+		return err
+	}
+	if dir := o.ens.dir(); dir != "" {
+		if err := writeRanking(dir, rep); err != nil {
+			return err
+		}
+		fmt.Fprintf(stderr, "wrote each ramp's run, %s and the ranking figure to %s\n", rankingFile, dir)
+	}
+	if o.json {
+		return writeJSON(stdout, rep)
+	}
+	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, describe(sc, cfg, fmt.Sprintf("%d ramps", len(cs))))
+	var ramps []string
+	for _, r := range rep.Ramps {
+		ramps = append(ramps, fmt.Sprintf("%s = %s (%s us)", r.Name, strings.TrimPrefix(r.Spec, "--ramp "+r.Name+"="), sig(r.RampUpS*1e6, 6)))
+	}
+	fmt.Fprintf(stdout, "Ramps: %s\n", strings.Join(ramps, ", "))
+	fmt.Fprintf(stdout, "Noise budget: %s\n", budgetLine(budget))
+	fmt.Fprintf(stdout, "%s\n\n", work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(cs), o.ens.samples), o.ens))
+	return printRanking(stdout, rep)
+}
+
+// metricLabels name the ranking metrics in tables and figures.
+var metricLabels = map[string]string{
+	mc.MetricP05:        "Contrast p05",
+	mc.MetricMean:       "Mean contrast",
+	mc.MetricYield:      "Yield",
+	mc.MetricBiasSpread: "|bias| p95 (rad)",
+}
+
+// metricFormat formats a value of a ranking metric.
+func metricFormat(metric string) func(float64) string {
+	switch metric {
+	case mc.MetricYield:
+		return func(x float64) string { return fixed(x, 4) }
+	case mc.MetricBiasSpread:
+		return func(x float64) string { return sci(x, 3) }
+	}
+	return func(x float64) string { return fixed(x, 5) }
+}
+
+func printRanking(w io.Writer, rep rankReport) error {
+	r := rep.Ranking
+	conf := fmt.Sprintf("%s %% interval", sig(100*r.Confidence, 3))
+	f := metricFormat(r.Metric)
+	byName := map[string]rampReport{}
+	withGyro := false
+	for _, rr := range rep.Ramps {
+		byName[rr.Name] = rr
+		withGyro = withGyro || rr.Gyro != nil
+	}
+	header := []string{"Place and ramp", metricLabels[r.Metric], conf, "Diff to best", conf, "Resolved", "Mean contrast", "|bias| p95 (rad)", "|bias| p95 (deg/h)"}
+	if withGyro {
+		header = append(header, "ARW (deg/sqrt(h))")
+	}
+	t := newTable(w, header...)
+	for _, p := range r.Ranking {
+		rr := byName[p.Name]
+		row := []string{fmt.Sprintf("%d. %s", p.Place, p.Name), f(p.Value), interval(p.Lo, p.Hi, f),
+			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), yesNo(p.Resolved),
+			fixed(rr.ContrastMean, 5), sci(rr.AbsBiasP95Rad, 3), sci(rr.AbsBiasP95DegPerH, 3)}
+		if withGyro {
+			arw := ""
+			if rr.Gyro != nil {
+				arw = sci(rr.Gyro.AngleRandomWalkDegPerSqrtH, 3)
+			}
+			row = append(row, arw)
+		}
+		t.Append(row)
+	}
+	if err := t.Render(); err != nil {
+		return err
+	}
+	better := "higher"
+	if !r.HigherBetter {
+		better = "lower"
+	}
+	fmt.Fprintf(w, "\nBest first by %s (%s is better), over %d realisations per ramp. Intervals are %s %% two-sided: bootstrap percentile, Clopper-Pearson for a yield; the differences are paired over the same noise draws. A place is resolved when the paired intervals of its differences to the places above and below exclude zero.\n",
+		metricLabels[r.Metric], better, r.Samples, sig(100*r.Confidence, 3))
+	if g := rep.Ramps[0].Gyro; g != nil {
+		fmt.Fprintf(w, "ARW: the angle random walk at each ramp's mean contrast, %s atoms per shot, one shot per %s s.\n", sig(g.Atoms, 6), sig(g.CycleS, 6))
+	}
+	return nil
+}
+
+// writeRanking writes the ranking and its figure to dir.
+func writeRanking(dir string, rep rankReport) error {
+	if err := outfile.Write(filepath.Join(dir, rankingFile), func(w io.Writer) error { return writeJSON(w, rep) }); err != nil {
+		return err
+	}
+	items := make([]plots.Estimate, len(rep.Ranking.Ranking))
+	for i, p := range rep.Ranking.Ranking {
+		items[i] = plots.Estimate{Name: p.Name, Value: p.Value, Lo: p.Lo, Hi: p.Hi}
+	}
+	fig, err := plots.Ranking(items, plots.RankingOptions{
+		Title:      fmt.Sprintf("Ramps ranked by %s, %d realisations each", strings.ToLower(metricLabels[rep.Metric]), rep.Samples),
+		ValueLabel: metricLabels[rep.Metric],
+	})
+	if err != nil {
+		return err
+	}
+	return fig.WriteFiles(filepath.Join(dir, "ranking"))
+}

@@ -1,0 +1,213 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"rampart/mc"
+	"rampart/sim"
+)
+
+type toleranceOptions struct {
+	scenario  string
+	sets      []string
+	spec      string
+	sources   string
+	joint     bool
+	precision float64
+	ens       ensembleOptions
+	json      bool
+}
+
+func newToleranceCmd(e env) *cobra.Command {
+	var o toleranceOptions
+	cmd := &cobra.Command{
+		Use:   "tolerance --scenario FILE --spec SPEC.toml",
+		Short: "Find how large each noise source may grow before the spec fails",
+		Long: `For each noise source, find the largest amplitude at which an ensemble of the
+scenario still meets the spec (as rampart qualify decides it: an undecided
+amplitude counts as failing), with every other source at its value in the
+scenario's budget. The search brackets by factors of 4 from the budget's
+amplitude, then bisects in log amplitude to the relative --precision; every
+amplitude runs the same realisations (common random numbers), so the metric
+moves smoothly with it.
+
+The sources searched are those the budget switches on, or those listed by
+--sources (names as in the table, comma-separated, or all); a source the
+budget switches off starts from a reference amplitude typical of a good
+apparatus. --joint adds the factor by which the whole budget may be scaled.
+
+The table gives each source's unit, its value in the budget, the tolerance,
+how the search ended (found; above-range: the spec holds up to the largest
+amplitude searched, a lower bound; below-range; fails-without-source), the
+binding criterion and its value at the tolerance with its one-sided bounds.
+--out DIR writes the tolerance curves (tolerance-curves.csv and a figure per
+source) and keeps each ensemble in DIR/SOURCE/AMPLITUDE; --resume DIR reuses
+them. --shard is refused: each step of the search needs the whole ensemble of
+the step before.`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			return runTolerance(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
+		},
+	}
+	addScenarioFlags(cmd, &o.scenario, &o.sets)
+	addEnsembleFlags(cmd, &o.ens, 200)
+	f := cmd.Flags()
+	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
+	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.Sources, ", ")+", or all (default: those the budget switches on)")
+	f.BoolVar(&o.joint, "joint", false, "also search the factor by which the whole budget may be scaled")
+	f.Float64Var(&o.precision, "precision", 0.05, "relative precision `P` of each tolerance, in [0.001, 1]")
+	f.BoolVar(&o.json, "json", false, "print the tolerances and their curves as one JSON object")
+	cmd.MarkFlagRequired("spec")
+	return cmd
+}
+
+// toleranceReport is what tolerance --json prints.
+type toleranceReport struct {
+	Spec         string               `json:"spec"`
+	Requirements mc.Requirements      `json:"requirements"`
+	Samples      int                  `json:"samples"`
+	Seed         uint64               `json:"seed"`
+	Sampler      string               `json:"sampler"`
+	ScaleFactorS float64              `json:"scale_factor_s"`
+	Results      []mc.ToleranceResult `json:"results"`
+}
+
+// toleranceTag sets an ensemble of a tolerance search apart from the others
+// of the same scenario (see ensembleJob).
+type toleranceTag struct {
+	Source    string `json:"tolerance_source"`
+	Amplitude string `json:"amplitude"`
+	Grid      any    `json:"grid,omitempty"`
+}
+
+func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenceGiven bool) error {
+	if err := o.ens.validate(); err != nil {
+		return err
+	}
+	switch {
+	case o.ens.shard != "":
+		return fmt.Errorf("--shard %s: a tolerance search cannot be sharded, as each step needs the whole ensemble of the step before; run it on one machine with more --workers", o.ens.shard)
+	case !(o.precision >= 0.001 && o.precision <= 1):
+		return fmt.Errorf("--precision %g: want a relative precision in [0.001, 1], such as 0.05", o.precision)
+	}
+	req, err := readRequirements(o.spec, o.ens.confidence, confidenceGiven)
+	if err != nil {
+		return err
+	}
+	sc, cfg, err := loadScenario(o.scenario, o.sets)
+	if err != nil {
+		return err
+	}
+	budget, err := budgetOf(sc)
+	if err != nil {
+		return err
+	}
+	names, err := toleranceSources(budget, o.sources)
+	if err != nil {
+		return fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
+	if o.joint {
+		if active, _ := toleranceSources(budget, ""); len(active) == 0 {
+			return fmt.Errorf("--joint: the budget of scenario %q has no active noise source to scale", sc.Name)
+		}
+		names = append(names, mc.SourceBudget)
+	}
+	search := mc.ToleranceSearch{
+		Budget: budget, Requirements: req, Seed: o.ens.seed,
+		ScaleFactorS: cfg.Ring.ScaleFactor(cfg.Sequence.TotalAngle()),
+		Options:      mc.ToleranceOptions{Precision: o.precision},
+	}
+	grid, err := sharedGrid([]sim.Config{cfg}, search.Widest())
+	if err != nil {
+		return fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
+	ctx, stop := signalContext()
+	defer stop()
+	var work ensembleWork
+	evaluator := func(name string) mc.Evaluator {
+		return func(ctx context.Context, b mc.Budget) ([]mc.Record, error) {
+			key := amplitudeKey(name, budget, b)
+			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.ens.samples, Seed: o.ens.seed, Sampler: o.ens.sampler}
+			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.apply(&ens)}
+			run, _, err := runPart(ctx, e, stderr, sc, ens, tag, o.ens, filepath.Join(name, key), "tolerance "+name+" "+key)
+			if err != nil {
+				return nil, err
+			}
+			work.add(run)
+			return run.records, checkRecords(run.records)
+		}
+	}
+	rep := toleranceReport{Spec: o.spec, Requirements: req, Samples: o.ens.samples, Seed: o.ens.seed, Sampler: o.ens.sampler, ScaleFactorS: search.ScaleFactorS}
+	for _, name := range names {
+		res, err := search.Source(ctx, evaluator(name), name)
+		if err != nil {
+			return err
+		}
+		rep.Results = append(rep.Results, res)
+	}
+	if dir := o.ens.dir(); dir != "" {
+		if err := writeToleranceCurves(dir, rep); err != nil {
+			return err
+		}
+		fmt.Fprintf(stderr, "wrote %s, a figure per source and every ensemble of the search to %s\n", toleranceCurvesFile, dir)
+	}
+	if o.json {
+		return writeJSON(stdout, rep)
+	}
+	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, describe(sc, cfg, cfg.Sequence.Up.Name()+" ramp"))
+	fmt.Fprintf(stdout, "Noise budget: %s\n", budgetLine(budget))
+	fmt.Fprintf(stdout, "%s\n", work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens))
+	fmt.Fprintf(stdout, "Spec: %s, at %s %% confidence\n\n", o.spec, sig(100*req.Confidence, 3))
+	return printTolerances(stdout, rep)
+}
+
+// toleranceSources returns the sources to search: those listed
+// (comma-separated, or "all"), or the sources b switches on.
+func toleranceSources(b mc.Budget, list string) ([]string, error) {
+	if list == "all" {
+		return mc.Sources, nil
+	}
+	if list != "" {
+		var out []string
+		for _, name := range strings.Split(list, ",") {
+			name = strings.TrimSpace(name)
+			if _, ok := sourceAmplitudes[name]; !ok {
+				hint := ""
+				if name == mc.SourceBudget {
+					hint = " (--joint searches the whole budget)"
+				}
+				return nil, fmt.Errorf("--sources: unknown noise source %q%s: want %s, or all", name, hint, strings.Join(mc.Sources, ", "))
+			}
+			out = append(out, name)
+		}
+		return out, nil
+	}
+	var out []string
+	for _, name := range mc.Sources {
+		if _, on := sourceAmplitudes[name](b, b); on {
+			out = append(out, name)
+		}
+	}
+	if len(out) == 0 {
+		return nil, fmt.Errorf("the noise budget has no active source: give --sources to search some from their reference amplitudes")
+	}
+	return out, nil
+}
+
+// amplitudeKey names the ensemble of a search of source name at budget b
+// (the budget's nominal value of every other source): the source's
+// amplitude in the unit of the tolerance table to six digits, or "off".
+func amplitudeKey(name string, nominal, b mc.Budget) string {
+	a, on := sourceAmplitude(name, nominal, b)
+	if !on {
+		return "off"
+	}
+	return strconv.FormatFloat(a, 'g', 6, 64)
+}

@@ -1,0 +1,136 @@
+package main
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"path/filepath"
+	"strings"
+
+	"rampart/cmd/internal/outfile"
+	"rampart/cmd/internal/plots"
+	"rampart/mc"
+)
+
+// toleranceCurvesFile holds the tolerance curves in the output directory.
+const toleranceCurvesFile = "tolerance-curves.csv"
+
+// toleranceNotes explain the statuses of a tolerance search.
+var toleranceNotes = map[mc.ToleranceStatus]string{
+	mc.ToleranceAboveRange: "above-range: the spec holds up to the largest amplitude searched, so the tolerance shown is a lower bound.",
+	mc.ToleranceBelowRange: "below-range: the spec holds with the source off but fails at the smallest amplitude searched (1/1000 of the start).",
+	mc.ToleranceNone:       "fails-without-source: the spec fails even with the source off; the other sources or the sequence itself break it.",
+}
+
+// binding returns the binding criterion of a tolerance result at a point.
+func binding(res mc.ToleranceResult, p mc.TolerancePoint) (mc.Criterion, bool) {
+	for _, c := range p.Criteria {
+		if c.Name == res.Metric {
+			return c, true
+		}
+	}
+	return mc.Criterion{}, false
+}
+
+func printTolerances(w io.Writer, rep toleranceReport) error {
+	conf := sig(100*rep.Requirements.Confidence, 3) + " %"
+	t := newTable(w, "Source", "Unit", "Nominal", "Tolerance", "Status", "Binding criterion", "At the tolerance", "Bounds ("+conf+" one-sided)", "At the tolerance (deg/h)", "Curve points")
+	notes := map[mc.ToleranceStatus]bool{}
+	monotone := true
+	for _, res := range rep.Results {
+		nominal := "off"
+		if res.Nominal != nil {
+			nominal = sig(*res.Nominal, 4)
+		}
+		tol, value, bounds, degPerH := "-", "", "", ""
+		if a, ok := res.Tolerance(); ok {
+			tol = sig(a, 3)
+			if res.Status == mc.ToleranceAboveRange {
+				tol = ">= " + tol
+			}
+			if c, ok := binding(res, *res.At); ok {
+				f := criterionFormat(c)
+				value, bounds = f(c.Value), interval(c.Lo, c.Hi, f)
+				if c.Unit == "rad" {
+					degPerH = sci(mc.BiasDegPerH(c.Value, rep.ScaleFactorS), 3)
+				}
+			}
+		}
+		metric := res.Metric
+		if !res.Monotone {
+			metric += " *"
+			monotone = false
+		}
+		notes[res.Status] = true
+		t.Append(res.Source, res.Unit, nominal, tol, string(res.Status), metric, value, bounds, degPerH, fmt.Sprint(len(res.Points)))
+	}
+	if err := t.Render(); err != nil {
+		return err
+	}
+	fmt.Fprintln(w, "\nEach tolerance holds with every other source at its value in the budget; budget is the factor by which the whole budget may be scaled.")
+	fmt.Fprintf(w, "The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.\n", sig(rep.Results[0].Precision, 3))
+	for _, s := range []mc.ToleranceStatus{mc.ToleranceAboveRange, mc.ToleranceBelowRange, mc.ToleranceNone} {
+		if notes[s] {
+			fmt.Fprintln(w, toleranceNotes[s])
+		}
+	}
+	if !monotone {
+		fmt.Fprintln(w, "* The criterion's value was not monotone in the amplitude over the ensembles tried (sampling noise); the curves carry its monotone envelope.")
+	}
+	return nil
+}
+
+// writeToleranceCurves writes the curves of every search as CSV, and a
+// figure of each, to dir.
+func writeToleranceCurves(dir string, rep toleranceReport) error {
+	if err := outfile.Write(filepath.Join(dir, toleranceCurvesFile), func(w io.Writer) error {
+		bw := bufio.NewWriter(w)
+		fmt.Fprintln(bw, "source,unit,amplitude,metric,limit,value,lo,hi,envelope_value,envelope_lo,envelope_hi,holds")
+		for _, res := range rep.Results {
+			for _, p := range res.Points {
+				c, _ := binding(res, p)
+				fmt.Fprintf(bw, "%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%t\n", res.Source, res.Unit, sig(p.Amplitude, -1), res.Metric, sig(c.Limit, -1),
+					sig(p.Value, -1), sig(p.Lo, -1), sig(p.Hi, -1), sig(p.Envelope.Value, -1), sig(p.Envelope.Lo, -1), sig(p.Envelope.Hi, -1), p.Holds)
+			}
+		}
+		return bw.Flush()
+	}); err != nil {
+		return err
+	}
+	for _, res := range rep.Results {
+		if len(res.Points) < 2 {
+			continue
+		}
+		fig, err := toleranceFigure(res, rep.Requirements.Confidence)
+		if err != nil {
+			return fmt.Errorf("figure of the tolerance of %s: %w", res.Source, err)
+		}
+		if err := fig.WriteFiles(filepath.Join(dir, "tolerance-"+res.Source)); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// toleranceFigure plots the binding criterion of one search against the
+// amplitude, with its one-sided bounds, the limit and the tolerance.
+func toleranceFigure(res mc.ToleranceResult, confidence float64) (*plots.Figure, error) {
+	var x, y, lo, hi []float64
+	for _, p := range res.Points {
+		x, y = append(x, p.Amplitude), append(y, p.Value)
+		lo, hi = append(lo, p.Lo), append(hi, p.Hi)
+	}
+	c, _ := binding(res, res.Points[0])
+	opts := plots.LinesOptions{
+		Title:  fmt.Sprintf("Tolerance of %s: %s", res.Source, res.Status),
+		XLabel: fmt.Sprintf("%s (%s)", res.Source, res.Unit),
+		YLabel: criterionLabels[res.Metric],
+		LogX:   !strings.HasPrefix(res.Unit, "dB"),
+		Bands:  []plots.Band{{Name: fmt.Sprintf("%s %% one-sided bounds", sig(100*confidence, 3)), X: x, Lo: lo, Hi: hi}},
+		HLines: []plots.Marker{{Label: "spec limit " + sig(c.Limit, 4), Value: c.Limit}},
+	}
+	if a, ok := res.Tolerance(); ok {
+		opts.VLines = []plots.Marker{{Label: "tolerance " + sig(a, 3) + " " + res.Unit, Value: a}}
+	}
+	return plots.Lines([]plots.Series{{Name: criterionLabels[res.Metric], X: x, Y: y}}, opts)
+}
