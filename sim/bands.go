@@ -32,21 +32,33 @@ func blockHamiltonian(b Basis, c int, rot, w, v0 float64, d, e []float64) {
 
 // diagonalise returns the eigensystem of every block of H'(w) at depth v0.
 func diagonalise(b Basis, rot, w, v0 float64) eigensystem {
-	k := b.Block
 	es := eigensystem{vals: make([][]float64, b.Sites), vecs: make([][]float64, b.Sites)}
-	e := make([]float64, k)
-	work := make([]float64, 2*k)
-	var impl gonum.Implementation
 	for c := range b.Sites {
-		d := make([]float64, k)
-		z := make([]float64, k*k)
-		blockHamiltonian(b, c, rot, w, v0, d, e)
-		if !impl.Dsteqr(lapack.EVTridiag, k, d, e, z, k, work) {
-			panic("sim: tridiagonal eigensolver did not converge")
-		}
-		es.vals[c], es.vecs[c] = d, z
+		blk := diagonaliseBlock(b, c, rot, w, v0)
+		es.vals[c], es.vecs[c] = blk.vals, blk.vecs
 	}
 	return es
+}
+
+// block is the eigensystem of one class block.
+type block struct {
+	vals, vecs []float64
+}
+
+// diagonaliseBlock returns the eigensystem of the class-c block of H'(w)
+// by the implicit QL method (LAPACK dsteqr).
+func diagonaliseBlock(b Basis, c int, rot, w, v0 float64) block {
+	k := b.Block
+	d := make([]float64, k)
+	e := make([]float64, k)
+	z := make([]float64, k*k)
+	work := make([]float64, 2*k)
+	blockHamiltonian(b, c, rot, w, v0, d, e)
+	var impl gonum.Implementation
+	if !impl.Dsteqr(lapack.EVTridiag, k, d, e, z, k, work) {
+		panic("sim: tridiagonal eigensolver did not converge")
+	}
+	return block{vals: d, vecs: z}
 }
 
 // BandsHz returns the band energies E/h in Hz, ascending, of class c (the

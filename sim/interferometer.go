@@ -179,7 +179,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	v0 := 2 * math.Pi * cfg.DepthHz
 	rot := cfg.Ring.rotationalRate()
 	gStart := 1 + (sh.DepthRel[0]+sh.DepthRel[1])/2
-	es0 := diagonalise(b, rot, cfg.RotationRadS, gStart*v0)
+	es0 := lowestBands(b, rot, cfg.RotationRadS, gStart*v0, s.lev)
 	means := bandMeans(es0)
 	temp := math.Max(0, cfg.TemperatureK+sh.TemperatureOffsetK)
 	lev := min(s.lev, thermalLevels(means, temp))
@@ -195,19 +195,20 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	// the band that NoiseBandHz gives.
 	noiseStep := math.Min(s.step/2, 2*math.Pi/cfg.TrapRadS()/40)
 
+	starts := make([]State, lev)
+	for n := range starts {
+		starts[n] = wannier(b, cfg.Ring, es0, n, trap)
+	}
 	var res Result
 	var fields [2]*field
 	for a, d := range drives {
 		f := newField(b, lev)
-		for n := range lev {
-			f.set(n, wannier(b, cfg.Ring, es0, n, trap))
+		for n, st := range starts {
+			f.set(n, st)
 		}
 		p := newPropagator(b, cfg.Ring, v0, lev)
 		tm := d.times()
-		var rest *eigensystem
-		if d.DepthRel == gStart-1 {
-			rest = &es0
-		}
+		var rest *eigensystem // of the lattice at rest, diagonalised if a rest stretch needs it
 		stretch := func(w, t0, t1 float64, es *eigensystem) *eigensystem {
 			switch {
 			case s.splitOnly:
