@@ -35,6 +35,18 @@ func (o ensembleOptions) within(dir string) ensembleOptions {
 	return o
 }
 
+// checkResumeDir refuses --resume DIR of a command that keeps several runs
+// in DIR when there is no DIR: nothing was started there.
+func (o ensembleOptions) checkResumeDir() error {
+	if o.resume == "" {
+		return nil
+	}
+	if fi, err := os.Stat(o.resume); err != nil || !fi.IsDir() {
+		return fmt.Errorf("--resume %s: no such directory, so nothing to resume; give --out %s to start", o.resume, o.resume)
+	}
+	return nil
+}
+
 // hasRun reports whether dir holds a run (its manifest).
 func hasRun(dir string) bool {
 	_, err := os.Stat(filepath.Join(dir, mc.ManifestFile))

@@ -14,12 +14,9 @@ import (
 )
 
 type qualifyOptions struct {
-	scenario string
-	sets     []string
-	spec     string
-	ens      ensembleOptions
-	readout  readoutOptions
-	json     bool
+	decisionOptions
+	spec    string
+	readout readoutOptions
 }
 
 // qualificationFile is the verdict in the output directory of qualify.
@@ -42,7 +39,7 @@ decide it. The exit code gates lab automation: 0 pass, 1 fail, 3 undecided,
 2 bad input.
 
 --out DIR keeps the ensemble as rampart run does, with the verdict in
-qualification.json; --resume DIR continues it (with more --samples too).
+qualification.json; --resume DIR continues it.
 --shard k/n runs slice k into DIR and prints how to merge the slices and
 qualify the merged ensemble.`,
 		Args: cobra.NoArgs,
@@ -50,12 +47,10 @@ qualify the merged ensemble.`,
 			return runQualify(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
 		},
 	}
-	addScenarioFlags(cmd, &o.scenario, &o.sets)
-	addEnsembleFlags(cmd, &o.ens, 1000)
+	o.add(cmd, 1000, "the qualification")
 	addReadoutFlags(cmd, &o.readout)
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
-	f.BoolVar(&o.json, "json", false, "print the qualification as one JSON object")
 	cmd.MarkFlagRequired("spec")
 	return cmd
 }
@@ -88,22 +83,15 @@ func readRequirements(path string, confidence float64, override bool) (mc.Requir
 }
 
 func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiven bool) error {
-	if err := o.ens.validate(); err != nil {
+	if err := o.validate(); err != nil {
 		return err
-	}
-	if o.ens.shard != "" && o.ens.dir() == "" {
-		return fmt.Errorf("--shard %s needs --out DIR: the slice is kept there for rampart merge", o.ens.shard)
 	}
 	req, err := readRequirements(o.spec, o.ens.confidence, confidenceGiven)
 	if err != nil {
 		return err
 	}
 	o.ens.confidence = req.Confidence
-	sc, cfg, err := loadScenario(o.scenario, o.sets)
-	if err != nil {
-		return err
-	}
-	budget, err := budgetOf(sc)
+	sc, cfg, budget, err := o.load()
 	if err != nil {
 		return err
 	}
@@ -144,8 +132,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 			return err
 		}
 	} else {
-		fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, describe(sc, run.realiser.Config(), run.realiser.Config().Sequence.Up.Name()+" ramp"))
-		fmt.Fprintf(stdout, "Noise budget: %s\n", budgetLine(budget))
+		printHeader(stdout, sc, run.realiser.Config(), run.realiser.Config().Sequence.Up.Name()+" ramp", budget)
 		fmt.Fprintf(stdout, "%s\n", ensembleLine(run, o.ens))
 		fmt.Fprintf(stdout, "Spec: %s\n\n", o.spec)
 		if err := printQualification(stdout, rep); err != nil {

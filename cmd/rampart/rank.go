@@ -16,15 +16,12 @@ import (
 )
 
 type rankOptions struct {
-	scenario    string
-	sets        []string
+	decisionOptions
 	ramps       []string
 	metric      string
 	minContrast float64
 	maxBiasRad  float64
-	ens         ensembleOptions
 	readout     readoutOptions
-	json        bool
 }
 
 // rankingFile is the ranking in the output directory of rank.
@@ -63,15 +60,13 @@ DIR/NAME and prints how to merge the slices and rank the merged set.`,
 			return runRank(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, files)
 		},
 	}
-	addScenarioFlags(cmd, &o.scenario, &o.sets)
-	addEnsembleFlags(cmd, &o.ens, 1000)
+	o.add(cmd, 1000, "the ranking")
 	addReadoutFlags(cmd, &o.readout)
 	f := cmd.Flags()
 	f.StringArrayVar(&o.ramps, "ramp", nil, "a ramp to rank, `NAME=SPEC` with SPEC "+rampSpecs+"; repeatable")
 	f.StringVar(&o.metric, "metric", mc.MetricP05, "ranking `metric`: "+strings.Join(mc.Metrics, ", "))
 	f.Float64Var(&o.minContrast, "min-contrast", 0, "yield spec: a realisation is inside when its contrast is at least `X`")
 	f.Float64Var(&o.maxBiasRad, "max-bias-rad", 0, "yield spec: a realisation is inside when its |bias| is at most `Y` rad")
-	f.BoolVar(&o.json, "json", false, "print the ranking as one JSON object")
 	return cmd
 }
 
@@ -96,7 +91,10 @@ type rampReport struct {
 }
 
 func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) error {
-	if err := o.ens.validate(); err != nil {
+	if err := o.validate(); err != nil {
+		return err
+	}
+	if err := o.ens.checkResumeDir(); err != nil {
 		return err
 	}
 	spec, err := (&runOptions{minContrast: o.minContrast, maxBiasRad: o.maxBiasRad}).spec()
@@ -108,14 +106,8 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 		return fmt.Errorf("--metric %q: want one of %s", o.metric, strings.Join(mc.Metrics, ", "))
 	case o.metric == mc.MetricYield && !spec.Active():
 		return fmt.Errorf("--metric yield needs the spec of a good realisation: give --min-contrast X, --max-bias-rad Y or both")
-	case o.ens.shard != "" && o.ens.dir() == "":
-		return fmt.Errorf("--shard %s needs --out DIR: each ramp's slice is kept in DIR/NAME for rampart merge", o.ens.shard)
 	}
-	sc, cfg, err := loadScenario(o.scenario, o.sets)
-	if err != nil {
-		return err
-	}
-	budget, err := budgetOf(sc)
+	sc, cfg, budget, err := o.load()
 	if err != nil {
 		return err
 	}
@@ -178,13 +170,12 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 	if o.json {
 		return writeJSON(stdout, rep)
 	}
-	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, describe(sc, cfg, fmt.Sprintf("%d ramps", len(cs))))
+	printHeader(stdout, sc, cfg, fmt.Sprintf("%d ramps", len(cs)), budget)
 	var ramps []string
 	for _, r := range rep.Ramps {
 		ramps = append(ramps, fmt.Sprintf("%s = %s (%s us)", r.Name, strings.TrimPrefix(r.Spec, "--ramp "+r.Name+"="), sig(r.RampUpS*1e6, 6)))
 	}
 	fmt.Fprintf(stdout, "Ramps: %s\n", strings.Join(ramps, ", "))
-	fmt.Fprintf(stdout, "Noise budget: %s\n", budgetLine(budget))
 	fmt.Fprintf(stdout, "%s\n\n", work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(cs), o.ens.samples), o.ens))
 	return printRanking(stdout, rep)
 }
@@ -218,15 +209,19 @@ func printRanking(w io.Writer, rep rankReport) error {
 		byName[rr.Name] = rr
 		withGyro = withGyro || rr.Gyro != nil
 	}
-	header := []string{"Place and ramp", metricLabels[r.Metric], conf, "Diff to best", conf, "Resolved", "Mean contrast", "|bias| p95 (rad)", "|bias| p95 (deg/h)"}
+	header := []string{"Place and ramp", metricLabels[r.Metric], conf, "Diff to best", conf, "Diff to next", "Resolved", "Mean contrast", "|bias| p95 (rad)", "|bias| p95 (deg/h)"}
 	if withGyro {
 		header = append(header, "ARW (deg/sqrt(h))")
 	}
 	t := newTable(w, header...)
 	for _, p := range r.Ranking {
 		rr := byName[p.Name]
+		next := ""
+		if p.DiffToNext != nil {
+			next = sci(p.DiffToNext.Value, 2)
+		}
 		row := []string{fmt.Sprintf("%d. %s", p.Place, p.Name), f(p.Value), interval(p.Lo, p.Hi, f),
-			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), yesNo(p.Resolved),
+			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), next, yesNo(p.Resolved),
 			fixed(rr.ContrastMean, 5), sci(rr.AbsBiasP95Rad, 3), sci(rr.AbsBiasP95DegPerH, 3)}
 		if withGyro {
 			arw := ""
@@ -244,8 +239,8 @@ func printRanking(w io.Writer, rep rankReport) error {
 	if !r.HigherBetter {
 		better = "lower"
 	}
-	fmt.Fprintf(w, "\nBest first by %s (%s is better), over %d realisations per ramp. Intervals are %s %% two-sided: bootstrap percentile, Clopper-Pearson for a yield; the differences are paired over the same noise draws. A place is resolved when the paired intervals of its differences to the places above and below exclude zero.\n",
-		metricLabels[r.Metric], better, r.Samples, sig(100*r.Confidence, 3))
+	fmt.Fprintf(w, "\nBest first by %s (%s is better), over %d realisations per ramp. Intervals are %s %% two-sided: bootstrap percentile, Clopper-Pearson for a yield; the differences are paired over the same noise draws. A place is resolved when the paired intervals of its differences to the places above and below (Diff to next) exclude zero.\n",
+		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, sig(100*r.Confidence, 3))
 	if g := rep.Ramps[0].Gyro; g != nil {
 		fmt.Fprintf(w, "ARW: the angle random walk at each ramp's mean contrast, %s atoms per shot, one shot per %s s.\n", sig(g.Atoms, 6), sig(g.CycleS, 6))
 	}

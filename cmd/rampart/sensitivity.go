@@ -15,11 +15,8 @@ import (
 )
 
 type sensitivityOptions struct {
-	scenario string
-	sets     []string
-	base     int
-	ens      ensembleOptions
-	json     bool
+	decisionOptions
+	base int
 }
 
 // sensitivityFile holds the indices and derivatives in the output directory.
@@ -55,15 +52,13 @@ the indices of the merged design.`,
 			return runSensitivity(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
 		},
 	}
-	addScenarioFlags(cmd, &o.scenario, &o.sets)
-	addEnsembleFlags(cmd, &o.ens, 1)
+	o.add(cmd, 1, "the indices and derivatives")
 	f := cmd.Flags()
 	f.MarkHidden("samples")
 	sampler := f.Lookup("sampler")
 	sampler.DefValue = "sobol"
 	sampler.Value.Set("sobol")
 	f.IntVar(&o.base, "base", 256, "base rows `N` of the Saltelli design: N (d + 2) shots for d inputs")
-	f.BoolVar(&o.json, "json", false, "print the indices and derivatives as one JSON object")
 	return cmd
 }
 
@@ -86,20 +81,13 @@ type sensitivityTag struct {
 }
 
 func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error {
-	if err := o.ens.validate(); err != nil {
+	if err := o.validate(); err != nil {
 		return err
 	}
-	switch {
-	case o.base < 2:
+	if o.base < 2 {
 		return fmt.Errorf("--base %d: want at least 2 base rows (256 is usual)", o.base)
-	case o.ens.shard != "" && o.ens.dir() == "":
-		return fmt.Errorf("--shard %s needs --out DIR: the slice is kept there for rampart merge", o.ens.shard)
 	}
-	sc, cfg, err := loadScenario(o.scenario, o.sets)
-	if err != nil {
-		return err
-	}
-	budget, err := budgetOf(sc)
+	sc, cfg, budget, err := o.load()
 	if err != nil {
 		return err
 	}
@@ -110,6 +98,12 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	design, err := mc.NewSensitivityDesign(r, o.base)
 	if err != nil {
 		return fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
+	if o.ens.resume != "" {
+		if m, _, err := mc.Read(o.ens.resume); err == nil && m.Samples != design.Len() {
+			d := len(design.Inputs()) + 2
+			return fmt.Errorf("--resume %s holds a design of %d shots, %d base rows for these %d inputs, not %d: give --base %d", o.ens.resume, m.Samples, m.Samples/d, d-2, o.base, m.Samples/d)
+		}
 	}
 	ctx, stop := signalContext()
 	defer stop()
@@ -141,8 +135,7 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	if o.json {
 		return writeJSON(stdout, rep)
 	}
-	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, describe(sc, r.Config(), r.Config().Sequence.Up.Name()+" ramp"))
-	fmt.Fprintf(stdout, "Noise budget: %s\n", budgetLine(budget))
+	printHeader(stdout, sc, r.Config(), r.Config().Sequence.Up.Name()+" ramp", budget)
 	var work ensembleWork
 	work.add(run)
 	what := fmt.Sprintf("Saltelli design of %d base rows x (%d inputs + 2) = %d shots", o.base, len(rep.Inputs), rep.Shots)

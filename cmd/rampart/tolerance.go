@@ -15,14 +15,11 @@ import (
 )
 
 type toleranceOptions struct {
-	scenario  string
-	sets      []string
+	decisionOptions
 	spec      string
 	sources   string
 	joint     bool
 	precision float64
-	ens       ensembleOptions
-	json      bool
 }
 
 func newToleranceCmd(e env) *cobra.Command {
@@ -56,14 +53,12 @@ the step before.`,
 			return runTolerance(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
 		},
 	}
-	addScenarioFlags(cmd, &o.scenario, &o.sets)
-	addEnsembleFlags(cmd, &o.ens, 200)
+	o.add(cmd, 200, "the tolerances and their curves")
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
 	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.Sources, ", ")+", or all (default: those the budget switches on)")
 	f.BoolVar(&o.joint, "joint", false, "also search the factor by which the whole budget may be scaled")
 	f.Float64Var(&o.precision, "precision", 0.05, "relative precision `P` of each tolerance, in [0.001, 1]")
-	f.BoolVar(&o.json, "json", false, "print the tolerances and their curves as one JSON object")
 	cmd.MarkFlagRequired("spec")
 	return cmd
 }
@@ -88,24 +83,23 @@ type toleranceTag struct {
 }
 
 func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenceGiven bool) error {
-	if err := o.ens.validate(); err != nil {
-		return err
-	}
 	switch {
 	case o.ens.shard != "":
 		return fmt.Errorf("--shard %s: a tolerance search cannot be sharded, as each step needs the whole ensemble of the step before; run it on one machine with more --workers", o.ens.shard)
 	case !(o.precision >= 0.001 && o.precision <= 1):
 		return fmt.Errorf("--precision %g: want a relative precision in [0.001, 1], such as 0.05", o.precision)
 	}
+	if err := o.validate(); err != nil {
+		return err
+	}
+	if err := o.ens.checkResumeDir(); err != nil {
+		return err
+	}
 	req, err := readRequirements(o.spec, o.ens.confidence, confidenceGiven)
 	if err != nil {
 		return err
 	}
-	sc, cfg, err := loadScenario(o.scenario, o.sets)
-	if err != nil {
-		return err
-	}
-	budget, err := budgetOf(sc)
+	sc, cfg, budget, err := o.load()
 	if err != nil {
 		return err
 	}
@@ -161,8 +155,7 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 	if o.json {
 		return writeJSON(stdout, rep)
 	}
-	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, describe(sc, cfg, cfg.Sequence.Up.Name()+" ramp"))
-	fmt.Fprintf(stdout, "Noise budget: %s\n", budgetLine(budget))
+	printHeader(stdout, sc, cfg, cfg.Sequence.Up.Name()+" ramp", budget)
 	fmt.Fprintf(stdout, "%s\n", work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens))
 	fmt.Fprintf(stdout, "Spec: %s, at %s %% confidence\n\n", o.spec, sig(100*req.Confidence, 3))
 	return printTolerances(stdout, rep)
@@ -209,5 +202,9 @@ func amplitudeKey(name string, nominal, b mc.Budget) string {
 	if !on {
 		return "off"
 	}
-	return strconv.FormatFloat(a, 'g', 6, 64)
+	return amplitudeDir(a)
 }
+
+// amplitudeDir names the directory of an amplitude: six digits tell apart
+// the amplitudes of a search to a precision of 0.001.
+func amplitudeDir(a float64) string { return strconv.FormatFloat(a, 'g', 6, 64) }

@@ -1,0 +1,61 @@
+package main
+
+import (
+	"fmt"
+	"io"
+
+	"github.com/spf13/cobra"
+
+	"rampart/cmd/internal/scenario"
+	"rampart/mc"
+	"rampart/sim"
+)
+
+// decisionOptions are the options that rank, qualify, tolerance and
+// sensitivity share: the scenario with its overrides, the ensemble flags of
+// run and --json.
+type decisionOptions struct {
+	scenario string
+	sets     []string
+	ens      ensembleOptions
+	json     bool
+}
+
+// add registers the options on cmd; what names the object --json prints.
+func (o *decisionOptions) add(cmd *cobra.Command, defaultSamples int, what string) {
+	addScenarioFlags(cmd, &o.scenario, &o.sets)
+	addEnsembleFlags(cmd, &o.ens, defaultSamples)
+	cmd.Flags().BoolVar(&o.json, "json", false, "print "+what+" as one JSON object")
+}
+
+// validate checks the ensemble flags; a shard is kept in --out DIR for
+// rampart merge, so it needs one.
+func (o *decisionOptions) validate() error {
+	if err := o.ens.validate(); err != nil {
+		return err
+	}
+	if o.ens.shard != "" && o.ens.dir() == "" {
+		return fmt.Errorf("--shard %s needs --out DIR: the slices are kept there for rampart merge", o.ens.shard)
+	}
+	return nil
+}
+
+// load reads the scenario, its configuration and its noise budget.
+func (o *decisionOptions) load() (*scenario.Scenario, sim.Config, mc.Budget, error) {
+	sc, cfg, err := loadScenario(o.scenario, o.sets)
+	if err != nil {
+		return nil, sim.Config{}, mc.Budget{}, err
+	}
+	budget, err := budgetOf(sc)
+	if err != nil {
+		return nil, sim.Config{}, mc.Budget{}, err
+	}
+	return sc, cfg, budget, nil
+}
+
+// printHeader says what was simulated: the scenario, its sequence (with
+// ramp naming the ramp) and its noise budget.
+func printHeader(w io.Writer, sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget) {
+	fmt.Fprintf(w, "Scenario %s\n%s\n", sc.Name, describe(sc, cfg, ramp))
+	fmt.Fprintf(w, "Noise budget: %s\n", budgetLine(b))
+}

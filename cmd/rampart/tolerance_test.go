@@ -1,0 +1,135 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// skewArgs searches the skew tolerance of the fast ensemble with the
+// differential depth error off, so that the skew sets the bias: its |bias|
+// grows linearly with the skew (about 6e-6 rad per ns here), which puts a
+// limit of 1e-4 rad near 15 ns.
+func skewArgs(spec string) []string {
+	return []string{"tolerance", "--scenario", ensembleScenario, "--set", "noise.depth.differential_rel=0",
+		"--spec", spec, "--sources", "skew_s", "--samples", "16", "--seed", "2"}
+}
+
+const skewSpec = "[bias]\nabs_p95_max_rad = 1e-4\n"
+
+// TestToleranceSkew checks the skew tolerance against rampart run at the
+// found amplitude (its |bias| p95 is the one the search measured there and
+// meets the limit), its monotone verdicts, the curves in --out, and that
+// --resume reuses every stored ensemble.
+func TestToleranceSkew(t *testing.T) {
+	dir := t.TempDir()
+	spec := writeSpec(t, dir, "skew.toml", skewSpec)
+	out := filepath.Join(dir, "out")
+	stdout, stderr, code := execute(t, append(skewArgs(spec), "--out", out, "--json")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	// The part of the report the test reads (mc.Verdict encodes as text only).
+	type point struct {
+		Amplitude float64 `json:"amplitude"`
+		Value     float64 `json:"value"`
+		Holds     bool    `json:"holds"`
+	}
+	var rep struct {
+		Results []struct {
+			Source, Unit, Status, Metric string
+			Precision                    float64
+			At                           *point
+			Points                       []point
+		}
+	}
+	if err := json.Unmarshal([]byte(stdout), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.Results) != 1 {
+		t.Fatalf("%d results, want 1", len(rep.Results))
+	}
+	res := rep.Results[0]
+	if res.Source != "skew_s" || res.Unit != "ns" || res.Status != "found" || res.At == nil || res.Metric != "bias.abs_p95_max_rad" {
+		t.Fatalf("result %s in %s: status %s, at %v, metric %s; want skew_s in ns found by bias.abs_p95_max_rad", res.Source, res.Unit, res.Status, res.At, res.Metric)
+	}
+	tol := res.At.Amplitude
+	// Monotone verdicts: every amplitude that holds lies below every one
+	// that fails, and the tolerance is the largest that holds.
+	smallestFail := math.Inf(1)
+	for _, p := range res.Points {
+		if !p.Holds {
+			smallestFail = math.Min(smallestFail, p.Amplitude)
+		}
+	}
+	for _, p := range res.Points {
+		if p.Holds && (p.Amplitude > tol || p.Amplitude >= smallestFail) {
+			t.Errorf("amplitude %v ns holds beside tolerance %v ns and first failure %v ns", p.Amplitude, tol, smallestFail)
+		}
+	}
+	if smallestFail > tol*(1+res.Precision)*(1+1e-12) {
+		t.Errorf("tolerance %v ns and first failure %v ns are further apart than the precision %v", tol, smallestFail, res.Precision)
+	}
+
+	// rampart run at the tolerance sees the same realisations: the same
+	// |bias| p95 (to rounding of the amplitude, relative 1e-9), within the limit.
+	runOut, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--set", "noise.depth.differential_rel=0",
+		"--set", "noise.timing.skew_ns="+strconv.FormatFloat(tol, 'g', -1, 64), "--samples", "16", "--seed", "2", "--json")
+	if code != 0 {
+		t.Fatalf("run: %s", stderr)
+	}
+	var sum struct {
+		AbsBias struct {
+			P95 float64 `json:"p95"`
+		} `json:"abs_bias_rad"`
+	}
+	if err := json.Unmarshal([]byte(runOut), &sum); err != nil {
+		t.Fatal(err)
+	}
+	if got, want := sum.AbsBias.P95, res.At.Value; math.Abs(got-want) > 1e-9*want || got > 1e-4 {
+		t.Errorf("run at %v ns: |bias| p95 %v rad, want the search's %v (tol 1e-9 relative) and at most 1e-4", tol, got, want)
+	}
+
+	rows := readCSV(t, filepath.Join(out, toleranceCurvesFile))
+	if got := strings.Join(rows[0], ","); got != "source,unit,amplitude,metric,limit,value,lo,hi,envelope_value,envelope_lo,envelope_hi,holds" {
+		t.Errorf("curves header %q", got)
+	}
+	if len(rows)-1 != len(res.Points) {
+		t.Errorf("%d curve rows for %d points", len(rows)-1, len(res.Points))
+	}
+	for _, f := range []string{"tolerance-skew_s.svg", "tolerance-skew_s.png", filepath.Join("skew_s", "off", "realisations.csv"),
+		filepath.Join("skew_s", amplitudeDir(tol), "realisations.csv")} {
+		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
+			t.Error(err)
+		}
+	}
+
+	again, stderr, code := execute(t, append(skewArgs(spec), "--resume", out)...)
+	if code != 0 {
+		t.Fatalf("resume: exit %d: %s", code, stderr)
+	}
+	if strings.Contains(again, "simulated") || !strings.Contains(again, "resumed") {
+		t.Errorf("resume ran realisations again:\n%s", again)
+	}
+	golden(t, "tolerance-skew.txt", strings.ReplaceAll(again, spec, "SPEC"))
+}
+
+// TestToleranceBadInput: exit 2 and one line before anything runs.
+func TestToleranceBadInput(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "out")
+	spec := writeSpec(t, dir, "skew.toml", skewSpec)
+	expectRefused(t, out, []refusal{
+		{"shard", append(skewArgs(spec), "--shard", "1/2", "--out", out), "--shard 1/2: a tolerance search cannot be sharded"},
+		{"unknown source", append(skewArgs(spec), "--sources", "skew_s,laser", "--out", out), `--sources: unknown noise source "laser"`},
+		{"budget as a source", append(skewArgs(spec), "--sources", "budget", "--out", out), "(--joint searches the whole budget)"},
+		{"precision", append(skewArgs(spec), "--precision", "0", "--out", out), "--precision 0: want a relative precision in [0.001, 1]"},
+		{"resume nothing", append(skewArgs(spec), "--resume", out), "--resume " + out + ": no such directory"},
+		{"bad spec", append(skewArgs(writeSpec(t, dir, "bad.toml", "[bias]\nabs_p95_max_rad = -1\n")), "--out", out), "bad.toml"},
+		{"empty budget", []string{"tolerance", "--scenario", "testdata/scenarios/benchmark.toml", "--spec", spec, "--out", out}, "has no active source: give --sources"},
+	})
+}
