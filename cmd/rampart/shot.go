@@ -13,6 +13,7 @@ import (
 
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/scenario"
+	"rampart/mc"
 	"rampart/sim"
 )
 
@@ -28,6 +29,7 @@ type shotOptions struct {
 	json     bool
 	trace    string
 	check    bool
+	readout  readoutOptions
 }
 
 func newShotCmd(e env) *cobra.Command {
@@ -50,6 +52,7 @@ ramp-up, the per-level breakdown of a thermal start, and the numerics used.`,
 	f.BoolVar(&o.json, "json", false, "print one JSON object instead of tables")
 	f.StringVar(&o.trace, "trace", "", "write each arm's co-moving diagnostics over time to this CSV `file`")
 	f.BoolVar(&o.check, "check", false, "rerun with a doubled grid and a halved time step and report the changes")
+	addReadoutFlags(cmd, &o.readout)
 	return cmd
 }
 
@@ -79,6 +82,10 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 	if err != nil {
 		return err
 	}
+	ro, err := o.readout.of(sc)
+	if err != nil {
+		return err
+	}
 	run, err := simulate(e, sc, cfg, nil)
 	if err != nil {
 		return err
@@ -92,7 +99,7 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 			return err
 		}
 	}
-	rep := newShotReport(sc, run)
+	rep := newShotReport(sc, run, ro)
 	if o.check {
 		fine := run.cfg
 		fine.Grid, fine.StepS = 2*run.cfg.Grid, run.cfg.StepS/2
@@ -182,7 +189,7 @@ type checkReport struct {
 	Converged         bool    `json:"converged"`
 }
 
-func newShotReport(sc *scenario.Scenario, run shotRun) *shotReport {
+func newShotReport(sc *scenario.Scenario, run shotRun, ro readout) *shotReport {
 	r := run.result
 	rep := &shotReport{
 		Scenario:     sc.Name,
@@ -210,16 +217,14 @@ func newShotReport(sc *scenario.Scenario, run shotRun) *shotReport {
 			ArgZRad:      math.Atan2(imag(l.Z), real(l.Z)),
 		})
 	}
-	if ro := sc.Readout; ro.Atoms > 0 {
-		proj := projectionNoise(r.ScaleFactorS, r.Contrast, ro.Atoms)
-		if !math.IsInf(proj, 0) && !math.IsNaN(proj) {
-			rep.Readout = &readoutReport{
-				Atoms:             ro.Atoms,
-				CycleS:            ro.CycleS,
-				ProjectionRadS:    proj,
-				ProjectionDegPerH: sim.RadPerSToDegPerH(proj),
-				ARWDegPerSqrtH:    angleRandomWalk(proj, ro.CycleS),
-			}
+	if ro.atoms > 0 && r.Contrast > 0 && r.ScaleFactorS > 0 {
+		g := mc.GyroFigures(r.ScaleFactorS, r.Contrast, ro.atoms, ro.cycleS)
+		rep.Readout = &readoutReport{
+			Atoms:             g.Atoms,
+			CycleS:            g.CycleS,
+			ProjectionRadS:    g.ShotNoiseRadS,
+			ProjectionDegPerH: g.ShotNoiseDegPerH,
+			ARWDegPerSqrtH:    g.AngleRandomWalkDegPerSqrtH,
 		}
 	}
 	return rep
