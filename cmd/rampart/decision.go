@@ -28,6 +28,14 @@ func (o *decisionOptions) add(cmd *cobra.Command, defaultSamples int, what strin
 	cmd.Flags().BoolVar(&o.json, "json", false, "print "+what+" as one JSON object")
 }
 
+// confidenceFromSpec documents --confidence on a command that reads a spec
+// file, whose confidence it replaces only when given.
+func confidenceFromSpec(cmd *cobra.Command) {
+	f := cmd.Flags().Lookup("confidence")
+	f.Usage = "confidence `level` of the verdicts, in (0.5, 1), in place of the spec file's (default: the spec's, or 0.95)"
+	f.DefValue = "0"
+}
+
 // validate checks the ensemble flags; a shard is kept in --out DIR for
 // rampart merge, so it needs one.
 func (o *decisionOptions) validate() error {

@@ -48,6 +48,7 @@ qualify the merged ensemble.`,
 		},
 	}
 	o.add(cmd, 1000, "the qualification")
+	confidenceFromSpec(cmd)
 	addReadoutFlags(cmd, &o.readout)
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")

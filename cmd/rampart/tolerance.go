@@ -54,6 +54,7 @@ the step before.`,
 		},
 	}
 	o.add(cmd, 200, "the tolerances and their curves")
+	confidenceFromSpec(cmd)
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
 	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.Sources, ", ")+", or all (default: those the budget switches on)")
