@@ -6,7 +6,7 @@
 // an inverse-engineered transport ramp built on the ninth-order smoothstep
 // v(s) = Omega_0 (126 s^5 - 420 s^6 + 540 s^7 - 315 s^8 + 70 s^9), whose
 // first four derivatives vanish at both ends, driven at
-// Omega = v + v''/omega^2 with omega the harmonic trap frequency at a design
+// Omega = v + v”/omega^2 with omega the harmonic trap frequency at a design
 // depth of 19 kHz, 5 % below the lattice depth (the optimiser's robustness
 // margin). Run from the repository root:
 //
@@ -26,7 +26,7 @@ func main() {
 		tr      = 150e-6 // s
 		cruise  = 500.0  // rad/s
 		sites   = 20
-		radius  = 5e-6     // m
+		radius  = 5e-6 // m
 		massKg  = 86.909180520 * 1.66053906660e-27
 		hbar    = 6.62607015e-34 / (2 * math.Pi)
 		designV = 19e3 // Hz
