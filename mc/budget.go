@@ -88,15 +88,7 @@ func (b Budget) Dynamic() bool { return b.RIN != nil || b.Phase != nil }
 
 // Validate checks that every amplitude is finite and non-negative.
 func (b Budget) Validate() error {
-	for _, p := range []Param{
-		{ParamDepthCommon, b.DepthCommonRel},
-		{ParamDepthDifferential, b.DepthDifferentialRel},
-		{ParamClock, b.ClockRel},
-		{ParamSpeed, b.SpeedRel},
-		{ParamSkew, b.SkewS},
-		{ParamTemperature, b.TemperatureSpreadK},
-		{"pulse_area_rel", b.PulseAreaRel},
-	} {
+	for _, p := range b.allParams() {
 		if p.Sigma < 0 || math.IsNaN(p.Sigma) || math.IsInf(p.Sigma, 0) {
 			return fmt.Errorf("noise amplitude %s = %g is not a finite non-negative number", p.Name, p.Sigma)
 		}

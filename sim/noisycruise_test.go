@@ -35,8 +35,6 @@ func TestNoisyCruiseAccuracy(t *testing.T) {
 		t.Fatal(err)
 	}
 	nominal := s.Run(Shot{}, nil)
-	step := s.Config().StepS / 4
-	n := int(c.Sequence.Duration()/step) + 2
 	band := noise.Band{HighHz: s.NoiseBandHz()}
 	for _, tc := range []struct {
 		rinDB, phaseDBc float64
@@ -46,23 +44,7 @@ func TestNoisyCruiseAccuracy(t *testing.T) {
 		{-100, -90}, // strong enough to take the contrast to 0.43
 	} {
 		rng := rand.New(rand.NewPCG(3, 4))
-		rin, err := noise.Synthesize(noise.White{Level: noise.IntensityFromRIN(tc.rinDB)}, n, step, band, rng)
-		if err != nil {
-			t.Fatal(err)
-		}
-		var sh Shot
-		eps := &Series{StepS: step, Values: rin}
-		sh.DepthNoise = [2]*Series{eps, eps}
-		for a := range sh.Jitter {
-			x, err := noise.Synthesize(noise.White{Level: noise.PhaseFromDBc(tc.phaseDBc)}, n, step, band, rng)
-			if err != nil {
-				t.Fatal(err)
-			}
-			for i := range x {
-				x[i] /= float64(c.Ring.Sites)
-			}
-			sh.Jitter[a] = &Series{StepS: step, Values: x}
-		}
+		sh := noiseShot(t, s, noise.IntensityFromRIN(tc.rinDB), noise.PhaseFromDBc(tc.phaseDBc), band, rng)
 		got := s.Run(sh, nil)
 		ref := *s
 		ref.splitOnly, ref.splitStep, ref.step = true, s.step/10, s.step/10

@@ -185,31 +185,49 @@ func TestNoiseDuringShot(t *testing.T) {
 		t.Fatal(err)
 	}
 	nominal := s.Run(Shot{}, nil)
-	step := s.Config().StepS / 4
-	n := int(c.Sequence.Duration()/step) + 2
 	rng := rand.New(rand.NewPCG(11, 12))
-	rin, err := noise.Synthesize(noise.White{Level: noise.IntensityFromRIN(-90)}, n, step, noise.Band{}, rng)
-	if err != nil {
-		t.Fatal(err)
-	}
-	eps := &Series{StepS: step, Values: rin}
-	common := s.Run(Shot{DepthNoise: [2]*Series{eps, eps}}, nil)
+	band := noise.Band{HighHz: s.NoiseBandHz()}
+	rin := noiseShot(t, s, noise.IntensityFromRIN(-90), 0, band, rng)
+	common := s.Run(rin, nil)
 	if d := math.Abs(common.BiasRad - nominal.BiasRad); d > 1e-7 {
 		t.Errorf("common intensity noise: bias moved by %.3g rad, want none (tol 1e-7)", d)
 	}
-	var jit [2]*Series
-	for a := range jit {
-		x, err := noise.Synthesize(noise.White{Level: noise.PhaseFromDBc(-80)}, n, step, noise.Band{}, rng)
-		if err != nil {
-			t.Fatal(err)
-		}
-		for i := range x {
-			x[i] /= float64(c.Ring.Sites)
-		}
-		jit[a] = &Series{StepS: step, Values: x}
-	}
+	jit := noiseShot(t, s, 0, noise.PhaseFromDBc(-80), band, rng).Jitter
 	diff := s.Run(Shot{Jitter: jit}, nil)
 	if d := math.Abs(diff.BiasRad - nominal.BiasRad); d < 1e-6 {
 		t.Errorf("independent drive phase noise: bias moved by only %.3g rad, want a bias", d)
 	}
+}
+
+// noiseShot returns a shot with white intensity noise of one-sided level
+// rin (1/Hz, common to both spin states) and independent white drive phase
+// noise of level phase (rad^2/Hz, each arm's lattice moving by alpha/N) in
+// band, sampled four times per split step of s; a zero level is off.
+func noiseShot(t *testing.T, s *Simulator, rin, phase float64, band noise.Band, rng *rand.Rand) Shot {
+	t.Helper()
+	c := s.Config()
+	step := c.StepS / 4
+	n := int(c.Sequence.Duration()/step) + 2
+	synth := func(level float64) []float64 {
+		x, err := noise.Synthesize(noise.White{Level: level}, n, step, band, rng)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return x
+	}
+	var sh Shot
+	if rin > 0 {
+		eps := &Series{StepS: step, Values: synth(rin)}
+		sh.DepthNoise = [2]*Series{eps, eps}
+	}
+	if phase > 0 {
+		for a := range sh.Jitter {
+			x := synth(phase)
+			for i := range x {
+				x[i] /= float64(c.Ring.Sites)
+			}
+			sh.Jitter[a] = &Series{StepS: step, Values: x}
+		}
+	}
+	return sh
 }

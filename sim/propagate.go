@@ -128,8 +128,13 @@ func (p *propagator) latticeStep(f *field, g, dt float64) {
 
 // kineticStep applies exp(-i rot l^2 h + i l da) to f.
 func (p *propagator) kineticStep(f *field, h, da float64) {
+	p.diagonalPhase(f, p.kineticTable(h), da)
+}
+
+// diagonalPhase multiplies every level of f by tab[l] e^{i l da} (tab nil:
+// by e^{i l da} alone), the phases built by recurrence in l.
+func (p *propagator) diagonalPhase(f *field, tab []complex128, da float64) {
 	b := p.b
-	tab := p.kineticTable(h)
 	n, w := b.Sites, f.width()
 	step := cis(da)
 	cur := cis(float64(b.LMin()) * da)
@@ -137,7 +142,10 @@ func (p *propagator) kineticStep(f *field, h, da float64) {
 		row := f.x[2*w*j : 2*w*(j+1)]
 		re, im := row[:w], row[w:]
 		for c := range n {
-			ph := tab[n*j+c] * cur
+			ph := cur
+			if tab != nil {
+				ph *= tab[n*j+c]
+			}
 			cur *= step
 			cs, sn := real(ph), imag(ph)
 			for q := c; q < w; q += n {

@@ -64,25 +64,8 @@ func (be blockExp) apply(f *field, scratch []float64) {
 // kick applies exp(i l da) to f: a jump da of the lattice angle, seen in
 // the co-moving frame.
 func (p *propagator) kick(f *field, da float64) {
-	if da == 0 {
-		return
-	}
-	b := p.b
-	n, w := b.Sites, f.width()
-	step := cis(da)
-	cur := cis(float64(b.LMin()) * da)
-	for j := range b.Block {
-		row := f.x[2*w*j : 2*w*(j+1)]
-		re, im := row[:w], row[w:]
-		for c := range n {
-			cs, sn := real(cur), imag(cur)
-			cur *= step
-			for q := c; q < w; q += n {
-				a, bb := re[q], im[q]
-				re[q] = cs*a - sn*bb
-				im[q] = sn*a + cs*bb
-			}
-		}
+	if da != 0 {
+		p.diagonalPhase(f, nil, da)
 	}
 }
 
