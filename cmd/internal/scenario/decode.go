@@ -4,11 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
-	"math"
-	"reflect"
-	"strconv"
+	"rampart/cmd/internal/tomlpos"
 	"strings"
-	"time"
 
 	"github.com/BurntSushi/toml"
 
@@ -84,14 +81,14 @@ func (d *decoder) syntaxError(err error) error {
 func (d *decoder) collect(raw map[string]any) error {
 	for _, k := range d.md.Keys() {
 		name := strings.Join(k, ".")
-		v := lookup(raw, k)
+		v := tomlpos.Lookup(raw, k)
 		if err := unknown(k, v); err != nil {
-			return &Error{File: d.s.Name, Line: d.line(k), Key: name, Err: err}
+			return &Error{File: d.s.Name, Line: tomlpos.Line(d.data, d.md, k), Key: name, Err: err}
 		}
 		if _, isTable := tables[name]; isTable {
 			if _, ok := v.(map[string]any); !ok {
-				return &Error{File: d.s.Name, Line: d.line(k), Key: name,
-					Err: fmt.Errorf("%s must be a table [%s], got %s", name, name, typeName(v))}
+				return &Error{File: d.s.Name, Line: tomlpos.Line(d.data, d.md, k), Key: name,
+					Err: fmt.Errorf("%s must be a table [%s], got %s", name, name, tomlpos.TypeName(v))}
 			}
 			continue
 		}
@@ -244,111 +241,8 @@ func (d *decoder) fail(name string, err error) error {
 	if x := d.byKey[name]; x != nil {
 		e.Flag = x.flag
 		if x.flag == "" {
-			e.Line = d.line(x.path)
+			e.Line = tomlpos.Line(d.data, d.md, x.path)
 		}
 	}
 	return e
-}
-
-// line returns the line of the key at path, or 0 if it cannot be told.
-//
-// BurntSushi/toml keeps key positions private but reports one in the error
-// of an Unmarshaler: decoding into a struct that reaches only path, with a
-// probe that always fails, makes the decoder name the line. The decoder
-// matches keys case-insensitively, so when a sibling differs only in case
-// the answer could be either key's line and none is given.
-func (d *decoder) line(path []string) int {
-	for _, k := range d.md.Keys() {
-		for i := 0; i < len(k) && i < len(path); i++ {
-			if k[i] != path[i] {
-				if strings.EqualFold(k[i], path[i]) {
-					return 0
-				}
-				break
-			}
-		}
-	}
-	t := reflect.TypeFor[probe]()
-	for i := len(path) - 1; i >= 0; i-- {
-		t = reflect.StructOf([]reflect.StructField{{Name: "F", Type: t, Tag: reflect.StructTag(fmt.Sprintf("toml:%q", path[i]))}})
-	}
-	_, err := toml.Decode(string(d.data), reflect.New(t).Interface())
-	var pe toml.ParseError
-	if errors.As(err, &pe) && pe.Message == errProbe.Error() {
-		return pe.Position.Line
-	}
-	return 0
-}
-
-type probe struct{}
-
-var errProbe = errors.New("probe")
-
-func (probe) UnmarshalTOML(any) error { return errProbe }
-
-func lookup(m map[string]any, path []string) any {
-	var v any = m
-	for _, p := range path {
-		t, ok := v.(map[string]any)
-		if !ok {
-			return nil
-		}
-		v = t[p]
-	}
-	return v
-}
-
-// show renders a decoded TOML value for a message.
-func show(v any) string {
-	switch x := v.(type) {
-	case string:
-		return strconv.Quote(x)
-	case float64:
-		switch {
-		case math.IsNaN(x):
-			return "nan"
-		case math.IsInf(x, 1):
-			return "inf"
-		case math.IsInf(x, -1):
-			return "-inf"
-		}
-		f := strconv.FormatFloat(x, 'g', -1, 64)
-		if !strings.ContainsAny(f, ".e") {
-			f += ".0" // a float that looks like an integer would puzzle "want an integer"
-		}
-		return f
-	case int64:
-		return strconv.FormatInt(x, 10)
-	case bool:
-		return strconv.FormatBool(x)
-	case []any:
-		parts := make([]string, len(x))
-		for i, e := range x {
-			parts[i] = show(e)
-		}
-		return "[" + strings.Join(parts, ", ") + "]"
-	case map[string]any:
-		return "{...}"
-	}
-	return fmt.Sprint(v)
-}
-
-func typeName(v any) string {
-	switch v.(type) {
-	case string:
-		return "a string"
-	case float64:
-		return "a float"
-	case int64:
-		return "an integer"
-	case bool:
-		return "a boolean"
-	case []any, []map[string]any:
-		return "an array"
-	case map[string]any:
-		return "a table"
-	case time.Time:
-		return "a date or time"
-	}
-	return fmt.Sprintf("a %T", v)
 }

@@ -3,6 +3,7 @@ package scenario
 import (
 	"fmt"
 	"math"
+	"rampart/cmd/internal/tomlpos"
 	"strings"
 )
 
@@ -172,15 +173,15 @@ func (k *key) want() string {
 func (k *key) convert(v any) (any, error) {
 	wrongType := func() error {
 		if _, isArray := v.([]any); isArray && k.kind == band {
-			return fmt.Errorf("%s = %s: want %s", k.name, show(v), k.want())
+			return fmt.Errorf("%s = %s: want %s", k.name, tomlpos.Show(v), k.want())
 		}
-		return fmt.Errorf("%s = %s: want %s, got %s", k.name, show(v), k.want(), typeName(v))
+		return fmt.Errorf("%s = %s: want %s, got %s", k.name, tomlpos.Show(v), k.want(), tomlpos.TypeName(v))
 	}
 	outOfRange := func() error {
 		if k.kind == text {
-			return fmt.Errorf("%s = %s is unknown: want %s", k.name, show(v), k.want())
+			return fmt.Errorf("%s = %s is unknown: want %s", k.name, tomlpos.Show(v), k.want())
 		}
-		return fmt.Errorf("%s = %s is out of range: want %s", k.name, show(v), k.want())
+		return fmt.Errorf("%s = %s is out of range: want %s", k.name, tomlpos.Show(v), k.want())
 	}
 	switch k.kind {
 	case number, integer:

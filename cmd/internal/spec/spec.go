@@ -5,10 +5,9 @@ import (
 	"fmt"
 	"math"
 	"os"
-	"reflect"
+	"rampart/cmd/internal/tomlpos"
 	"strconv"
 	"strings"
-	"time"
 
 	"github.com/BurntSushi/toml"
 
@@ -147,13 +146,13 @@ func Parse(name string, data []byte) (mc.Requirements, error) {
 	given := map[string]bool{}
 	for _, path := range md.Keys() {
 		dotted := strings.Join(path, ".")
-		v := lookup(raw, path)
+		v := tomlpos.Lookup(raw, path)
 		fail := func(format string, a ...any) error {
-			return &Error{File: name, Line: p.line(path), Key: dotted, Err: fmt.Errorf(format, a...)}
+			return &Error{File: name, Line: tomlpos.Line(p.data, p.md, path), Key: dotted, Err: fmt.Errorf(format, a...)}
 		}
 		if len(path) == 1 && isTable(path[0]) {
 			if _, ok := v.(map[string]any); !ok {
-				return mc.Requirements{}, fail("%s must be a table [%s] of %s, got %s", dotted, dotted, keysOf(dotted), typeName(v))
+				return mc.Requirements{}, fail("%s must be a table [%s] of %s, got %s", dotted, dotted, keysOf(dotted), tomlpos.TypeName(v))
 			}
 			continue
 		}
@@ -179,10 +178,10 @@ func Parse(name string, data []byte) (mc.Requirements, error) {
 		case float64:
 			x = n
 		default:
-			return mc.Requirements{}, fail("%s = %s: want %s, got %s", dotted, show(v), k.want(), typeName(v))
+			return mc.Requirements{}, fail("%s = %s: want %s, got %s", dotted, tomlpos.Show(v), k.want(), tomlpos.TypeName(v))
 		}
 		if !k.ok(x) {
-			return mc.Requirements{}, fail("%s = %s is out of range: want %s", dotted, show(v), k.want())
+			return mc.Requirements{}, fail("%s = %s is out of range: want %s", dotted, tomlpos.Show(v), k.want())
 		}
 		k.set(&req, x)
 		given[dotted] = true
@@ -206,7 +205,7 @@ type parser struct {
 // the yield's keys come together.
 func (p parser) check(req mc.Requirements, given map[string]bool) error {
 	fail := func(dotted, format string, a ...any) error {
-		return &Error{File: p.name, Line: p.line(strings.Split(dotted, ".")), Key: dotted, Err: fmt.Errorf(format, a...)}
+		return &Error{File: p.name, Line: tomlpos.Line(p.data, p.md, strings.Split(dotted, ".")), Key: dotted, Err: fmt.Errorf(format, a...)}
 	}
 	limits := given["yield.contrast_min"] || given["yield.bias_max_rad"]
 	switch {
@@ -234,103 +233,4 @@ func isTable(name string) bool {
 		}
 	}
 	return false
-}
-
-// line returns the line of the key at path, or 0 if it cannot be told.
-//
-// BurntSushi/toml keeps key positions private but reports one in the error
-// of an Unmarshaler: decoding into a struct that reaches only path, with a
-// probe that always fails, makes the decoder name the line. The decoder
-// matches keys case-insensitively, so when a sibling differs only in case
-// the answer could be either key's line and none is given.
-func (p parser) line(path []string) int {
-	for _, k := range p.md.Keys() {
-		for i := 0; i < len(k) && i < len(path); i++ {
-			if k[i] != path[i] {
-				if strings.EqualFold(k[i], path[i]) {
-					return 0
-				}
-				break
-			}
-		}
-	}
-	t := reflect.TypeFor[probe]()
-	for i := len(path) - 1; i >= 0; i-- {
-		t = reflect.StructOf([]reflect.StructField{{Name: "F", Type: t, Tag: reflect.StructTag(fmt.Sprintf("toml:%q", path[i]))}})
-	}
-	_, err := toml.Decode(string(p.data), reflect.New(t).Interface())
-	var pe toml.ParseError
-	if errors.As(err, &pe) && pe.Message == errProbe.Error() {
-		return pe.Position.Line
-	}
-	return 0
-}
-
-type probe struct{}
-
-var errProbe = errors.New("probe")
-
-func (probe) UnmarshalTOML(any) error { return errProbe }
-
-func lookup(m map[string]any, path []string) any {
-	var v any = m
-	for _, p := range path {
-		t, ok := v.(map[string]any)
-		if !ok {
-			return nil
-		}
-		v = t[p]
-	}
-	return v
-}
-
-// show renders a decoded TOML value for a message.
-func show(v any) string {
-	switch x := v.(type) {
-	case string:
-		return strconv.Quote(x)
-	case float64:
-		switch {
-		case math.IsNaN(x):
-			return "nan"
-		case math.IsInf(x, 1):
-			return "inf"
-		case math.IsInf(x, -1):
-			return "-inf"
-		}
-		return strconv.FormatFloat(x, 'g', -1, 64)
-	case int64:
-		return strconv.FormatInt(x, 10)
-	case bool:
-		return strconv.FormatBool(x)
-	case []any:
-		parts := make([]string, len(x))
-		for i, e := range x {
-			parts[i] = show(e)
-		}
-		return "[" + strings.Join(parts, ", ") + "]"
-	case map[string]any:
-		return "{...}"
-	}
-	return fmt.Sprint(v)
-}
-
-func typeName(v any) string {
-	switch v.(type) {
-	case string:
-		return "a string"
-	case float64:
-		return "a float"
-	case int64:
-		return "an integer"
-	case bool:
-		return "a boolean"
-	case []any, []map[string]any:
-		return "an array"
-	case map[string]any:
-		return "a table"
-	case time.Time:
-		return "a date or time"
-	}
-	return fmt.Sprintf("a %T", v)
 }
