@@ -22,6 +22,7 @@ type runOptions struct {
 	maxBiasRad  float64
 	json        bool
 	report      string
+	readout     readoutOptions
 }
 
 func newRunCmd(e env) *cobra.Command {
@@ -51,6 +52,7 @@ the ensemble for a cluster job array; rampart merge combines the slices.`,
 	f.Float64Var(&o.maxBiasRad, "max-bias-rad", 0, "yield spec: a realisation is inside when its |bias| is at most `Y` rad")
 	f.BoolVar(&o.json, "json", false, "print the summary as one JSON object")
 	addReportFlag(cmd, &o.report)
+	addReadoutFlags(cmd, &o.readout)
 	return cmd
 }
 
@@ -80,6 +82,10 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err != nil {
 		return err
 	}
+	ro, err := o.readout.of(sc)
+	if err != nil {
+		return err
+	}
 	ctx, stop := signalContext()
 	defer stop()
 	run, err := runEnsemble(ctx, e, stderr, sc, cfg, budget, o.ens, "run")
@@ -94,7 +100,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 		fmt.Fprintf(stderr, "wrote %d realisations, %s and contrast and bias histograms (PNG, SVG) to %s\n", len(run.records), summaryFile, dir)
 	}
 	if o.report != "" {
-		if err := writeRunReport(e, stderr, o, sc, run, budget, sum, spec); err != nil {
+		if err := writeRunReport(e, stderr, o, sc, run, budget, sum, spec, ro); err != nil {
 			return err
 		}
 	}
@@ -104,11 +110,22 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, describe(sc, run.realiser.Config(), run.realiser.Config().Sequence.Up.Name()+" ramp"))
 	fmt.Fprintf(stdout, "Noise budget: %s\n", budgetLine(budget))
 	fmt.Fprintf(stdout, "%s\n\n", ensembleLine(run, o.ens))
-	return printSummary(stdout, sum)
+	if err := printSummary(stdout, sum); err != nil {
+		return err
+	}
+	fmt.Fprintln(stdout)
+	g := ro.gyro(sum)
+	if err := gyroGrid(sum, g).Render(stdout); err != nil {
+		return err
+	}
+	if g == nil {
+		fmt.Fprintln(stdout, noReadout)
+	}
+	return nil
 }
 
 // writeRunReport writes the report of an ensemble run.
-func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario, run *ensembleRun, budget mc.Budget, sum mc.Summary, spec mc.Spec) error {
+func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario, run *ensembleRun, budget mc.Budget, sum mc.Summary, spec mc.Spec, ro readout) error {
 	cfg := run.realiser.Config()
 	r := newReport(e, "Monte Carlo ensemble of "+cfg.Sequence.Up.Name()+" on "+sc.Name, sc, scenarioText(o.scenario), o.sets, run.manifest.Seed)
 	name := cfg.Sequence.Up.Name()
@@ -120,11 +137,11 @@ func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario
 	if err != nil {
 		return err
 	}
-	ens, err := ensembleSection("Ensemble", "ensemble-", sum, run.records, spec,
-		describe(sc, cfg, name+" ramp")+".\n\nNoise budget: "+budgetLine(budget)+".\n\n"+ensembleLine(run, o.ens)+".")
+	ens, err := ensembleSection("Ensemble", "ensemble-", sum, run.records, spec, setupText(sc, cfg, name+" ramp", budget, ensembleLine(run, o.ens)))
 	if err != nil {
 		return err
 	}
+	ens.Tables = append(ens.Tables, gyroGrid(sum, ro.gyro(sum)).table())
 	r.Sections = append(r.Sections, drive, dyn, ens)
 	return writeReport(stderr, r, o.report)
 }
