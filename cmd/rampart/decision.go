@@ -13,12 +13,13 @@ import (
 
 // decisionOptions are the options that rank, qualify, tolerance and
 // sensitivity share: the scenario with its overrides, the ensemble flags of
-// run and --json.
+// run, --json and --report.
 type decisionOptions struct {
 	scenario string
 	sets     []string
 	ens      ensembleOptions
 	json     bool
+	report   string
 }
 
 // add registers the options on cmd; what names the object --json prints.
@@ -26,6 +27,7 @@ func (o *decisionOptions) add(cmd *cobra.Command, defaultSamples int, what strin
 	addScenarioFlags(cmd, &o.scenario, &o.sets)
 	addEnsembleFlags(cmd, &o.ens, defaultSamples)
 	cmd.Flags().BoolVar(&o.json, "json", false, "print "+what+" as one JSON object")
+	addReportFlag(cmd, &o.report)
 }
 
 // confidenceFromSpec documents --confidence on a command that reads a spec
@@ -37,13 +39,16 @@ func confidenceFromSpec(cmd *cobra.Command) {
 }
 
 // validate checks the ensemble flags; a shard is kept in --out DIR for
-// rampart merge, so it needs one.
+// rampart merge, so it needs one, and decides nothing, so it has no report.
 func (o *decisionOptions) validate() error {
 	if err := o.ens.validate(); err != nil {
 		return err
 	}
-	if o.ens.shard != "" && o.ens.dir() == "" {
+	switch {
+	case o.ens.shard != "" && o.ens.dir() == "":
 		return fmt.Errorf("--shard %s needs --out DIR: the slices are kept there for rampart merge", o.ens.shard)
+	case o.ens.shard != "" && o.report != "":
+		return fmt.Errorf("--report %s with --shard %s: a shard decides nothing to report; give --report when the merged set runs with --resume", o.report, o.ens.shard)
 	}
 	return nil
 }

@@ -9,6 +9,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/outfile"
+	"rampart/cmd/internal/report"
+	"rampart/cmd/internal/scenario"
 	"rampart/cmd/internal/spec"
 	"rampart/mc"
 )
@@ -128,6 +130,11 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		}
 		fmt.Fprintf(stderr, "wrote %d realisations, %s and %s to %s\n", len(run.records), summaryFile, qualificationFile, dir)
 	}
+	if o.report != "" {
+		if err := writeQualifyReport(e, stderr, o, sc, run, budget, rep, req.Yield); err != nil {
+			return err
+		}
+	}
 	if o.json {
 		if err := writeJSON(stdout, rep); err != nil {
 			return err
@@ -205,10 +212,30 @@ func criterionFormat(c mc.Criterion) func(float64) string {
 }
 
 func printQualification(w io.Writer, rep qualifyReport) error {
+	if err := criteriaGrid(rep).Render(w); err != nil {
+		return err
+	}
+	for _, line := range criteriaNotes(rep) {
+		fmt.Fprintln(w, line)
+	}
+	fmt.Fprintln(w)
+	if err := gyroGrid(rep.Summary, rep.Gyro).Render(w); err != nil {
+		return err
+	}
+	if rep.Gyro == nil {
+		fmt.Fprintln(w, noReadout)
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, verdictLine(rep.Qualification))
+	return nil
+}
+
+// criteriaGrid returns the table of a qualification's criteria.
+func criteriaGrid(rep qualifyReport) *grid {
 	q, s := rep.Qualification, rep.Summary
 	conf := sig(100*q.Confidence, 3) + " %"
-	t := newTable(w, "Criterion", "Limit", "Unit", "Measured", "Lower bound ("+conf+" one-sided)", "Upper bound ("+conf+" one-sided)",
-		"Margin", "Verdict", "To decide", "Measured (deg/h)")
+	t := newGrid("The criteria of spec "+rep.Spec+" against the ensemble", "Criterion", "Limit", "Unit", "Measured",
+		"Lower bound ("+conf+" one-sided)", "Upper bound ("+conf+" one-sided)", "Margin", "Verdict", "To decide", "Measured (deg/h)")
 	for _, c := range q.Criteria {
 		f := criterionFormat(c)
 		limit := "<= " + f(c.Limit)
@@ -221,27 +248,71 @@ func printQualification(w io.Writer, rep qualifyReport) error {
 		}
 		t.Append(c.Name, limit, c.Unit, f(c.Value), f(c.Lo), f(c.Hi), f(c.Margin), c.Verdict.String(), toDecide(c), degPerH)
 	}
-	if err := t.Render(); err != nil {
-		return err
+	return t
+}
+
+// criteriaNotes explain the criteria table: the yield's count and how a
+// bound decides.
+func criteriaNotes(rep qualifyReport) []string {
+	var out []string
+	if s := rep.Summary; s.Yield != nil {
+		out = append(out, fmt.Sprintf("Yield: %d of %d realisations inside %s.", s.Yield.Inside, s.Samples, yieldLimits(s.Yield.Spec, s.ScaleFactorS)))
 	}
-	if y := s.Yield; y != nil {
-		fmt.Fprintf(w, "Yield: %d of %d realisations inside %s.\n", y.Inside, s.Samples, yieldLimits(y.Spec, s.ScaleFactorS))
-	}
-	fmt.Fprintln(w, "A limit \"at least\" passes when the lower bound clears it and fails when the upper bound misses it; \"at most\" the other way round.")
-	fmt.Fprintln(w)
-	if err := printGyro(w, s, rep.Gyro); err != nil {
-		return err
-	}
-	fmt.Fprintln(w)
+	return append(out, "A limit \"at least\" passes when the lower bound clears it and fails when the upper bound misses it; \"at most\" the other way round.")
+}
+
+// verdictLine states the overall verdict and what decides it.
+func verdictLine(q mc.Qualification) string {
+	conf := sig(100*q.Confidence, 3) + " %"
 	switch q.Verdict {
 	case mc.Pass:
-		fmt.Fprintf(w, "Verdict: pass. Every criterion is met with %s confidence over %d realisations.\n", conf, q.Samples)
+		return fmt.Sprintf("Verdict: pass. Every criterion is met with %s confidence over %d realisations.", conf, q.Samples)
 	case mc.Fail:
-		fmt.Fprintf(w, "Verdict: fail. Missed with %s confidence: %s.\n", conf, strings.Join(deciding(q), ", "))
-	default:
-		fmt.Fprintf(w, "Verdict: undecided. Not decided at %s confidence over %d realisations: %s.\n", conf, q.Samples, strings.Join(deciding(q), ", "))
+		return fmt.Sprintf("Verdict: fail. Missed with %s confidence: %s.", conf, strings.Join(deciding(q), ", "))
 	}
-	return nil
+	return fmt.Sprintf("Verdict: undecided. Not decided at %s confidence over %d realisations: %s.", conf, q.Samples, strings.Join(deciding(q), ", "))
+}
+
+// qualifySection takes what qualify --json prints and shows the verdict,
+// the criteria table and the gyroscope figures; the ensemble's own section
+// is the caller's to add.
+func qualifySection(q qualifyReport) (report.Section, error) {
+	text := append([]string{verdictLine(q.Qualification)}, criteriaNotes(q)...)
+	if q.Gyro == nil {
+		text = append(text, noReadout)
+	}
+	return report.Section{
+		Heading: "Qualification against " + q.Spec,
+		Text:    strings.Join(text, "\n\n"),
+		Tables:  []report.Table{criteriaGrid(q).table(), gyroGrid(q.Summary, q.Gyro).table()},
+	}, nil
+}
+
+// writeQualifyReport writes the report of a qualification: the drive and
+// co-moving dynamics of the ramp, the ensemble and the verdict.
+func writeQualifyReport(e env, stderr io.Writer, o qualifyOptions, sc *scenario.Scenario, run *ensembleRun, budget mc.Budget, rep qualifyReport, yield mc.Spec) error {
+	cfg := run.realiser.Config()
+	name := cfg.Sequence.Up.Name()
+	r := newReport(e, "Qualification of "+name+" on "+sc.Name+" against "+o.spec, sc, scenarioText(o.scenario), o.sets, run.manifest.Seed)
+	drive, err := driveSection([]namedConfig{{name, cfg}})
+	if err != nil {
+		return err
+	}
+	dyn, err := dynamicsSection(name, cfg)
+	if err != nil {
+		return err
+	}
+	ens, err := ensembleSection("Ensemble", "qualify-", rep.Summary, run.records, yield,
+		setupText(sc, cfg, name+" ramp", budget, ensembleLine(run, o.ens), "Spec: "+o.spec))
+	if err != nil {
+		return err
+	}
+	q, err := qualifySection(rep)
+	if err != nil {
+		return err
+	}
+	r.Sections = append(r.Sections, drive, dyn, ens, q)
+	return writeReport(stderr, r, o.report)
 }
 
 // yieldLimits describes a yield spec, with its bias limit as a rotation rate.

@@ -117,6 +117,18 @@ func TestQualifyOut(t *testing.T) {
 	}
 }
 
+// TestQualifyReport checks that qualify --report writes its page, with the
+// verdict, also when the verdict is fail.
+func TestQualifyReport(t *testing.T) {
+	dir := t.TempDir()
+	args := qualifyArgs("testdata/demo/spec.toml")
+	if _, stderr, code := execute(t, append(args, "--report", dir)...); code != 1 {
+		t.Fatalf("exit %d, want 1 (the fast ensemble misses the demo's bias limit): %s", code, stderr)
+	}
+	readReport(t, dir, "rampart "+strings.Join(args, " ")+" --report", append(driveFigures, "qualify-contrast", "qualify-bias"), 8,
+		"Verdict: fail. Missed with 95 % confidence: bias.abs_p95_max_rad, yield.min.", "Qualification against testdata/demo/spec.toml", "Gyroscope figure")
+}
+
 // TestQualifyBadInput: a bad spec or flag is exit 2 with one line, before
 // anything runs or is written.
 func TestQualifyBadInput(t *testing.T) {

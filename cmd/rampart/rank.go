@@ -11,6 +11,8 @@ import (
 
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/report"
+	"rampart/cmd/internal/scenario"
 	"rampart/mc"
 	"rampart/sim"
 )
@@ -167,16 +169,24 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 		}
 		fmt.Fprintf(stderr, "wrote each ramp's run, %s and the ranking figure to %s\n", rankingFile, dir)
 	}
+	var ramps []string
+	for _, r := range rep.Ramps {
+		ramps = append(ramps, fmt.Sprintf("%s = %s (%s us)", r.Name, rampDefinition(r), sig(r.RampUpS*1e6, 6)))
+	}
+	rampsLine := "Ramps: " + strings.Join(ramps, ", ")
+	workLine := work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(cs), o.ens.samples), o.ens)
+	what := fmt.Sprintf("%d ramps", len(cs))
+	if o.report != "" {
+		if err := writeRankReport(e, stderr, o, sc, cs, recs, rep, spec, setupText(sc, cfg, what, budget, rampsLine, workLine)); err != nil {
+			return err
+		}
+	}
 	if o.json {
 		return writeJSON(stdout, rep)
 	}
-	printHeader(stdout, sc, cfg, fmt.Sprintf("%d ramps", len(cs)), budget)
-	var ramps []string
-	for _, r := range rep.Ramps {
-		ramps = append(ramps, fmt.Sprintf("%s = %s (%s us)", r.Name, strings.TrimPrefix(r.Spec, "--ramp "+r.Name+"="), sig(r.RampUpS*1e6, 6)))
-	}
-	fmt.Fprintf(stdout, "Ramps: %s\n", strings.Join(ramps, ", "))
-	fmt.Fprintf(stdout, "%s\n\n", work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(cs), o.ens.samples), o.ens))
+	printHeader(stdout, sc, cfg, what, budget)
+	fmt.Fprintf(stdout, "%s\n", rampsLine)
+	fmt.Fprintf(stdout, "%s\n\n", workLine)
 	return printRanking(stdout, rep)
 }
 
@@ -200,6 +210,19 @@ func metricFormat(metric string) func(float64) string {
 }
 
 func printRanking(w io.Writer, rep rankReport) error {
+	if err := rankingGrid(rep).Render(w); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
+	for _, line := range rankingNotes(rep) {
+		fmt.Fprintln(w, line)
+	}
+	return nil
+}
+
+// rankingGrid returns the ranking table: the places best first, with the
+// metric and the paired differences, and each ramp's ensemble for context.
+func rankingGrid(rep rankReport) *grid {
 	r := rep.Ranking
 	conf := fmt.Sprintf("%s %% interval", sig(100*r.Confidence, 3))
 	f := metricFormat(r.Metric)
@@ -213,7 +236,7 @@ func printRanking(w io.Writer, rep rankReport) error {
 	if withGyro {
 		header = append(header, "ARW (deg/sqrt(h))")
 	}
-	t := newTable(w, header...)
+	t := newGrid(fmt.Sprintf("Ramps ranked by %s, best first", strings.ToLower(metricLabels[r.Metric])), header...)
 	for _, p := range r.Ranking {
 		rr := byName[p.Name]
 		next := ""
@@ -230,21 +253,31 @@ func printRanking(w io.Writer, rep rankReport) error {
 			}
 			row = append(row, arw)
 		}
-		t.Append(row)
+		t.Append(row...)
 	}
-	if err := t.Render(); err != nil {
-		return err
-	}
+	return t
+}
+
+// rankingNotes explain the ranking table: the order, the intervals and, with
+// a read-out, the angle random walk.
+func rankingNotes(rep rankReport) []string {
+	r := rep.Ranking
 	better := "higher"
 	if !r.HigherBetter {
 		better = "lower"
 	}
-	fmt.Fprintf(w, "\nBest first by %s (%s is better), over %d realisations per ramp. Intervals are %s %% two-sided: bootstrap percentile, Clopper-Pearson for a yield; the differences are paired over the same noise draws. A place is resolved when the paired intervals of its differences to the places above and below (Diff to next) exclude zero.\n",
-		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, sig(100*r.Confidence, 3))
+	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %d realisations per ramp. Intervals are %s %% two-sided: bootstrap percentile, Clopper-Pearson for a yield; the differences are paired over the same noise draws. A place is resolved when the paired intervals of its differences to the places above and below (Diff to next) exclude zero.",
+		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, sig(100*r.Confidence, 3))}
 	if g := rep.Ramps[0].Gyro; g != nil {
-		fmt.Fprintf(w, "ARW: the angle random walk at each ramp's mean contrast, %s atoms per shot, one shot per %s s.\n", sig(g.Atoms, 6), sig(g.CycleS, 6))
+		out = append(out, fmt.Sprintf("ARW: the angle random walk at each ramp's mean contrast, %s atoms per shot, one shot per %s s.", sig(g.Atoms, 6), sig(g.CycleS, 6)))
 	}
-	return nil
+	return out
+}
+
+// rampDefinition is what defined a ramp: its --ramp SPEC or its scenario
+// file.
+func rampDefinition(r rampReport) string {
+	return strings.TrimPrefix(r.Spec, "--ramp "+r.Name+"=")
 }
 
 // writeRanking writes the ranking and its figure to dir.
@@ -252,6 +285,15 @@ func writeRanking(dir string, rep rankReport) error {
 	if err := outfile.Write(filepath.Join(dir, rankingFile), func(w io.Writer) error { return writeJSON(w, rep) }); err != nil {
 		return err
 	}
+	nf, err := rankingFigure(rep)
+	if err != nil {
+		return err
+	}
+	return writeFigures(dir, []namedFigure{nf})
+}
+
+// rankingFigure plots each ramp's metric with its interval, best first.
+func rankingFigure(rep rankReport) (namedFigure, error) {
 	items := make([]plots.Estimate, len(rep.Ranking.Ranking))
 	for i, p := range rep.Ranking.Ranking {
 		items[i] = plots.Estimate{Name: p.Name, Value: p.Value, Lo: p.Lo, Hi: p.Hi}
@@ -261,7 +303,86 @@ func writeRanking(dir string, rep rankReport) error {
 		ValueLabel: metricLabels[rep.Metric],
 	})
 	if err != nil {
+		return namedFigure{}, err
+	}
+	caption := fmt.Sprintf("Each ramp's %s with its %s %% interval, best first.", strings.ToLower(metricLabels[rep.Metric]), sig(100*rep.Confidence, 3))
+	return namedFigure{name: "ranking", caption: caption, fig: fig}, nil
+}
+
+// rankSections takes the ranking (rank --json's object), each ramp's
+// configuration, its records by name and the yield spec, and shows the
+// ranking table and figure, then each ramp's ensemble, best first, its
+// figures' ids prefixed "rank-NAME-" (a '.' in NAME as '_', and the place
+// added should that make two prefixes the same).
+func rankSections(rep rankReport, cfgs []namedConfig, recs map[string][]mc.Record, spec mc.Spec) ([]report.Section, error) {
+	nf, err := rankingFigure(rep)
+	if err != nil {
+		return nil, err
+	}
+	figs, err := figures([]namedFigure{nf})
+	if err != nil {
+		return nil, err
+	}
+	out := []report.Section{{
+		Heading: "Ranking",
+		Text:    strings.Join(rankingNotes(rep), "\n\n"),
+		Tables:  []report.Table{rankingGrid(rep).table()},
+		Figures: figs,
+	}}
+	byName := map[string]rampReport{}
+	for _, rr := range rep.Ramps {
+		byName[rr.Name] = rr
+	}
+	prefixes := map[string]bool{}
+	for _, p := range rep.Ranking.Ranking {
+		i := slices.IndexFunc(cfgs, func(c namedConfig) bool { return c.name == p.Name })
+		rr, ok := byName[p.Name]
+		if i < 0 || !ok || recs[p.Name] == nil {
+			return nil, fmt.Errorf("ranking report: ramp %q lacks its configuration, summary or records", p.Name)
+		}
+		// A ramp's name may hold a '.', which an id may not.
+		prefix := "rank-" + strings.ReplaceAll(p.Name, ".", "_") + "-"
+		if prefixes[prefix] {
+			prefix += fmt.Sprint(p.Place) + "-"
+		}
+		prefixes[prefix] = true
+		up := cfgs[i].cfg.Sequence.Up
+		peak, _ := sim.PeakSpeed(up)
+		text := fmt.Sprintf("Place %d: %s = %s, ramp-up %s of %s us with a peak speed of %s rad/s, on the noise draws that every ramp shares.",
+			p.Place, p.Name, rampDefinition(rr), up.Name(), sig(up.Duration()*1e6, 6), sig(peak, 5))
+		sec, err := ensembleSection("Ensemble of "+p.Name, prefix, rr.Summary, recs[p.Name], spec, text)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, sec)
+	}
+	return out, nil
+}
+
+// writeRankReport writes the report of a ranking: every ramp's drive, the
+// co-moving dynamics of the best, the ranking and each ramp's ensemble.
+func writeRankReport(e env, stderr io.Writer, o rankOptions, sc *scenario.Scenario, cs []contestant, recs [][]mc.Record, rep rankReport, spec mc.Spec, setup string) error {
+	r := newReport(e, fmt.Sprintf("Ranking of %d ramps on %s", len(cs), sc.Name), sc, scenarioText(o.scenario), o.sets, o.ens.seed)
+	cfgs := make([]namedConfig, len(cs))
+	byName := map[string][]mc.Record{}
+	for i, c := range cs {
+		cfgs[i] = namedConfig{c.name, c.cfg}
+		byName[c.name] = recs[i]
+	}
+	drive, err := driveSection(cfgs)
+	if err != nil {
 		return err
 	}
-	return fig.WriteFiles(filepath.Join(dir, "ranking"))
+	best := cfgs[slices.IndexFunc(cfgs, func(c namedConfig) bool { return c.name == rep.Ranking.Ranking[0].Name })]
+	dyn, err := dynamicsSection(best.name, best.cfg)
+	if err != nil {
+		return err
+	}
+	secs, err := rankSections(rep, cfgs, byName, spec)
+	if err != nil {
+		return err
+	}
+	secs[0].Text = setup + "\n\n" + secs[0].Text
+	r.Sections = append([]report.Section{drive, dyn}, secs...)
+	return writeReport(stderr, r, o.report)
 }

@@ -38,6 +38,22 @@ func rankJSON(t *testing.T, args ...string) rankReport {
 	return rep
 }
 
+// TestRankReport checks that rank --report writes one page with every
+// ramp's drive, the best ramp's dynamics, the ranking and its figure, and
+// each ramp's histograms.
+func TestRankReport(t *testing.T) {
+	dir := t.TempDir()
+	if _, stderr, code := execute(t, append(rankArgs, "--report", dir)...); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	ids := append(driveFigures, "ranking")
+	for _, name := range []string{"sin2", "inverse", "table"} {
+		ids = append(ids, "rank-"+name+"-contrast", "rank-"+name+"-bias")
+	}
+	readReport(t, dir, "rampart "+strings.Join(rankArgs, " ")+" --report", ids, 13,
+		"Co-moving dynamics, nominal shot (inverse)", "1. inverse", "Ensemble of table", "table = file:testdata/ramps/sin2-41.csv")
+}
+
 // TestRankJSON checks the keys issue 4 asks for and the order: at 150 us
 // (0.65 trap periods) the inverse-engineered ramp keeps the atom in the
 // moving ground band and the sin2 ramp does not (README, demo), a gap far
@@ -177,5 +193,6 @@ func TestRankBadInput(t *testing.T) {
 		{"shard without a directory", []string{"rank", "--scenario", ensembleScenario, "--ramp", "a=sin2", "--ramp", "b=minjerk", "--shard", "1/2"}, "--shard 1/2 needs --out DIR"},
 		{"resume nothing", []string{"rank", "--scenario", ensembleScenario, "--ramp", "a=sin2", "--ramp", "b=minjerk", "--resume", out}, "--resume " + out + ": no such directory"},
 		{"atoms without a cycle", rank("--ramp", "a=sin2", "--ramp", "b=minjerk", "--atoms", "1e4"), "--atoms 10000 needs a cycle time too"},
+		{"report of a shard", rank("--ramp", "a=sin2", "--ramp", "b=minjerk", "--shard", "1/2", "--report", filepath.Join(dir, "report")), "a shard decides nothing to report"},
 	})
 }

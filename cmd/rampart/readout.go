@@ -2,7 +2,6 @@ package main
 
 import (
 	"fmt"
-	"io"
 	"math"
 
 	"github.com/spf13/cobra"
@@ -68,12 +67,12 @@ func (r readout) gyro(s mc.Summary) *mc.Gyro {
 // rotation-rate error.
 func absBiasP95DegPerH(s mc.Summary) float64 { return mc.BiasDegPerH(s.AbsBiasRad.P95, s.ScaleFactorS) }
 
-// printGyro prints the gyroscope figures of an ensemble: its biases as
+// gyroGrid returns the gyroscope figures of an ensemble: its biases as
 // rotation rates and, with a read-out, the projection-noise limit and the
 // angle random walk (PHYSICS.md section 8).
-func printGyro(w io.Writer, s mc.Summary, g *mc.Gyro) error {
+func gyroGrid(s mc.Summary, g *mc.Gyro) *grid {
 	b3 := func(x float64) string { return sci(x, 3) }
-	t := newTable(w, "Gyroscope figure", "Value", "Unit")
+	t := newGrid("Gyroscope figures", "Gyroscope figure", "Value", "Unit")
 	t.Append("Scale factor K = 2 I phi(T) / hbar", sig(s.ScaleFactorS, 6), "s (rad per rad/s)")
 	t.Append("Mean bias as a rotation rate", b3(s.BiasDegPerH.Mean), "deg/h")
 	t.Append("|bias| p95 as a rotation rate", b3(absBiasP95DegPerH(s)), "deg/h")
@@ -81,11 +80,8 @@ func printGyro(w io.Writer, s mc.Summary, g *mc.Gyro) error {
 		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms at contrast %s", sig(g.Atoms, 6), fixed(g.Contrast, 4)), b3(g.ShotNoiseDegPerH), "deg/h")
 		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", sig(g.CycleS, 6)), b3(g.AngleRandomWalkDegPerSqrtH), "deg/sqrt(h)")
 	}
-	if err := t.Render(); err != nil {
-		return err
-	}
-	if g == nil {
-		fmt.Fprintln(w, "(For the projection-noise limit and the angle random walk, give the scenario a [readout] table or --atoms and --cycle-s.)")
-	}
-	return nil
+	return t
 }
+
+// noReadout says what the gyroscope figures lack without a read-out.
+const noReadout = "(For the projection-noise limit and the angle random walk, give the scenario a [readout] table or --atoms and --cycle-s.)"

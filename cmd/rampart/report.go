@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -79,6 +80,44 @@ func figure(id, caption string, f *plots.Figure) (report.Figure, error) {
 		return report.Figure{}, err
 	}
 	return report.Figure{ID: id, Caption: caption, SVG: svg}, nil
+}
+
+// namedFigure is a figure that --out writes to DIR/NAME.png and .svg and
+// a report shows with the id NAME, so that both go by one name.
+type namedFigure struct {
+	name, caption string
+	fig           *plots.Figure
+}
+
+// figures renders named figures for a report.
+func figures(nfs []namedFigure) ([]report.Figure, error) {
+	out := make([]report.Figure, len(nfs))
+	for i, nf := range nfs {
+		f, err := figure(nf.name, nf.caption, nf.fig)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = f
+	}
+	return out, nil
+}
+
+// writeFigures writes named figures to dir as PNG and SVG.
+func writeFigures(dir string, nfs []namedFigure) error {
+	for _, nf := range nfs {
+		if err := nf.fig.WriteFiles(filepath.Join(dir, nf.name)); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// setupText says in a report what was simulated (the scenario's sequence
+// with ramp naming the ramp, and its noise budget) and then how, in lines
+// such as the ensemble's: what the terminal shows above a command's tables.
+func setupText(sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget, lines ...string) string {
+	paragraphs := append([]string{describe(sc, cfg, ramp), "Noise budget: " + budgetLine(b)}, lines...)
+	return strings.Join(paragraphs, ".\n\n") + "."
 }
 
 // namedConfig is a ramp's configuration in a report.

@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
-	"regexp"
 	"strings"
 	"testing"
 )
@@ -124,25 +123,6 @@ func TestRunReport(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	b, err := os.ReadFile(filepath.Join(dir, "report.html"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	page := string(b)
-	text := regexp.MustCompile(`<[^>]*>`).ReplaceAllString(page, "")
-	if want := "rampart run --scenario testdata/scenarios/ensemble.toml --samples 8 --min-contrast 0.5 --report"; !strings.Contains(text, want) {
-		t.Errorf("report lacks the command %q", want)
-	}
-	for _, want := range []string{
-		`id="drive"`, `id="dynamics-offset-up"`, `id="dynamics-offset-down"`, `id="dynamics-velocity-up"`,
-		`id="dynamics-velocity-down"`, `id="dynamics-ground"`, `id="ensemble-contrast"`, `id="ensemble-bias"`,
-		"Yield (contrast &gt;= 0.5)", "[noise.depth]",
-	} {
-		if !strings.Contains(page, want) {
-			t.Errorf("report lacks %q", want)
-		}
-	}
-	if n := strings.Count(page, "<figure"); n != 8 {
-		t.Errorf("report has %d figures, want 8", n)
-	}
+	readReport(t, dir, "rampart run --scenario testdata/scenarios/ensemble.toml --samples 8 --min-contrast 0.5 --report",
+		append(driveFigures, "ensemble-contrast", "ensemble-bias"), 8, "Yield (contrast &gt;= 0.5)", "[noise.depth]")
 }

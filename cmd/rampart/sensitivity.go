@@ -11,7 +11,10 @@ import (
 
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/report"
+	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/sim"
 )
 
 type sensitivityOptions struct {
@@ -132,47 +135,128 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 		}
 		fmt.Fprintf(stderr, "wrote %d shots, %s and the bar charts to %s\n", len(run.records), sensitivityFile, dir)
 	}
-	if o.json {
-		return writeJSON(stdout, rep)
-	}
-	printHeader(stdout, sc, r.Config(), r.Config().Sequence.Up.Name()+" ramp", budget)
+	cfg, ramp := r.Config(), r.Config().Sequence.Up.Name()+" ramp"
 	var work ensembleWork
 	work.add(run)
 	what := fmt.Sprintf("Saltelli design of %d base rows x (%d inputs + 2) = %d shots", o.base, len(rep.Inputs), rep.Shots)
-	fmt.Fprintf(stdout, "%s\n\n", strings.Replace(work.line(what, o.ens), "Ensembles: ", "Design: ", 1))
-	return printSensitivity(stdout, rep, o.ens.confidence)
+	designLine := strings.Replace(work.line(what, o.ens), "Ensembles: ", "Design: ", 1)
+	if o.report != "" {
+		if err := writeSensitivityReport(e, stderr, o, sc, cfg, rep, setupText(sc, cfg, ramp, budget, designLine)); err != nil {
+			return err
+		}
+	}
+	if o.json {
+		return writeJSON(stdout, rep)
+	}
+	printHeader(stdout, sc, cfg, ramp, budget)
+	fmt.Fprintf(stdout, "%s\n\n", designLine)
+	return printSensitivity(stdout, rep)
 }
 
-func printSensitivity(w io.Writer, rep sensitivityReport, confidence float64) error {
-	conf := sig(100*confidence, 3) + " % interval"
+func printSensitivity(w io.Writer, rep sensitivityReport) error {
+	if err := sobolGrid(rep).Render(w); err != nil {
+		return err
+	}
+	fmt.Fprintf(w, "\n%s\n\n", sobolNote(rep))
+	d := derivativeGrid(rep)
+	if d == nil {
+		fmt.Fprintln(w, noDerivatives)
+		return nil
+	}
+	fmt.Fprintln(w, derivativesLead)
+	return d.Render(w)
+}
+
+// sobolGrid returns the table of the Sobol' indices, a row per input.
+func sobolGrid(rep sensitivityReport) *grid {
+	conf := sig(100*rep.Indices.Confidence, 3) + " % interval"
 	f := func(x float64) string { return fixed(x, 3) }
-	cell := func(i mc.Interval) []string { return []string{f(i.Value), interval(i.Lo, i.Hi, f)} }
-	t := newTable(w, "Input", "Contrast S1", conf, "Contrast ST", conf, "Bias S1", conf, "Bias ST", conf)
+	t := newGrid(fmt.Sprintf("Sobol' indices of contrast and bias, %d shots", rep.Shots), "Input", "Contrast S1", conf, "Contrast ST", conf, "Bias S1", conf, "Bias ST", conf)
 	for _, in := range rep.Indices.Inputs {
 		row := []string{in.Name}
 		for _, i := range []mc.Interval{in.ContrastFirst, in.ContrastTotal, in.BiasFirst, in.BiasTotal} {
-			row = append(row, cell(i)...)
+			row = append(row, f(i.Value), interval(i.Lo, i.Hi, f))
 		}
-		t.Append(row)
+		t.Append(row...)
 	}
-	if err := t.Render(); err != nil {
-		return err
-	}
+	return t
+}
+
+// sobolNote explains the indices and gives the spread they apportion.
+func sobolNote(rep sensitivityReport) string {
 	biasStd := math.Sqrt(rep.Indices.BiasVariance)
-	fmt.Fprintf(w, "\nS1: the share of the variance an input causes alone; ST: with all its interactions (ST >= S1; 1 - sum S1 is the share of interactions). Spread over the design: contrast std %s, bias std %s rad (%s deg/h). Bootstrap intervals over the %d rows; small negative values are sampling error about zero.\n\n",
+	return fmt.Sprintf("S1: the share of the variance an input causes alone; ST: with all its interactions (ST >= S1; 1 - sum S1 is the share of interactions). Spread over the design: contrast std %s, bias std %s rad (%s deg/h). Bootstrap intervals over the %d rows; small negative values are sampling error about zero.",
 		sci(math.Sqrt(rep.Indices.ContrastVariance), 3), sci(biasStd, 3), sci(mc.BiasDegPerH(biasStd, rep.ScaleFactorS), 3), rep.BaseRows)
+}
+
+// noDerivatives and derivativesLead introduce the table of local
+// derivatives, or say why there is none.
+const (
+	noDerivatives   = "No static errors in the budget: no local derivatives."
+	derivativesLead = "Local derivatives of one shot at nominal, central differences over the step h (one budget standard deviation):"
+)
+
+// derivativeGrid returns the table of local derivatives, nil without a
+// static error in the budget.
+func derivativeGrid(rep sensitivityReport) *grid {
 	if len(rep.Derivatives) == 0 {
-		fmt.Fprintln(w, "No static errors in the budget: no local derivatives.")
 		return nil
 	}
-	fmt.Fprintln(w, "Local derivatives of one shot at nominal, central differences over the step h (one budget standard deviation):")
-	t = newTable(w, "Input", "Step h", "Unit", "dC/dx", "d2C/dx2", "Contrast change C'' h^2/2", "db/dx (rad per unit)", "Bias shift b' h (rad)", "Bias shift b' h (deg/h)")
+	t := newGrid(strings.TrimSuffix(derivativesLead, ":"), "Input", "Step h", "Unit", "dC/dx", "d2C/dx2", "Contrast change C'' h^2/2",
+		"db/dx (rad per unit)", "Bias shift b' h (rad)", "Bias shift b' h (deg/h)")
 	for _, d := range rep.Derivatives {
 		shift := d.BiasRad * d.StepSI
 		t.Append(d.Input, sig(d.StepSI, 4), siUnit(d.Input), sci(d.Contrast, 3), sci(d.ContrastSecond, 3), sci(d.ContrastSecond*d.StepSI*d.StepSI/2, 3),
 			sci(d.BiasRad, 3), sci(shift, 3), sci(mc.BiasDegPerH(shift, rep.ScaleFactorS), 3))
 	}
-	return t.Render()
+	return t
+}
+
+// sensitivitySection takes what sensitivity --json prints and shows the
+// Sobol' index table with its bar charts and the local derivatives.
+func sensitivitySection(rep sensitivityReport) (report.Section, error) {
+	nfs, err := sensitivityFigures(rep)
+	if err != nil {
+		return report.Section{}, err
+	}
+	figs, err := figures(nfs)
+	if err != nil {
+		return report.Section{}, err
+	}
+	sec := report.Section{
+		Heading: "Sensitivity",
+		Text:    sobolNote(rep),
+		Tables:  []report.Table{sobolGrid(rep).table()},
+		Figures: figs,
+	}
+	if d := derivativeGrid(rep); d != nil {
+		sec.Tables = append(sec.Tables, d.table())
+	} else {
+		sec.Text += "\n\n" + noDerivatives
+	}
+	return sec, nil
+}
+
+// writeSensitivityReport writes the report of a sensitivity design: the
+// drive and co-moving dynamics of the ramp, the indices and derivatives.
+func writeSensitivityReport(e env, stderr io.Writer, o sensitivityOptions, sc *scenario.Scenario, cfg sim.Config, rep sensitivityReport, setup string) error {
+	name := cfg.Sequence.Up.Name()
+	r := newReport(e, "Sensitivity of "+name+" on "+sc.Name+" to its noise sources", sc, scenarioText(o.scenario), o.sets, o.ens.seed)
+	drive, err := driveSection([]namedConfig{{name, cfg}})
+	if err != nil {
+		return err
+	}
+	dyn, err := dynamicsSection(name, cfg)
+	if err != nil {
+		return err
+	}
+	sens, err := sensitivitySection(rep)
+	if err != nil {
+		return err
+	}
+	sens.Text = setup + "\n\n" + sens.Text
+	r.Sections = append(r.Sections, drive, dyn, sens)
+	return writeReport(stderr, r, o.report)
 }
 
 // siUnit is the SI unit of a static parameter, which its name carries.
@@ -191,6 +275,17 @@ func writeSensitivity(dir string, rep sensitivityReport) error {
 	if err := outfile.Write(filepath.Join(dir, sensitivityFile), func(w io.Writer) error { return writeJSON(w, rep) }); err != nil {
 		return err
 	}
+	nfs, err := sensitivityFigures(rep)
+	if err != nil {
+		return err
+	}
+	return writeFigures(dir, nfs)
+}
+
+// sensitivityFigures returns the bar charts of the indices of the contrast
+// and of the bias, named sensitivity-contrast and sensitivity-bias.
+func sensitivityFigures(rep sensitivityReport) ([]namedFigure, error) {
+	var out []namedFigure
 	for _, output := range []struct {
 		name, label string
 		first       func(mc.SobolInput) mc.Interval
@@ -215,11 +310,10 @@ func writeSensitivity(dir string, rep sensitivityReport) error {
 			Horizontal: true,
 		})
 		if err != nil {
-			return fmt.Errorf("bar chart of the %s indices: %w", output.label, err)
+			return nil, fmt.Errorf("bar chart of the %s indices: %w", output.label, err)
 		}
-		if err := fig.WriteFiles(filepath.Join(dir, "sensitivity-"+output.name)); err != nil {
-			return err
-		}
+		caption := fmt.Sprintf("First-order and total Sobol' indices of the %s for each input, with their %s %% bootstrap intervals.", output.label, sig(100*rep.Indices.Confidence, 3))
+		out = append(out, namedFigure{name: "sensitivity-" + output.name, caption: caption, fig: fig})
 	}
-	return nil
+	return out, nil
 }

@@ -22,6 +22,17 @@ func TestSensitivityGolden(t *testing.T) {
 	golden(t, "sensitivity-ensemble.txt", stdout)
 }
 
+// TestSensitivityReport checks that sensitivity --report writes its page
+// with the bar charts and both tables.
+func TestSensitivityReport(t *testing.T) {
+	dir := t.TempDir()
+	if _, stderr, code := execute(t, append(sensitivityArgs, "--report", dir)...); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	readReport(t, dir, "rampart "+strings.Join(sensitivityArgs, " ")+" --report", append(driveFigures, "sensitivity-contrast", "sensitivity-bias"), 8,
+		"Sobol&#39; indices of contrast and bias, 32 shots", "d2C/dx2")
+}
+
 // TestSensitivityStore checks the design's size, the files of --out, that
 // the merged shards give the indices of one run, and that a resume with
 // another design is refused.

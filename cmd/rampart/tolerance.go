@@ -10,6 +10,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"rampart/cmd/internal/scenario"
 	"rampart/mc"
 	"rampart/sim"
 )
@@ -153,13 +154,43 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 		}
 		fmt.Fprintf(stderr, "wrote %s, a figure per source and every ensemble of the search to %s\n", toleranceCurvesFile, dir)
 	}
+	ramp := cfg.Sequence.Up.Name() + " ramp"
+	workLine := work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens)
+	specLine := fmt.Sprintf("Spec: %s, at %s %% confidence", o.spec, sig(100*req.Confidence, 3))
+	if o.report != "" {
+		if err := writeToleranceReport(e, stderr, o, sc, cfg, rep, setupText(sc, cfg, ramp, budget, workLine, specLine)); err != nil {
+			return err
+		}
+	}
 	if o.json {
 		return writeJSON(stdout, rep)
 	}
-	printHeader(stdout, sc, cfg, cfg.Sequence.Up.Name()+" ramp", budget)
-	fmt.Fprintf(stdout, "%s\n", work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens))
-	fmt.Fprintf(stdout, "Spec: %s, at %s %% confidence\n\n", o.spec, sig(100*req.Confidence, 3))
+	printHeader(stdout, sc, cfg, ramp, budget)
+	fmt.Fprintf(stdout, "%s\n", workLine)
+	fmt.Fprintf(stdout, "%s\n\n", specLine)
 	return printTolerances(stdout, rep)
+}
+
+// writeToleranceReport writes the report of a tolerance search: the drive
+// and co-moving dynamics of the ramp, the tolerance table and the curves.
+func writeToleranceReport(e env, stderr io.Writer, o toleranceOptions, sc *scenario.Scenario, cfg sim.Config, rep toleranceReport, setup string) error {
+	name := cfg.Sequence.Up.Name()
+	r := newReport(e, "Tolerances of "+name+" on "+sc.Name+" against "+o.spec, sc, scenarioText(o.scenario), o.sets, o.ens.seed)
+	drive, err := driveSection([]namedConfig{{name, cfg}})
+	if err != nil {
+		return err
+	}
+	dyn, err := dynamicsSection(name, cfg)
+	if err != nil {
+		return err
+	}
+	tol, err := toleranceSection(rep)
+	if err != nil {
+		return err
+	}
+	tol.Text = setup + "\n\n" + tol.Text
+	r.Sections = append(r.Sections, drive, dyn, tol)
+	return writeReport(stderr, r, o.report)
 }
 
 // toleranceSources returns the sources to search: those listed

@@ -9,14 +9,15 @@ import (
 
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/report"
 	"rampart/mc"
 )
 
 // toleranceCurvesFile holds the tolerance curves in the output directory.
 const toleranceCurvesFile = "tolerance-curves.csv"
 
-// toleranceNotes explain the statuses of a tolerance search.
-var toleranceNotes = map[mc.ToleranceStatus]string{
+// toleranceStatusNotes explain the statuses of a tolerance search.
+var toleranceStatusNotes = map[mc.ToleranceStatus]string{
 	mc.ToleranceAboveRange: "above-range: the spec holds up to the largest amplitude searched, so the tolerance shown is a lower bound.",
 	mc.ToleranceBelowRange: "below-range: the spec holds with the source off but fails at the smallest amplitude searched (1/1000 of the start).",
 	mc.ToleranceNone:       "fails-without-source: the spec fails even with the source off; the other sources or the sequence itself break it.",
@@ -33,10 +34,21 @@ func binding(res mc.ToleranceResult, p mc.TolerancePoint) (mc.Criterion, bool) {
 }
 
 func printTolerances(w io.Writer, rep toleranceReport) error {
+	if err := toleranceGrid(rep).Render(w); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
+	for _, line := range toleranceNotes(rep) {
+		fmt.Fprintln(w, line)
+	}
+	return nil
+}
+
+// toleranceGrid returns the tolerance table: a row per source searched.
+func toleranceGrid(rep toleranceReport) *grid {
 	conf := sig(100*rep.Requirements.Confidence, 3) + " %"
-	t := newTable(w, "Source", "Unit", "Nominal", "Tolerance", "Status", "Binding criterion", "At the tolerance", "Bounds ("+conf+" one-sided)", "At the tolerance (deg/h)", "Curve points")
-	notes := map[mc.ToleranceStatus]bool{}
-	monotone := true
+	t := newGrid("The tolerance of each noise source against spec "+rep.Spec, "Source", "Unit", "Nominal", "Tolerance", "Status",
+		"Binding criterion", "At the tolerance", "Bounds ("+conf+" one-sided)", "At the tolerance (deg/h)", "Curve points")
 	for _, res := range rep.Results {
 		nominal := "off"
 		if res.Nominal != nil {
@@ -59,25 +71,53 @@ func printTolerances(w io.Writer, rep toleranceReport) error {
 		metric := res.Metric
 		if !res.Monotone {
 			metric += " *"
-			monotone = false
 		}
-		notes[res.Status] = true
 		t.Append(res.Source, res.Unit, nominal, tol, string(res.Status), metric, value, bounds, degPerH, fmt.Sprint(len(res.Points)))
 	}
-	if err := t.Render(); err != nil {
-		return err
+	return t
+}
+
+// toleranceNotes explain the tolerance table: what a tolerance is, and
+// the statuses and marks it shows.
+func toleranceNotes(rep toleranceReport) []string {
+	out := []string{
+		"Each tolerance holds with every other source at its value in the budget; budget is the factor by which the whole budget may be scaled.",
+		fmt.Sprintf("The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.", sig(rep.Results[0].Precision, 3)),
 	}
-	fmt.Fprintln(w, "\nEach tolerance holds with every other source at its value in the budget; budget is the factor by which the whole budget may be scaled.")
-	fmt.Fprintf(w, "The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.\n", sig(rep.Results[0].Precision, 3))
+	statuses := map[mc.ToleranceStatus]bool{}
+	monotone := true
+	for _, res := range rep.Results {
+		statuses[res.Status] = true
+		monotone = monotone && res.Monotone
+	}
 	for _, s := range []mc.ToleranceStatus{mc.ToleranceAboveRange, mc.ToleranceBelowRange, mc.ToleranceNone} {
-		if notes[s] {
-			fmt.Fprintln(w, toleranceNotes[s])
+		if statuses[s] {
+			out = append(out, toleranceStatusNotes[s])
 		}
 	}
 	if !monotone {
-		fmt.Fprintln(w, "* The criterion's value was not monotone in the amplitude over the ensembles tried (sampling noise); the curves carry its monotone envelope.")
+		out = append(out, "* The criterion's value was not monotone in the amplitude over the ensembles tried (sampling noise); the curves carry its monotone envelope.")
 	}
-	return nil
+	return out
+}
+
+// toleranceSection takes what tolerance --json prints and shows the
+// tolerance table and the curve of each source.
+func toleranceSection(rep toleranceReport) (report.Section, error) {
+	nfs, err := toleranceFigures(rep)
+	if err != nil {
+		return report.Section{}, err
+	}
+	figs, err := figures(nfs)
+	if err != nil {
+		return report.Section{}, err
+	}
+	return report.Section{
+		Heading: "Tolerances",
+		Text:    strings.Join(toleranceNotes(rep), "\n\n"),
+		Tables:  []report.Table{toleranceGrid(rep).table()},
+		Figures: figs,
+	}, nil
 }
 
 // writeToleranceCurves writes the curves of every search as CSV, and a
@@ -97,19 +137,29 @@ func writeToleranceCurves(dir string, rep toleranceReport) error {
 	}); err != nil {
 		return err
 	}
+	nfs, err := toleranceFigures(rep)
+	if err != nil {
+		return err
+	}
+	return writeFigures(dir, nfs)
+}
+
+// toleranceFigures returns the curve of each search that has one (two
+// amplitudes or more), named tolerance-SOURCE.
+func toleranceFigures(rep toleranceReport) ([]namedFigure, error) {
+	var out []namedFigure
 	for _, res := range rep.Results {
 		if len(res.Points) < 2 {
 			continue
 		}
 		fig, err := toleranceFigure(res, rep.Requirements.Confidence)
 		if err != nil {
-			return fmt.Errorf("figure of the tolerance of %s: %w", res.Source, err)
+			return nil, fmt.Errorf("figure of the tolerance of %s: %w", res.Source, err)
 		}
-		if err := fig.WriteFiles(filepath.Join(dir, "tolerance-"+res.Source)); err != nil {
-			return err
-		}
+		caption := fmt.Sprintf("The binding criterion %s against the amplitude of %s (%s), with its one-sided bounds, the spec limit and the tolerance.", res.Metric, res.Source, res.Unit)
+		out = append(out, namedFigure{name: "tolerance-" + res.Source, caption: caption, fig: fig})
 	}
-	return nil
+	return out, nil
 }
 
 // toleranceFigure plots the binding criterion of one search against the

@@ -118,6 +118,19 @@ func TestToleranceSkew(t *testing.T) {
 	golden(t, "tolerance-skew.txt", strings.ReplaceAll(again, spec, "SPEC"))
 }
 
+// TestToleranceReport checks that tolerance --report writes its page with
+// the curve of each search, the joint one included.
+func TestToleranceReport(t *testing.T) {
+	dir := t.TempDir()
+	args := append(skewArgs(writeSpec(t, dir, "skew.toml", skewSpec)), "--joint")
+	report := filepath.Join(dir, "report")
+	if _, stderr, code := execute(t, append(args, "--report", report)...); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	readReport(t, report, "rampart "+strings.Join(args, " ")+" --report", append(driveFigures, "tolerance-skew_s", "tolerance-budget"), 8,
+		"The tolerance of each noise source against spec")
+}
+
 // TestToleranceBadInput: exit 2 and one line before anything runs.
 func TestToleranceBadInput(t *testing.T) {
 	dir := t.TempDir()
