@@ -1,6 +1,7 @@
 package main
 
 import (
+	"fmt"
 	"io"
 
 	"rampart/cmd/internal/report"
@@ -25,6 +26,19 @@ func (g *grid) Render(w io.Writer) error {
 		t.Append(r)
 	}
 	return t.Render()
+}
+
+// RenderNoted prints the grid as a terminal table, then a blank line and
+// the notes that explain it, a line each.
+func (g *grid) RenderNoted(w io.Writer, notes []string) error {
+	if err := g.Render(w); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
+	for _, line := range notes {
+		fmt.Fprintln(w, line)
+	}
+	return nil
 }
 
 // table returns the grid as a report table.

@@ -130,8 +130,10 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		}
 		fmt.Fprintf(stderr, "wrote %d realisations, %s and %s to %s\n", len(run.records), summaryFile, qualificationFile, dir)
 	}
+	cfg = run.realiser.Config()
+	ramp, specLine := cfg.Sequence.Up.Name()+" ramp", "Spec: "+o.spec
 	if o.report != "" {
-		if err := writeQualifyReport(e, stderr, o, sc, run, budget, rep, req.Yield); err != nil {
+		if err := writeQualifyReport(e, stderr, o, sc, run, rep, req.Yield, setupText(sc, cfg, ramp, budget, ensembleLine(run, o.ens), specLine)); err != nil {
 			return err
 		}
 	}
@@ -140,9 +142,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 			return err
 		}
 	} else {
-		printHeader(stdout, sc, run.realiser.Config(), run.realiser.Config().Sequence.Up.Name()+" ramp", budget)
-		fmt.Fprintf(stdout, "%s\n", ensembleLine(run, o.ens))
-		fmt.Fprintf(stdout, "Spec: %s\n\n", o.spec)
+		printHeader(stdout, sc, cfg, ramp, budget, ensembleLine(run, o.ens), specLine)
 		if err := printQualification(stdout, rep); err != nil {
 			return err
 		}
@@ -290,20 +290,8 @@ func qualifySection(q qualifyReport) (report.Section, error) {
 
 // writeQualifyReport writes the report of a qualification: the drive and
 // co-moving dynamics of the ramp, the ensemble and the verdict.
-func writeQualifyReport(e env, stderr io.Writer, o qualifyOptions, sc *scenario.Scenario, run *ensembleRun, budget mc.Budget, rep qualifyReport, yield mc.Spec) error {
-	cfg := run.realiser.Config()
-	name := cfg.Sequence.Up.Name()
-	r := newReport(e, "Qualification of "+name+" on "+sc.Name+" against "+o.spec, sc, scenarioText(o.scenario), o.sets, run.manifest.Seed)
-	drive, err := driveSection([]namedConfig{{name, cfg}})
-	if err != nil {
-		return err
-	}
-	dyn, err := dynamicsSection(name, cfg)
-	if err != nil {
-		return err
-	}
-	ens, err := ensembleSection("Ensemble", "qualify-", rep.Summary, run.records, yield,
-		setupText(sc, cfg, name+" ramp", budget, ensembleLine(run, o.ens), "Spec: "+o.spec))
+func writeQualifyReport(e env, stderr io.Writer, o qualifyOptions, sc *scenario.Scenario, run *ensembleRun, rep qualifyReport, yield mc.Spec, setup string) error {
+	ens, err := ensembleSection("Ensemble", "qualify-", rep.Summary, run.records, yield, "")
 	if err != nil {
 		return err
 	}
@@ -311,8 +299,8 @@ func writeQualifyReport(e env, stderr io.Writer, o qualifyOptions, sc *scenario.
 	if err != nil {
 		return err
 	}
-	r.Sections = append(r.Sections, drive, dyn, ens, q)
-	return writeReport(stderr, r, o.report)
+	cfgs, name := oneRamp(run.realiser.Config())
+	return writeDecisionReport(e, stderr, o.decisionOptions, "Qualification of "+name+" on "+sc.Name+" against "+o.spec, sc, cfgs, name, setup, ens, q)
 }
 
 // yieldLimits describes a yield spec, with its bias limit as a rotation rate.

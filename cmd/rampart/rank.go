@@ -184,10 +184,8 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 	if o.json {
 		return writeJSON(stdout, rep)
 	}
-	printHeader(stdout, sc, cfg, what, budget)
-	fmt.Fprintf(stdout, "%s\n", rampsLine)
-	fmt.Fprintf(stdout, "%s\n\n", workLine)
-	return printRanking(stdout, rep)
+	printHeader(stdout, sc, cfg, what, budget, rampsLine, workLine)
+	return rankingGrid(rep).RenderNoted(stdout, rankingNotes(rep))
 }
 
 // metricLabels name the ranking metrics in tables and figures.
@@ -207,17 +205,6 @@ func metricFormat(metric string) func(float64) string {
 		return func(x float64) string { return sci(x, 3) }
 	}
 	return func(x float64) string { return fixed(x, 5) }
-}
-
-func printRanking(w io.Writer, rep rankReport) error {
-	if err := rankingGrid(rep).Render(w); err != nil {
-		return err
-	}
-	fmt.Fprintln(w)
-	for _, line := range rankingNotes(rep) {
-		fmt.Fprintln(w, line)
-	}
-	return nil
 }
 
 // rankingGrid returns the ranking table: the places best first, with the
@@ -285,15 +272,16 @@ func writeRanking(dir string, rep rankReport) error {
 	if err := outfile.Write(filepath.Join(dir, rankingFile), func(w io.Writer) error { return writeJSON(w, rep) }); err != nil {
 		return err
 	}
-	nf, err := rankingFigure(rep)
+	nfs, err := rankingFigure(rep)
 	if err != nil {
 		return err
 	}
-	return writeFigures(dir, []namedFigure{nf})
+	return writeFigures(dir, nfs)
 }
 
-// rankingFigure plots each ramp's metric with its interval, best first.
-func rankingFigure(rep rankReport) (namedFigure, error) {
+// rankingFigure plots each ramp's metric with its interval, best first: one
+// figure, named ranking.
+func rankingFigure(rep rankReport) ([]namedFigure, error) {
 	items := make([]plots.Estimate, len(rep.Ranking.Ranking))
 	for i, p := range rep.Ranking.Ranking {
 		items[i] = plots.Estimate{Name: p.Name, Value: p.Value, Lo: p.Lo, Hi: p.Hi}
@@ -303,10 +291,10 @@ func rankingFigure(rep rankReport) (namedFigure, error) {
 		ValueLabel: metricLabels[rep.Metric],
 	})
 	if err != nil {
-		return namedFigure{}, err
+		return nil, err
 	}
 	caption := fmt.Sprintf("Each ramp's %s with its %s %% interval, best first.", strings.ToLower(metricLabels[rep.Metric]), sig(100*rep.Confidence, 3))
-	return namedFigure{name: "ranking", caption: caption, fig: fig}, nil
+	return []namedFigure{{name: "ranking", caption: caption, fig: fig}}, nil
 }
 
 // rankSections takes the ranking (rank --json's object), each ramp's
@@ -315,11 +303,7 @@ func rankingFigure(rep rankReport) (namedFigure, error) {
 // figures' ids prefixed "rank-NAME-" (a '.' in NAME as '_', and the place
 // added should that make two prefixes the same).
 func rankSections(rep rankReport, cfgs []namedConfig, recs map[string][]mc.Record, spec mc.Spec) ([]report.Section, error) {
-	nf, err := rankingFigure(rep)
-	if err != nil {
-		return nil, err
-	}
-	figs, err := figures([]namedFigure{nf})
+	figs, err := figures(rankingFigure(rep))
 	if err != nil {
 		return nil, err
 	}
@@ -362,27 +346,15 @@ func rankSections(rep rankReport, cfgs []namedConfig, recs map[string][]mc.Recor
 // writeRankReport writes the report of a ranking: every ramp's drive, the
 // co-moving dynamics of the best, the ranking and each ramp's ensemble.
 func writeRankReport(e env, stderr io.Writer, o rankOptions, sc *scenario.Scenario, cs []contestant, recs [][]mc.Record, rep rankReport, spec mc.Spec, setup string) error {
-	r := newReport(e, fmt.Sprintf("Ranking of %d ramps on %s", len(cs), sc.Name), sc, scenarioText(o.scenario), o.sets, o.ens.seed)
 	cfgs := make([]namedConfig, len(cs))
 	byName := map[string][]mc.Record{}
 	for i, c := range cs {
 		cfgs[i] = namedConfig{c.name, c.cfg}
 		byName[c.name] = recs[i]
 	}
-	drive, err := driveSection(cfgs)
-	if err != nil {
-		return err
-	}
-	best := cfgs[slices.IndexFunc(cfgs, func(c namedConfig) bool { return c.name == rep.Ranking.Ranking[0].Name })]
-	dyn, err := dynamicsSection(best.name, best.cfg)
-	if err != nil {
-		return err
-	}
 	secs, err := rankSections(rep, cfgs, byName, spec)
 	if err != nil {
 		return err
 	}
-	secs[0].Text = setup + "\n\n" + secs[0].Text
-	r.Sections = append([]report.Section{drive, dyn}, secs...)
-	return writeReport(stderr, r, o.report)
+	return writeDecisionReport(e, stderr, o.decisionOptions, fmt.Sprintf("Ranking of %d ramps on %s", len(cs), sc.Name), sc, cfgs, rep.Ranking.Ranking[0].Name, setup, secs...)
 }

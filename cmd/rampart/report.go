@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -89,8 +90,12 @@ type namedFigure struct {
 	fig           *plots.Figure
 }
 
-// figures renders named figures for a report.
-func figures(nfs []namedFigure) ([]report.Figure, error) {
+// figures renders named figures for a report; it passes on err, that of
+// the figures' builder.
+func figures(nfs []namedFigure, err error) ([]report.Figure, error) {
+	if err != nil {
+		return nil, err
+	}
 	out := make([]report.Figure, len(nfs))
 	for i, nf := range nfs {
 		f, err := figure(nf.name, nf.caption, nf.fig)
@@ -124,6 +129,32 @@ func setupText(sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget, 
 type namedConfig struct {
 	name string
 	cfg  sim.Config
+}
+
+// driveAndDynamics returns the sections a report opens with: the drive
+// profiles of cfgs and the co-moving dynamics of the nominal shot of the
+// one named best.
+func driveAndDynamics(cfgs []namedConfig, best string) ([]report.Section, error) {
+	drive, err := driveSection(cfgs)
+	if err != nil {
+		return nil, err
+	}
+	i := slices.IndexFunc(cfgs, func(c namedConfig) bool { return c.name == best })
+	if i < 0 {
+		panic("rampart: no configuration named " + best)
+	}
+	dyn, err := dynamicsSection(best, cfgs[i].cfg)
+	if err != nil {
+		return nil, err
+	}
+	return []report.Section{drive, dyn}, nil
+}
+
+// oneRamp is the configuration of a command's one ramp, named after its
+// shape, and that name.
+func oneRamp(cfg sim.Config) ([]namedConfig, string) {
+	name := cfg.Sequence.Up.Name()
+	return []namedConfig{{name, cfg}}, name
 }
 
 // driveSection plots the ramp-up of each configuration's drive.

@@ -12,9 +12,7 @@ import (
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
-	"rampart/sim"
 )
 
 type sensitivityOptions struct {
@@ -141,15 +139,20 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	what := fmt.Sprintf("Saltelli design of %d base rows x (%d inputs + 2) = %d shots", o.base, len(rep.Inputs), rep.Shots)
 	designLine := strings.Replace(work.line(what, o.ens), "Ensembles: ", "Design: ", 1)
 	if o.report != "" {
-		if err := writeSensitivityReport(e, stderr, o, sc, cfg, rep, setupText(sc, cfg, ramp, budget, designLine)); err != nil {
+		sens, err := sensitivitySection(rep)
+		if err != nil {
+			return err
+		}
+		cfgs, name := oneRamp(cfg)
+		if err := writeDecisionReport(e, stderr, o.decisionOptions, "Sensitivity of "+name+" on "+sc.Name+" to its noise sources", sc, cfgs, name,
+			setupText(sc, cfg, ramp, budget, designLine), sens); err != nil {
 			return err
 		}
 	}
 	if o.json {
 		return writeJSON(stdout, rep)
 	}
-	printHeader(stdout, sc, cfg, ramp, budget)
-	fmt.Fprintf(stdout, "%s\n\n", designLine)
+	printHeader(stdout, sc, cfg, ramp, budget, designLine)
 	return printSensitivity(stdout, rep)
 }
 
@@ -215,11 +218,7 @@ func derivativeGrid(rep sensitivityReport) *grid {
 // sensitivitySection takes what sensitivity --json prints and shows the
 // Sobol' index table with its bar charts and the local derivatives.
 func sensitivitySection(rep sensitivityReport) (report.Section, error) {
-	nfs, err := sensitivityFigures(rep)
-	if err != nil {
-		return report.Section{}, err
-	}
-	figs, err := figures(nfs)
+	figs, err := figures(sensitivityFigures(rep))
 	if err != nil {
 		return report.Section{}, err
 	}
@@ -235,28 +234,6 @@ func sensitivitySection(rep sensitivityReport) (report.Section, error) {
 		sec.Text += "\n\n" + noDerivatives
 	}
 	return sec, nil
-}
-
-// writeSensitivityReport writes the report of a sensitivity design: the
-// drive and co-moving dynamics of the ramp, the indices and derivatives.
-func writeSensitivityReport(e env, stderr io.Writer, o sensitivityOptions, sc *scenario.Scenario, cfg sim.Config, rep sensitivityReport, setup string) error {
-	name := cfg.Sequence.Up.Name()
-	r := newReport(e, "Sensitivity of "+name+" on "+sc.Name+" to its noise sources", sc, scenarioText(o.scenario), o.sets, o.ens.seed)
-	drive, err := driveSection([]namedConfig{{name, cfg}})
-	if err != nil {
-		return err
-	}
-	dyn, err := dynamicsSection(name, cfg)
-	if err != nil {
-		return err
-	}
-	sens, err := sensitivitySection(rep)
-	if err != nil {
-		return err
-	}
-	sens.Text = setup + "\n\n" + sens.Text
-	r.Sections = append(r.Sections, drive, dyn, sens)
-	return writeReport(stderr, r, o.report)
 }
 
 // siUnit is the SI unit of a static parameter, which its name carries.

@@ -10,7 +10,6 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
 	"rampart/sim"
 )
@@ -158,39 +157,21 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 	workLine := work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens)
 	specLine := fmt.Sprintf("Spec: %s, at %s %% confidence", o.spec, sig(100*req.Confidence, 3))
 	if o.report != "" {
-		if err := writeToleranceReport(e, stderr, o, sc, cfg, rep, setupText(sc, cfg, ramp, budget, workLine, specLine)); err != nil {
+		tol, err := toleranceSection(rep)
+		if err != nil {
+			return err
+		}
+		cfgs, name := oneRamp(cfg)
+		if err := writeDecisionReport(e, stderr, o.decisionOptions, "Tolerances of "+name+" on "+sc.Name+" against "+o.spec, sc, cfgs, name,
+			setupText(sc, cfg, ramp, budget, workLine, specLine), tol); err != nil {
 			return err
 		}
 	}
 	if o.json {
 		return writeJSON(stdout, rep)
 	}
-	printHeader(stdout, sc, cfg, ramp, budget)
-	fmt.Fprintf(stdout, "%s\n", workLine)
-	fmt.Fprintf(stdout, "%s\n\n", specLine)
-	return printTolerances(stdout, rep)
-}
-
-// writeToleranceReport writes the report of a tolerance search: the drive
-// and co-moving dynamics of the ramp, the tolerance table and the curves.
-func writeToleranceReport(e env, stderr io.Writer, o toleranceOptions, sc *scenario.Scenario, cfg sim.Config, rep toleranceReport, setup string) error {
-	name := cfg.Sequence.Up.Name()
-	r := newReport(e, "Tolerances of "+name+" on "+sc.Name+" against "+o.spec, sc, scenarioText(o.scenario), o.sets, o.ens.seed)
-	drive, err := driveSection([]namedConfig{{name, cfg}})
-	if err != nil {
-		return err
-	}
-	dyn, err := dynamicsSection(name, cfg)
-	if err != nil {
-		return err
-	}
-	tol, err := toleranceSection(rep)
-	if err != nil {
-		return err
-	}
-	tol.Text = setup + "\n\n" + tol.Text
-	r.Sections = append(r.Sections, drive, dyn, tol)
-	return writeReport(stderr, r, o.report)
+	printHeader(stdout, sc, cfg, ramp, budget, workLine, specLine)
+	return toleranceGrid(rep).RenderNoted(stdout, toleranceNotes(rep))
 }
 
 // toleranceSources returns the sources to search: those listed

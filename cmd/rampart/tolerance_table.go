@@ -33,17 +33,6 @@ func binding(res mc.ToleranceResult, p mc.TolerancePoint) (mc.Criterion, bool) {
 	return mc.Criterion{}, false
 }
 
-func printTolerances(w io.Writer, rep toleranceReport) error {
-	if err := toleranceGrid(rep).Render(w); err != nil {
-		return err
-	}
-	fmt.Fprintln(w)
-	for _, line := range toleranceNotes(rep) {
-		fmt.Fprintln(w, line)
-	}
-	return nil
-}
-
 // toleranceGrid returns the tolerance table: a row per source searched.
 func toleranceGrid(rep toleranceReport) *grid {
 	conf := sig(100*rep.Requirements.Confidence, 3) + " %"
@@ -104,11 +93,7 @@ func toleranceNotes(rep toleranceReport) []string {
 // toleranceSection takes what tolerance --json prints and shows the
 // tolerance table and the curve of each source.
 func toleranceSection(rep toleranceReport) (report.Section, error) {
-	nfs, err := toleranceFigures(rep)
-	if err != nil {
-		return report.Section{}, err
-	}
-	figs, err := figures(nfs)
+	figs, err := figures(toleranceFigures(rep))
 	if err != nil {
 		return report.Section{}, err
 	}
