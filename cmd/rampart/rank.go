@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"path/filepath"
@@ -121,47 +122,18 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 	if err != nil {
 		return err
 	}
-	cfgs := make([]sim.Config, len(cs))
-	for i, c := range cs {
-		cfgs[i] = c.cfg
-	}
-	grid, err := sharedGrid(cfgs, budget)
-	if err != nil {
-		return err
-	}
 	ctx, stop := signalContext()
 	defer stop()
-	names := make([]string, len(cs))
-	recs := make([][]mc.Record, len(cs))
-	rep := rankReport{Ramps: make([]rampReport, len(cs))}
-	var work ensembleWork
-	for i, c := range cs {
-		ens := mc.Ensemble{Config: c.cfg, Budget: budget, Samples: o.ens.samples, Seed: o.ens.seed, Sampler: o.ens.sampler}
-		tag := grid.apply(&ens)
-		run, dir, err := runPart(ctx, e, stderr, c.sc, ens, tag, o.ens, c.name, "rank "+c.name)
-		if err != nil {
-			return err
-		}
-		work.add(run)
-		sum := summarise(run.manifest, run.records, o.ens.confidence, spec)
-		if dir != "" {
-			if err := writeResults(dir, sum, run.records, spec); err != nil {
-				return err
-			}
-		}
-		names[i], recs[i] = c.name, run.records
-		rep.Ramps[i] = rampReport{
-			Name: c.name, Spec: c.spec, RampUpS: c.cfg.Sequence.Up.Duration(), Dir: dir,
-			ContrastMean: sum.Contrast.Mean, AbsBiasP95Rad: sum.AbsBiasRad.P95, AbsBiasP95DegPerH: absBiasP95DegPerH(sum),
-			Summary: sum, Gyro: ro.gyro(sum),
-		}
-	}
-	if o.ens.shard != "" {
-		return printShardNote(stdout, o.ens, names, "rank the merged set")
-	}
-	rep.Ranking, err = mc.Rank(names, recs, o.metric, spec, o.ens.confidence, o.ens.seed)
+	rep, recs, work, err := rankContestants(ctx, e, stderr, cs, budget, o.ens, o.metric, spec, ro)
 	if err != nil {
 		return err
+	}
+	if o.ens.shard != "" {
+		names := make([]string, len(cs))
+		for i, c := range cs {
+			names[i] = c.name
+		}
+		return printShardNote(stdout, o.ens, names, "rank the merged set")
 	}
 	if dir := o.ens.dir(); dir != "" {
 		if err := writeRanking(dir, rep); err != nil {
@@ -186,6 +158,52 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 	}
 	printHeader(stdout, sc, cfg, what, budget, rampsLine, workLine)
 	return rankingGrid(rep).RenderNoted(stdout, rankingNotes(rep))
+}
+
+// rankContestants runs the ensemble of every contestant under budget on
+// common random numbers (the same seed, sampler and samples, and one noise
+// grid that serves them all), storing each in its subdirectory of the
+// options' directory if there is one, and ranks them by metric (not for a
+// shard, which ranks nothing). recs[i] holds contestant i's records.
+func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []contestant, budget mc.Budget, o ensembleOptions, metric string, spec mc.Spec, ro readout) (rankReport, [][]mc.Record, ensembleWork, error) {
+	var work ensembleWork
+	cfgs := make([]sim.Config, len(cs))
+	for i, c := range cs {
+		cfgs[i] = c.cfg
+	}
+	grid, err := sharedGrid(cfgs, budget)
+	if err != nil {
+		return rankReport{}, nil, work, err
+	}
+	names := make([]string, len(cs))
+	recs := make([][]mc.Record, len(cs))
+	rep := rankReport{Ramps: make([]rampReport, len(cs))}
+	for i, c := range cs {
+		ens := mc.Ensemble{Config: c.cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+		tag := grid.apply(&ens)
+		run, dir, err := runPart(ctx, e, stderr, c.sc, ens, tag, o, c.name, "rank "+c.name)
+		if err != nil {
+			return rankReport{}, nil, work, err
+		}
+		work.add(run)
+		sum := summarise(run.manifest, run.records, o.confidence, spec)
+		if dir != "" {
+			if err := writeResults(dir, sum, run.records, spec); err != nil {
+				return rankReport{}, nil, work, err
+			}
+		}
+		names[i], recs[i] = c.name, run.records
+		rep.Ramps[i] = rampReport{
+			Name: c.name, Spec: c.spec, RampUpS: c.cfg.Sequence.Up.Duration(), Dir: dir,
+			ContrastMean: sum.Contrast.Mean, AbsBiasP95Rad: sum.AbsBiasRad.P95, AbsBiasP95DegPerH: absBiasP95DegPerH(sum),
+			Summary: sum, Gyro: ro.gyro(sum),
+		}
+	}
+	if o.shard != "" {
+		return rep, recs, work, nil
+	}
+	rep.Ranking, err = mc.Rank(names, recs, metric, spec, o.confidence, o.seed)
+	return rep, recs, work, err
 }
 
 // metricLabels name the ranking metrics in tables and figures.

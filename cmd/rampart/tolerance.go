@@ -10,6 +10,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"rampart/cmd/internal/scenario"
 	"rampart/mc"
 	"rampart/sim"
 )
@@ -75,6 +76,46 @@ type toleranceReport struct {
 	Results      []mc.ToleranceResult `json:"results"`
 }
 
+// searchTolerances searches the tolerance of each named source of budget
+// (mc.SourceBudget for the whole budget scaled) against req, every
+// amplitude an ensemble of the options' size on common random numbers (one
+// noise grid sized for the widest search), kept in a subdirectory
+// SOURCE/AMPLITUDE of the options' directory if there is one.
+func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (toleranceReport, ensembleWork, error) {
+	var work ensembleWork
+	search := mc.ToleranceSearch{
+		Budget: budget, Requirements: req, Seed: o.seed,
+		ScaleFactorS: cfg.Ring.ScaleFactor(cfg.Sequence.TotalAngle()),
+		Options:      mc.ToleranceOptions{Precision: precision},
+	}
+	grid, err := sharedGrid([]sim.Config{cfg}, search.Widest())
+	if err != nil {
+		return toleranceReport{}, work, fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
+	evaluator := func(name string) mc.Evaluator {
+		return func(ctx context.Context, b mc.Budget) ([]mc.Record, error) {
+			key := amplitudeKey(name, budget, b)
+			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.apply(&ens)}
+			run, _, err := runPart(ctx, e, stderr, sc, ens, tag, o, filepath.Join(name, key), "tolerance "+name+" "+key)
+			if err != nil {
+				return nil, err
+			}
+			work.add(run)
+			return run.records, checkRecords(run.records)
+		}
+	}
+	rep := toleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS}
+	for _, name := range names {
+		res, err := search.Source(ctx, evaluator(name), name)
+		if err != nil {
+			return toleranceReport{}, work, err
+		}
+		rep.Results = append(rep.Results, res)
+	}
+	return rep, work, nil
+}
+
 // toleranceTag sets an ensemble of a tolerance search apart from the others
 // of the same scenario (see ensembleJob).
 type toleranceTag struct {
@@ -114,39 +155,13 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 		}
 		names = append(names, mc.SourceBudget)
 	}
-	search := mc.ToleranceSearch{
-		Budget: budget, Requirements: req, Seed: o.ens.seed,
-		ScaleFactorS: cfg.Ring.ScaleFactor(cfg.Sequence.TotalAngle()),
-		Options:      mc.ToleranceOptions{Precision: o.precision},
-	}
-	grid, err := sharedGrid([]sim.Config{cfg}, search.Widest())
-	if err != nil {
-		return fmt.Errorf("scenario %q: %w", sc.Name, err)
-	}
 	ctx, stop := signalContext()
 	defer stop()
-	var work ensembleWork
-	evaluator := func(name string) mc.Evaluator {
-		return func(ctx context.Context, b mc.Budget) ([]mc.Record, error) {
-			key := amplitudeKey(name, budget, b)
-			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.ens.samples, Seed: o.ens.seed, Sampler: o.ens.sampler}
-			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.apply(&ens)}
-			run, _, err := runPart(ctx, e, stderr, sc, ens, tag, o.ens, filepath.Join(name, key), "tolerance "+name+" "+key)
-			if err != nil {
-				return nil, err
-			}
-			work.add(run)
-			return run.records, checkRecords(run.records)
-		}
+	rep, work, err := searchTolerances(ctx, e, stderr, sc, cfg, budget, req, names, o.ens, o.precision)
+	if err != nil {
+		return err
 	}
-	rep := toleranceReport{Spec: o.spec, Requirements: req, Samples: o.ens.samples, Seed: o.ens.seed, Sampler: o.ens.sampler, ScaleFactorS: search.ScaleFactorS}
-	for _, name := range names {
-		res, err := search.Source(ctx, evaluator(name), name)
-		if err != nil {
-			return err
-		}
-		rep.Results = append(rep.Results, res)
-	}
+	rep.Spec = o.spec
 	if dir := o.ens.dir(); dir != "" {
 		if err := writeToleranceCurves(dir, rep); err != nil {
 			return err
