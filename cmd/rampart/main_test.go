@@ -80,7 +80,6 @@ func TestGolden(t *testing.T) {
 		golden string
 		args   []string
 	}{
-		{"demo.txt", []string{"demo"}},
 		{"shot-benchmark.txt", []string{"shot", "--scenario", "testdata/scenarios/benchmark.toml"}},
 		{"shot-thermal-check.txt", []string{"shot", "--scenario", "testdata/scenarios/thermal.toml", "--check"}},
 		{"shot-file.txt", []string{"shot", "--scenario", "testdata/scenarios/file.toml"}},

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -83,6 +84,10 @@ type toleranceReport struct {
 // SOURCE/AMPLITUDE of the options' directory if there is one.
 func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (toleranceReport, ensembleWork, error) {
 	var work ensembleWork
+	if n := minYieldSamples(req); o.samples < n {
+		return toleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot show a yield of at least %g with %g %% confidence even if every one is inside (the exact lower bound for n of n is (1-c)^(1/n)); give at least %d",
+			o.samples, req.YieldMin, 100*req.Confidence, n)
+	}
 	search := mc.ToleranceSearch{
 		Budget: budget, Requirements: req, Seed: o.seed,
 		ScaleFactorS: cfg.Ring.ScaleFactor(cfg.Sequence.TotalAngle()),
@@ -114,6 +119,16 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		rep.Results = append(rep.Results, res)
 	}
 	return rep, work, nil
+}
+
+// minYieldSamples returns the fewest realisations with which a yield
+// requirement can pass: n of n inside has the one-sided lower bound
+// (1-c)^(1/n), which must reach the minimum yield (0 without one).
+func minYieldSamples(req mc.Requirements) int {
+	if !(req.YieldMin > 0 && req.YieldMin < 1) {
+		return 0
+	}
+	return int(math.Ceil(math.Log(1-req.Confidence) / math.Log(req.YieldMin)))
 }
 
 // toleranceTag sets an ensemble of a tolerance search apart from the others

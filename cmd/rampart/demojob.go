@@ -1,0 +1,159 @@
+package main
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+
+	"rampart"
+	"rampart/cmd/internal/spec"
+	"rampart/mc"
+)
+
+// The stages of the demo after the noise-free comparison: the ranking, the
+// qualification of the winner, its tolerances and the report. They call
+// the same code as rank, qualify and tolerance.
+
+// demoEnsemble returns the ensemble options of the demo with n samples.
+func (d *demo) demoEnsemble(n int) ensembleOptions {
+	return ensembleOptions{samples: n, seed: d.opts.seed, workers: d.opts.workers, sampler: "random", confidence: mc.DefaultConfidence}
+}
+
+// requirements reads the demo's spec from the binary.
+func (d *demo) requirements() (mc.Requirements, error) {
+	data, err := rampart.Demo.ReadFile(demoSpec)
+	if err != nil {
+		return mc.Requirements{}, err
+	}
+	req, err := spec.Parse(demoSpec, data)
+	if err == nil && req.Confidence == 0 {
+		req.Confidence = mc.DefaultConfidence
+	}
+	return req, err
+}
+
+func (d *demo) rank() error {
+	budget, err := budgetOf(d.base)
+	if err != nil {
+		return err
+	}
+	req, err := d.requirements()
+	if err != nil {
+		return err
+	}
+	ro, err := readoutOptions{}.of(d.base)
+	if err != nil {
+		return err
+	}
+	ctx, stop := signalContext()
+	defer stop()
+	o := d.demoEnsemble(d.opts.samples)
+	rep, recs, work, err := rankContestants(ctx, d.env, d.stderr, d.cs, budget, o, mc.MetricP05, req.Yield, ro)
+	if err != nil {
+		return err
+	}
+	d.ranking, d.recs = rep, recs
+	d.winner = slices.IndexFunc(d.cs, func(c contestant) bool { return c.name == rep.Ranking.Ranking[0].Name })
+	w := d.out
+	fmt.Fprintf(w, "2. The three ramps under the noise budget, ranked by the 5th-percentile contrast\n")
+	fmt.Fprintf(w, "Noise budget: %s\n", budgetLine(budget))
+	fmt.Fprintf(w, "%s\n\n", work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(d.cs), o.samples), o))
+	return rankingGrid(rep).RenderNoted(w, rankingNotes(rep))
+}
+
+func (d *demo) qualifyWinner() error {
+	req, err := d.requirements()
+	if err != nil {
+		return err
+	}
+	ro, err := readoutOptions{}.of(d.base)
+	if err != nil {
+		return err
+	}
+	ramp := d.ranking.Ramps[d.winner]
+	q := mc.Qualify(d.recs[d.winner], req, ramp.Summary.ScaleFactorS, d.opts.seed)
+	d.qualify = qualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.gyro(ramp.Summary)}
+	fmt.Fprintf(d.out, "3. The winner, %s, qualified against the spec %s on its %d realisations\n\n", ramp.Name, demoSpec, len(d.recs[d.winner]))
+	if err := printQualification(d.out, d.qualify); err != nil {
+		return err
+	}
+	if q.Verdict != mc.Pass {
+		fmt.Fprintf(d.out, "Deciding: %s\n", strings.Join(deciding(q), "; "))
+	}
+	return nil
+}
+
+func (d *demo) tolerances() error {
+	budget, err := budgetOf(d.base)
+	if err != nil {
+		return err
+	}
+	req, err := d.requirements()
+	if err != nil {
+		return err
+	}
+	names, err := toleranceSources(budget, "")
+	if err != nil {
+		return err
+	}
+	ctx, stop := signalContext()
+	defer stop()
+	c := d.cs[d.winner]
+	o := d.demoEnsemble(d.opts.toleranceSamples)
+	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.sc, c.cfg, budget, req, names, o, demoTolerancePrecision)
+	if err != nil {
+		return err
+	}
+	rep.Spec = demoSpec
+	d.tol = rep
+	fmt.Fprintf(d.out, "4. Hardware tolerances for %s: the largest amplitude of each source (the others as budgeted) at which the spec still holds\n", c.name)
+	fmt.Fprintf(d.out, "%s\n\n", work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.samples), o))
+	return toleranceGrid(rep).RenderNoted(d.out, toleranceNotes(rep))
+}
+
+// demoTolerancePrecision is the relative precision of the demo's tolerance
+// search (a factor 1.1 between the amplitude that holds and the one that
+// fails), coarser than the command's default to keep the demo short.
+const demoTolerancePrecision = 0.1
+
+func (d *demo) writeReport() error {
+	cfgs := make([]namedConfig, len(d.cs))
+	recs := map[string][]mc.Record{}
+	for i, c := range d.cs {
+		cfgs[i] = namedConfig{c.name, c.cfg}
+		recs[c.name] = d.recs[i]
+	}
+	winner := d.cs[d.winner].name
+	secs, err := driveAndDynamics(cfgs, winner)
+	if err != nil {
+		return err
+	}
+	req, err := d.requirements()
+	if err != nil {
+		return err
+	}
+	ranked, err := rankSections(d.ranking, cfgs, recs, req.Yield)
+	if err != nil {
+		return err
+	}
+	qual, err := qualifySection(d.qualify)
+	if err != nil {
+		return err
+	}
+	tol, err := toleranceSection(d.tol)
+	if err != nil {
+		return err
+	}
+	text, err := rampart.Demo.ReadFile(demoScenario)
+	if err != nil {
+		return err
+	}
+	r := newReport(d.env, "rampart demo: which ramp, and what hardware", d.base, string(text), nil, d.opts.seed)
+	r.Sections = append(append(secs, ranked...), qual, tol)
+	path, err := r.Write(d.opts.report)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(d.out, "5. The report: %s (one self-contained page; open it in a browser)\n", path)
+	return nil
+}
