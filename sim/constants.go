@@ -10,6 +10,9 @@ const (
 	AtomicMassUnit = 1.66053906660e-27      // m_u, kg
 )
 
-// Rb87MassU is the mass of rubidium-87 in atomic mass units
-// (D. A. Steck, "Rubidium 87 D Line Data", revision 2.3.3 (2024), table 2).
+// Rb87MassU is the mass of rubidium-87 in atomic mass units, the value of
+// D. A. Steck, "Rubidium 87 D Line Data" (table 2) that the project's
+// PHYSICS.md quotes; the revision was not checked here (2.3.x, from memory).
+// The mass in kg is Rb87MassU times AtomicMassUnit (CODATA 2018), not the
+// kg value older revisions print with an older m_u.
 const Rb87MassU = 86.909180520
