@@ -39,7 +39,8 @@ with --min-contrast or --max-bias-rad the yield with its Clopper-Pearson
 interval. With --out DIR the realisations are streamed to DIR as they
 complete, with a JSON summary and contrast and bias histograms (PNG and SVG);
 Ctrl-C stops cleanly and --resume DIR continues. --shard k/n runs one slice of
-the ensemble for a cluster job array; rampart merge combines the slices.`,
+the ensemble for a cluster job array; rampart merge combines the slices.
+--report DIR writes a self-contained HTML report of the run.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			return runRun(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
