@@ -57,7 +57,13 @@ func (o *decisionOptions) validate() error {
 
 // load reads the scenario, its configuration and its noise budget.
 func (o *decisionOptions) load() (*scenario.Scenario, sim.Config, mc.Budget, error) {
-	sc, cfg, err := loadScenario(o.scenario, o.sets)
+	return loadWithBudget(o.scenario, o.sets)
+}
+
+// loadWithBudget reads a scenario, its simulation configuration and its
+// noise budget.
+func loadWithBudget(path string, sets []string) (*scenario.Scenario, sim.Config, mc.Budget, error) {
+	sc, cfg, err := loadScenario(path, sets)
 	if err != nil {
 		return nil, sim.Config{}, mc.Budget{}, err
 	}

@@ -32,16 +32,22 @@ func (d *demo) requirements() (mc.Requirements, error) {
 	return req, err
 }
 
-func (d *demo) rank() error {
+// inputs returns the demo's noise budget, spec and read-out.
+func (d *demo) inputs() (mc.Budget, mc.Requirements, readout, error) {
 	budget, err := budgetOf(d.base)
 	if err != nil {
-		return err
+		return mc.Budget{}, mc.Requirements{}, readout{}, err
 	}
 	req, err := d.requirements()
 	if err != nil {
-		return err
+		return mc.Budget{}, mc.Requirements{}, readout{}, err
 	}
 	ro, err := readoutOptions{}.of(d.base)
+	return budget, req, ro, err
+}
+
+func (d *demo) rank() error {
+	budget, req, ro, err := d.inputs()
 	if err != nil {
 		return err
 	}
@@ -62,11 +68,7 @@ func (d *demo) rank() error {
 }
 
 func (d *demo) qualifyWinner() error {
-	req, err := d.requirements()
-	if err != nil {
-		return err
-	}
-	ro, err := readoutOptions{}.of(d.base)
+	_, req, ro, err := d.inputs()
 	if err != nil {
 		return err
 	}
@@ -84,11 +86,7 @@ func (d *demo) qualifyWinner() error {
 }
 
 func (d *demo) tolerances() error {
-	budget, err := budgetOf(d.base)
-	if err != nil {
-		return err
-	}
-	req, err := d.requirements()
+	budget, req, _, err := d.inputs()
 	if err != nil {
 		return err
 	}

@@ -75,11 +75,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err != nil {
 		return err
 	}
-	sc, cfg, err := loadScenario(o.scenario, o.sets)
-	if err != nil {
-		return err
-	}
-	budget, err := budgetOf(sc)
+	sc, cfg, budget, err := loadWithBudget(o.scenario, o.sets)
 	if err != nil {
 		return err
 	}
