@@ -238,6 +238,16 @@ func (s ToleranceSearch) search(ctx context.Context, eval Evaluator, src source)
 	if err != nil {
 		return res, err
 	}
+	// probe evaluates amplitude a and moves the bracket end it belongs to.
+	probe := func(a float64) error {
+		h, err := evaluate(a)
+		if err == nil && h {
+			lo = a
+		} else if err == nil {
+			hi = a
+		}
+		return err
+	}
 	switch {
 	case holds:
 		for lo = a; hi == 0; {
@@ -245,14 +255,8 @@ func (s ToleranceSearch) search(ctx context.Context, eval Evaluator, src source)
 				res.Status = ToleranceAboveRange
 				break
 			}
-			a = math.Min(lo*o.Factor, highest)
-			if holds, err = evaluate(a); err != nil {
+			if err := probe(math.Min(lo*o.Factor, highest)); err != nil {
 				return res, err
-			}
-			if holds {
-				lo = a
-			} else {
-				hi = a
 			}
 		}
 	default:
@@ -269,26 +273,14 @@ func (s ToleranceSearch) search(ctx context.Context, eval Evaluator, src source)
 				res.Status = ToleranceBelowRange
 				break
 			}
-			a = math.Max(hi/o.Factor, lowest)
-			if holds, err = evaluate(a); err != nil {
+			if err := probe(math.Max(hi/o.Factor, lowest)); err != nil {
 				return res, err
-			}
-			if holds {
-				lo = a
-			} else {
-				hi = a
 			}
 		}
 	}
 	for lo > 0 && hi > 0 && hi > lo*(1+o.Precision) {
-		a = math.Sqrt(lo * hi)
-		if holds, err = evaluate(a); err != nil {
+		if err := probe(math.Sqrt(lo * hi)); err != nil {
 			return res, err
-		}
-		if holds {
-			lo = a
-		} else {
-			hi = a
 		}
 	}
 	if res.Status == "" {
