@@ -221,17 +221,6 @@ var (
 		p := 1 / (4 - math.Cbrt(4))
 		return composition(p, p, 1-4*p, p, p)
 	}()
-	// yoshida4 is the fourth-order triple jump S(x1) S(x0) S(x1),
-	// x1 = 1/(2 - 2^(1/3)), x0 = 1 - 2 x1.
-	//
-	// References:
-	//
-	//	H. Yoshida, "Construction of higher order symplectic integrators",
-	//	Phys. Lett. A 150, 262 (1990).
-	yoshida4 = func() scheme {
-		x1 := 1 / (2 - math.Cbrt(2))
-		return composition(x1, 1-2*x1, x1)
-	}()
 	// blanesMoan6 is the six-stage fourth-order splitting S6 of Blanes and
 	// Moan, whose error constants are about ten times smaller than those of
 	// the fractal compositions (coefficients as published, a_i on the

@@ -196,3 +196,9 @@ func TestRankBadInput(t *testing.T) {
 		{"report of a shard", rank("--ramp", "a=sin2", "--ramp", "b=minjerk", "--shard", "1/2", "--report", filepath.Join(dir, "report")), "a shard decides nothing to report"},
 	})
 }
+
+// jsonString is the compact JSON of v, for comparing JSON objects in tests.
+func jsonString(v any) string {
+	b, _ := json.Marshal(v)
+	return string(b)
+}

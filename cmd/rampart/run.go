@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"path/filepath"
@@ -257,10 +256,4 @@ func summaryGrids(s mc.Summary) []*grid {
 			interval(y.Lo, y.Hi, func(x float64) string { return fixed(x, 4) })+" exact", "")
 	}
 	return []*grid{t, u}
-}
-
-// jsonString is the compact JSON of v, for tests and messages.
-func jsonString(v any) string {
-	b, _ := json.Marshal(v)
-	return string(b)
 }
