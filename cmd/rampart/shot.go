@@ -17,12 +17,6 @@ import (
 	"rampart/sim"
 )
 
-// Tolerances of --check, the accuracy the automatic numerics aim at.
-const (
-	contrastTolerance = 1e-4
-	phaseToleranceRad = 1e-6
-)
-
 type shotOptions struct {
 	scenario string
 	sets     []string
@@ -101,13 +95,11 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 	}
 	rep := newShotReport(sc, run, ro)
 	if o.check {
-		fine := run.cfg
-		fine.Grid, fine.StepS = 2*run.cfg.Grid, run.cfg.StepS/2
-		f, err := simulate(e, sc, fine, nil)
+		f, err := simulate(e, sc, sim.Refine(run.cfg), nil)
 		if err != nil {
 			return err
 		}
-		rep.Check = newCheckReport(run, f)
+		rep.Check = newCheckReport(sim.CompareNumerics(run.result, f.result))
 	}
 	if o.trace != "" {
 		if err := outfile.Write(o.trace, func(w io.Writer) error { return writeTrace(w, trace) }); err != nil {
@@ -230,17 +222,15 @@ func newShotReport(sc *scenario.Scenario, run shotRun, ro readout) *shotReport {
 	return rep
 }
 
-func newCheckReport(base, fine shotRun) *checkReport {
-	dc := fine.result.Contrast - base.result.Contrast
-	dp := sim.Wrap(fine.result.PhaseRad - base.result.PhaseRad)
+func newCheckReport(est sim.ErrorEstimate) *checkReport {
 	return &checkReport{
-		Grid:              fine.result.Grid,
-		StepS:             fine.result.StepS,
-		ContrastChange:    dc,
-		PhaseChangeRad:    dp,
-		ContrastTolerance: contrastTolerance,
-		PhaseToleranceRad: phaseToleranceRad,
-		Converged:         math.Abs(dc) <= contrastTolerance && math.Abs(dp) <= phaseToleranceRad,
+		Grid:              est.RefinedGrid,
+		StepS:             est.RefinedStepS,
+		ContrastChange:    est.ContrastChange,
+		PhaseChangeRad:    est.PhaseChangeRad,
+		ContrastTolerance: est.ContrastTarget,
+		PhaseToleranceRad: est.PhaseTargetRad,
+		Converged:         est.Met,
 	}
 }
 
