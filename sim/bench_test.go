@@ -27,9 +27,10 @@ func benchConfig(tb testing.TB, laps float64) Config {
 
 // BenchmarkShot times a nominal ground-state shot with automatic numerics.
 // A cruise of any length is one exact step, so 100 laps should cost about
-// what one lap does.
+// what one lap does, up to the grid's growth with the sequence time
+// (CruiseTail).
 func BenchmarkShot(b *testing.B) {
-	for _, laps := range []float64{1, 100} {
+	for _, laps := range []float64{1, 100, 1e4} {
 		b.Run(fmt.Sprintf("laps=%g", laps), func(b *testing.B) {
 			s, err := NewSimulator(benchConfig(b, laps))
 			if err != nil {
@@ -54,5 +55,16 @@ func BenchmarkPlainSplitStep(b *testing.B) {
 	}
 	for b.Loop() {
 		s.PlainSplitStep(Shot{}, 0.5e-6)
+	}
+}
+
+// BenchmarkEstimateError times the numerical-error estimate of the benchmark
+// shot (one shot and one on twice the grid and half the step).
+func BenchmarkEstimateError(b *testing.B) {
+	c := benchConfig(b, 1)
+	for b.Loop() {
+		if _, err := EstimateError(c); err != nil {
+			b.Fatal(err)
+		}
 	}
 }

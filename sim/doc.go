@@ -26,4 +26,21 @@
 // each a real symmetric tridiagonal matrix. While w and the depth are
 // constant, H' does not depend on time and a stretch of any length is one
 // exact step in the eigenbasis of the blocks.
+//
+// Numerics (docs/model.md, Numerics). The truncated momentum window shifts
+// the blocks' eigenvalues, and an exact step of length T turns that shift
+// into a phase error that grows with T, so AutoNumerics widens the window
+// with the sequence time (CruiseTail) to hold the contrast to
+// ContrastTarget and the phase to PhaseTargetRad up to at least 10^4 laps.
+// EstimateError measures a nominal shot's error against a shot on twice the
+// grid and half the step (what `shot --check` prints), and says what to set
+// when the targets are missed.
+//
+// Gyroscope figures (docs/model.md, Gyroscope figures). Simulator.Gyro
+// splits a shot's phase into the bias at zero rotation and the scale factor
+// dPhi/dOmega (IEEE Std 952-1997 terms), from a central difference in
+// Omega; in the adiabatic limit the scale factor of the open arms is the
+// nominal K whatever the speed, clock or skew error (the separation phase
+// cancels the extra enclosed angle). Config.Warnings names inputs outside
+// the model's validity.
 package sim

@@ -122,3 +122,85 @@ func TestSchemeOrder(t *testing.T) {
 		}
 	}
 }
+
+// ringConfig is a ring of Rb-87 with a 150 us sin2 ramp to cruise rad/s
+// and laps laps.
+func ringConfig(tb testing.TB, sites int, radiusM, depthHz, cruise, rot, laps float64) Config {
+	tb.Helper()
+	c := Config{Ring: Ring{Sites: sites, RadiusM: radiusM, MassKg: Rb87MassU * AtomicMassUnit}, DepthHz: depthHz, RotationRadS: rot}
+	up, err := NewShape("sin2", 150e-6, cruise, c.TrapRadS())
+	if err != nil {
+		tb.Fatal(err)
+	}
+	if c.Sequence, err = NewSequence(up, laps); err != nil {
+		tb.Fatal(err)
+	}
+	return c
+}
+
+// refined returns c with the grid 1.5 times auto's (rounded up to a
+// multiple of 2 N) and half its step: the window reaches 2.5 l_osc further,
+// which divides the cruise error by exp(-0.7 (x+2.5)^2 + 0.7 x^2) < 1e-7.
+func refined(c Config, auto Numerics) Config {
+	unit := 2 * c.Ring.Sites
+	c.Grid = (auto.Grid*3/2 + unit - 1) / unit * unit
+	c.StepS = auto.StepS / 2
+	return c
+}
+
+// TestCruiseGrid checks that the automatic grid grows with the cruise: the
+// contrast and phase of a shot with automatic numerics stay within
+// ContrastTarget and PhaseTargetRad of a refined calculation at 1, 100 and
+// 10^4 laps, on two geometries (issue 8, part 2). Before the cruise rule
+// the 20-site ring's phase was off by 1.6e-6 rad at 100 laps and 3.6e-4 rad
+// at 10^4 (contrast 7e-4); the 12-site ring's by 6.6e-6 rad at 10^4 laps.
+// With it the largest errors measured were 3e-10 rad (20 sites) and 3e-8
+// rad (12 sites), contrast 2e-7 (the ramps' step error). The legacy rule (window 5 l_osc,
+// x = 1 + GridTail, without CruiseTail) is run too, and must fail at 10^4
+// laps, so that the test can tell the two apart.
+func TestCruiseGrid(t *testing.T) {
+	if testing.Short() {
+		t.Skip("convergence study")
+	}
+	for _, tc := range []struct {
+		sites int
+		laps  float64
+	}{
+		{20, 1}, {20, 100}, {20, 1e4}, // the benchmark ring of issue 8 (5 um, 20 kHz, 50 pi rad/s)
+		{12, 1}, {12, 100}, {12, 1e4}, // a 12-site ring, otherwise the same
+	} {
+		c := ringConfig(t, tc.sites, 5e-6, 20e3, 50*math.Pi, 1e-3, tc.laps)
+		auto := AutoNumerics(c)
+		s, err := NewSimulator(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		f, err := NewSimulator(refined(c, auto))
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, want := s.Run(Shot{}, nil), f.Run(Shot{}, nil)
+		dc, dp := math.Abs(got.Contrast-want.Contrast), math.Abs(Wrap(got.PhaseRad-want.PhaseRad))
+		t.Logf("%d sites, %g laps: grid %d: contrast error %.2g, phase error %.2g rad", tc.sites, tc.laps, auto.Grid, dc, dp)
+		if dc > ContrastTarget || dp > PhaseTargetRad {
+			t.Errorf("%d sites, %g laps, grid %d: contrast error %.2g (target %g), phase error %.2g rad (target %g)",
+				tc.sites, tc.laps, auto.Grid, dc, ContrastTarget, dp, PhaseTargetRad)
+		}
+		if tc.laps < 1e4 {
+			continue
+		}
+		// The legacy window: x = 1 + GridTail from the packet centre.
+		legacy := c
+		lMax := c.Ring.MomentumOf(50*math.Pi+1e-3) + (1+GridTail)*math.Sqrt(c.Ring.Inertia()*c.TrapRadS()/Hbar)
+		k := int(math.Ceil(2 * lMax / float64(tc.sites)))
+		legacy.Grid = (k + k%2) * tc.sites
+		l, err := NewSimulator(legacy)
+		if err != nil {
+			t.Fatal(err)
+		}
+		old := l.Run(Shot{}, nil)
+		if d := math.Abs(Wrap(old.PhaseRad - want.PhaseRad)); d <= PhaseTargetRad {
+			t.Errorf("%d sites, %g laps: the legacy grid %d meets the phase target (error %.2g rad): the test cannot tell the rules apart", tc.sites, tc.laps, legacy.Grid, d)
+		}
+	}
+}

@@ -17,12 +17,6 @@ import (
 	"rampart/sim"
 )
 
-// Tolerances of --check, the accuracy the automatic numerics aim at.
-const (
-	contrastTolerance = 1e-4
-	phaseToleranceRad = 1e-6
-)
-
 type shotOptions struct {
 	scenario string
 	sets     []string
@@ -100,14 +94,27 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 		}
 	}
 	rep := newShotReport(sc, run, ro)
-	if o.check {
-		fine := run.cfg
-		fine.Grid, fine.StepS = 2*run.cfg.Grid, run.cfg.StepS/2
-		f, err := simulate(e, sc, fine, nil)
+	if o.json {
+		// The JSON separates the zero-rate bias from the scale-factor error
+		// (IEEE Std 952-1997 terms), from two more shots at Omega +- h.
+		s, err := sim.NewSimulator(run.cfg)
 		if err != nil {
 			return err
 		}
-		rep.Check = newCheckReport(run, f)
+		_, g, err := s.Gyro(sim.Shot{})
+		if err != nil {
+			return err
+		}
+		rep.BiasRad, rep.ScaleFactorErrorPPM = g.ZeroRateBiasRad, &g.ScaleFactorErrorPPM
+		rep.BiasRadS = g.ZeroRateBiasRad / run.result.ScaleFactorS
+		rep.BiasDegPerH = sim.RadPerSToDegPerH(rep.BiasRadS)
+	}
+	if o.check {
+		f, err := simulate(e, sc, sim.Refine(run.cfg), nil)
+		if err != nil {
+			return err
+		}
+		rep.Check = newCheckReport(sim.CompareNumerics(run.result, f.result))
 	}
 	if o.trace != "" {
 		if err := outfile.Write(o.trace, func(w io.Writer) error { return writeTrace(w, trace) }); err != nil {
@@ -140,23 +147,26 @@ func simulate(e env, sc *scenario.Scenario, cfg sim.Config, obs sim.Observer) (s
 
 // shotReport is the output of `rampart shot`, the object --json prints.
 type shotReport struct {
-	Scenario     string         `json:"scenario"`
-	Ramp         string         `json:"ramp"`
-	Contrast     float64        `json:"contrast"`
-	PhaseRad     float64        `json:"phase_rad"`
-	SagnacRad    float64        `json:"sagnac_rad"`
-	BiasRad      float64        `json:"bias_rad"`
-	BiasRadS     float64        `json:"bias_rad_s"`
-	BiasDegPerH  float64        `json:"bias_deg_per_h"`
-	ScaleFactorS float64        `json:"scale_factor_s"`
-	GroundBand   [2]float64     `json:"ground_band_after_rampup"`
-	Grid         int            `json:"grid"`
-	StepS        float64        `json:"step_s"`
-	TemperatureK float64        `json:"temperature_k"`
-	Levels       []levelReport  `json:"levels"`
-	ElapsedS     float64        `json:"elapsed_s"`
-	Readout      *readoutReport `json:"readout,omitempty"`
-	Check        *checkReport   `json:"check,omitempty"`
+	Scenario     string  `json:"scenario"`
+	Ramp         string  `json:"ramp"`
+	Contrast     float64 `json:"contrast"`
+	PhaseRad     float64 `json:"phase_rad"`
+	SagnacRad    float64 `json:"sagnac_rad"`
+	BiasRad      float64 `json:"bias_rad"` // in the JSON: the bias at zero rotation, phase - K_shot Omega
+	BiasRadS     float64 `json:"bias_rad_s"`
+	BiasDegPerH  float64 `json:"bias_deg_per_h"`
+	ScaleFactorS float64 `json:"scale_factor_s"`
+	// ScaleFactorErrorPPM is K_shot/K - 1 in ppm, K_shot = dPhi/dOmega of
+	// the shot (sim.Simulator.Gyro); JSON only.
+	ScaleFactorErrorPPM *float64       `json:"scale_factor_error_ppm,omitempty"`
+	GroundBand          [2]float64     `json:"ground_band_after_rampup"`
+	Grid                int            `json:"grid"`
+	StepS               float64        `json:"step_s"`
+	TemperatureK        float64        `json:"temperature_k"`
+	Levels              []levelReport  `json:"levels"`
+	ElapsedS            float64        `json:"elapsed_s"`
+	Readout             *readoutReport `json:"readout,omitempty"`
+	Check               *checkReport   `json:"check,omitempty"`
 }
 
 // levelReport is one of the site's levels of a thermal start.
@@ -230,17 +240,15 @@ func newShotReport(sc *scenario.Scenario, run shotRun, ro readout) *shotReport {
 	return rep
 }
 
-func newCheckReport(base, fine shotRun) *checkReport {
-	dc := fine.result.Contrast - base.result.Contrast
-	dp := sim.Wrap(fine.result.PhaseRad - base.result.PhaseRad)
+func newCheckReport(est sim.ErrorEstimate) *checkReport {
 	return &checkReport{
-		Grid:              fine.result.Grid,
-		StepS:             fine.result.StepS,
-		ContrastChange:    dc,
-		PhaseChangeRad:    dp,
-		ContrastTolerance: contrastTolerance,
-		PhaseToleranceRad: phaseToleranceRad,
-		Converged:         math.Abs(dc) <= contrastTolerance && math.Abs(dp) <= phaseToleranceRad,
+		Grid:              est.RefinedGrid,
+		StepS:             est.RefinedStepS,
+		ContrastChange:    est.ContrastChange,
+		PhaseChangeRad:    est.PhaseChangeRad,
+		ContrastTolerance: est.ContrastTarget,
+		PhaseToleranceRad: est.PhaseTargetRad,
+		Converged:         est.Met,
 	}
 }
 
