@@ -32,6 +32,9 @@ type ensembleOptions struct {
 	resume     string
 	shard      string
 	confidence float64
+	// yield is the yield spec the run is summarised with, recorded in the
+	// manifest so that merge reproduces the summary (nil: none).
+	yield *mc.Spec
 }
 
 func addEnsembleFlags(cmd *cobra.Command, o *ensembleOptions, defaultSamples int) {
@@ -50,10 +53,14 @@ func (o *ensembleOptions) validate() error {
 	switch {
 	case o.samples < 1:
 		return fmt.Errorf("--samples %d: need at least 1 realisation", o.samples)
+	case o.samples > mc.MaxSamples:
+		return fmt.Errorf("--samples %d: at most %d realisations (the summaries hold every record in memory)", o.samples, mc.MaxSamples)
 	case o.workers < 0:
 		return fmt.Errorf("--workers %d: need 0 (one per core) or more", o.workers)
 	case !(o.confidence > 0 && o.confidence < 1):
 		return fmt.Errorf("--confidence %g: want a level in (0, 1), such as 0.95", o.confidence)
+	case o.shard != "" && o.dir() == "":
+		return fmt.Errorf("--shard %s needs --out DIR: the slices are kept there for rampart merge", o.shard)
 	case o.out != "" && o.resume != "" && filepath.Clean(o.out) != filepath.Clean(o.resume):
 		return fmt.Errorf("--out %s and --resume %s name different directories; give one", o.out, o.resume)
 	}
@@ -148,11 +155,13 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 	}
 	c := r.Config()
 	k := c.Ring.ScaleFactor(c.Sequence.TotalAngle())
+	numerics := mc.NumericsOf(c)
 	m := mc.Manifest{
 		Format: mc.ManifestFormat, Fingerprint: hash, Scenario: text,
 		SagnacRad: k * c.RotationRadS, ScaleFactorS: k,
 		Seed: ens.Seed, Samples: job.records, Sampler: ens.Sampler,
-		Columns: mc.Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
+		Columns:  mc.Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
+		Numerics: &numerics, YieldSpec: o.yield, Confidence: o.confidence,
 	}
 	if o.shard != "" {
 		sh, err := mc.ParseShard(o.shard)

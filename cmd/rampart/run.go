@@ -74,6 +74,9 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err != nil {
 		return err
 	}
+	if spec.Active() {
+		o.ens.yield = &spec
+	}
 	sc, cfg, budget, err := loadWithBudget(o.scenario, o.sets)
 	if err != nil {
 		return err
@@ -81,6 +84,13 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	ro, err := o.readout.of(sc)
 	if err != nil {
 		return err
+	}
+	if dir := o.ens.dir(); dir != "" { // held until the summary and figures are written
+		unlock, err := mc.LockDir(dir)
+		if err != nil {
+			return err
+		}
+		defer unlock()
 	}
 	ctx, stop := signalContext()
 	defer stop()
