@@ -213,9 +213,11 @@ func read(dir string) (Manifest, []Record, int64, error) {
 // labels errors. Each row must carry a valid checksum, be in index order
 // within the run's range and hold physical values (Record.check); the first
 // row that does not is refused naming its line. A torn last row without
-// its newline is dropped. If m carries a digest and every row is present,
-// the file must match it byte for byte. It returns the records and the
-// byte length of the verified prefix.
+// its newline is dropped. It returns the records and the byte length of the
+// verified prefix.
+//
+// If m carries a digest (a sealed run) the file must hold every row and match
+// the digest: a sealed file that lost its tail is refused, not resumed.
 func ReadRecords(r io.Reader, name string, m Manifest) ([]Record, int64, error) {
 	if err := m.validate(); err != nil {
 		return nil, 0, fmt.Errorf("%s: %w", name, err)
@@ -250,8 +252,8 @@ func ReadRecords(r io.Reader, name string, m Manifest) ([]Record, int64, error) 
 		recs = append(recs, rec)
 		valid += int64(len(s))
 	}
-	if m.RecordsSHA256 != "" && len(recs) == to-from {
-		if got := hex.EncodeToString(h.Sum(nil)); torn || got != m.RecordsSHA256 {
+	if m.RecordsSHA256 != "" { // sealed: complete, and byte for byte as sealed
+		if got := hex.EncodeToString(h.Sum(nil)); torn || len(recs) != to-from || got != m.RecordsSHA256 {
 			return nil, 0, fmt.Errorf("%s does not match the digest in its manifest (SHA-256 %s, manifest %s): the file changed after the run finished", name, got, excerpt(m.RecordsSHA256))
 		}
 	}
