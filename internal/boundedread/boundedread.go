@@ -27,7 +27,7 @@ const (
 )
 
 // ErrTooLarge is wrapped by the error for a file beyond its cap.
-var ErrTooLarge = errors.New("file too large")
+var ErrTooLarge = errors.New("too large")
 
 // ReadFile returns the content of the regular file at path, of at most
 // limit bytes. A directory, device, FIFO or socket is refused without
@@ -66,24 +66,20 @@ func read(r io.Reader, fi fs.FileInfo, limit int64) ([]byte, error) {
 		return nil, fmt.Errorf("it is %s, not a regular file: give the path of a file", atomicfile.Kind(fi.Mode()))
 	}
 	if fi.Size() > limit {
-		return nil, tooLarge(fi.Size(), limit)
+		return nil, tooLarge(fmt.Sprintf("%d bytes", fi.Size()), limit)
 	}
 	data, err := io.ReadAll(io.LimitReader(r, limit+1))
 	if err != nil {
 		return nil, err
 	}
 	if int64(len(data)) > limit { // grew while we read it
-		return nil, tooLarge(int64(len(data)), limit)
+		return nil, tooLarge("more than "+Size(limit), limit)
 	}
 	return data, nil
 }
 
-func tooLarge(size, limit int64) error {
-	s := fmt.Sprintf("%d bytes", size)
-	if size > limit+1 || size == 0 {
-		s = "more than " + Size(limit)
-	}
-	return fmt.Errorf("%w: %s, beyond the cap of %s for this kind of input", ErrTooLarge, s, Size(limit))
+func tooLarge(size string, limit int64) error {
+	return fmt.Errorf("%w: %s, beyond the cap of %s for this kind of input", ErrTooLarge, size, Size(limit))
 }
 
 // Size formats a byte count as rampart's messages give caps: "1 MiB",

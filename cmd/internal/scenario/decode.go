@@ -4,7 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"rampart/cmd/internal/tomlguard"
 	"rampart/cmd/internal/tomlpos"
+	"rampart/internal/boundedread"
 	"strings"
 
 	"github.com/BurntSushi/toml"
@@ -34,6 +36,10 @@ func parse(fsys fs.FS, name string, data []byte, overrides []string) (*Scenario,
 		s:     &Scenario{Name: name, fsys: fsys, Atom: Atom{MassU: sim.Rb87MassU}},
 		data:  data,
 		byKey: map[string]*entry{},
+	}
+	if err := tomlguard.Check(data); err != nil {
+		ge := err.(*tomlguard.Error)
+		return nil, &Error{File: name, Line: ge.Line, Err: errors.New(ge.Msg)}
 	}
 	var raw map[string]any
 	md, err := toml.Decode(string(data), &raw)
@@ -68,10 +74,13 @@ func parse(fsys fs.FS, name string, data []byte, overrides []string) (*Scenario,
 	return d.s, nil
 }
 
+// maxQuote bounds what a message quotes of the user's input.
+const maxQuote = 80
+
 func (d *decoder) syntaxError(err error) error {
 	var pe toml.ParseError
 	if errors.As(err, &pe) {
-		return &Error{File: d.s.Name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", pe.Message)}
+		return &Error{File: d.s.Name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, maxQuote))}
 	}
 	return &Error{File: d.s.Name, Err: fmt.Errorf("not valid TOML: %w", err)}
 }
@@ -182,7 +191,7 @@ func overrideValue(k *key, value string) (any, error) {
 	}
 	var m map[string]any
 	if _, err := toml.Decode("v = "+t, &m); err != nil || len(m) != 1 {
-		return nil, fmt.Errorf("%q is not a TOML value: want %s", t, k.want())
+		return nil, fmt.Errorf("%q is not a TOML value: want %s", boundedread.Excerpt(t, maxQuote), k.want())
 	}
 	return m["v"], nil
 }

@@ -3,9 +3,11 @@ package spec
 import (
 	"errors"
 	"fmt"
+	"io/fs"
 	"math"
-	"os"
+	"rampart/cmd/internal/tomlguard"
 	"rampart/cmd/internal/tomlpos"
+	"rampart/internal/boundedread"
 	"strconv"
 	"strings"
 
@@ -122,9 +124,13 @@ func keysOf(table string) string {
 
 // Read reads the spec file at path.
 func Read(path string) (mc.Requirements, error) {
-	data, err := os.ReadFile(path)
+	data, err := boundedread.ReadFile(path, boundedread.TextCap)
 	if err != nil {
-		return mc.Requirements{}, fmt.Errorf("read spec: %w", err)
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = fmt.Errorf("cannot read the file: %w", pe.Err)
+		}
+		return mc.Requirements{}, &Error{File: path, Err: err}
 	}
 	return Parse(path, data)
 }
@@ -132,12 +138,16 @@ func Read(path string) (mc.Requirements, error) {
 // Parse reads a spec from data; name is the file's name for messages.
 func Parse(name string, data []byte) (mc.Requirements, error) {
 	p := parser{name: name, data: data}
+	if err := tomlguard.Check(data); err != nil {
+		ge := err.(*tomlguard.Error)
+		return mc.Requirements{}, &Error{File: name, Line: ge.Line, Err: errors.New(ge.Msg)}
+	}
 	var raw map[string]any
 	md, err := toml.Decode(string(data), &raw)
 	if err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return mc.Requirements{}, &Error{File: name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", pe.Message)}
+			return mc.Requirements{}, &Error{File: name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, 80))}
 		}
 		return mc.Requirements{}, &Error{File: name, Err: fmt.Errorf("not valid TOML: %w", err)}
 	}
