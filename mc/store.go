@@ -274,7 +274,6 @@ func readRow(br *bufio.Reader) (string, error) {
 	return s, err
 }
 
-
 // Merge combines the directories of the shards of one ensemble (in any
 // order) and returns the manifest and records of the whole ensemble, as one
 // unsharded run would have them. Every shard must be complete and sealed
