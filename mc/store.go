@@ -84,7 +84,7 @@ func Create(dir string, m Manifest) (_ *Store, err error) {
 // verify (checksum, order, physical range) is refused naming its line.
 func Resume(dir string, m Manifest) (_ *Store, _ []Record, err error) {
 	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
-		return nil, nil, fmt.Errorf("cannot resume %s: it is not a run directory", dir)
+		return nil, nil, fmt.Errorf("cannot resume %s: it is not an ensemble directory", dir)
 	}
 	unlock, err := LockDir(dir)
 	if err != nil {

@@ -72,6 +72,31 @@ func (o *ensembleOptions) validate() error {
 	return fmt.Errorf("--sampler %q: want random, lhs or sobol", o.sampler)
 }
 
+// heldDirs release the run directories the running command keeps locked
+// after their stores close, so that the summary and figures it writes
+// afterwards are under the lock too; run (main.go) releases them when the
+// command returns (the kernel would at exit in any case).
+var heldDirs []func() error
+
+// holdRunDir keeps dir locked until the command returns (see heldDirs); dir
+// must already be locked by this process, so this only counts the lock.
+func holdRunDir(dir string) error {
+	unlock, err := mc.LockDir(dir)
+	if err != nil {
+		return err
+	}
+	heldDirs = append(heldDirs, unlock)
+	return nil
+}
+
+// releaseRunDirs releases what holdRunDir kept.
+func releaseRunDirs() {
+	for _, unlock := range heldDirs {
+		unlock()
+	}
+	heldDirs = nil
+}
+
 // dir returns the output directory, if any.
 func (o *ensembleOptions) dir() string {
 	if o.resume != "" {
@@ -183,6 +208,10 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 			st, err = mc.Create(dir, m)
 		}
 		if err != nil {
+			return nil, err
+		}
+		if err := holdRunDir(dir); err != nil {
+			st.Close()
 			return nil, err
 		}
 		defer st.Close()

@@ -76,6 +76,11 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	}
 	sum := summarise(m, recs, o.confidence, spec)
 	if o.out != "" {
+		unlock, err := mc.LockDir(o.out) // held for the records, summary and figures
+		if err != nil {
+			return err
+		}
+		defer unlock()
 		if err := mc.WriteRun(o.out, m, recs); err != nil {
 			return err
 		}

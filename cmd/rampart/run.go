@@ -85,13 +85,6 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err != nil {
 		return err
 	}
-	if dir := o.ens.dir(); dir != "" { // held until the summary and figures are written
-		unlock, err := mc.LockDir(dir)
-		if err != nil {
-			return err
-		}
-		defer unlock()
-	}
 	ctx, stop := signalContext()
 	defer stop()
 	run, err := runEnsemble(ctx, e, stderr, sc, cfg, budget, o.ens, "run")
