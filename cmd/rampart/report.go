@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"rampart/internal/version"
 	"slices"
 	"strings"
 
@@ -37,6 +38,8 @@ func newReport(e env, title string, sc *scenario.Scenario, text string, sets []s
 		Command:  commandLine(e.args),
 		Seed:     seed,
 		Scenario: text,
+		// The build, so that a signed-off page says what produced it.
+		Generated: "by rampart " + version.Get().String(),
 	}
 }
 

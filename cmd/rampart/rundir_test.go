@@ -162,3 +162,15 @@ func TestManifestRecordsBuildAndNumerics(t *testing.T) {
 		t.Errorf("summary.json does not start with the build: %.80s", sum)
 	}
 }
+
+// TestReportNamesBuild: an HTML report says which build produced it.
+func TestReportNamesBuild(t *testing.T) {
+	dir := t.TempDir()
+	if _, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--samples", "2", "--report", dir); code != 0 {
+		t.Fatal(stderr)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil || !strings.Contains(string(b), "<dd>by rampart test (revision test)</dd>") {
+		t.Errorf("report does not name the build (%v)", err)
+	}
+}
