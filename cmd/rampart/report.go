@@ -3,8 +3,8 @@ package main
 import (
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
+	"rampart/internal/boundedread"
 	"rampart/internal/version"
 	"slices"
 	"strings"
@@ -45,7 +45,7 @@ func newReport(e env, title string, sc *scenario.Scenario, text string, sets []s
 
 // scenarioText returns the text of the scenario file at path.
 func scenarioText(path string) string {
-	b, err := os.ReadFile(path)
+	b, err := boundedread.ReadFile(path, boundedread.TextCap)
 	if err != nil {
 		return ""
 	}
