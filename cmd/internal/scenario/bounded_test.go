@@ -84,3 +84,26 @@ func TestReadRampRefusesDevice(t *testing.T) {
 		t.Errorf("got %v", err)
 	}
 }
+
+// TestLongNamesQuotedInPart: an unknown key, a table or a file path of
+// 15,000 bytes written in the file is quoted only in part.
+func TestLongNamesQuotedInPart(t *testing.T) {
+	base, err := os.ReadFile(filepath.Join(root, "testdata", "scenarios", "benchmark.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	long := strings.Repeat("k", 15000)
+	dir := t.TempDir()
+	for _, c := range []struct{ name, doc, want string }{
+		{"key", string(base) + "\n" + long + " = 1\n", "unknown key ramp.kkk"},
+		{"table", string(base) + "\n[" + long + "]\n", "unknown table [kkk"},
+		{"file", strings.Replace(string(base), `shape = "sin2"`, `shape = "file"`+"\nfile = \""+long+"\"", 1), `ramp file "`},
+	} {
+		path := filepath.Join(dir, c.name+".toml")
+		os.WriteFile(path, []byte(c.doc), 0o644)
+		_, err := Load(path, nil)
+		if err == nil || !strings.Contains(err.Error(), c.want) || len(err.Error()) > 500 {
+			t.Errorf("%s: got a message of %d bytes: %.120v", c.name, len(fmt.Sprint(err)), err)
+		}
+	}
+}

@@ -74,8 +74,12 @@ func parse(fsys fs.FS, name string, data []byte, overrides []string) (*Scenario,
 	return d.s, nil
 }
 
-// maxQuote bounds what a message quotes of the user's input.
-const maxQuote = 80
+// maxQuote bounds what a message quotes of the user's input; maxPath the
+// file paths it names (a path written in a scenario file is its content).
+const (
+	maxQuote = 80
+	maxPath  = 256
+)
 
 func (d *decoder) syntaxError(err error) error {
 	var pe toml.ParseError
@@ -122,12 +126,13 @@ func unknown(path []string, v any) error {
 		if _, ok := tables[name]; ok {
 			continue
 		}
-		parent := strings.Join(path[:i], ".")
+		// Unknown names are file content: quote only an excerpt.
+		name, parent := boundedread.Excerpt(name, maxQuote), boundedread.Excerpt(strings.Join(path[:i], "."), maxQuote)
 		if _, isTable := v.(map[string]any); i == len(path)-1 && !isTable {
 			if parent == "" {
 				return fmt.Errorf("unknown key %s: a scenario holds only the tables %s", name, strings.Join(tables[""], ", "))
 			}
-			return fmt.Errorf("unknown key %s: [%s] takes %s%s", name, parent, strings.Join(tables[parent], ", "), elsewhere(path[i]))
+			return fmt.Errorf("unknown key %s: [%s] takes %s%s", name, parent, strings.Join(tables[parent], ", "), elsewhere(boundedread.Excerpt(path[i], maxQuote)))
 		}
 		if parent == "" {
 			return fmt.Errorf("unknown table [%s]: a scenario has the tables %s", name, strings.Join(tables[""], ", "))
@@ -230,7 +235,7 @@ func (d *decoder) check() error {
 	}
 	if p := s.Noise.Drive.PhaseTable; p != "" {
 		if _, err := s.ReadFile(p); err != nil {
-			return d.fail("noise.drive.phase_table", fmt.Errorf("phase-noise table %q: %w", p, readError(err)))
+			return d.fail("noise.drive.phase_table", fmt.Errorf("phase-noise table %q: %w", boundedread.Excerpt(p, maxPath), readError(err)))
 		}
 	}
 	if (s.Readout.Atoms > 0) != (s.Readout.CycleS > 0) {

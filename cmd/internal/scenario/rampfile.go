@@ -37,10 +37,11 @@ type RampError struct {
 }
 
 func (e *RampError) Error() string {
+	file := boundedread.Excerpt(e.File, maxPath)
 	if e.Line > 0 {
-		return fmt.Sprintf("ramp file %q line %d: %v", e.File, e.Line, e.Err)
+		return fmt.Sprintf("ramp file %q line %d: %v", file, e.Line, e.Err)
 	}
-	return fmt.Sprintf("ramp file %q: %v", e.File, e.Err)
+	return fmt.Sprintf("ramp file %q: %v", file, e.Err)
 }
 
 func (e *RampError) Unwrap() error { return e.Err }

@@ -280,7 +280,7 @@ func (s *Scenario) rampUp() (sim.Ramp, *keyError) {
 	case "file":
 		data, err := s.ReadFile(s.Ramp.File)
 		if err != nil {
-			return nil, &keyError{"ramp.file", fmt.Errorf("ramp file %q: %w", s.Ramp.File, readError(err))}
+			return nil, &keyError{"ramp.file", fmt.Errorf("ramp file %q: %w", boundedread.Excerpt(s.Ramp.File, maxPath), readError(err))}
 		}
 		tab, err := ParseRamp(bytes.NewReader(data), s.Ramp.File, s.Ring.Sites, cruise)
 		if err != nil {

@@ -64,3 +64,11 @@ func FuzzParse(f *testing.F) {
 		}
 	})
 }
+
+// TestLongKeyQuotedInPart: a 15,000-byte unknown key is quoted in part.
+func TestLongKeyQuotedInPart(t *testing.T) {
+	_, err := Parse("s.toml", []byte("[contrast]\n"+strings.Repeat("k", 15000)+" = 1\n"))
+	if err == nil || !strings.Contains(err.Error(), "unknown key contrast.kkk") || len(err.Error()) > 300 {
+		t.Errorf("got a message of %d bytes", len(err.Error()))
+	}
+}
