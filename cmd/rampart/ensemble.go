@@ -167,6 +167,9 @@ type ensembleJob struct {
 
 // runJob runs (or resumes) a job, storing it in dir if one is given.
 func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir, label string) (*ensembleRun, error) {
+	if job.records > mc.MaxSamples {
+		return nil, fmt.Errorf("%d shots in one run, more than the %d a run directory holds: use fewer realisations or base rows", job.records, mc.MaxSamples)
+	}
 	r := job.realiser
 	ens := r.Ensemble()
 	hash, text, err := fingerprint(sc)
