@@ -34,6 +34,14 @@ func TestHugeCounts(t *testing.T) {
 	if _, err := os.Stat(out); err == nil {
 		t.Errorf("a refused run created %s", out)
 	}
+	_, stderr, code := execute(t, "sensitivity", "--scenario", ensembleScenario, "--base", "99999999999")
+	if code != 2 || !strings.Contains(stderr, "--base 99999999999: at most 10000000 base rows") {
+		t.Errorf("sensitivity --base 99999999999: exit %d, stderr %q", code, stderr)
+	}
+	// More workers than realisations idle; 2^63-1 of them must not be started.
+	if _, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--samples", "2", "--workers", "9223372036854775807"); code != 0 {
+		t.Errorf("--workers 2^63-1: exit %d, stderr %q", code, stderr)
+	}
 }
 
 // TestSpecialOutputs: outputs refuse devices, FIFOs and directories and
