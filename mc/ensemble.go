@@ -47,8 +47,8 @@ type Realiser struct {
 // realisation, so that realisations differ only by what they perturb; the
 // propagated levels cover the start temperature plus four spreads.
 func NewRealiser(e Ensemble) (*Realiser, error) {
-	if e.Samples < 1 {
-		return nil, fmt.Errorf("samples = %d, need at least 1", e.Samples)
+	if e.Samples < 1 || e.Samples > MaxSamples {
+		return nil, fmt.Errorf("samples = %d, need from 1 to %d", e.Samples, MaxSamples)
 	}
 	if err := e.Budget.Validate(); err != nil {
 		return nil, err

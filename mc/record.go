@@ -1,7 +1,10 @@
 package mc
 
 import (
+	"errors"
 	"fmt"
+	"hash/crc32"
+	"math"
 	"strconv"
 	"strings"
 )
@@ -32,8 +35,28 @@ func Columns(params []Param, rin, phase bool) []string {
 	if phase {
 		cols = append(cols, "phase_rms_plus_rad", "phase_rms_minus_rad")
 	}
-	return append(cols, "contrast", "phase_rad", "bias_rad", "z_re", "z_im", "ground_plus", "ground_minus")
+	return append(cols, "contrast", "phase_rad", "bias_rad", "z_re", "z_im", "ground_plus", "ground_minus", ChecksumColumn)
 }
+
+// ChecksumColumn is the last column of a records file: the CRC-32C
+// (Castagnoli) of the row's text before it, as eight hex digits. A row
+// altered after it was written (a flipped bit, an edit, an interleaved
+// write) fails it: CRC-32C detects every error of up to 3 bits in a row of
+// these lengths and all but 2^-32 of longer ones (Castagnoli, Braeuer and
+// Herrmann, IEEE Trans. Commun. 41, 883 (1993)).
+const ChecksumColumn = "crc32c"
+
+var castagnoli = crc32.MakeTable(crc32.Castagnoli)
+
+// rowChecksum is the checksum column of a row's text.
+func rowChecksum(text string) string {
+	return fmt.Sprintf("%08x", crc32.Checksum([]byte(text), castagnoli))
+}
+
+// physicalSlack is how far above 1 a contrast, |z| or ground population may
+// round (they are norms of unit-norm states; 1e-9 is about 10^7 float64
+// roundings, common practice for such checks).
+const physicalSlack = 1e-9
 
 // format writes rec as one CSV row. Floats use the shortest representation
 // that reads back to the same bits, so a row read from disk reproduces the
@@ -58,13 +81,25 @@ func (rec Record) format(rin, phase bool) string {
 	for _, x := range []float64{rec.Contrast, rec.PhaseRad, rec.BiasRad, real(rec.Z), imag(rec.Z), rec.Ground[0], rec.Ground[1]} {
 		put(x)
 	}
+	sum := rowChecksum(b.String())
+	b.WriteByte(',')
+	b.WriteString(sum)
 	b.WriteByte('\n')
 	return b.String()
 }
 
-// parseRecord reads a row written by format.
+// parseRecord reads a row written by format, checks its checksum and that
+// its values are physical (see Record.check).
 func parseRecord(line string, nInputs int, rin, phase bool) (Record, error) {
-	f := strings.Split(strings.TrimRight(line, "\r\n"), ",")
+	text := strings.TrimSuffix(line, "\n")
+	body, sum, ok := cutLast(text, ',')
+	if !ok {
+		return Record{}, errors.New("no checksum column")
+	}
+	if got := rowChecksum(body); sum != got {
+		return Record{}, fmt.Errorf("checksum %q does not match the row (CRC-32C %s): the row was altered after it was written", excerpt(sum), got)
+	}
+	f := strings.Split(body, ",")
 	want := 1 + nInputs + 7
 	if rin {
 		want++
@@ -77,12 +112,12 @@ func parseRecord(line string, nInputs int, rin, phase bool) (Record, error) {
 	}
 	idx, err := strconv.Atoi(f[0])
 	if err != nil || idx < 0 {
-		return Record{}, fmt.Errorf("index %q is not a non-negative integer", f[0])
+		return Record{}, fmt.Errorf("index %q is not a non-negative integer", excerpt(f[0]))
 	}
 	v := make([]float64, len(f)-1)
 	for i, s := range f[1:] {
 		if v[i], err = strconv.ParseFloat(s, 64); err != nil {
-			return Record{}, fmt.Errorf("field %d: %q is not a number", i+2, s)
+			return Record{}, fmt.Errorf("field %d: %q is not a number", i+2, excerpt(s))
 		}
 	}
 	rec := Record{Index: idx, Inputs: append([]float64(nil), v[:nInputs]...)}
@@ -96,5 +131,60 @@ func parseRecord(line string, nInputs int, rin, phase bool) (Record, error) {
 	rec.Contrast, rec.PhaseRad, rec.BiasRad = v[0], v[1], v[2]
 	rec.Z = complex(v[3], v[4])
 	rec.Ground = [2]float64{v[5], v[6]}
-	return rec, nil
+	return rec, rec.check()
+}
+
+// check returns an error naming the first value of rec that no shot can
+// produce: every value finite; contrast, |z| and the ground populations in
+// [0, 1] (up to physicalSlack); the noise rms values non-negative.
+func (rec Record) check() error {
+	for i, x := range rec.Inputs {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return fmt.Errorf("input %d is %g, not a finite number", i+1, x)
+		}
+	}
+	named := []struct {
+		name   string
+		x      float64
+		lo, hi float64
+	}{
+		{"rin_rms_rel", rec.RINRms, 0, math.Inf(1)},
+		{"phase_rms_plus_rad", rec.PhaseRms[0], 0, math.Inf(1)},
+		{"phase_rms_minus_rad", rec.PhaseRms[1], 0, math.Inf(1)},
+		{"contrast", rec.Contrast, 0, 1 + physicalSlack},
+		{"phase_rad", rec.PhaseRad, math.Inf(-1), math.Inf(1)},
+		{"bias_rad", rec.BiasRad, math.Inf(-1), math.Inf(1)},
+		{"|z|", cmplxAbs(rec.Z), 0, 1 + physicalSlack},
+		{"ground_plus", rec.Ground[0], 0, 1 + physicalSlack},
+		{"ground_minus", rec.Ground[1], 0, 1 + physicalSlack},
+	}
+	for _, c := range named {
+		if math.IsNaN(c.x) || math.IsInf(c.x, 0) {
+			return fmt.Errorf("%s is %g, not a finite number", c.name, c.x)
+		}
+		if c.x < c.lo || c.x > c.hi {
+			return fmt.Errorf("%s = %g is outside [%g, %g], where every shot's value lies", c.name, c.x, c.lo, math.Min(c.hi, 1))
+		}
+	}
+	return nil
+}
+
+func cmplxAbs(z complex128) float64 { return math.Hypot(real(z), imag(z)) }
+
+// cutLast splits s around the last sep.
+func cutLast(s string, sep byte) (before, after string, found bool) {
+	i := strings.LastIndexByte(s, sep)
+	if i < 0 {
+		return s, "", false
+	}
+	return s[:i], s[i+1:], true
+}
+
+// excerpt cuts text quoted in a message to a few dozen bytes.
+func excerpt(s string) string {
+	const n = 40
+	if len(s) <= n {
+		return s
+	}
+	return s[:n] + "..."
 }

@@ -27,6 +27,7 @@ func runOrdered(ctx context.Context, from, to, workers int, newJob func() func(i
 	if to <= from {
 		return 0, nil
 	}
+	workers = min(workers, to-from) // more would idle, and --workers 2^63-1 would exhaust memory
 	ctx, cancel := context.WithCancel(ctx)
 	defer cancel()
 	jobs := make(chan int)

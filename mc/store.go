@@ -2,6 +2,9 @@ package mc
 
 import (
 	"bufio"
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -10,10 +13,12 @@ import (
 	"path/filepath"
 	"slices"
 	"strings"
-)
+	"syscall"
 
-// ManifestFormat names the layout of an ensemble directory.
-const ManifestFormat = "rampart-ensemble/1"
+	"rampart/internal/atomicfile"
+	"rampart/internal/boundedread"
+	"rampart/internal/version"
+)
 
 // Names of the files of an ensemble directory.
 const (
@@ -21,110 +26,42 @@ const (
 	RealisationsFile = "realisations.csv"
 )
 
-// Shard is slice Index (1-based) of Count of an ensemble: the contiguous
-// realisations [from, to) given by Range.
-type Shard struct {
-	Index int `json:"index"`
-	Count int `json:"count"`
-}
+// maxRowBytes bounds one row of a records file: an index and up to a few
+// dozen shortest-round-trip float64 fields of at most 24 bytes.
+const maxRowBytes = 4096
 
-// Range returns the realisations of the shard in an ensemble of samples.
-func (s Shard) Range(samples int) (from, to int) {
-	return (s.Index - 1) * samples / s.Count, s.Index * samples / s.Count
-}
-
-// ParseShard reads "k/n" with 1 <= k <= n.
-func ParseShard(s string) (Shard, error) {
-	var sh Shard
-	var rest string
-	if n, _ := fmt.Sscanf(s, "%d/%d%s", &sh.Index, &sh.Count, &rest); n != 2 || sh.Count < 1 || sh.Index < 1 || sh.Index > sh.Count {
-		return Shard{}, fmt.Errorf("shard %q is not k/n with 1 <= k <= n (e.g. 2/8)", s)
-	}
-	return sh, nil
-}
-
-// Manifest identifies an ensemble run: what was simulated and how it was
-// drawn. Two directories belong to the same ensemble when their manifests
-// agree but for the shard.
-type Manifest struct {
-	Format string `json:"format"`
-	// Fingerprint identifies the scenario and noise budget (the caller's
-	// hash of them); Scenario is their text, for the record.
-	Fingerprint string `json:"fingerprint"`
-	Scenario    string `json:"scenario,omitempty"`
-	// SagnacRad and ScaleFactorS are those of the nominal sequence, for
-	// summaries of the records.
-	SagnacRad    float64  `json:"sagnac_rad"`
-	ScaleFactorS float64  `json:"scale_factor_s"`
-	Seed         uint64   `json:"seed"`
-	Samples      int      `json:"samples"`
-	Sampler      string   `json:"sampler"`
-	Shard        *Shard   `json:"shard,omitempty"`
-	Columns      []string `json:"columns"`
-}
-
-// Range returns the realisations the manifest's run covers.
-func (m Manifest) Range() (from, to int) {
-	if m.Shard == nil {
-		return 0, m.Samples
-	}
-	return m.Shard.Range(m.Samples)
-}
-
-func (m Manifest) layout() (nInputs int, rin, phase bool) {
-	for _, c := range m.Columns[1:] {
-		switch c {
-		case "rin_rms_rel":
-			rin = true
-		case "phase_rms_plus_rad":
-			phase = true
-		case "phase_rms_minus_rad", "contrast", "phase_rad", "bias_rad", "z_re", "z_im", "ground_plus", "ground_minus":
-		default:
-			nInputs++
-		}
-	}
-	return nInputs, rin, phase
-}
-
-// sameEnsemble returns an error naming the first field in which m and o
-// differ, the shard aside.
-func (m Manifest) sameEnsemble(o Manifest) error {
-	switch {
-	case m.Format != o.Format:
-		return fmt.Errorf("format %q, want %q", o.Format, m.Format)
-	case m.Fingerprint != o.Fingerprint:
-		return errors.New("a different scenario or noise budget")
-	case m.Seed != o.Seed:
-		return fmt.Errorf("seed %d, not %d", o.Seed, m.Seed)
-	case m.Samples != o.Samples:
-		return fmt.Errorf("%d samples, not %d", o.Samples, m.Samples)
-	case m.Sampler != o.Sampler:
-		return fmt.Errorf("sampler %q, not %q", o.Sampler, m.Sampler)
-	case !slices.Equal(m.Columns, o.Columns):
-		return errors.New("different columns")
-	}
-	return nil
-}
-
-// Store streams the records of a run to its directory.
+// Store streams the records of a run to its directory. It holds the
+// directory's lock (see LockDir) from Create or Resume to Close.
 type Store struct {
-	dir  string
-	m    Manifest
-	f    *os.File
-	rin  bool
-	phas bool
+	dir    string
+	m      Manifest
+	f      *os.File
+	rin    bool
+	phas   bool
+	n      int // records in the file
+	unlock func() error
 }
 
-// Create starts a new run in dir (created if missing). It refuses a
-// directory that already holds a run.
-func Create(dir string, m Manifest) (*Store, error) {
-	if err := os.MkdirAll(dir, 0o755); err != nil {
+// Create starts a new run in dir (created if missing). It takes the
+// directory's lock first, refuses a directory that already holds a run, and
+// only then writes the manifest (stamped with this build) and the header of
+// the records file.
+func Create(dir string, m Manifest) (_ *Store, err error) {
+	unlock, err := LockDir(dir)
+	if err != nil {
 		return nil, err
 	}
+	defer func() {
+		if err != nil {
+			unlock()
+		}
+	}()
 	path := filepath.Join(dir, RealisationsFile)
-	if _, err := os.Stat(path); err == nil {
+	if _, err := os.Lstat(path); err == nil {
 		return nil, fmt.Errorf("%s already holds a run (use --resume %s to continue it, or another directory)", dir, dir)
 	}
+	m.Rampart = version.Get()
+	m.RecordsSHA256 = ""
 	if err := writeJSON(filepath.Join(dir, ManifestFile), m); err != nil {
 		return nil, err
 	}
@@ -137,13 +74,29 @@ func Create(dir string, m Manifest) (*Store, error) {
 		return nil, err
 	}
 	_, rin, phase := m.layout()
-	return &Store{dir: dir, m: m, f: f, rin: rin, phas: phase}, nil
+	return &Store{dir: dir, m: m, f: f, rin: rin, phas: phase, unlock: unlock}, nil
 }
 
-// Resume reopens the run in dir, which must be of the ensemble m describes,
-// and returns the records already done. A torn last row (from a kill
-// during a write) is dropped and will be run again.
-func Resume(dir string, m Manifest) (*Store, []Record, error) {
+// Resume reopens the run in dir, which must be of the ensemble m describes
+// and written by this build, and returns the records already done. It
+// takes the directory's lock first. A torn last row (from a kill during a
+// write) is dropped and will be run again; any other row that does not
+// verify (checksum, order, physical range) is refused naming its line.
+func Resume(dir string, m Manifest) (_ *Store, _ []Record, err error) {
+	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
+		return nil, nil, fmt.Errorf("cannot resume %s: it is not an ensemble directory", dir)
+	}
+	unlock, err := LockDir(dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	defer func() {
+		if err != nil {
+			unlock()
+		}
+	}()
+	m.Rampart = version.Get()
+	m.RecordsSHA256 = ""
 	old, recs, valid, err := read(dir)
 	if err != nil {
 		return nil, nil, err
@@ -163,77 +116,170 @@ func Resume(dir string, m Manifest) (*Store, []Record, error) {
 		return nil, nil, err
 	}
 	_, rin, phase := m.layout()
-	return &Store{dir: dir, m: m, f: f, rin: rin, phas: phase}, recs, nil
+	return &Store{dir: dir, m: m, f: f, rin: rin, phas: phase, n: len(recs), unlock: unlock}, recs, nil
 }
 
 // Append writes one record.
 func (s *Store) Append(r Record) error {
-	_, err := s.f.WriteString(r.format(s.rin, s.phas))
-	return err
+	if _, err := s.f.WriteString(r.format(s.rin, s.phas)); err != nil {
+		return err
+	}
+	s.n++
+	return nil
 }
 
-// Close closes the realisations file.
-func (s *Store) Close() error { return s.f.Close() }
+// Close closes the records file; when the run is complete it seals it,
+// writing the digest of the records into the manifest. It then releases
+// the directory's lock.
+func (s *Store) Close() error {
+	defer s.unlock()
+	err := s.f.Sync()
+	if cerr := s.f.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		return err
+	}
+	if from, to := s.m.Range(); s.n != to-from {
+		return nil
+	}
+	sum, err := fileSHA256(filepath.Join(s.dir, RealisationsFile))
+	if err != nil {
+		return err
+	}
+	m := s.m
+	m.RecordsSHA256 = sum
+	return writeJSON(filepath.Join(s.dir, ManifestFile), m)
+}
 
-// Read returns the manifest and records of an ensemble directory.
+func fileSHA256(path string) (string, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return "", err
+	}
+	defer f.Close()
+	h := sha256.New()
+	if _, err := io.Copy(h, f); err != nil {
+		return "", err
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
+}
+
+// Read returns the manifest and records of an ensemble directory, each row
+// verified (see ReadRecords).
 func Read(dir string) (Manifest, []Record, error) {
 	m, recs, _, err := read(dir)
 	return m, recs, err
 }
 
+// ReadManifest reads and checks the manifest of an ensemble directory.
+func ReadManifest(dir string) (Manifest, error) {
+	var m Manifest
+	path := filepath.Join(dir, ManifestFile)
+	b, err := boundedread.ReadFile(path, boundedread.TextCap)
+	if err != nil {
+		return m, fmt.Errorf("%s is not an ensemble directory: %s: %w", dir, ManifestFile, unwrapPathError(err))
+	}
+	if err := json.Unmarshal(b, &m); err != nil {
+		return m, fmt.Errorf("%s: not a manifest: %v", path, err)
+	}
+	if err := m.validate(); err != nil {
+		return m, fmt.Errorf("%s: %w", path, err)
+	}
+	return m, nil
+}
+
 // read returns the manifest, the records in order and the byte length of
 // the valid prefix of the realisations file.
 func read(dir string) (Manifest, []Record, int64, error) {
-	var m Manifest
-	b, err := os.ReadFile(filepath.Join(dir, ManifestFile))
-	if err != nil {
-		return m, nil, 0, fmt.Errorf("%s is not an ensemble directory: %w", dir, err)
-	}
-	if err := json.Unmarshal(b, &m); err != nil {
-		return m, nil, 0, fmt.Errorf("%s: %w", filepath.Join(dir, ManifestFile), err)
-	}
-	if m.Format != ManifestFormat || len(m.Columns) < 8 {
-		return m, nil, 0, fmt.Errorf("%s: not a %s manifest", filepath.Join(dir, ManifestFile), ManifestFormat)
-	}
-	path := filepath.Join(dir, RealisationsFile)
-	f, err := os.Open(path)
+	m, err := ReadManifest(dir)
 	if err != nil {
 		return m, nil, 0, err
 	}
+	path := filepath.Join(dir, RealisationsFile)
+	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	if err != nil {
+		return m, nil, 0, fmt.Errorf("%s: %w", dir, err)
+	}
 	defer f.Close()
-	br := bufio.NewReader(f)
-	header, err := br.ReadString('\n')
-	if err != nil || strings.TrimRight(header, "\n") != strings.Join(m.Columns, ",") {
-		return m, nil, 0, fmt.Errorf("%s: header does not match the manifest's columns", path)
+	if fi, err := f.Stat(); err != nil || !fi.Mode().IsRegular() {
+		return m, nil, 0, fmt.Errorf("%s is not a regular file", path)
+	}
+	recs, valid, err := ReadRecords(f, path, m)
+	return m, recs, valid, err
+}
+
+// ReadRecords reads a records file of the run m describes from r; name
+// labels errors. Each row must carry a valid checksum, be in index order
+// within the run's range and hold physical values (Record.check); the first
+// row that does not is refused naming its line. A torn last row without
+// its newline is dropped. It returns the records and the byte length of the
+// verified prefix.
+//
+// If m carries a digest (a sealed run) the file must hold every row and match
+// the digest: a sealed file that lost its tail is refused, not resumed.
+func ReadRecords(r io.Reader, name string, m Manifest) ([]Record, int64, error) {
+	if err := m.validate(); err != nil {
+		return nil, 0, fmt.Errorf("%s: %w", name, err)
+	}
+	h := sha256.New()
+	br := bufio.NewReaderSize(io.TeeReader(r, h), maxRowBytes)
+	header, err := readRow(br)
+	if err != nil || strings.TrimSuffix(header, "\n") != strings.Join(m.Columns, ",") {
+		return nil, 0, fmt.Errorf("%s: header does not match the manifest's columns", name)
 	}
 	valid := int64(len(header))
 	nIn, rin, phase := m.layout()
 	from, to := m.Range()
 	var recs []Record
+	torn := false
 	for line := 2; ; line++ {
-		s, err := br.ReadString('\n')
+		s, err := readRow(br)
 		if err == io.EOF {
-			break // a torn row without its newline is dropped
+			torn = s != "" // a torn row without its newline is dropped
+			break
 		}
 		if err != nil {
-			return m, nil, 0, err
+			return nil, 0, fmt.Errorf("%s line %d: %v", name, line, err)
 		}
-		r, perr := parseRecord(s, nIn, rin, phase)
+		rec, perr := parseRecord(s, nIn, rin, phase)
 		if perr != nil {
-			return m, nil, 0, fmt.Errorf("%s line %d: %v", path, line, perr)
+			return nil, 0, fmt.Errorf("%s line %d: %v", name, line, perr)
 		}
-		if want := from + len(recs); r.Index != want || r.Index >= to {
-			return m, nil, 0, fmt.Errorf("%s line %d: realisation %d out of order (want %d, range [%d, %d))", path, line, r.Index, want, from, to)
+		if want := from + len(recs); rec.Index != want || rec.Index >= to {
+			return nil, 0, fmt.Errorf("%s line %d: realisation %d out of order (want %d, range [%d, %d))", name, line, rec.Index, want, from, to)
 		}
-		recs = append(recs, r)
+		recs = append(recs, rec)
 		valid += int64(len(s))
 	}
-	return m, recs, valid, nil
+	if m.RecordsSHA256 != "" { // sealed: complete, and byte for byte as sealed
+		if got := hex.EncodeToString(h.Sum(nil)); torn || len(recs) != to-from || got != m.RecordsSHA256 {
+			return nil, 0, fmt.Errorf("%s does not match the digest in its manifest (SHA-256 %s, manifest %s): the file changed after the run finished", name, got, excerpt(m.RecordsSHA256))
+		}
+	}
+	return recs, valid, nil
+}
+
+// readRow reads one line of at most maxRowBytes, with its newline. At the
+// end of the input it returns what is left (a torn row) with io.EOF.
+func readRow(br *bufio.Reader) (string, error) {
+	b, err := br.ReadSlice('\n')
+	if errors.Is(err, bufio.ErrBufferFull) {
+		return "", fmt.Errorf("row longer than %d bytes", maxRowBytes)
+	}
+	s := string(b)
+	if err == nil && bytes.IndexByte(b, 0) >= 0 {
+		return "", errors.New("row holds a NUL byte")
+	}
+	return s, err
 }
 
 // Merge combines the directories of the shards of one ensemble (in any
 // order) and returns the manifest and records of the whole ensemble, as one
-// unsharded run would have them. Every realisation must be present once.
+// unsharded run would have them. Every shard must be complete and sealed
+// (its records matching the digest in its manifest), not being written,
+// and of the same build, numerics and yield spec; every realisation must be
+// present once.
 func Merge(dirs []string) (Manifest, []Record, error) {
 	if len(dirs) == 0 {
 		return Manifest{}, nil, errors.New("no directories to merge")
@@ -241,6 +287,9 @@ func Merge(dirs []string) (Manifest, []Record, error) {
 	var first Manifest
 	var all []Record
 	for i, d := range dirs {
+		if err := checkNotWriting(d); err != nil {
+			return Manifest{}, nil, err
+		}
 		m, recs, err := Read(d)
 		if err != nil {
 			return Manifest{}, nil, err
@@ -249,9 +298,14 @@ func Merge(dirs []string) (Manifest, []Record, error) {
 			first = m
 		} else if err := first.sameEnsemble(m); err != nil {
 			return Manifest{}, nil, fmt.Errorf("%s is not a shard of the ensemble in %s: it has %v", d, dirs[0], err)
+		} else if !sameSummary(first, m) {
+			return Manifest{}, nil, fmt.Errorf("%s was summarised with another yield spec or confidence than %s: give --min-contrast, --max-bias-rad and --confidence to merge them", d, dirs[0])
 		}
 		if from, to := m.Range(); len(recs) != to-from {
 			return Manifest{}, nil, fmt.Errorf("%s is incomplete: %d of %d realisations (resume it first)", d, len(recs), to-from)
+		}
+		if m.RecordsSHA256 == "" {
+			return Manifest{}, nil, fmt.Errorf("%s holds every realisation but was not sealed with the digest of its records (the run stopped before it closed): resume it once to seal it", d)
 		}
 		all = append(all, recs...)
 	}
@@ -268,16 +322,25 @@ func Merge(dirs []string) (Manifest, []Record, error) {
 		return Manifest{}, nil, fmt.Errorf("the shards hold %d of %d realisations", len(all), first.Samples)
 	}
 	first.Shard = nil
+	first.RecordsSHA256 = ""
 	return first, all, nil
 }
 
-// WriteRun writes a whole run (manifest and records) to dir, each file
-// through a temporary file renamed into place.
+func sameSummary(a, b Manifest) bool {
+	return a.Confidence == b.Confidence && (a.YieldSpec == nil) == (b.YieldSpec == nil) &&
+		(a.YieldSpec == nil || *a.YieldSpec == *b.YieldSpec)
+}
+
+// WriteRun writes a whole run (manifest and records) to dir under its lock,
+// each file whole or not at all (the records first, then the manifest
+// with their digest). The manifest keeps the build that wrote the records.
 func WriteRun(dir string, m Manifest, recs []Record) error {
-	if err := os.MkdirAll(dir, 0o755); err != nil {
+	unlock, err := LockDir(dir)
+	if err != nil {
 		return err
 	}
-	if _, err := os.Stat(filepath.Join(dir, RealisationsFile)); err == nil {
+	defer unlock()
+	if _, err := os.Lstat(filepath.Join(dir, RealisationsFile)); err == nil {
 		return fmt.Errorf("%s already holds a run; choose another directory", dir)
 	}
 	_, rin, phase := m.layout()
@@ -286,8 +349,13 @@ func WriteRun(dir string, m Manifest, recs []Record) error {
 	for _, r := range recs {
 		b.WriteString(r.format(rin, phase))
 	}
-	if err := WriteFileAtomic(filepath.Join(dir, RealisationsFile), []byte(b.String())); err != nil {
+	data := []byte(b.String())
+	if err := atomicfile.WriteFile(filepath.Join(dir, RealisationsFile), data); err != nil {
 		return err
+	}
+	if from, to := m.Range(); len(recs) == to-from {
+		sum := sha256.Sum256(data)
+		m.RecordsSHA256 = hex.EncodeToString(sum[:])
 	}
 	return writeJSON(filepath.Join(dir, ManifestFile), m)
 }
@@ -297,28 +365,5 @@ func writeJSON(path string, v any) error {
 	if err != nil {
 		return err
 	}
-	return WriteFileAtomic(path, append(b, '\n'))
-}
-
-// WriteFileAtomic writes data to a temporary file beside path and renames
-// it into place, so that path never holds a partial file.
-func WriteFileAtomic(path string, data []byte) error {
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp*")
-	if err != nil {
-		return err
-	}
-	_, err = f.Write(data)
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Chmod(f.Name(), 0o644)
-	}
-	if err == nil {
-		err = os.Rename(f.Name(), path)
-	}
-	if err != nil {
-		os.Remove(f.Name())
-	}
-	return err
+	return atomicfile.WriteFile(path, append(b, '\n'))
 }

@@ -2,26 +2,41 @@ package noise
 
 import (
 	"bufio"
+	"bytes"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
-	"os"
 	"strconv"
 	"strings"
+
+	"rampart/internal/boundedread"
 )
+
+// excerpt cuts a field quoted in a message to a few dozen bytes.
+func excerpt(s string) string { return boundedread.Excerpt(s, 40) }
 
 // PhaseNoiseHeader is the header line a phase-noise table file must start with.
 const PhaseNoiseHeader = "f_hz,l_dbc_hz"
 
+// MaxPhaseNoiseRows bounds the rows of a phase-noise table: a measured
+// spectrum has hundreds of points, a synthesised one a few thousand.
+const MaxPhaseNoiseRows = 1_000_000
+
 // ReadPhaseNoise reads a phase-noise table from the CSV file at path and
-// returns it as a Table of S_φ(f) in rad^2/Hz (see ParsePhaseNoise).
+// returns it as a Table of S_φ(f) in rad^2/Hz (see ParsePhaseNoise). Only a
+// regular file of at most boundedread.TableCap bytes is read.
 func ReadPhaseNoise(path string) (*Table, error) {
-	f, err := os.Open(path)
+	data, err := boundedread.ReadFile(path, boundedread.TableCap)
 	if err != nil {
-		return nil, fmt.Errorf("read phase-noise table: %w", err)
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err
+		}
+		return nil, fmt.Errorf("phase-noise table %q: cannot read the file: %w", path, err)
 	}
-	defer f.Close()
-	return ParsePhaseNoise(f, path)
+	return ParsePhaseNoise(bytes.NewReader(data), path)
 }
 
 // ParsePhaseNoise parses a phase-noise table and returns it as a Table of
@@ -66,7 +81,8 @@ func ParsePhaseNoise(r io.Reader, name string) (*Table, error) {
 		}
 		if !header {
 			if strings.Join(fields, ",") != PhaseNoiseHeader {
-				return nil, fail("header is %q, want %q", text, PhaseNoiseHeader)
+				// Not quoted: the file may be anything the user pointed at.
+				return nil, fail("the first line that is not blank or a comment is not the header: want %q", PhaseNoiseHeader)
 			}
 			header = true
 			continue
@@ -74,13 +90,16 @@ func ParsePhaseNoise(r io.Reader, name string) (*Table, error) {
 		if len(fields) != 2 {
 			return nil, fail("%d fields, want 2 (%s)", len(fields), PhaseNoiseHeader)
 		}
+		if len(freq) == MaxPhaseNoiseRows {
+			return nil, fail("more than %d rows, the cap for a phase-noise table", MaxPhaseNoiseRows)
+		}
 		f, err := strconv.ParseFloat(fields[0], 64)
 		if err != nil {
-			return nil, fail("frequency %q is not a number", fields[0])
+			return nil, fail("frequency %q is not a number", excerpt(fields[0]))
 		}
 		l, err := strconv.ParseFloat(fields[1], 64)
 		if err != nil {
-			return nil, fail("level %q is not a number", fields[1])
+			return nil, fail("level %q is not a number", excerpt(fields[1]))
 		}
 		s := PhaseFromDBc(l)
 		switch {

@@ -2,6 +2,8 @@ package noise
 
 import (
 	"math"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -62,8 +64,8 @@ func TestParsePhaseNoiseErrors(t *testing.T) {
 	}{
 		{"empty file", "", `phase-noise table "t.csv": empty, want the header "f_hz,l_dbc_hz"`},
 		{"only comments", "# nothing\n\n", `phase-noise table "t.csv": empty`},
-		{"wrong header", "freq,dbc\n10,-80\n", `phase-noise table "t.csv" line 1: header is "freq,dbc", want "f_hz,l_dbc_hz"`},
-		{"missing header", "10,-80\n", `line 1: header is "10,-80"`},
+		{"wrong header", "freq,dbc\n10,-80\n", `phase-noise table "t.csv" line 1: the first line that is not blank or a comment is not the header: want "f_hz,l_dbc_hz"`},
+		{"missing header", "10,-80\n", `line 1: the first line that is not blank or a comment is not the header`},
 		{"header only", h, `phase-noise table "t.csv": no rows after the header`},
 		{"one field", h + "10\n", `line 2: 1 fields, want 2 (f_hz,l_dbc_hz)`},
 		{"three fields", h + "10,-80,3\n", `line 2: 3 fields, want 2`},
@@ -130,4 +132,26 @@ func FuzzParsePhaseNoise(f *testing.F) {
 			t.Fatalf("Integral(0, 1) = %v for input %q", v, in)
 		}
 	})
+}
+
+// TestPhaseNoiseFileNotEchoed checks that a file pointed at by mistake is
+// not echoed into the message (the header error used to quote its first
+// line), and that special files and oversized files are refused.
+func TestPhaseNoiseFileNotEchoed(t *testing.T) {
+	dir := t.TempDir()
+	secret := filepath.Join(dir, "credentials")
+	os.WriteFile(secret, []byte("password=hunter2\n"), 0o600)
+	_, err := ReadPhaseNoise(secret)
+	if err == nil || strings.Contains(err.Error(), "hunter2") {
+		t.Errorf("got %v, want a refusal that does not quote the file", err)
+	}
+	for _, c := range []struct{ path, want string }{
+		{"/dev/zero", "a device, not a regular file"},
+		{dir, "a directory, not a regular file"},
+		{filepath.Join(dir, "none.csv"), "cannot read the file: no such file or directory"},
+	} {
+		if _, err := ReadPhaseNoise(c.path); err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: got %v, want %q", c.path, err, c.want)
+		}
+	}
 }

@@ -32,6 +32,9 @@ type ensembleOptions struct {
 	resume     string
 	shard      string
 	confidence float64
+	// yield is the yield spec the run is summarised with, recorded in the
+	// manifest so that merge reproduces the summary (nil: none).
+	yield *mc.Spec
 }
 
 func addEnsembleFlags(cmd *cobra.Command, o *ensembleOptions, defaultSamples int) {
@@ -50,10 +53,14 @@ func (o *ensembleOptions) validate() error {
 	switch {
 	case o.samples < 1:
 		return fmt.Errorf("--samples %d: need at least 1 realisation", o.samples)
+	case o.samples > mc.MaxSamples:
+		return fmt.Errorf("--samples %d: at most %d realisations (the summaries hold every record in memory)", o.samples, mc.MaxSamples)
 	case o.workers < 0:
 		return fmt.Errorf("--workers %d: need 0 (one per core) or more", o.workers)
 	case !(o.confidence > 0 && o.confidence < 1):
 		return fmt.Errorf("--confidence %g: want a level in (0, 1), such as 0.95", o.confidence)
+	case o.shard != "" && o.dir() == "":
+		return fmt.Errorf("--shard %s needs --out DIR: the slices are kept there for rampart merge", o.shard)
 	case o.out != "" && o.resume != "" && filepath.Clean(o.out) != filepath.Clean(o.resume):
 		return fmt.Errorf("--out %s and --resume %s name different directories; give one", o.out, o.resume)
 	}
@@ -63,6 +70,31 @@ func (o *ensembleOptions) validate() error {
 		}
 	}
 	return fmt.Errorf("--sampler %q: want random, lhs or sobol", o.sampler)
+}
+
+// heldDirs release the run directories the running command keeps locked
+// after their stores close, so that the summary and figures it writes
+// afterwards are under the lock too; run (main.go) releases them when the
+// command returns (the kernel would at exit in any case).
+var heldDirs []func() error
+
+// holdRunDir keeps dir locked until the command returns (see heldDirs); dir
+// must already be locked by this process, so this only counts the lock.
+func holdRunDir(dir string) error {
+	unlock, err := mc.LockDir(dir)
+	if err != nil {
+		return err
+	}
+	heldDirs = append(heldDirs, unlock)
+	return nil
+}
+
+// releaseRunDirs releases what holdRunDir kept.
+func releaseRunDirs() {
+	for _, unlock := range heldDirs {
+		unlock()
+	}
+	heldDirs = nil
 }
 
 // dir returns the output directory, if any.
@@ -135,6 +167,9 @@ type ensembleJob struct {
 
 // runJob runs (or resumes) a job, storing it in dir if one is given.
 func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir, label string) (*ensembleRun, error) {
+	if job.records > mc.MaxSamples {
+		return nil, fmt.Errorf("%d shots in one run, more than the %d a run directory holds: use fewer realisations or base rows", job.records, mc.MaxSamples)
+	}
 	r := job.realiser
 	ens := r.Ensemble()
 	hash, text, err := fingerprint(sc)
@@ -148,11 +183,13 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 	}
 	c := r.Config()
 	k := c.Ring.ScaleFactor(c.Sequence.TotalAngle())
+	numerics := mc.NumericsOf(c)
 	m := mc.Manifest{
 		Format: mc.ManifestFormat, Fingerprint: hash, Scenario: text,
 		SagnacRad: k * c.RotationRadS, ScaleFactorS: k,
 		Seed: ens.Seed, Samples: job.records, Sampler: ens.Sampler,
-		Columns: mc.Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
+		Columns:  mc.Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
+		Numerics: &numerics, YieldSpec: o.yield, Confidence: o.confidence,
 	}
 	if o.shard != "" {
 		sh, err := mc.ParseShard(o.shard)
@@ -176,6 +213,10 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 		if err != nil {
 			return nil, err
 		}
+		if err := holdRunDir(dir); err != nil {
+			st.Close()
+			return nil, err
+		}
 		defer st.Close()
 		emit = func(rec mc.Record) error {
 			if err := st.Append(rec); err != nil {
@@ -193,9 +234,15 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 		workers = runtime.GOMAXPROCS(0)
 	}
 	t0 := e.now()
+	// The duration note reads the wall clock, not e.now: it is shown only
+	// for runs beyond an hour, and e.now's readings are counted by tests.
+	wall, fresh := time.Now(), 0
 	n, err := job.runner.Run(ctx, start, to, workers, func(rec mc.Record) error {
 		if err := emit(rec); err != nil {
 			return err
+		}
+		if fresh++; fresh == workers { // the first batch measures the rate
+			fmt.Fprint(stderr, durationNote(fresh, time.Since(wall), to-start-fresh, dir))
 		}
 		bar.Add(1)
 		return nil

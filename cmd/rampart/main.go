@@ -21,6 +21,7 @@ func run(args []string, stdout, stderr io.Writer, e env) int {
 	root.SetArgs(args)
 	root.SetOut(stdout)
 	root.SetErr(stderr)
+	defer releaseRunDirs()
 	if err := root.Execute(); err != nil {
 		fmt.Fprintln(stderr, "rampart:", err)
 		return exitCode(err)

@@ -15,6 +15,9 @@ type mergeOptions struct {
 	minContrast float64
 	maxBiasRad  float64
 	json        bool
+	// specGiven and confidenceGiven: the flags replace what the shards'
+	// manifests recorded.
+	specGiven, confidenceGiven bool
 }
 
 func newMergeCmd(e env) *cobra.Command {
@@ -25,18 +28,25 @@ func newMergeCmd(e env) *cobra.Command {
 		Long: `Combine the output directories of the shards of one ensemble (rampart run
 --shard k/n --out DIR, for example from the tasks of a cluster job array) into
 the result one unsharded run would have given: the same realisations file,
-summary and histograms. Every realisation must be present exactly once, and the
-shards must share the scenario, seed, sample count and sampler.`,
+summary and histograms. Every realisation must be present exactly once, every
+row must verify against its checksum and every shard against the digest in its
+manifest, and the shards must share the build, scenario, numerics, seed, sample
+count and sampler. The yield spec and confidence the shards were run with are
+taken from their manifests; --min-contrast, --max-bias-rad and --confidence
+replace them.`,
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, dirs []string) error {
+			f := cmd.Flags()
+			o.specGiven = f.Changed("min-contrast") || f.Changed("max-bias-rad")
+			o.confidenceGiven = f.Changed("confidence")
 			return runMerge(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), dirs, o)
 		},
 	}
 	f := cmd.Flags()
 	f.StringVar(&o.out, "out", "", "write the merged ensemble to `DIR` (it must not hold a run)")
-	f.Float64Var(&o.confidence, "confidence", 0.95, "confidence `level` of the intervals, in (0, 1)")
-	f.Float64Var(&o.minContrast, "min-contrast", 0, "yield spec: contrast at least `X` (as for run)")
-	f.Float64Var(&o.maxBiasRad, "max-bias-rad", 0, "yield spec: |bias| at most `Y` rad (as for run)")
+	f.Float64Var(&o.confidence, "confidence", 0.95, "confidence `level` of the intervals, in (0, 1) (default: the shards')")
+	f.Float64Var(&o.minContrast, "min-contrast", 0, "yield spec: contrast at least `X` (default: the shards' spec)")
+	f.Float64Var(&o.maxBiasRad, "max-bias-rad", 0, "yield spec: |bias| at most `Y` rad (default: the shards' spec)")
 	f.BoolVar(&o.json, "json", false, "print the summary as one JSON object (the same object as run --json)")
 	return cmd
 }
@@ -53,8 +63,24 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	if err != nil {
 		return err
 	}
+	if !o.specGiven && m.YieldSpec != nil {
+		spec = *m.YieldSpec
+	}
+	if !o.confidenceGiven && m.Confidence > 0 && m.Confidence < 1 {
+		o.confidence = m.Confidence
+	}
+	m.Confidence = o.confidence
+	m.YieldSpec = nil
+	if spec.Active() {
+		m.YieldSpec = &spec
+	}
 	sum := summarise(m, recs, o.confidence, spec)
 	if o.out != "" {
+		unlock, err := mc.LockDir(o.out) // held for the records, summary and figures
+		if err != nil {
+			return err
+		}
+		defer unlock()
 		if err := mc.WriteRun(o.out, m, recs); err != nil {
 			return err
 		}

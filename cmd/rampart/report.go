@@ -3,8 +3,9 @@ package main
 import (
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
+	"rampart/internal/boundedread"
+	"rampart/internal/version"
 	"slices"
 	"strings"
 
@@ -37,12 +38,14 @@ func newReport(e env, title string, sc *scenario.Scenario, text string, sets []s
 		Command:  commandLine(e.args),
 		Seed:     seed,
 		Scenario: text,
+		// The build, so that a signed-off page says what produced it.
+		Generated: "by rampart " + version.Get().String(),
 	}
 }
 
 // scenarioText returns the text of the scenario file at path.
 func scenarioText(path string) string {
-	b, err := os.ReadFile(path)
+	b, err := boundedread.ReadFile(path, boundedread.TextCap)
 	if err != nil {
 		return ""
 	}

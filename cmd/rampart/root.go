@@ -44,7 +44,10 @@ func newRoot(e env) *cobra.Command {
 		SilenceErrors: true,
 		// Cobra's suggestions span several lines; errors here are one line.
 		DisableSuggestions: true,
+		// --version prints the module version and VCS revision of the build.
+		Version: versionLine(),
 	}
+	root.SetVersionTemplate("{{.Version}}")
 	root.AddCommand(newShotCmd(e), newRampCmd(e), newRunCmd(e), newMergeCmd(e), newRankCmd(e), newQualifyCmd(e), newToleranceCmd(e), newSensitivityCmd(e), newDemoCmd(e))
 	return root
 }

@@ -74,6 +74,9 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err != nil {
 		return err
 	}
+	if spec.Active() {
+		o.ens.yield = &spec
+	}
 	sc, cfg, budget, err := loadWithBudget(o.scenario, o.sets)
 	if err != nil {
 		return err

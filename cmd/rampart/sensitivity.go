@@ -88,6 +88,9 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	if o.base < 2 {
 		return fmt.Errorf("--base %d: want at least 2 base rows (256 is usual)", o.base)
 	}
+	if o.base > mc.MaxSamples/10 { // N (d + 2) shots with d <= 8 inputs
+		return fmt.Errorf("--base %d: at most %d base rows, so that the design's shots fit in one run", o.base, mc.MaxSamples/10)
+	}
 	sc, cfg, budget, err := o.load()
 	if err != nil {
 		return err

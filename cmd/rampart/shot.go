@@ -2,6 +2,7 @@ package main
 
 import (
 	"bufio"
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -333,10 +334,20 @@ func duration(d time.Duration) (value, unit string) {
 	return sig(d.Seconds()*1e3, 3), "ms"
 }
 
+// A JSON object gains a first member "rampart" naming the build that wrote
+// it (version.Info), so that every result says what produced it.
 func writeJSON(w io.Writer, v any) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(v)
+	b, err := stampVersion(v)
+	if err != nil {
+		return err
+	}
+	var out bytes.Buffer
+	if err := json.Indent(&out, b, "", "  "); err != nil {
+		return err
+	}
+	out.WriteByte('\n')
+	_, err = out.WriteTo(w)
+	return err
 }
 
 // writeTrace writes the observer's diagnostics as CSV, arm s = +1 or -1.

@@ -4,7 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"rampart/cmd/internal/tomlguard"
 	"rampart/cmd/internal/tomlpos"
+	"rampart/internal/boundedread"
 	"strings"
 
 	"github.com/BurntSushi/toml"
@@ -34,6 +36,10 @@ func parse(fsys fs.FS, name string, data []byte, overrides []string) (*Scenario,
 		s:     &Scenario{Name: name, fsys: fsys, Atom: Atom{MassU: sim.Rb87MassU}},
 		data:  data,
 		byKey: map[string]*entry{},
+	}
+	if err := tomlguard.Check(data); err != nil {
+		ge := err.(*tomlguard.Error)
+		return nil, &Error{File: name, Line: ge.Line, Err: errors.New(ge.Msg)}
 	}
 	var raw map[string]any
 	md, err := toml.Decode(string(data), &raw)
@@ -68,10 +74,17 @@ func parse(fsys fs.FS, name string, data []byte, overrides []string) (*Scenario,
 	return d.s, nil
 }
 
+// maxQuote bounds what a message quotes of the user's input; maxPath the
+// file paths it names (a path written in a scenario file is its content).
+const (
+	maxQuote = 80
+	maxPath  = 256
+)
+
 func (d *decoder) syntaxError(err error) error {
 	var pe toml.ParseError
 	if errors.As(err, &pe) {
-		return &Error{File: d.s.Name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", pe.Message)}
+		return &Error{File: d.s.Name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, maxQuote))}
 	}
 	return &Error{File: d.s.Name, Err: fmt.Errorf("not valid TOML: %w", err)}
 }
@@ -113,12 +126,13 @@ func unknown(path []string, v any) error {
 		if _, ok := tables[name]; ok {
 			continue
 		}
-		parent := strings.Join(path[:i], ".")
+		// Unknown names are file content: quote only an excerpt.
+		name, parent := boundedread.Excerpt(name, maxQuote), boundedread.Excerpt(strings.Join(path[:i], "."), maxQuote)
 		if _, isTable := v.(map[string]any); i == len(path)-1 && !isTable {
 			if parent == "" {
 				return fmt.Errorf("unknown key %s: a scenario holds only the tables %s", name, strings.Join(tables[""], ", "))
 			}
-			return fmt.Errorf("unknown key %s: [%s] takes %s%s", name, parent, strings.Join(tables[parent], ", "), elsewhere(path[i]))
+			return fmt.Errorf("unknown key %s: [%s] takes %s%s", name, parent, strings.Join(tables[parent], ", "), elsewhere(boundedread.Excerpt(path[i], maxQuote)))
 		}
 		if parent == "" {
 			return fmt.Errorf("unknown table [%s]: a scenario has the tables %s", name, strings.Join(tables[""], ", "))
@@ -182,7 +196,7 @@ func overrideValue(k *key, value string) (any, error) {
 	}
 	var m map[string]any
 	if _, err := toml.Decode("v = "+t, &m); err != nil || len(m) != 1 {
-		return nil, fmt.Errorf("%q is not a TOML value: want %s", t, k.want())
+		return nil, fmt.Errorf("%q is not a TOML value: want %s", boundedread.Excerpt(t, maxQuote), k.want())
 	}
 	return m["v"], nil
 }
@@ -221,7 +235,7 @@ func (d *decoder) check() error {
 	}
 	if p := s.Noise.Drive.PhaseTable; p != "" {
 		if _, err := s.ReadFile(p); err != nil {
-			return d.fail("noise.drive.phase_table", fmt.Errorf("phase-noise table %q: %w", p, readError(err)))
+			return d.fail("noise.drive.phase_table", fmt.Errorf("phase-noise table %q: %w", boundedread.Excerpt(p, maxPath), readError(err)))
 		}
 	}
 	if (s.Readout.Atoms > 0) != (s.Readout.CycleS > 0) {

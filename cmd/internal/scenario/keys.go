@@ -5,6 +5,8 @@ import (
 	"math"
 	"rampart/cmd/internal/tomlpos"
 	"strings"
+
+	"rampart/sim"
 )
 
 // kind is the TOML type a key takes.
@@ -32,6 +34,23 @@ var (
 	relSigma     = bound{func(x float64) bool { return x >= 0 && x < 1 }, "from 0 up to but not including 1 (0: off)"}
 	ppmSigma     = bound{func(x float64) bool { return x >= 0 && x < 1e6 }, "from 0 up to but not including 1e6 (0: off)"}
 	unitInterval = bound{func(x float64) bool { return x >= -1 && x <= 1 }, "from -1 to 1"}
+)
+
+// Size bounds of the integer and count keys, so that no product of them
+// overflows (2*sites, grid*grid) and a typo cannot ask for an endless run.
+const (
+	// maxSites: the grid holds at least 4 states per site (sim.AutoNumerics)
+	// and at most sim.MaxGrid, so no ring beyond MaxGrid/4 sites can run.
+	maxSites = sim.MaxGrid / 4
+	// maxLaps: 10^6 turns, a hundred times the longest cruise docs/model.md
+	// (Numerics) checks; a longer cruise is a typo, not an experiment.
+	maxLaps = 1e6
+)
+
+var (
+	sitesBound = bound{func(x float64) bool { return x >= 1 && x <= maxSites }, fmt.Sprintf("from 1 to %d", maxSites)}
+	lapsBound  = bound{func(x float64) bool { return x > 0 && x <= maxLaps }, "> 0 and at most 1e6"}
+	gridBound  = bound{func(x float64) bool { return x >= 0 && x <= sim.MaxGrid }, fmt.Sprintf("from 0 (automatic) to %d", sim.MaxGrid)}
 )
 
 // zeroOrAbove accepts x >= 0, zero meaning what zero says.
@@ -62,13 +81,13 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Atom.MassU }},
 	{name: "ring.radius_um", kind: number, bound: positive, required: true, meaning: "the ring radius in um",
 		field: func(s *Scenario) any { return &s.Ring.RadiusUM }},
-	{name: "ring.sites", kind: integer, bound: atLeastOne, required: true, meaning: "the number of lattice sites",
+	{name: "ring.sites", kind: integer, bound: sitesBound, required: true, meaning: "the number of lattice sites",
 		field: func(s *Scenario) any { return &s.Ring.Sites }},
 	{name: "lattice.depth_khz", kind: number, bound: positive, required: true, meaning: "the lattice depth V0/h in kHz",
 		field: func(s *Scenario) any { return &s.Lattice.DepthKHz }},
 	{name: "motion.cruise_rad_s", kind: number, bound: positive, required: true, meaning: "each arm's cruise speed in rad/s",
 		field: func(s *Scenario) any { return &s.Motion.CruiseRadS }},
-	{name: "motion.laps", kind: number, bound: positive, required: true, meaning: "each arm's one-way angle in turns, with 2*laps a whole number",
+	{name: "motion.laps", kind: number, bound: lapsBound, required: true, meaning: "each arm's one-way angle in turns, with 2*laps a whole number",
 		field: func(s *Scenario) any { return &s.Motion.Laps }},
 	{name: "motion.rotation_rad_s", kind: number, bound: anyFinite, meaning: "the background rotation in rad/s",
 		field: func(s *Scenario) any { return &s.Motion.RotationRadS }},
@@ -82,7 +101,7 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Ramp.File }},
 	{name: "start.temperature_nk", kind: number, bound: zeroOrAbove("the ground state"), meaning: "the start temperature in nK",
 		field: func(s *Scenario) any { return &s.Start.TemperatureNK }},
-	{name: "numerics.grid", kind: integer, bound: zeroOrAbove("automatic"), meaning: "the number of momentum states, a multiple of 2*sites",
+	{name: "numerics.grid", kind: integer, bound: gridBound, meaning: "the number of momentum states, a multiple of 2*sites",
 		field: func(s *Scenario) any { return &s.Numerics.Grid }},
 	{name: "numerics.step_us", kind: number, bound: zeroOrAbove("automatic"), meaning: "the split-step time step in us",
 		field: func(s *Scenario) any { return &s.Numerics.StepUS }},

@@ -7,8 +7,8 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
+	"rampart/internal/boundedread"
 	"strconv"
 	"strings"
 
@@ -25,6 +25,10 @@ const (
 // maxRampLine is the longest line a ramp file may have, in bytes.
 const maxRampLine = 1 << 20
 
+// MaxRampRows bounds the data rows of a ramp file: 10^6 rows sample a
+// 1 ms ramp every nanosecond, beyond any optimiser's output.
+const MaxRampRows = 1_000_000
+
 // RampError is a problem with a ramp file.
 type RampError struct {
 	File string // the ramp file as named by the caller
@@ -33,17 +37,18 @@ type RampError struct {
 }
 
 func (e *RampError) Error() string {
+	file := boundedread.Excerpt(e.File, maxPath)
 	if e.Line > 0 {
-		return fmt.Sprintf("ramp file %q line %d: %v", e.File, e.Line, e.Err)
+		return fmt.Sprintf("ramp file %q line %d: %v", file, e.Line, e.Err)
 	}
-	return fmt.Sprintf("ramp file %q: %v", e.File, e.Err)
+	return fmt.Sprintf("ramp file %q: %v", file, e.Err)
 }
 
 func (e *RampError) Unwrap() error { return e.Err }
 
 // ReadRamp reads the ramp file at path (see ParseRamp).
 func ReadRamp(path string, sites int, cruiseRadS float64) (*sim.Tabulated, error) {
-	data, err := os.ReadFile(path)
+	data, err := boundedread.ReadFile(path, boundedread.TableCap)
 	if err != nil {
 		return nil, &RampError{File: path, Err: readError(err)}
 	}
@@ -54,7 +59,9 @@ func ReadRamp(path string, sites int, cruiseRadS float64) (*sim.Tabulated, error
 // whose cruise speed is cruiseRadS. name labels the ramp and its errors,
 // usually the file's path.
 //
-// The format is CSV. Blank lines and comments (from # to the end of a line)
+// The format is CSV, separated by commas (a file separated by semicolons,
+// as some spreadsheets export, is refused with a message saying so); a
+// UTF-8 byte-order mark at the start is skipped. Blank lines and comments (from # to the end of a line)
 // are ignored. The first other line is the header, naming the two columns in
 // either order: t_s, the time in s, and either omega_rad_s, the lattice speed
 // Omega in rad/s, or drive_hz, the drive frequency offset in Hz,
@@ -74,7 +81,11 @@ func ParseRamp(r io.Reader, name string, sites int, cruiseRadS float64) (*sim.Ta
 	sc.Buffer(make([]byte, 0, 4096), maxRampLine)
 	for sc.Scan() {
 		p.line++
-		text, _, _ := strings.Cut(sc.Text(), "#")
+		line := sc.Text()
+		if p.line == 1 {
+			line = strings.TrimPrefix(line, "\ufeff") // byte-order mark of some spreadsheet exports
+		}
+		text, _, _ := strings.Cut(line, "#")
 		text = strings.TrimSpace(text)
 		if text == "" {
 			continue
@@ -84,9 +95,16 @@ func ParseRamp(r io.Reader, name string, sites int, cruiseRadS float64) (*sim.Ta
 			fields[i] = strings.TrimSpace(fields[i])
 		}
 		var err error
-		if p.speedColumn == "" {
+		switch {
+		case longField(fields) > 0:
+			err = fmt.Errorf("field %d is %d bytes long: want a number or a column name", longField(fields), len(fields[longField(fields)-1]))
+		case len(fields) == 1 && strings.Contains(text, ";"):
+			err = fmt.Errorf("the columns are separated by semicolons: rampart reads comma-separated values (%s,%s); export the table with commas", timeColumn, omegaColumn)
+		case p.speedColumn == "":
 			err = p.header(fields)
-		} else {
+		case len(p.t) == MaxRampRows:
+			err = fmt.Errorf("more than %d data rows, the cap for a ramp table", MaxRampRows)
+		default:
 			err = p.row(fields)
 		}
 		if err != nil {
@@ -213,6 +231,22 @@ func (p *rampParser) finish() (*sim.Tabulated, error) {
 		return nil, &RampError{File: p.name, Err: err}
 	}
 	return tab, nil
+}
+
+// maxRampField is the longest field of a ramp file: a float64 needs at most
+// 24 characters, so 64 leaves room for padding zeros. Longer fields are
+// refused without being quoted.
+const maxRampField = 64
+
+// longField returns the 1-based position of the first field longer than
+// maxRampField, or 0.
+func longField(fields []string) int {
+	for i, f := range fields {
+		if len(f) > maxRampField {
+			return i + 1
+		}
+	}
+	return 0
 }
 
 // finite parses a number of a ramp file column.

@@ -6,9 +6,9 @@ import (
 	"fmt"
 	"io/fs"
 	"math"
-	"os"
 	"path"
 	"path/filepath"
+	"rampart/internal/boundedread"
 
 	"rampart/sim"
 )
@@ -138,7 +138,7 @@ type Readout struct {
 // the overrides, each "table.key=value" (see Override). Relative paths in the
 // file are taken relative to the file's directory.
 func Load(path string, overrides []string) (*Scenario, error) {
-	data, err := os.ReadFile(path)
+	data, err := boundedread.ReadFile(path, boundedread.TextCap)
 	if err != nil {
 		return nil, &Error{File: path, Err: readError(err)}
 	}
@@ -147,7 +147,7 @@ func Load(path string, overrides []string) (*Scenario, error) {
 
 // LoadFS is Load for a scenario held in fsys, such as the embedded demo.
 func LoadFS(fsys fs.FS, name string, overrides []string) (*Scenario, error) {
-	data, err := fs.ReadFile(fsys, name)
+	data, err := boundedread.ReadFS(fsys, name, boundedread.TextCap)
 	if err != nil {
 		return nil, &Error{File: name, Err: readError(err)}
 	}
@@ -164,12 +164,13 @@ func readError(err error) error {
 }
 
 // ReadFile reads a file the scenario refers to (Ramp.File, Noise.Drive.PhaseTable)
-// from where the scenario was loaded.
+// from where the scenario was loaded. Only a regular file of at most
+// boundedread.TableCap bytes is read (see package boundedread).
 func (s *Scenario) ReadFile(name string) ([]byte, error) {
 	if s.fsys != nil {
-		return fs.ReadFile(s.fsys, name)
+		return boundedread.ReadFS(s.fsys, name, boundedread.TableCap)
 	}
-	return os.ReadFile(name)
+	return boundedread.ReadFile(name, boundedread.TableCap)
 }
 
 // resolve joins a path written in the scenario file to the file's directory.
@@ -279,7 +280,7 @@ func (s *Scenario) rampUp() (sim.Ramp, *keyError) {
 	case "file":
 		data, err := s.ReadFile(s.Ramp.File)
 		if err != nil {
-			return nil, &keyError{"ramp.file", fmt.Errorf("ramp file %q: %w", s.Ramp.File, readError(err))}
+			return nil, &keyError{"ramp.file", fmt.Errorf("ramp file %q: %w", boundedread.Excerpt(s.Ramp.File, maxPath), readError(err))}
 		}
 		tab, err := ParseRamp(bytes.NewReader(data), s.Ramp.File, s.Ring.Sites, cruise)
 		if err != nil {

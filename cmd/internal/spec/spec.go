@@ -3,9 +3,11 @@ package spec
 import (
 	"errors"
 	"fmt"
+	"io/fs"
 	"math"
-	"os"
+	"rampart/cmd/internal/tomlguard"
 	"rampart/cmd/internal/tomlpos"
+	"rampart/internal/boundedread"
 	"strconv"
 	"strings"
 
@@ -122,9 +124,13 @@ func keysOf(table string) string {
 
 // Read reads the spec file at path.
 func Read(path string) (mc.Requirements, error) {
-	data, err := os.ReadFile(path)
+	data, err := boundedread.ReadFile(path, boundedread.TextCap)
 	if err != nil {
-		return mc.Requirements{}, fmt.Errorf("read spec: %w", err)
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = fmt.Errorf("cannot read the file: %w", pe.Err)
+		}
+		return mc.Requirements{}, &Error{File: path, Err: err}
 	}
 	return Parse(path, data)
 }
@@ -132,12 +138,16 @@ func Read(path string) (mc.Requirements, error) {
 // Parse reads a spec from data; name is the file's name for messages.
 func Parse(name string, data []byte) (mc.Requirements, error) {
 	p := parser{name: name, data: data}
+	if err := tomlguard.Check(data); err != nil {
+		ge := err.(*tomlguard.Error)
+		return mc.Requirements{}, &Error{File: name, Line: ge.Line, Err: errors.New(ge.Msg)}
+	}
 	var raw map[string]any
 	md, err := toml.Decode(string(data), &raw)
 	if err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return mc.Requirements{}, &Error{File: name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", pe.Message)}
+			return mc.Requirements{}, &Error{File: name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, 80))}
 		}
 		return mc.Requirements{}, &Error{File: name, Err: fmt.Errorf("not valid TOML: %w", err)}
 	}
@@ -146,13 +156,15 @@ func Parse(name string, data []byte) (mc.Requirements, error) {
 	given := map[string]bool{}
 	for _, path := range md.Keys() {
 		dotted := strings.Join(path, ".")
+		// Unknown names are file content: messages quote only an excerpt.
+		shown, top := boundedread.Excerpt(dotted, 80), boundedread.Excerpt(path[0], 80)
 		v := tomlpos.Lookup(raw, path)
 		fail := func(format string, a ...any) error {
 			return &Error{File: name, Line: tomlpos.Line(p.data, p.md, path), Key: dotted, Err: fmt.Errorf(format, a...)}
 		}
 		if len(path) == 1 && isTable(path[0]) {
 			if _, ok := v.(map[string]any); !ok {
-				return mc.Requirements{}, fail("%s must be a table [%s] of %s, got %s", dotted, dotted, keysOf(dotted), tomlpos.TypeName(v))
+				return mc.Requirements{}, fail("%s must be a table [%s] of %s, got %s", shown, shown, keysOf(dotted), tomlpos.TypeName(v))
 			}
 			continue
 		}
@@ -161,15 +173,15 @@ func Parse(name string, data []byte) (mc.Requirements, error) {
 			_, isMap := v.(map[string]any)
 			switch {
 			case len(path) == 1 && isMap:
-				return mc.Requirements{}, fail("unknown table [%s]: a spec holds %s", dotted, keysOf(""))
+				return mc.Requirements{}, fail("unknown table [%s]: a spec holds %s", shown, keysOf(""))
 			case len(path) == 1:
-				return mc.Requirements{}, fail("unknown key %s: a spec holds %s", dotted, keysOf(""))
+				return mc.Requirements{}, fail("unknown key %s: a spec holds %s", shown, keysOf(""))
 			case !isTable(path[0]):
-				return mc.Requirements{}, fail("unknown table [%s]: a spec holds %s", path[0], keysOf(""))
+				return mc.Requirements{}, fail("unknown table [%s]: a spec holds %s", top, keysOf(""))
 			case isMap:
-				return mc.Requirements{}, fail("unknown table [%s]: [%s] takes %s", dotted, path[0], keysOf(path[0]))
+				return mc.Requirements{}, fail("unknown table [%s]: [%s] takes %s", shown, top, keysOf(path[0]))
 			}
-			return mc.Requirements{}, fail("unknown key %s: [%s] takes %s", dotted, path[0], keysOf(path[0]))
+			return mc.Requirements{}, fail("unknown key %s: [%s] takes %s", shown, top, keysOf(path[0]))
 		}
 		var x float64
 		switch n := v.(type) {
@@ -178,10 +190,10 @@ func Parse(name string, data []byte) (mc.Requirements, error) {
 		case float64:
 			x = n
 		default:
-			return mc.Requirements{}, fail("%s = %s: want %s, got %s", dotted, tomlpos.Show(v), k.want(), tomlpos.TypeName(v))
+			return mc.Requirements{}, fail("%s = %s: want %s, got %s", shown, tomlpos.Show(v), k.want(), tomlpos.TypeName(v))
 		}
 		if !k.ok(x) {
-			return mc.Requirements{}, fail("%s = %s is out of range: want %s", dotted, tomlpos.Show(v), k.want())
+			return mc.Requirements{}, fail("%s = %s is out of range: want %s", shown, tomlpos.Show(v), k.want())
 		}
 		k.set(&req, x)
 		given[dotted] = true

@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"rampart/internal/boundedread"
 	"reflect"
 	"strconv"
 	"strings"
@@ -67,10 +68,13 @@ func Lookup(m map[string]any, path []string) any {
 
 // Show renders a decoded TOML value for a message. A float that looks like
 // an integer keeps a ".0", which would otherwise puzzle "want an integer".
+// maxShow bounds the bytes of a string value Show quotes.
+const maxShow = 80
+
 func Show(v any) string {
 	switch x := v.(type) {
 	case string:
-		return strconv.Quote(x)
+		return strconv.Quote(boundedread.Excerpt(x, maxShow)) // never echo a whole file
 	case float64:
 		switch {
 		case math.IsNaN(x):
@@ -90,9 +94,13 @@ func Show(v any) string {
 	case bool:
 		return strconv.FormatBool(x)
 	case []any:
-		parts := make([]string, len(x))
+		var parts []string
 		for i, e := range x {
-			parts[i] = Show(e)
+			if i == 4 {
+				parts = append(parts, fmt.Sprintf("... (%d elements)", len(x)))
+				break
+			}
+			parts = append(parts, Show(e))
 		}
 		return "[" + strings.Join(parts, ", ") + "]"
 	case map[string]any:

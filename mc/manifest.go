@@ -1,0 +1,187 @@
+package mc
+
+import (
+	"errors"
+	"fmt"
+	"math/bits"
+	"slices"
+	"strconv"
+	"strings"
+
+	"rampart/internal/version"
+	"rampart/sim"
+)
+
+// ManifestFormat names the layout of an ensemble directory. Format 2 added
+// the build, the numerics, the yield spec, the per-row checksums and the
+// digest of the records; directories of format 1 are refused.
+const ManifestFormat = "rampart-ensemble/2"
+
+// MaxSamples bounds the realisations of an ensemble. The summaries hold
+// every record in memory (about 200 bytes each), so 10^8 is already tens
+// of GB; the bound also keeps every index product within int64 (see
+// Shard.Range).
+const MaxSamples = 100_000_000
+
+// Shard is slice Index (1-based) of Count of an ensemble: the contiguous
+// realisations [from, to) given by Range.
+type Shard struct {
+	Index int `json:"index"`
+	Count int `json:"count"`
+}
+
+// Range returns the realisations of the shard in an ensemble of samples,
+// [(k-1) samples / n, k samples / n), computed in 128 bits so that no
+// product overflows whatever the sizes.
+func (s Shard) Range(samples int) (from, to int) {
+	return mulDiv(s.Index-1, samples, s.Count), mulDiv(s.Index, samples, s.Count)
+}
+
+// mulDiv returns floor(a b / c) for 0 <= a <= c, b >= 0 and c > 0, exactly.
+func mulDiv(a, b, c int) int {
+	hi, lo := bits.Mul64(uint64(a), uint64(b))
+	q, _ := bits.Div64(hi, lo, uint64(c)) // hi < c because a b / c <= b
+	return int(q)
+}
+
+// ParseShard reads "k/n" with 1 <= k <= n.
+func ParseShard(s string) (Shard, error) {
+	bad := fmt.Errorf("shard %q is not k/n with 1 <= k <= n (e.g. 2/8)", excerpt(s))
+	ks, ns, ok := strings.Cut(s, "/")
+	if !ok {
+		return Shard{}, bad
+	}
+	k, err1 := strconv.Atoi(strings.TrimSpace(ks))
+	n, err2 := strconv.Atoi(strings.TrimSpace(ns))
+	if err1 != nil || err2 != nil || n < 1 || k < 1 || k > n {
+		return Shard{}, bad
+	}
+	return Shard{Index: k, Count: n}, nil
+}
+
+// Numerics are the discretisation a run's shots used, as resolved by the
+// simulator. Runs with different numerics are different ensembles.
+type Numerics struct {
+	Grid   int     `json:"grid"`
+	StepS  float64 `json:"step_s"`
+	Levels int     `json:"levels"`
+	// Scheme names the split-step composition. sim does not export its
+	// choice; this is the name of sim's defaultScheme (docs/model.md,
+	// Numerics) and the build's revision covers a change of it.
+	Scheme string `json:"scheme"`
+}
+
+// SplitScheme is the name recorded for sim's split-step scheme.
+const SplitScheme = "blanes-moan-s6"
+
+// NumericsOf returns the numerics of a configuration resolved by a
+// simulator (sim.Simulator.Config, Realiser.Config).
+func NumericsOf(c sim.Config) Numerics {
+	return Numerics{Grid: c.Grid, StepS: c.StepS, Levels: c.Levels, Scheme: SplitScheme}
+}
+
+// Manifest identifies an ensemble run: what was simulated, by which build
+// and with which numerics, and how it was drawn. Two directories belong to
+// the same ensemble when their manifests agree but for the shard (and for
+// what cannot change a record: the yield spec, the confidence, the digest).
+type Manifest struct {
+	Format string `json:"format"`
+	// Rampart is the build that wrote the records.
+	Rampart version.Info `json:"rampart"`
+	// Fingerprint identifies the scenario and noise budget (the caller's
+	// hash of them); Scenario is their text, for the record.
+	Fingerprint string `json:"fingerprint"`
+	Scenario    string `json:"scenario,omitempty"`
+	// Numerics are those of the shots (nil: not recorded by the caller).
+	Numerics *Numerics `json:"numerics,omitempty"`
+	// SagnacRad and ScaleFactorS are those of the nominal sequence, for
+	// summaries of the records.
+	SagnacRad    float64  `json:"sagnac_rad"`
+	ScaleFactorS float64  `json:"scale_factor_s"`
+	Seed         uint64   `json:"seed"`
+	Samples      int      `json:"samples"`
+	Sampler      string   `json:"sampler"`
+	Shard        *Shard   `json:"shard,omitempty"`
+	Columns      []string `json:"columns"`
+	// YieldSpec and Confidence are those the run was summarised with, so
+	// that a merge of shards reproduces the unsharded summary. They do not
+	// change a record, so resume accepts new ones (and records them).
+	YieldSpec  *Spec   `json:"yield_spec,omitempty"`
+	Confidence float64 `json:"confidence,omitempty"`
+	// RecordsSHA256 is the SHA-256 of the whole records file, set when the
+	// run is complete.
+	RecordsSHA256 string `json:"records_sha256,omitempty"`
+}
+
+// Range returns the realisations the manifest's run covers.
+func (m Manifest) Range() (from, to int) {
+	if m.Shard == nil {
+		return 0, m.Samples
+	}
+	return m.Shard.Range(m.Samples)
+}
+
+// validate checks what a manifest read from disk must satisfy before its
+// counts are used.
+func (m Manifest) validate() error {
+	switch {
+	case m.Format != ManifestFormat:
+		return fmt.Errorf("format %q, not %q (a directory written by another rampart: rerun it with this one)", excerpt(m.Format), ManifestFormat)
+	case len(m.Columns) < 9 || m.Columns[len(m.Columns)-1] != ChecksumColumn:
+		return errors.New("its columns are not those of a records file")
+	case m.Samples < 1 || m.Samples > MaxSamples:
+		return fmt.Errorf("samples = %d, outside [1, %d]", m.Samples, MaxSamples)
+	case m.Shard != nil && (m.Shard.Count < 1 || m.Shard.Index < 1 || m.Shard.Index > m.Shard.Count || m.Shard.Count > m.Samples):
+		return fmt.Errorf("shard %d/%d of %d samples is not a shard", m.Shard.Index, m.Shard.Count, m.Samples)
+	}
+	return nil
+}
+
+func (m Manifest) layout() (nInputs int, rin, phase bool) {
+	for _, c := range m.Columns[1:] {
+		switch c {
+		case "rin_rms_rel":
+			rin = true
+		case "phase_rms_plus_rad":
+			phase = true
+		case "phase_rms_minus_rad", "contrast", "phase_rad", "bias_rad", "z_re", "z_im", "ground_plus", "ground_minus", ChecksumColumn:
+		default:
+			nInputs++
+		}
+	}
+	return nInputs, rin, phase
+}
+
+// sameEnsemble returns an error naming the first field in which m and o
+// differ, the shard, yield spec, confidence and digest aside. A different
+// build is refused even when its numerics agree: any change of the code
+// may change a shot. Two builds that both lack VCS information ("devel",
+// "unknown") cannot be told apart and are accepted.
+func (m Manifest) sameEnsemble(o Manifest) error {
+	switch {
+	case m.Format != o.Format:
+		return fmt.Errorf("format %q, want %q", o.Format, m.Format)
+	case m.Rampart != o.Rampart:
+		return fmt.Errorf("records of rampart %s, not %s: finish and merge runs with one build", o.Rampart, m.Rampart)
+	case m.Fingerprint != o.Fingerprint:
+		return errors.New("a different scenario or noise budget")
+	case (m.Numerics == nil) != (o.Numerics == nil) || (m.Numerics != nil && *m.Numerics != *o.Numerics):
+		return fmt.Errorf("numerics %s, not %s", o.Numerics.String(), m.Numerics.String())
+	case m.Seed != o.Seed:
+		return fmt.Errorf("seed %d, not %d", o.Seed, m.Seed)
+	case m.Samples != o.Samples:
+		return fmt.Errorf("%d samples, not %d", o.Samples, m.Samples)
+	case m.Sampler != o.Sampler:
+		return fmt.Errorf("sampler %q, not %q", o.Sampler, m.Sampler)
+	case !slices.Equal(m.Columns, o.Columns):
+		return errors.New("different columns")
+	}
+	return nil
+}
+
+func (n *Numerics) String() string {
+	if n == nil {
+		return "not recorded"
+	}
+	return fmt.Sprintf("grid %d, step %g s, %d levels, %s", n.Grid, n.StepS, n.Levels, n.Scheme)
+}
