@@ -32,18 +32,6 @@ type Budget struct {
 	PhaseCorrelation float64
 }
 
-// Static parameter names, in sampler order when active.
-const (
-	ParamDepthCommon       = "depth_common_rel"
-	ParamDepthDifferential = "depth_differential_rel"
-	ParamClock             = "clock_rel"
-	ParamSpeed             = "speed_rel"
-	ParamSkew              = "skew_s"
-	ParamTemperature       = "temperature_offset_k"
-	ParamPulse1            = "pulse1_area_rel"
-	ParamPulse2            = "pulse2_area_rel"
-)
-
 // Param is one static parameter drawn per realisation: value = Sigma * x,
 // x standard normal.
 type Param struct {
@@ -52,25 +40,23 @@ type Param struct {
 }
 
 // allParams returns every static parameter of b, active or not, in the
-// fixed order of the sampler's coordinates: coordinate k always drives
-// parameter k, so that switching a source off or rescaling it leaves the
-// draws of the others, and its own normal variates, unchanged (common
-// random numbers across budgets).
+// fixed order of the sampler's coordinates (the drawn inputs of the static
+// rows of Sources): coordinate k always drives parameter k, so that
+// switching a source off or rescaling it leaves the draws of the others,
+// and its own normal variates, unchanged (common random numbers across
+// budgets).
 func (b Budget) allParams() []Param {
-	return []Param{
-		{ParamDepthCommon, b.DepthCommonRel},
-		{ParamDepthDifferential, b.DepthDifferentialRel},
-		{ParamClock, b.ClockRel},
-		{ParamSpeed, b.SpeedRel},
-		{ParamSkew, b.SkewS},
-		{ParamTemperature, b.TemperatureSpreadK},
-		{ParamPulse1, b.PulseAreaRel},
-		{ParamPulse2, b.PulseAreaRel},
+	out := make([]Param, 0, StaticDim)
+	for _, s := range Sources {
+		if s.Kind != Static {
+			continue
+		}
+		for _, name := range s.Inputs {
+			out = append(out, Param{name, *s.Sigma(&b)})
+		}
 	}
+	return out
 }
-
-// StaticDim is the dimension of the static parameters' design.
-const StaticDim = 8
 
 // Params returns the active static parameters of b in sampler order.
 func (b Budget) Params() []Param {
@@ -103,15 +89,13 @@ func (b Budget) Validate() error {
 // (standard deviations by k, PSDs by k^2): the budget's tolerance axis.
 func (b Budget) Scaled(k float64) Budget {
 	c := b
-	c.DepthCommonRel *= k
-	c.DepthDifferentialRel *= k
-	c.ClockRel *= k
-	c.SpeedRel *= k
-	c.SkewS *= k
-	c.TemperatureSpreadK *= k
-	c.PulseAreaRel *= k
-	c.RIN = scalePSD(b.RIN, k*k)
-	c.Phase = scalePSD(b.Phase, k*k)
+	for _, s := range Sources {
+		if s.Kind == Static {
+			*s.Sigma(&c) *= k
+		} else {
+			*s.PSD(&c) = scalePSD(*s.PSD(&b), k*k)
+		}
+	}
 	return c
 }
 

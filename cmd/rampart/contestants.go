@@ -118,7 +118,7 @@ func sameButRamp(a, b *scenario.Scenario) error {
 	tables := func(sc *scenario.Scenario) (map[string]json.RawMessage, error) {
 		c := *sc
 		c.Ramp = scenario.Ramp{}
-		_, text, err := fingerprint(&c)
+		_, text, err := c.Fingerprint()
 		if err != nil {
 			return nil, err
 		}

@@ -67,7 +67,7 @@ func loadWithBudget(path string, sets []string) (*scenario.Scenario, sim.Config,
 	if err != nil {
 		return nil, sim.Config{}, mc.Budget{}, err
 	}
-	budget, err := budgetOf(sc)
+	budget, err := sc.Budget()
 	if err != nil {
 		return nil, sim.Config{}, mc.Budget{}, err
 	}

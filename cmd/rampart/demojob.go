@@ -34,7 +34,7 @@ func (d *demo) requirements() (mc.Requirements, error) {
 
 // inputs returns the demo's noise budget, spec and read-out.
 func (d *demo) inputs() (mc.Budget, mc.Requirements, readout, error) {
-	budget, err := budgetOf(d.base)
+	budget, err := d.base.Budget()
 	if err != nil {
 		return mc.Budget{}, mc.Requirements{}, readout{}, err
 	}

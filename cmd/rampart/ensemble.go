@@ -137,12 +137,12 @@ type ensembleJob struct {
 func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir, label string) (*ensembleRun, error) {
 	r := job.realiser
 	ens := r.Ensemble()
-	hash, text, err := fingerprint(sc)
+	hash, text, err := sc.Fingerprint()
 	if err != nil {
 		return nil, err
 	}
 	if job.tag != nil {
-		if hash, text, err = withTag(hash, text, job.tag); err != nil {
+		if hash, text, err = scenario.WithTag(hash, text, job.tag); err != nil {
 			return nil, err
 		}
 	}

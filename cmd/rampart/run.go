@@ -178,20 +178,16 @@ func ensembleLine(run *ensembleRun, o ensembleOptions) string {
 // budgetLine lists the active noise sources of a budget.
 func budgetLine(b mc.Budget) string {
 	var parts []string
-	add := func(on bool, s string) {
-		if on {
-			parts = append(parts, s)
+	for _, s := range mc.Sources {
+		if !s.On(b) {
+			continue
 		}
+		line := s.Line
+		if s.Kind == mc.Static {
+			line = strings.ReplaceAll(line, "{}", sig(s.Scale**s.Sigma(&b), 3)+" "+s.Unit)
+		}
+		parts = append(parts, strings.ReplaceAll(line, "{correlation}", sig(b.PhaseCorrelation, 3)))
 	}
-	add(b.DepthCommonRel > 0, fmt.Sprintf("depth %s %% common", sig(100*b.DepthCommonRel, 3)))
-	add(b.DepthDifferentialRel > 0, fmt.Sprintf("%s %% differential", sig(100*b.DepthDifferentialRel, 3)))
-	add(b.RIN != nil, "intensity noise")
-	add(b.Phase != nil, fmt.Sprintf("drive phase noise (correlation %s)", sig(b.PhaseCorrelation, 3)))
-	add(b.ClockRel > 0, fmt.Sprintf("clock %s ppm", sig(b.ClockRel*1e6, 3)))
-	add(b.SpeedRel > 0, fmt.Sprintf("speed %s ppm", sig(b.SpeedRel*1e6, 3)))
-	add(b.SkewS > 0, fmt.Sprintf("skew %s ns", sig(b.SkewS*1e9, 3)))
-	add(b.TemperatureSpreadK > 0, fmt.Sprintf("temperature spread %s nK", sig(b.TemperatureSpreadK*1e9, 3)))
-	add(b.PulseAreaRel > 0, fmt.Sprintf("pulse area %s %%", sig(100*b.PulseAreaRel, 3)))
 	if len(parts) == 0 {
 		return "none (every realisation is the nominal shot)"
 	}

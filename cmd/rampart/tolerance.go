@@ -59,7 +59,7 @@ the step before.`,
 	confidenceFromSpec(cmd)
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
-	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.Sources, ", ")+", or all (default: those the budget switches on)")
+	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.SourceKeys(), ", ")+", or all (default: those the budget switches on)")
 	f.BoolVar(&o.joint, "joint", false, "also search the factor by which the whole budget may be scaled")
 	f.Float64Var(&o.precision, "precision", 0.05, "relative precision `P` of each tolerance, in [0.001, 1]")
 	cmd.MarkFlagRequired("spec")
@@ -208,26 +208,26 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 // (comma-separated, or "all"), or the sources b switches on.
 func toleranceSources(b mc.Budget, list string) ([]string, error) {
 	if list == "all" {
-		return mc.Sources, nil
+		return mc.SourceKeys(), nil
 	}
 	if list != "" {
 		var out []string
 		for _, name := range strings.Split(list, ",") {
 			name = strings.TrimSpace(name)
-			if _, ok := sourceAmplitudes[name]; !ok {
+			if _, ok := mc.LookupSource(name); !ok {
 				hint := ""
 				if name == mc.SourceBudget {
 					hint = " (--joint searches the whole budget)"
 				}
-				return nil, fmt.Errorf("--sources: unknown noise source %q%s: want %s, or all", name, hint, strings.Join(mc.Sources, ", "))
+				return nil, fmt.Errorf("--sources: unknown noise source %q%s: want %s, or all", name, hint, strings.Join(mc.SourceKeys(), ", "))
 			}
 			out = append(out, name)
 		}
 		return out, nil
 	}
 	var out []string
-	for _, name := range mc.Sources {
-		if _, on := sourceAmplitudes[name](b, b); on {
+	for _, name := range mc.SourceKeys() {
+		if _, on := mc.SourceAmplitude(name, b, b); on {
 			out = append(out, name)
 		}
 	}
@@ -241,7 +241,7 @@ func toleranceSources(b mc.Budget, list string) ([]string, error) {
 // (the budget's nominal value of every other source): the source's
 // amplitude in the unit of the tolerance table to six digits, or "off".
 func amplitudeKey(name string, nominal, b mc.Budget) string {
-	a, on := sourceAmplitude(name, nominal, b)
+	a, on := mc.SourceAmplitude(name, nominal, b)
 	if !on {
 		return "off"
 	}

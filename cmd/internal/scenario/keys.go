@@ -258,3 +258,13 @@ func (k *key) set(s *Scenario, v any) {
 		panic("scenario: unsupported field type")
 	}
 }
+
+// Number returns the value of the number key name ("noise.timing.skew_ns")
+// in s, and whether the schema has such a key.
+func (s *Scenario) Number(name string) (float64, bool) {
+	k, ok := keyByName[name]
+	if !ok || k.kind != number {
+		return 0, false
+	}
+	return *k.field(s).(*float64), true
+}
