@@ -8,8 +8,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/report"
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -63,7 +63,7 @@ func (o *decisionOptions) load() (*scenario.Scenario, sim.Config, mc.Budget, err
 // loadWithBudget reads a scenario, its simulation configuration and its
 // noise budget.
 func loadWithBudget(path string, sets []string) (*scenario.Scenario, sim.Config, mc.Budget, error) {
-	sc, cfg, err := loadScenario(path, sets)
+	sc, cfg, err := scenario.LoadConfig(path, sets)
 	if err != nil {
 		return nil, sim.Config{}, mc.Budget{}, err
 	}

@@ -8,8 +8,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart"
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -80,7 +80,7 @@ type demo struct {
 	base   *scenario.Scenario
 
 	// filled in by the stages
-	cs      []contestant
+	cs      []scenario.Contestant
 	ranking rankReport
 	recs    [][]mc.Record
 	winner  int
@@ -165,7 +165,7 @@ func (d *demo) compareRamps() error {
 		}
 		runs, cfg = append(runs, run), c
 		names = append(names, dr.name)
-		d.cs = append(d.cs, contestant{name: dr.name, spec: "demo ramp " + dr.name, sc: sc, cfg: c})
+		d.cs = append(d.cs, scenario.Contestant{Name: dr.name, Spec: "demo ramp " + dr.name, Scenario: sc, Config: c})
 	}
 	w := d.out
 	fmt.Fprintf(w, "rampart demo: the built-in scenario %s\n%s\n\n", d.base.Name, describe(d.base, cfg, strings.Join(names, ", ")+" ramps"))

@@ -8,6 +8,7 @@ import (
 	"rampart"
 	"rampart/cmd/internal/spec"
 	"rampart/mc"
+	"rampart/scenario"
 )
 
 // The stages of the demo after the noise-free comparison: the ranking, the
@@ -59,7 +60,7 @@ func (d *demo) rank() error {
 		return err
 	}
 	d.ranking, d.recs = rep, recs
-	d.winner = slices.IndexFunc(d.cs, func(c contestant) bool { return c.name == rep.Ranking.Ranking[0].Name })
+	d.winner = slices.IndexFunc(d.cs, func(c scenario.Contestant) bool { return c.Name == rep.Ranking.Ranking[0].Name })
 	w := d.out
 	fmt.Fprintf(w, "2. The three ramps under the noise budget, ranked by the 5th-percentile contrast\n")
 	fmt.Fprintf(w, "Noise budget: %s\n", budgetLine(budget))
@@ -98,13 +99,13 @@ func (d *demo) tolerances() error {
 	defer stop()
 	c := d.cs[d.winner]
 	o := d.demoEnsemble(d.opts.toleranceSamples)
-	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.sc, c.cfg, budget, req, names, o, demoTolerancePrecision)
+	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.Scenario, c.Config, budget, req, names, o, demoTolerancePrecision)
 	if err != nil {
 		return err
 	}
 	rep.Spec = demoSpec
 	d.tol = rep
-	fmt.Fprintf(d.out, "4. Hardware tolerances for %s: the largest amplitude of each source (the others as budgeted) at which the spec still holds\n", c.name)
+	fmt.Fprintf(d.out, "4. Hardware tolerances for %s: the largest amplitude of each source (the others as budgeted) at which the spec still holds\n", c.Name)
 	fmt.Fprintf(d.out, "%s\n\n", work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.samples), o))
 	return toleranceGrid(rep).RenderNoted(d.out, toleranceNotes(rep))
 }
@@ -118,10 +119,10 @@ func (d *demo) writeReport() error {
 	cfgs := make([]namedConfig, len(d.cs))
 	recs := map[string][]mc.Record{}
 	for i, c := range d.cs {
-		cfgs[i] = namedConfig{c.name, c.cfg}
-		recs[c.name] = d.recs[i]
+		cfgs[i] = namedConfig{c.Name, c.Config}
+		recs[c.Name] = d.recs[i]
 	}
-	winner := d.cs[d.winner].name
+	winner := d.cs[d.winner].Name
 	secs, err := driveAndDynamics(cfgs, winner)
 	if err != nil {
 		return err

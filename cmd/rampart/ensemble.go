@@ -8,7 +8,6 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
-	"runtime"
 	"syscall"
 	"time"
 
@@ -16,8 +15,8 @@ import (
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
 
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -135,8 +134,6 @@ type ensembleJob struct {
 
 // runJob runs (or resumes) a job, storing it in dir if one is given.
 func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir, label string) (*ensembleRun, error) {
-	r := job.realiser
-	ens := r.Ensemble()
 	hash, text, err := sc.Fingerprint()
 	if err != nil {
 		return nil, err
@@ -146,14 +143,8 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 			return nil, err
 		}
 	}
-	c := r.Config()
-	k := c.Ring.ScaleFactor(c.Sequence.TotalAngle())
-	m := mc.Manifest{
-		Format: mc.ManifestFormat, Fingerprint: hash, Scenario: text,
-		SagnacRad: k * c.RotationRadS, ScaleFactorS: k,
-		Seed: ens.Seed, Samples: job.records, Sampler: ens.Sampler,
-		Columns: mc.Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
-	}
+	j := mc.Job{Realiser: job.realiser, Runner: job.runner, Records: job.records,
+		Fingerprint: hash, Scenario: text, Dir: dir, Resume: dir != "" && o.resume != "", Workers: o.workers}
 	if o.shard != "" {
 		sh, err := mc.ParseShard(o.shard)
 		if err != nil {
@@ -162,52 +153,29 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 		if sh.Count > job.records {
 			return nil, fmt.Errorf("--shard %s: more shards than the %d realisations", o.shard, job.records)
 		}
-		m.Shard = &sh
+		j.Shard = &sh
 	}
-	run := &ensembleRun{manifest: m, realiser: r}
-	emit := func(rec mc.Record) error { run.records = append(run.records, rec); return nil }
-	if dir != "" {
-		var st *mc.Store
-		if o.resume != "" {
-			st, run.records, err = mc.Resume(dir, m)
-		} else {
-			st, err = mc.Create(dir, m)
-		}
-		if err != nil {
-			return nil, err
-		}
-		defer st.Close()
-		emit = func(rec mc.Record) error {
-			if err := st.Append(rec); err != nil {
-				return err
-			}
-			run.records = append(run.records, rec)
-			return nil
-		}
+	var bar progress = silent{}
+	var t0 time.Time
+	j.Started = func(total, resumed int) {
+		bar = newProgress(stderr, total, resumed, label)
+		t0 = e.now()
 	}
-	from, to := m.Range()
-	start := from + len(run.records)
-	bar := newProgress(stderr, to-from, len(run.records), label)
-	workers := o.workers
-	if workers == 0 {
-		workers = runtime.GOMAXPROCS(0)
+	j.Recorded = func() { bar.Add(1) }
+	res, err := j.Execute(ctx)
+	if res == nil {
+		return nil, err
 	}
-	t0 := e.now()
-	n, err := job.runner.Run(ctx, start, to, workers, func(rec mc.Record) error {
-		if err := emit(rec); err != nil {
-			return err
-		}
-		bar.Add(1)
-		return nil
-	})
 	bar.Finish()
-	run.elapsed, run.fresh = e.now().Sub(t0), n
+	run := &ensembleRun{manifest: res.Manifest, records: res.Records, realiser: job.realiser,
+		elapsed: e.now().Sub(t0), fresh: res.Fresh}
 	if err != nil {
 		if errors.Is(err, context.Canceled) {
 			hint := dir
 			if job.resume != "" {
 				hint = job.resume
 			}
+			from, to := res.Manifest.Range()
 			return run, interruptedError(len(run.records), to-from, hint)
 		}
 		return run, err

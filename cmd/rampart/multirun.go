@@ -4,15 +4,13 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"time"
 
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
-	"rampart/sim"
+	"rampart/scenario"
 )
 
 // Commands that run several ensembles (rank: one per ramp; tolerance: one
@@ -69,41 +67,6 @@ func runPart(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario
 	job := ensembleJob{realiser: r, runner: r, records: ens.Samples, tag: tag, resume: o.dir()}
 	run, err := runJob(ctx, e, stderr, sc, job, po, dir, label)
 	return run, dir, err
-}
-
-// noiseGrid is the noise grid that ensembles compared on common random
-// numbers share (mc.Ensemble.NoiseStepS and NoiseDurationS).
-type noiseGrid struct {
-	StepS     float64 `json:"noise_step_s"`
-	DurationS float64 `json:"noise_duration_s"`
-}
-
-// sharedGrid returns the grid that serves every configuration in cfgs under
-// budget b (the widest a command runs): the finest of their noise steps (a
-// quarter of the split step) over the longest of their shots.
-func sharedGrid(cfgs []sim.Config, b mc.Budget) (noiseGrid, error) {
-	g := noiseGrid{StepS: math.Inf(1)}
-	for _, cfg := range cfgs {
-		s, err := sim.NewSimulator(cfg)
-		if err != nil {
-			return noiseGrid{}, err
-		}
-		g.StepS = math.Min(g.StepS, s.Config().StepS/mc.NoiseSamplesPerStep)
-		g.DurationS = math.Max(g.DurationS, mc.NoiseDuration(cfg, b))
-	}
-	return g, nil
-}
-
-// apply sets the grid of ens, and returns the tag that records it: the
-// grid shapes the noise records only when the budget has noise during the
-// shot, so that an ensemble without any is tagged by nothing and keeps the
-// directory of a plain run.
-func (g noiseGrid) apply(ens *mc.Ensemble) any {
-	ens.NoiseStepS, ens.NoiseDurationS = g.StepS, g.DurationS
-	if !ens.Budget.Dynamic() {
-		return nil
-	}
-	return g
 }
 
 // printShardNote tells how to combine the shards of the runs a command

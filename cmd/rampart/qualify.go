@@ -10,9 +10,9 @@ import (
 
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/report"
-	"rampart/cmd/internal/scenario"
 	"rampart/cmd/internal/spec"
 	"rampart/mc"
+	"rampart/scenario"
 )
 
 type qualifyOptions struct {

@@ -10,7 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/outfile"
-	"rampart/cmd/internal/scenario"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -47,7 +47,7 @@ sequence's speed Omega(t) and angle phi(t) as CSV.`,
 }
 
 func runRamp(stdout, stderr io.Writer, o rampOptions) error {
-	sc, cfg, err := loadScenario(o.scenario, o.sets)
+	sc, cfg, err := scenario.LoadConfig(o.scenario, o.sets)
 	if err != nil {
 		return err
 	}

@@ -13,8 +13,8 @@ import (
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -41,7 +41,7 @@ same seed, sampler, sample count and noise grid), so the paired differences
 between ramps are much sharper than their separate intervals.
 
 The ramps are given as --ramp NAME=SPEC on the scenario FILE, with SPEC one of
-` + rampSpecs + ` (a shape keeps the scenario's ramp-up time; a ramp file,
+` + scenario.RampSpecs + ` (a shape keeps the scenario's ramp-up time; a ramp file,
 relative to the current directory, has its own). Scenario files given after
 the flags add their ramps, and then FILE's own ramp takes part too, each named
 after its file; they must agree with FILE in everything but [ramp].
@@ -66,7 +66,7 @@ DIR/NAME and prints how to merge the slices and rank the merged set.`,
 	o.add(cmd, 1000, "the ranking")
 	addReadoutFlags(cmd, &o.readout)
 	f := cmd.Flags()
-	f.StringArrayVar(&o.ramps, "ramp", nil, "a ramp to rank, `NAME=SPEC` with SPEC "+rampSpecs+"; repeatable")
+	f.StringArrayVar(&o.ramps, "ramp", nil, "a ramp to rank, `NAME=SPEC` with SPEC "+scenario.RampSpecs+"; repeatable")
 	f.StringVar(&o.metric, "metric", mc.MetricP05, "ranking `metric`: "+strings.Join(mc.Metrics, ", "))
 	f.Float64Var(&o.minContrast, "min-contrast", 0, "yield spec: a realisation is inside when its contrast is at least `X`")
 	f.Float64Var(&o.maxBiasRad, "max-bias-rad", 0, "yield spec: a realisation is inside when its |bias| is at most `Y` rad")
@@ -118,7 +118,7 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 	if err != nil {
 		return err
 	}
-	cs, err := contestants(sc, cfg, o.ramps, files, o.sets)
+	cs, err := scenario.Contestants(sc, cfg, o.ramps, files, o.sets)
 	if err != nil {
 		return err
 	}
@@ -131,7 +131,7 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 	if o.ens.shard != "" {
 		names := make([]string, len(cs))
 		for i, c := range cs {
-			names[i] = c.name
+			names[i] = c.Name
 		}
 		return printShardNote(stdout, o.ens, names, "rank the merged set")
 	}
@@ -165,13 +165,13 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 // grid that serves them all), storing each in its subdirectory of the
 // options' directory if there is one, and ranks them by metric (not for a
 // shard, which ranks nothing). recs[i] holds contestant i's records.
-func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []contestant, budget mc.Budget, o ensembleOptions, metric string, spec mc.Spec, ro readout) (rankReport, [][]mc.Record, ensembleWork, error) {
+func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario.Contestant, budget mc.Budget, o ensembleOptions, metric string, spec mc.Spec, ro readout) (rankReport, [][]mc.Record, ensembleWork, error) {
 	var work ensembleWork
 	cfgs := make([]sim.Config, len(cs))
 	for i, c := range cs {
-		cfgs[i] = c.cfg
+		cfgs[i] = c.Config
 	}
-	grid, err := sharedGrid(cfgs, budget)
+	grid, err := mc.SharedGrid(cfgs, budget)
 	if err != nil {
 		return rankReport{}, nil, work, err
 	}
@@ -179,9 +179,9 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []contesta
 	recs := make([][]mc.Record, len(cs))
 	rep := rankReport{Ramps: make([]rampReport, len(cs))}
 	for i, c := range cs {
-		ens := mc.Ensemble{Config: c.cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
-		tag := grid.apply(&ens)
-		run, dir, err := runPart(ctx, e, stderr, c.sc, ens, tag, o, c.name, "rank "+c.name)
+		ens := mc.Ensemble{Config: c.Config, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+		tag := grid.Apply(&ens)
+		run, dir, err := runPart(ctx, e, stderr, c.Scenario, ens, tag, o, c.Name, "rank "+c.Name)
 		if err != nil {
 			return rankReport{}, nil, work, err
 		}
@@ -192,9 +192,9 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []contesta
 				return rankReport{}, nil, work, err
 			}
 		}
-		names[i], recs[i] = c.name, run.records
+		names[i], recs[i] = c.Name, run.records
 		rep.Ramps[i] = rampReport{
-			Name: c.name, Spec: c.spec, RampUpS: c.cfg.Sequence.Up.Duration(), Dir: dir,
+			Name: c.Name, Spec: c.Spec, RampUpS: c.Config.Sequence.Up.Duration(), Dir: dir,
 			ContrastMean: sum.Contrast.Mean, AbsBiasP95Rad: sum.AbsBiasRad.P95, AbsBiasP95DegPerH: absBiasP95DegPerH(sum),
 			Summary: sum, Gyro: ro.gyro(sum),
 		}
@@ -363,12 +363,12 @@ func rankSections(rep rankReport, cfgs []namedConfig, recs map[string][]mc.Recor
 
 // writeRankReport writes the report of a ranking: every ramp's drive, the
 // co-moving dynamics of the best, the ranking and each ramp's ensemble.
-func writeRankReport(e env, stderr io.Writer, o rankOptions, sc *scenario.Scenario, cs []contestant, recs [][]mc.Record, rep rankReport, spec mc.Spec, setup string) error {
+func writeRankReport(e env, stderr io.Writer, o rankOptions, sc *scenario.Scenario, cs []scenario.Contestant, recs [][]mc.Record, rep rankReport, spec mc.Spec, setup string) error {
 	cfgs := make([]namedConfig, len(cs))
 	byName := map[string][]mc.Record{}
 	for i, c := range cs {
-		cfgs[i] = namedConfig{c.name, c.cfg}
-		byName[c.name] = recs[i]
+		cfgs[i] = namedConfig{c.Name, c.Config}
+		byName[c.Name] = recs[i]
 	}
 	secs, err := rankSections(rep, cfgs, byName, spec)
 	if err != nil {

@@ -6,8 +6,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 )
 
 // readoutOptions are --atoms and --cycle-s, the read-out behind the

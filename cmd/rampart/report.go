@@ -12,8 +12,8 @@ import (
 
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 

@@ -9,8 +9,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/outfile"
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 )
 
 type runOptions struct {

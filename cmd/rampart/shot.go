@@ -12,8 +12,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/outfile"
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -64,21 +64,8 @@ func addScenarioFlags(cmd *cobra.Command, path *string, sets *[]string) {
 	cmd.MarkFlagRequired("scenario")
 }
 
-// loadScenario reads a scenario and its simulation configuration.
-func loadScenario(path string, sets []string) (*scenario.Scenario, sim.Config, error) {
-	sc, err := scenario.Load(path, sets)
-	if err != nil {
-		return nil, sim.Config{}, err
-	}
-	cfg, err := sc.Config()
-	if err != nil {
-		return nil, sim.Config{}, err
-	}
-	return sc, cfg, nil
-}
-
 func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
-	sc, cfg, err := loadScenario(o.scenario, o.sets)
+	sc, cfg, err := scenario.LoadConfig(o.scenario, o.sets)
 	if err != nil {
 		return err
 	}

@@ -11,8 +11,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -93,7 +93,7 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		ScaleFactorS: cfg.Ring.ScaleFactor(cfg.Sequence.TotalAngle()),
 		Options:      mc.ToleranceOptions{Precision: precision},
 	}
-	grid, err := sharedGrid([]sim.Config{cfg}, search.Widest())
+	grid, err := mc.SharedGrid([]sim.Config{cfg}, search.Widest())
 	if err != nil {
 		return toleranceReport{}, work, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
@@ -101,7 +101,7 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		return func(ctx context.Context, b mc.Budget) ([]mc.Record, error) {
 			key := amplitudeKey(name, budget, b)
 			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
-			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.apply(&ens)}
+			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.Apply(&ens)}
 			run, _, err := runPart(ctx, e, stderr, sc, ens, tag, o, filepath.Join(name, key), "tolerance "+name+" "+key)
 			if err != nil {
 				return nil, err

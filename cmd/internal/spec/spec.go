@@ -5,7 +5,7 @@ import (
 	"fmt"
 	"math"
 	"os"
-	"rampart/cmd/internal/tomlpos"
+	"rampart/internal/tomlpos"
 	"strconv"
 	"strings"
 

@@ -4,7 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
-	"rampart/cmd/internal/tomlpos"
+	"rampart/internal/tomlpos"
 	"strings"
 
 	"github.com/BurntSushi/toml"

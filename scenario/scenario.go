@@ -291,14 +291,12 @@ func (s *Scenario) rampUp() (sim.Ramp, *keyError) {
 				s.Ramp.DurationUS, s.Ramp.File, tab.Duration(), tab.Duration()*1e6)}
 		}
 		return tab, nil
-	case "inverse":
-		inv, err := sim.NewInverse(s.simRing(), dur, cruise, s.designDepthHz())
-		if err != nil {
-			return nil, &keyError{"ramp", err}
-		}
-		return inv, nil
 	}
-	r, err := sim.NewShape(s.Ramp.Shape, dur, cruise, 0)
+	shape, err := sim.LookupShape(s.Ramp.Shape)
+	if err != nil {
+		return nil, &keyError{"ramp", err}
+	}
+	r, err := shape.New(s.simRing(), dur, cruise, s.designDepthHz())
 	if err != nil {
 		return nil, &keyError{"ramp", err}
 	}

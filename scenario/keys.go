@@ -3,7 +3,8 @@ package scenario
 import (
 	"fmt"
 	"math"
-	"rampart/cmd/internal/tomlpos"
+	"rampart/internal/tomlpos"
+	"rampart/sim"
 	"strings"
 )
 
@@ -53,8 +54,8 @@ type key struct {
 	field    func(*Scenario) any // pointer to the Scenario field
 }
 
-// shapes are the values of ramp.shape.
-var shapes = []string{"sin2", "minjerk", "inverse", "file"}
+// shapes are the values of ramp.shape: the registered shapes, and a file.
+var shapes = append(sim.ShapeNames(), "file")
 
 // keys is the scenario schema, in the order of the reference in README.md.
 var keys = []*key{
