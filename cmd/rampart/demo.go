@@ -8,6 +8,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart"
+	"rampart/cmd/internal/present"
 	"rampart/mc"
 	"rampart/scenario"
 	"rampart/sim"
@@ -175,7 +176,7 @@ func (d *demo) compareRamps() error {
 
 	fmt.Fprintln(w, "1. One noise-free shot of each ramp")
 	header := append([]string{"Quantity"}, names...)
-	t := newTable(w, append(header, "Unit")...)
+	t := present.NewTable(w, append(header, "Unit")...)
 	row := func(label, unit string, value func(r shotRun) string) {
 		cells := []string{label}
 		for _, r := range runs {
@@ -183,22 +184,22 @@ func (d *demo) compareRamps() error {
 		}
 		t.Append(append(cells, unit))
 	}
-	row("Contrast C = |z|", "", func(r shotRun) string { return fixed(r.result.Contrast, 5) })
-	row("Ground band after ramp-up, arm s = +1", "", func(r shotRun) string { return fixed(r.result.GroundAfterRampUp[0], 5) })
-	row("Ground band after ramp-up, arm s = -1", "", func(r shotRun) string { return fixed(r.result.GroundAfterRampUp[1], 5) })
-	row("Interferometer phase arg z", "rad", func(r shotRun) string { return sci(r.result.PhaseRad, 7) })
-	row("Sagnac phase", "rad", func(r shotRun) string { return sci(r.result.SagnacRad, 7) })
-	row("Bias b = phase - Sagnac phase", "rad", func(r shotRun) string { return sci(r.result.BiasRad, 3) })
-	row("Bias as a rotation rate b / K", "deg/h", func(r shotRun) string { return sci(r.result.BiasDegPerH, 3) })
+	row("Contrast C = |z|", "", func(r shotRun) string { return present.Fixed(r.result.Contrast, 5) })
+	row("Ground band after ramp-up, arm s = +1", "", func(r shotRun) string { return present.Fixed(r.result.GroundAfterRampUp[0], 5) })
+	row("Ground band after ramp-up, arm s = -1", "", func(r shotRun) string { return present.Fixed(r.result.GroundAfterRampUp[1], 5) })
+	row("Interferometer phase arg z", "rad", func(r shotRun) string { return present.Sci(r.result.PhaseRad, 7) })
+	row("Sagnac phase", "rad", func(r shotRun) string { return present.Sci(r.result.SagnacRad, 7) })
+	row("Bias b = phase - Sagnac phase", "rad", func(r shotRun) string { return present.Sci(r.result.BiasRad, 3) })
+	row("Bias as a rotation rate b / K", "deg/h", func(r shotRun) string { return present.Sci(r.result.BiasDegPerH, 3) })
 	row("Peak speed max |Omega|", "rad/s", func(r shotRun) string {
 		peak, _ := sim.PeakSpeed(r.cfg.Sequence.Up)
-		return sig(peak, 5)
+		return present.Sig(peak, 5)
 	})
 	row("Speed reverses (throw and catch)", "", func(r shotRun) string {
 		_, rev := sim.PeakSpeed(r.cfg.Sequence.Up)
-		return yesNo(rev)
+		return present.YesNo(rev)
 	})
-	row("Elapsed (one shot)", "ms", func(r shotRun) string { return sig(r.elapsed.Seconds()*1e3, 3) })
+	row("Elapsed (one shot)", "ms", func(r shotRun) string { return present.Sig(r.elapsed.Seconds()*1e3, 3) })
 	if err := t.Render(); err != nil {
 		return err
 	}
@@ -206,10 +207,10 @@ func (d *demo) compareRamps() error {
 	up := runs[0].cfg.Sequence.Up
 	var outside []string
 	for _, r := range runs {
-		outside = append(outside, fmt.Sprintf("%s %s %%", names[len(outside)], sig(100*(1-r.result.GroundAfterRampUp[0]), 2)))
+		outside = append(outside, fmt.Sprintf("%s %s %%", names[len(outside)], present.Sig(100*(1-r.result.GroundAfterRampUp[0]), 2)))
 	}
 	fmt.Fprintf(w, "\nA ramp-up of %s us is %s trap periods. Left outside the moving ground band after it: %s.\n",
-		sig(up.Duration()*1e6, 6), sig(up.Duration()*cfg.Ring.TrapHz(cfg.DepthHz), 2), strings.Join(outside, ", "))
+		present.Sig(up.Duration()*1e6, 6), present.Sig(up.Duration()*cfg.Ring.TrapHz(cfg.DepthHz), 2), strings.Join(outside, ", "))
 	return nil
 }
 

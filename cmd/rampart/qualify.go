@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/outfile"
+	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/report"
 	"rampart/cmd/internal/spec"
 	"rampart/mc"
@@ -206,9 +207,9 @@ var criterionLabels = map[string]string{
 // criterionFormat formats the values of a criterion in its unit.
 func criterionFormat(c mc.Criterion) func(float64) string {
 	if c.Unit == "" {
-		return func(x float64) string { return fixed(x, 5) }
+		return func(x float64) string { return present.Fixed(x, 5) }
 	}
-	return func(x float64) string { return sci(x, 3) }
+	return func(x float64) string { return present.Sci(x, 3) }
 }
 
 func printQualification(w io.Writer, rep qualifyReport) error {
@@ -231,10 +232,10 @@ func printQualification(w io.Writer, rep qualifyReport) error {
 }
 
 // criteriaGrid returns the table of a qualification's criteria.
-func criteriaGrid(rep qualifyReport) *grid {
+func criteriaGrid(rep qualifyReport) *present.Grid {
 	q, s := rep.Qualification, rep.Summary
-	conf := sig(100*q.Confidence, 3) + " %"
-	t := newGrid("The criteria of spec "+rep.Spec+" against the ensemble", "Criterion", "Limit", "Unit", "Measured",
+	conf := present.Sig(100*q.Confidence, 3) + " %"
+	t := present.NewGrid("The criteria of spec "+rep.Spec+" against the ensemble", "Criterion", "Limit", "Unit", "Measured",
 		"Lower bound ("+conf+" one-sided)", "Upper bound ("+conf+" one-sided)", "Margin", "Verdict", "To decide", "Measured (deg/h)")
 	for _, c := range q.Criteria {
 		f := criterionFormat(c)
@@ -244,7 +245,7 @@ func criteriaGrid(rep qualifyReport) *grid {
 		}
 		degPerH := ""
 		if c.Unit == "rad" {
-			degPerH = sci(mc.BiasDegPerH(c.Value, s.ScaleFactorS), 3)
+			degPerH = present.Sci(mc.BiasDegPerH(c.Value, s.ScaleFactorS), 3)
 		}
 		t.Append(c.Name, limit, c.Unit, f(c.Value), f(c.Lo), f(c.Hi), f(c.Margin), c.Verdict.String(), toDecide(c), degPerH)
 	}
@@ -263,7 +264,7 @@ func criteriaNotes(rep qualifyReport) []string {
 
 // verdictLine states the overall verdict and what decides it.
 func verdictLine(q mc.Qualification) string {
-	conf := sig(100*q.Confidence, 3) + " %"
+	conf := present.Sig(100*q.Confidence, 3) + " %"
 	switch q.Verdict {
 	case mc.Pass:
 		return fmt.Sprintf("Verdict: pass. Every criterion is met with %s confidence over %d realisations.", conf, q.Samples)
@@ -284,7 +285,7 @@ func qualifySection(q qualifyReport) (report.Section, error) {
 	return report.Section{
 		Heading: "Qualification against " + q.Spec,
 		Text:    strings.Join(text, "\n\n"),
-		Tables:  []report.Table{criteriaGrid(q).table(), gyroGrid(q.Summary, q.Gyro).table()},
+		Tables:  []report.Table{criteriaGrid(q).Table(), gyroGrid(q.Summary, q.Gyro).Table()},
 	}, nil
 }
 
@@ -307,10 +308,10 @@ func writeQualifyReport(e env, stderr io.Writer, o qualifyOptions, sc *scenario.
 func yieldLimits(y mc.Spec, scaleFactorS float64) string {
 	var lim []string
 	if y.MinContrast > 0 {
-		lim = append(lim, "contrast >= "+sig(y.MinContrast, 6))
+		lim = append(lim, "contrast >= "+present.Sig(y.MinContrast, 6))
 	}
 	if y.MaxAbsBiasRad > 0 {
-		lim = append(lim, fmt.Sprintf("|bias| <= %s rad (%s deg/h)", sig(y.MaxAbsBiasRad, 6), sig(mc.BiasDegPerH(y.MaxAbsBiasRad, scaleFactorS), 3)))
+		lim = append(lim, fmt.Sprintf("|bias| <= %s rad (%s deg/h)", present.Sig(y.MaxAbsBiasRad, 6), present.Sig(mc.BiasDegPerH(y.MaxAbsBiasRad, scaleFactorS), 3)))
 	}
 	return strings.Join(lim, " and ")
 }

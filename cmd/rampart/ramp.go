@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/outfile"
+	"rampart/cmd/internal/present"
 	"rampart/scenario"
 	"rampart/sim"
 )
@@ -73,21 +74,21 @@ func printDrive(w io.Writer, sc *scenario.Scenario, cfg sim.Config) error {
 	laps := seq.TotalAngle() / (2 * math.Pi)
 
 	fmt.Fprintf(w, "Scenario %s\n%s\n\n", sc.Name, describe(sc, cfg, cfg.Sequence.Up.Name()+" ramp"))
-	t := newTable(w, "Quantity", "Value", "Unit")
+	t := present.NewTable(w, "Quantity", "Value", "Unit")
 	t.Append("Ramp shape", shapeName(up), "")
-	t.Append("Ramp-up time t_r (the ramp-down mirrors it)", sig(up.Duration()*1e6, 6), "us")
-	t.Append("Cruise speed Omega_0", sig(cruise, 6), "rad/s")
-	t.Append("Drive offset at cruise N Omega_0 / 2 pi", sig(float64(cfg.Ring.Sites)*cruise/(2*math.Pi), 6), "Hz")
-	t.Append("Peak speed max |Omega|", sig(peak, 6), "rad/s")
-	t.Append("Peak speed / cruise speed", fixed(peak/cruise, 4), "")
-	t.Append("Speed reverses (throw and catch)", yesNo(reverses), "")
-	t.Append("Angle of each ramp", sig(up.Angle(up.Duration()), 6), "rad")
-	t.Append("Cruise time", sig(seq.CruiseS*1e3, 6), "ms")
-	t.Append("Total time T", sig(seq.Duration()*1e3, 6), "ms")
-	t.Append("Laps phi(T) / 2 pi", sig(laps, 6), "turns")
-	t.Append("Closure", fmt.Sprintf("arms meet (2*laps = %s)", sig(2*laps, 6)), "")
-	t.Append("Trap frequency at the lattice depth", sig(trap/1e3, 4), "kHz")
-	t.Append("Trap periods in the ramp-up t_r nu", sig(up.Duration()*trap, 3), "")
+	t.Append("Ramp-up time t_r (the ramp-down mirrors it)", present.Sig(up.Duration()*1e6, 6), "us")
+	t.Append("Cruise speed Omega_0", present.Sig(cruise, 6), "rad/s")
+	t.Append("Drive offset at cruise N Omega_0 / 2 pi", present.Sig(float64(cfg.Ring.Sites)*cruise/(2*math.Pi), 6), "Hz")
+	t.Append("Peak speed max |Omega|", present.Sig(peak, 6), "rad/s")
+	t.Append("Peak speed / cruise speed", present.Fixed(peak/cruise, 4), "")
+	t.Append("Speed reverses (throw and catch)", present.YesNo(reverses), "")
+	t.Append("Angle of each ramp", present.Sig(up.Angle(up.Duration()), 6), "rad")
+	t.Append("Cruise time", present.Sig(seq.CruiseS*1e3, 6), "ms")
+	t.Append("Total time T", present.Sig(seq.Duration()*1e3, 6), "ms")
+	t.Append("Laps phi(T) / 2 pi", present.Sig(laps, 6), "turns")
+	t.Append("Closure", fmt.Sprintf("arms meet (2*laps = %s)", present.Sig(2*laps, 6)), "")
+	t.Append("Trap frequency at the lattice depth", present.Sig(trap/1e3, 4), "kHz")
+	t.Append("Trap periods in the ramp-up t_r nu", present.Sig(up.Duration()*trap, 3), "")
 	return t.Render()
 }
 
@@ -95,7 +96,7 @@ func printDrive(w io.Writer, sc *scenario.Scenario, cfg sim.Config) error {
 func shapeName(r sim.Ramp) string {
 	switch r := r.(type) {
 	case sim.Inverse:
-		return fmt.Sprintf("inverse-engineered for %s kHz (trap %s kHz)", sig(r.DesignDepth/1e3, 6), sig(r.TrapRadS/(2*math.Pi)/1e3, 4))
+		return fmt.Sprintf("inverse-engineered for %s kHz (trap %s kHz)", present.Sig(r.DesignDepth/1e3, 6), present.Sig(r.TrapRadS/(2*math.Pi)/1e3, 4))
 	case *sim.Tabulated:
 		return fmt.Sprintf("table %s, %d rows, PCHIP between rows", r.Name(), r.Rows())
 	}

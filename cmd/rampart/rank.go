@@ -12,6 +12,7 @@ import (
 
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/report"
 	"rampart/mc"
 	"rampart/scenario"
@@ -143,7 +144,7 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 	}
 	var ramps []string
 	for _, r := range rep.Ramps {
-		ramps = append(ramps, fmt.Sprintf("%s = %s (%s us)", r.Name, rampDefinition(r), sig(r.RampUpS*1e6, 6)))
+		ramps = append(ramps, fmt.Sprintf("%s = %s (%s us)", r.Name, rampDefinition(r), present.Sig(r.RampUpS*1e6, 6)))
 	}
 	rampsLine := "Ramps: " + strings.Join(ramps, ", ")
 	workLine := work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(cs), o.ens.samples), o.ens)
@@ -218,18 +219,18 @@ var metricLabels = map[string]string{
 func metricFormat(metric string) func(float64) string {
 	switch metric {
 	case mc.MetricYield:
-		return func(x float64) string { return fixed(x, 4) }
+		return func(x float64) string { return present.Fixed(x, 4) }
 	case mc.MetricBiasSpread:
-		return func(x float64) string { return sci(x, 3) }
+		return func(x float64) string { return present.Sci(x, 3) }
 	}
-	return func(x float64) string { return fixed(x, 5) }
+	return func(x float64) string { return present.Fixed(x, 5) }
 }
 
 // rankingGrid returns the ranking table: the places best first, with the
 // metric and the paired differences, and each ramp's ensemble for context.
-func rankingGrid(rep rankReport) *grid {
+func rankingGrid(rep rankReport) *present.Grid {
 	r := rep.Ranking
-	conf := fmt.Sprintf("%s %% interval", sig(100*r.Confidence, 3))
+	conf := fmt.Sprintf("%s %% interval", present.Sig(100*r.Confidence, 3))
 	f := metricFormat(r.Metric)
 	byName := map[string]rampReport{}
 	withGyro := false
@@ -241,20 +242,20 @@ func rankingGrid(rep rankReport) *grid {
 	if withGyro {
 		header = append(header, "ARW (deg/sqrt(h))")
 	}
-	t := newGrid(fmt.Sprintf("Ramps ranked by %s, best first", strings.ToLower(metricLabels[r.Metric])), header...)
+	t := present.NewGrid(fmt.Sprintf("Ramps ranked by %s, best first", strings.ToLower(metricLabels[r.Metric])), header...)
 	for _, p := range r.Ranking {
 		rr := byName[p.Name]
 		next := ""
 		if p.DiffToNext != nil {
-			next = sci(p.DiffToNext.Value, 2)
+			next = present.Sci(p.DiffToNext.Value, 2)
 		}
 		row := []string{fmt.Sprintf("%d. %s", p.Place, p.Name), f(p.Value), interval(p.Lo, p.Hi, f),
-			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), next, yesNo(p.Resolved),
-			fixed(rr.ContrastMean, 5), sci(rr.AbsBiasP95Rad, 3), sci(rr.AbsBiasP95DegPerH, 3)}
+			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), next, present.YesNo(p.Resolved),
+			present.Fixed(rr.ContrastMean, 5), present.Sci(rr.AbsBiasP95Rad, 3), present.Sci(rr.AbsBiasP95DegPerH, 3)}
 		if withGyro {
 			arw := ""
 			if rr.Gyro != nil {
-				arw = sci(rr.Gyro.AngleRandomWalkDegPerSqrtH, 3)
+				arw = present.Sci(rr.Gyro.AngleRandomWalkDegPerSqrtH, 3)
 			}
 			row = append(row, arw)
 		}
@@ -272,9 +273,9 @@ func rankingNotes(rep rankReport) []string {
 		better = "lower"
 	}
 	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %d realisations per ramp. Intervals are %s %% two-sided: bootstrap percentile, Clopper-Pearson for a yield; the differences are paired over the same noise draws. A place is resolved when the paired intervals of its differences to the places above and below (Diff to next) exclude zero.",
-		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, sig(100*r.Confidence, 3))}
+		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, present.Sig(100*r.Confidence, 3))}
 	if g := rep.Ramps[0].Gyro; g != nil {
-		out = append(out, fmt.Sprintf("ARW: the angle random walk at each ramp's mean contrast, %s atoms per shot, one shot per %s s.", sig(g.Atoms, 6), sig(g.CycleS, 6)))
+		out = append(out, fmt.Sprintf("ARW: the angle random walk at each ramp's mean contrast, %s atoms per shot, one shot per %s s.", present.Sig(g.Atoms, 6), present.Sig(g.CycleS, 6)))
 	}
 	return out
 }
@@ -311,7 +312,7 @@ func rankingFigure(rep rankReport) ([]namedFigure, error) {
 	if err != nil {
 		return nil, err
 	}
-	caption := fmt.Sprintf("Each ramp's %s with its %s %% interval, best first.", strings.ToLower(metricLabels[rep.Metric]), sig(100*rep.Confidence, 3))
+	caption := fmt.Sprintf("Each ramp's %s with its %s %% interval, best first.", strings.ToLower(metricLabels[rep.Metric]), present.Sig(100*rep.Confidence, 3))
 	return []namedFigure{{name: "ranking", caption: caption, fig: fig}}, nil
 }
 
@@ -328,7 +329,7 @@ func rankSections(rep rankReport, cfgs []namedConfig, recs map[string][]mc.Recor
 	out := []report.Section{{
 		Heading: "Ranking",
 		Text:    strings.Join(rankingNotes(rep), "\n\n"),
-		Tables:  []report.Table{rankingGrid(rep).table()},
+		Tables:  []report.Table{rankingGrid(rep).Table()},
 		Figures: figs,
 	}}
 	byName := map[string]rampReport{}
@@ -351,7 +352,7 @@ func rankSections(rep rankReport, cfgs []namedConfig, recs map[string][]mc.Recor
 		up := cfgs[i].cfg.Sequence.Up
 		peak, _ := sim.PeakSpeed(up)
 		text := fmt.Sprintf("Place %d: %s = %s, ramp-up %s of %s us with a peak speed of %s rad/s, on the noise draws that every ramp shares.",
-			p.Place, p.Name, rampDefinition(rr), up.Name(), sig(up.Duration()*1e6, 6), sig(peak, 5))
+			p.Place, p.Name, rampDefinition(rr), up.Name(), present.Sig(up.Duration()*1e6, 6), present.Sig(peak, 5))
 		sec, err := ensembleSection("Ensemble of "+p.Name, prefix, rr.Summary, recs[p.Name], spec, text)
 		if err != nil {
 			return nil, err

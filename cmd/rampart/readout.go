@@ -6,6 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"rampart/cmd/internal/present"
 	"rampart/mc"
 	"rampart/scenario"
 )
@@ -70,15 +71,15 @@ func absBiasP95DegPerH(s mc.Summary) float64 { return mc.BiasDegPerH(s.AbsBiasRa
 // gyroGrid returns the gyroscope figures of an ensemble: its biases as
 // rotation rates and, with a read-out, the projection-noise limit and the
 // angle random walk (PHYSICS.md section 8).
-func gyroGrid(s mc.Summary, g *mc.Gyro) *grid {
-	b3 := func(x float64) string { return sci(x, 3) }
-	t := newGrid("Gyroscope figures", "Gyroscope figure", "Value", "Unit")
-	t.Append("Scale factor K = 2 I phi(T) / hbar", sig(s.ScaleFactorS, 6), "s (rad per rad/s)")
+func gyroGrid(s mc.Summary, g *mc.Gyro) *present.Grid {
+	b3 := func(x float64) string { return present.Sci(x, 3) }
+	t := present.NewGrid("Gyroscope figures", "Gyroscope figure", "Value", "Unit")
+	t.Append("Scale factor K = 2 I phi(T) / hbar", present.Sig(s.ScaleFactorS, 6), "s (rad per rad/s)")
 	t.Append("Mean bias as a rotation rate", b3(s.BiasDegPerH.Mean), "deg/h")
 	t.Append("|bias| p95 as a rotation rate", b3(absBiasP95DegPerH(s)), "deg/h")
 	if g != nil {
-		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms at contrast %s", sig(g.Atoms, 6), fixed(g.Contrast, 4)), b3(g.ShotNoiseDegPerH), "deg/h")
-		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", sig(g.CycleS, 6)), b3(g.AngleRandomWalkDegPerSqrtH), "deg/sqrt(h)")
+		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms at contrast %s", present.Sig(g.Atoms, 6), present.Fixed(g.Contrast, 4)), b3(g.ShotNoiseDegPerH), "deg/h")
+		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", present.Sig(g.CycleS, 6)), b3(g.AngleRandomWalkDegPerSqrtH), "deg/sqrt(h)")
 	}
 	return t
 }

@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/report"
 	"rampart/mc"
 	"rampart/scenario"
@@ -160,7 +161,7 @@ func oneRamp(cfg sim.Config) ([]namedConfig, string) {
 // driveSection plots the ramp-up of each configuration's drive.
 func driveSection(cfgs []namedConfig) (report.Section, error) {
 	var series []plots.Series
-	t := newGrid("The drives", "Ramp", "Ramp-up (us)", "Peak speed (rad/s)", "Reverses", "Cruise (ms)", "Total (ms)")
+	t := present.NewGrid("The drives", "Ramp", "Ramp-up (us)", "Peak speed (rad/s)", "Reverses", "Cruise (ms)", "Total (ms)")
 	for _, c := range cfgs {
 		q := c.cfg.Sequence
 		tr := q.Up.Duration()
@@ -172,7 +173,7 @@ func driveSection(cfgs []namedConfig) (report.Section, error) {
 		}
 		series = append(series, s)
 		peak, rev := sim.PeakSpeed(q.Up)
-		t.Append(c.name, sig(tr*1e6, 6), sig(peak, 5), yesNo(rev), sig(q.CruiseS*1e3, 5), sig(q.Duration()*1e3, 5))
+		t.Append(c.name, present.Sig(tr*1e6, 6), present.Sig(peak, 5), present.YesNo(rev), present.Sig(q.CruiseS*1e3, 5), present.Sig(q.Duration()*1e3, 5))
 	}
 	f, err := plots.Lines(series, plots.LinesOptions{Title: "Ramp-up of the drive (the ramp-down is its mirror)", XLabel: "t (us)", YLabel: "Ω (rad/s)"})
 	if err != nil {
@@ -185,7 +186,7 @@ func driveSection(cfgs []namedConfig) (report.Section, error) {
 	return report.Section{
 		Heading: "Drive profiles",
 		Text:    "Each arm's lattice ramps up to the cruise speed, cruises for the laps and ramps down as the time mirror of the ramp-up.",
-		Tables:  []report.Table{t.table()},
+		Tables:  []report.Table{t.Table()},
 		Figures: []report.Figure{fig},
 	}, nil
 }
@@ -269,7 +270,7 @@ func ensembleSection(heading, idPrefix string, sum mc.Summary, recs []mc.Record,
 	}
 	sec := report.Section{Heading: heading, Text: text, Figures: []report.Figure{fc, fb}}
 	for _, g := range summaryGrids(sum) {
-		sec.Tables = append(sec.Tables, g.table())
+		sec.Tables = append(sec.Tables, g.Table())
 	}
 	return sec, nil
 }

@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/outfile"
+	"rampart/cmd/internal/present"
 	"rampart/mc"
 	"rampart/scenario"
 )
@@ -137,7 +138,7 @@ func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario
 	if err != nil {
 		return err
 	}
-	ens.Tables = append(ens.Tables, gyroGrid(sum, ro.gyro(sum)).table())
+	ens.Tables = append(ens.Tables, gyroGrid(sum, ro.gyro(sum)).Table())
 	r.Sections = append(r.Sections, drive, dyn, ens)
 	return writeReport(stderr, r, o.report)
 }
@@ -184,9 +185,9 @@ func budgetLine(b mc.Budget) string {
 		}
 		line := s.Line
 		if s.Kind == mc.Static {
-			line = strings.ReplaceAll(line, "{}", sig(s.Scale**s.Sigma(&b), 3)+" "+s.Unit)
+			line = strings.ReplaceAll(line, "{}", present.Sig(s.Scale**s.Sigma(&b), 3)+" "+s.Unit)
 		}
-		parts = append(parts, strings.ReplaceAll(line, "{correlation}", sig(b.PhaseCorrelation, 3)))
+		parts = append(parts, strings.ReplaceAll(line, "{correlation}", present.Sig(b.PhaseCorrelation, 3)))
 	}
 	if len(parts) == 0 {
 		return "none (every realisation is the nominal shot)"
@@ -213,11 +214,11 @@ func printSummary(w io.Writer, s mc.Summary) error {
 
 // summaryGrids returns the tables of an ensemble summary: the
 // distributions, then the fringe, bias spread, scale factor and yield.
-func summaryGrids(s mc.Summary) []*grid {
-	conf := fmt.Sprintf("%s %% interval", sig(100*s.Confidence, 3))
-	c5 := func(x float64) string { return fixed(x, 5) }
-	b3 := func(x float64) string { return sci(x, 3) }
-	t := newGrid("Distributions over the realisations, with percentile-bootstrap intervals",
+func summaryGrids(s mc.Summary) []*present.Grid {
+	conf := fmt.Sprintf("%s %% interval", present.Sig(100*s.Confidence, 3))
+	c5 := func(x float64) string { return present.Fixed(x, 5) }
+	b3 := func(x float64) string { return present.Sci(x, 3) }
+	t := present.NewGrid("Distributions over the realisations, with percentile-bootstrap intervals",
 		"Statistic", "Contrast", conf, "Bias (rad)", conf, "Bias (deg/h)")
 	rows := []struct {
 		name, key string
@@ -235,21 +236,21 @@ func summaryGrids(s mc.Summary) []*grid {
 		ci, bi := s.Contrast.CI[r.key], s.BiasRad.CI[r.key]
 		t.Append(r.name, c5(r.c), interval(ci[0], ci[1], c5), b3(r.b), interval(bi[0], bi[1], b3), b3(r.d))
 	}
-	u := newGrid("The averaged fringe, the bias spread and the yield", "Quantity", "Value", conf, "Unit")
+	u := present.NewGrid("The averaged fringe, the bias spread and the yield", "Quantity", "Value", conf, "Unit")
 	u.Append("Averaged-fringe contrast |mean z|", c5(s.FringeContrast.Value), interval(s.FringeContrast.Lo, s.FringeContrast.Hi, c5), "")
 	u.Append("Averaged-fringe bias arg(mean z) - Sagnac", b3(s.FringeBiasRad.Value), interval(s.FringeBiasRad.Lo, s.FringeBiasRad.Hi, b3), "rad")
 	u.Append("|bias| p95", b3(s.AbsBiasRad.P95), interval(s.AbsBiasRad.CI["p95"][0], s.AbsBiasRad.CI["p95"][1], b3), "rad")
-	u.Append("Scale factor K", sig(s.ScaleFactorS, 6), "", "s (rad per rad/s)")
+	u.Append("Scale factor K", present.Sig(s.ScaleFactorS, 6), "", "s (rad per rad/s)")
 	if y := s.Yield; y != nil {
 		var lim []string
 		if y.Spec.MinContrast > 0 {
-			lim = append(lim, "contrast >= "+sig(y.Spec.MinContrast, 6))
+			lim = append(lim, "contrast >= "+present.Sig(y.Spec.MinContrast, 6))
 		}
 		if y.Spec.MaxAbsBiasRad > 0 {
-			lim = append(lim, "|bias| <= "+sig(y.Spec.MaxAbsBiasRad, 6)+" rad")
+			lim = append(lim, "|bias| <= "+present.Sig(y.Spec.MaxAbsBiasRad, 6)+" rad")
 		}
-		u.Append(fmt.Sprintf("Yield (%s): %d of %d", strings.Join(lim, ", "), y.Inside, s.Samples), fixed(y.Value, 4),
-			interval(y.Lo, y.Hi, func(x float64) string { return fixed(x, 4) })+" exact", "")
+		u.Append(fmt.Sprintf("Yield (%s): %d of %d", strings.Join(lim, ", "), y.Inside, s.Samples), present.Fixed(y.Value, 4),
+			interval(y.Lo, y.Hi, func(x float64) string { return present.Fixed(x, 4) })+" exact", "")
 	}
-	return []*grid{t, u}
+	return []*present.Grid{t, u}
 }

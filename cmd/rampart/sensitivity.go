@@ -11,6 +11,7 @@ import (
 
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/report"
 	"rampart/mc"
 )
@@ -171,10 +172,10 @@ func printSensitivity(w io.Writer, rep sensitivityReport) error {
 }
 
 // sobolGrid returns the table of the Sobol' indices, a row per input.
-func sobolGrid(rep sensitivityReport) *grid {
-	conf := sig(100*rep.Indices.Confidence, 3) + " % interval"
-	f := func(x float64) string { return fixed(x, 3) }
-	t := newGrid(fmt.Sprintf("Sobol' indices of contrast and bias, %d shots", rep.Shots), "Input", "Contrast S1", conf, "Contrast ST", conf, "Bias S1", conf, "Bias ST", conf)
+func sobolGrid(rep sensitivityReport) *present.Grid {
+	conf := present.Sig(100*rep.Indices.Confidence, 3) + " % interval"
+	f := func(x float64) string { return present.Fixed(x, 3) }
+	t := present.NewGrid(fmt.Sprintf("Sobol' indices of contrast and bias, %d shots", rep.Shots), "Input", "Contrast S1", conf, "Contrast ST", conf, "Bias S1", conf, "Bias ST", conf)
 	for _, in := range rep.Indices.Inputs {
 		row := []string{in.Name}
 		for _, i := range []mc.Interval{in.ContrastFirst, in.ContrastTotal, in.BiasFirst, in.BiasTotal} {
@@ -189,7 +190,7 @@ func sobolGrid(rep sensitivityReport) *grid {
 func sobolNote(rep sensitivityReport) string {
 	biasStd := math.Sqrt(rep.Indices.BiasVariance)
 	return fmt.Sprintf("S1: the share of the variance an input causes alone; ST: with all its interactions (ST >= S1; 1 - sum S1 is the share of interactions). Spread over the design: contrast std %s, bias std %s rad (%s deg/h). Bootstrap intervals over the %d rows; small negative values are sampling error about zero.",
-		sci(math.Sqrt(rep.Indices.ContrastVariance), 3), sci(biasStd, 3), sci(mc.BiasDegPerH(biasStd, rep.ScaleFactorS), 3), rep.BaseRows)
+		present.Sci(math.Sqrt(rep.Indices.ContrastVariance), 3), present.Sci(biasStd, 3), present.Sci(mc.BiasDegPerH(biasStd, rep.ScaleFactorS), 3), rep.BaseRows)
 }
 
 // noDerivatives and derivativesLead introduce the table of local
@@ -201,16 +202,16 @@ const (
 
 // derivativeGrid returns the table of local derivatives, nil without a
 // static error in the budget.
-func derivativeGrid(rep sensitivityReport) *grid {
+func derivativeGrid(rep sensitivityReport) *present.Grid {
 	if len(rep.Derivatives) == 0 {
 		return nil
 	}
-	t := newGrid(strings.TrimSuffix(derivativesLead, ":"), "Input", "Step h", "Unit", "dC/dx", "d2C/dx2", "Contrast change C'' h^2/2",
+	t := present.NewGrid(strings.TrimSuffix(derivativesLead, ":"), "Input", "Step h", "Unit", "dC/dx", "d2C/dx2", "Contrast change C'' h^2/2",
 		"db/dx (rad per unit)", "Bias shift b' h (rad)", "Bias shift b' h (deg/h)")
 	for _, d := range rep.Derivatives {
 		shift := d.BiasRad * d.StepSI
-		t.Append(d.Input, sig(d.StepSI, 4), siUnit(d.Input), sci(d.Contrast, 3), sci(d.ContrastSecond, 3), sci(d.ContrastSecond*d.StepSI*d.StepSI/2, 3),
-			sci(d.BiasRad, 3), sci(shift, 3), sci(mc.BiasDegPerH(shift, rep.ScaleFactorS), 3))
+		t.Append(d.Input, present.Sig(d.StepSI, 4), siUnit(d.Input), present.Sci(d.Contrast, 3), present.Sci(d.ContrastSecond, 3), present.Sci(d.ContrastSecond*d.StepSI*d.StepSI/2, 3),
+			present.Sci(d.BiasRad, 3), present.Sci(shift, 3), present.Sci(mc.BiasDegPerH(shift, rep.ScaleFactorS), 3))
 	}
 	return t
 }
@@ -225,11 +226,11 @@ func sensitivitySection(rep sensitivityReport) (report.Section, error) {
 	sec := report.Section{
 		Heading: "Sensitivity",
 		Text:    sobolNote(rep),
-		Tables:  []report.Table{sobolGrid(rep).table()},
+		Tables:  []report.Table{sobolGrid(rep).Table()},
 		Figures: figs,
 	}
 	if d := derivativeGrid(rep); d != nil {
-		sec.Tables = append(sec.Tables, d.table())
+		sec.Tables = append(sec.Tables, d.Table())
 	} else {
 		sec.Text += "\n\n" + noDerivatives
 	}
@@ -289,7 +290,7 @@ func sensitivityFigures(rep sensitivityReport) ([]namedFigure, error) {
 		if err != nil {
 			return nil, fmt.Errorf("bar chart of the %s indices: %w", output.label, err)
 		}
-		caption := fmt.Sprintf("First-order and total Sobol' indices of the %s for each input, with their %s %% bootstrap intervals.", output.label, sig(100*rep.Indices.Confidence, 3))
+		caption := fmt.Sprintf("First-order and total Sobol' indices of the %s for each input, with their %s %% bootstrap intervals.", output.label, present.Sig(100*rep.Indices.Confidence, 3))
 		out = append(out, namedFigure{name: "sensitivity-" + output.name, caption: caption, fig: fig})
 	}
 	return out, nil

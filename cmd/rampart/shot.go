@@ -12,6 +12,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/outfile"
+	"rampart/cmd/internal/present"
 	"rampart/mc"
 	"rampart/scenario"
 	"rampart/sim"
@@ -233,23 +234,23 @@ func newCheckReport(base, fine shotRun) *checkReport {
 
 func (rep *shotReport) print(w io.Writer, sc *scenario.Scenario, cfg sim.Config) error {
 	fmt.Fprintf(w, "Scenario %s\n%s\n\n", sc.Name, describe(sc, cfg, cfg.Sequence.Up.Name()+" ramp"))
-	t := newTable(w, "Quantity", "Value", "Unit")
-	t.Append("Contrast C = |z|", fixed(rep.Contrast, 5), "")
-	t.Append("Interferometer phase arg z", sci(rep.PhaseRad, 7), "rad")
-	t.Append("Sagnac phase 2 I phi(T) Omega_bg / hbar", sci(rep.SagnacRad, 7), "rad")
-	t.Append("Bias b = phase - Sagnac phase", sci(rep.BiasRad, 3), "rad")
-	t.Append("Bias as a rotation rate b / K", sci(rep.BiasRadS, 3), "rad/s")
-	t.Append("Bias as a rotation rate b / K", sci(rep.BiasDegPerH, 3), "deg/h")
-	t.Append("Scale factor K = 2 I phi(T) / hbar", sig(rep.ScaleFactorS, 6), "s (rad per rad/s)")
-	t.Append("Ground band after ramp-up, arm s = +1", fixed(rep.GroundBand[0], 5), "")
-	t.Append("Ground band after ramp-up, arm s = -1", fixed(rep.GroundBand[1], 5), "")
+	t := present.NewTable(w, "Quantity", "Value", "Unit")
+	t.Append("Contrast C = |z|", present.Fixed(rep.Contrast, 5), "")
+	t.Append("Interferometer phase arg z", present.Sci(rep.PhaseRad, 7), "rad")
+	t.Append("Sagnac phase 2 I phi(T) Omega_bg / hbar", present.Sci(rep.SagnacRad, 7), "rad")
+	t.Append("Bias b = phase - Sagnac phase", present.Sci(rep.BiasRad, 3), "rad")
+	t.Append("Bias as a rotation rate b / K", present.Sci(rep.BiasRadS, 3), "rad/s")
+	t.Append("Bias as a rotation rate b / K", present.Sci(rep.BiasDegPerH, 3), "deg/h")
+	t.Append("Scale factor K = 2 I phi(T) / hbar", present.Sig(rep.ScaleFactorS, 6), "s (rad per rad/s)")
+	t.Append("Ground band after ramp-up, arm s = +1", present.Fixed(rep.GroundBand[0], 5), "")
+	t.Append("Ground band after ramp-up, arm s = -1", present.Fixed(rep.GroundBand[1], 5), "")
 	if ro := rep.Readout; ro != nil {
-		t.Append(fmt.Sprintf("Projection noise per shot, %s atoms", sig(ro.Atoms, 6)), sci(ro.ProjectionRadS, 3), "rad/s")
-		t.Append(fmt.Sprintf("Projection noise per shot, %s atoms", sig(ro.Atoms, 6)), sci(ro.ProjectionDegPerH, 3), "deg/h")
-		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", sig(ro.CycleS, 6)), sci(ro.ARWDegPerSqrtH, 3), "deg/sqrt(h)")
+		t.Append(fmt.Sprintf("Projection noise per shot, %s atoms", present.Sig(ro.Atoms, 6)), present.Sci(ro.ProjectionRadS, 3), "rad/s")
+		t.Append(fmt.Sprintf("Projection noise per shot, %s atoms", present.Sig(ro.Atoms, 6)), present.Sci(ro.ProjectionDegPerH, 3), "deg/h")
+		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", present.Sig(ro.CycleS, 6)), present.Sci(ro.ARWDegPerSqrtH, 3), "deg/sqrt(h)")
 	}
 	t.Append("Momentum grid", strconv.Itoa(rep.Grid), "states")
-	t.Append("Time step while the drive changes", sig(rep.StepS*1e6, 4), "us")
+	t.Append("Time step while the drive changes", present.Sig(rep.StepS*1e6, 4), "us")
 	if len(rep.Levels) > 1 {
 		t.Append("Levels of the site propagated", strconv.Itoa(len(rep.Levels)), "")
 	}
@@ -262,10 +263,10 @@ func (rep *shotReport) print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 		fmt.Fprintln(w, "\nNote: the scenario's [noise.*] tables describe an ensemble; this shot is noise-free.")
 	}
 	if sc.Thermal() {
-		fmt.Fprintf(w, "\nThermal start at %s nK: the levels of the site\n", sig(sc.Start.TemperatureNK, 6))
-		lt := newTable(w, "Band n", "Weight p_n", "(E_n - E_0)/h (kHz)", "|z_n|", "arg z_n (rad)")
+		fmt.Fprintf(w, "\nThermal start at %s nK: the levels of the site\n", present.Sig(sc.Start.TemperatureNK, 6))
+		lt := present.NewTable(w, "Band n", "Weight p_n", "(E_n - E_0)/h (kHz)", "|z_n|", "arg z_n (rad)")
 		for _, l := range rep.Levels {
-			lt.Append(strconv.Itoa(l.Band), sci(l.Weight, 4), fixed(l.ExcitationHz/1e3, 3), fixed(l.AbsZ, 5), sci(l.ArgZRad, 7))
+			lt.Append(strconv.Itoa(l.Band), present.Sci(l.Weight, 4), present.Fixed(l.ExcitationHz/1e3, 3), present.Fixed(l.AbsZ, 5), present.Sci(l.ArgZRad, 7))
 		}
 		if err := lt.Render(); err != nil {
 			return err
@@ -273,10 +274,10 @@ func (rep *shotReport) print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	}
 	if c := rep.Check; c != nil {
 		fmt.Fprintf(w, "\nNumerics check: grid %d and step %s us against grid %d and step %s us\n",
-			c.Grid, sig(c.StepS*1e6, 4), rep.Grid, sig(rep.StepS*1e6, 4))
-		ct := newTable(w, "Change", "Value", "Tolerance", "Within")
-		ct.Append("Contrast", sci(c.ContrastChange, 2), sci(c.ContrastTolerance, 1), yesNo(math.Abs(c.ContrastChange) <= c.ContrastTolerance))
-		ct.Append("Phase (rad)", sci(c.PhaseChangeRad, 2), sci(c.PhaseToleranceRad, 1), yesNo(math.Abs(c.PhaseChangeRad) <= c.PhaseToleranceRad))
+			c.Grid, present.Sig(c.StepS*1e6, 4), rep.Grid, present.Sig(rep.StepS*1e6, 4))
+		ct := present.NewTable(w, "Change", "Value", "Tolerance", "Within")
+		ct.Append("Contrast", present.Sci(c.ContrastChange, 2), present.Sci(c.ContrastTolerance, 1), present.YesNo(math.Abs(c.ContrastChange) <= c.ContrastTolerance))
+		ct.Append("Phase (rad)", present.Sci(c.PhaseChangeRad, 2), present.Sci(c.PhaseToleranceRad, 1), present.YesNo(math.Abs(c.PhaseChangeRad) <= c.PhaseToleranceRad))
 		if err := ct.Render(); err != nil {
 			return err
 		}
@@ -286,30 +287,30 @@ func (rep *shotReport) print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 
 // describe says in one line what the scenario simulates; ramp names the ramp.
 func describe(sc *scenario.Scenario, cfg sim.Config, ramp string) string {
-	atom := fmt.Sprintf("atom of %s u", sig(sc.Atom.MassU, 6))
+	atom := fmt.Sprintf("atom of %s u", present.Sig(sc.Atom.MassU, 6))
 	if sc.Atom.MassU == sim.Rb87MassU {
 		atom = "Rb-87 atom"
 	}
 	start := "ground-state start"
 	if sc.Thermal() {
-		start = fmt.Sprintf("thermal start at %s nK", sig(sc.Start.TemperatureNK, 6))
+		start = fmt.Sprintf("thermal start at %s nK", present.Sig(sc.Start.TemperatureNK, 6))
 	}
 	laps := "laps"
 	if sc.Motion.Laps == 1 {
 		laps = "lap"
 	}
 	return fmt.Sprintf("%s, %d sites of radius %s um, %s kHz deep (trap %s kHz); %s of %s us to %s rad/s, %s %s; rotation %s rad/s; %s",
-		atom, sc.Ring.Sites, sig(sc.Ring.RadiusUM, 6), sig(sc.Lattice.DepthKHz, 6), sig(cfg.Ring.TrapHz(cfg.DepthHz)/1e3, 4),
-		ramp, sig(cfg.Sequence.Up.Duration()*1e6, 6), sig(sc.Motion.CruiseRadS, 6), sig(sc.Motion.Laps, 6), laps,
-		sig(sc.Motion.RotationRadS, 6), start)
+		atom, sc.Ring.Sites, present.Sig(sc.Ring.RadiusUM, 6), present.Sig(sc.Lattice.DepthKHz, 6), present.Sig(cfg.Ring.TrapHz(cfg.DepthHz)/1e3, 4),
+		ramp, present.Sig(cfg.Sequence.Up.Duration()*1e6, 6), present.Sig(sc.Motion.CruiseRadS, 6), present.Sig(sc.Motion.Laps, 6), laps,
+		present.Sig(sc.Motion.RotationRadS, 6), start)
 }
 
 // duration formats an elapsed time in ms, or in s from one second on.
 func duration(d time.Duration) (value, unit string) {
 	if d >= time.Second {
-		return sig(d.Seconds(), 3), "s"
+		return present.Sig(d.Seconds(), 3), "s"
 	}
-	return sig(d.Seconds()*1e3, 3), "ms"
+	return present.Sig(d.Seconds()*1e3, 3), "ms"
 }
 
 func writeJSON(w io.Writer, v any) error {
@@ -327,8 +328,8 @@ func writeTrace(w io.Writer, rows []sim.Diagnostics) error {
 		if d.Arm == 1 {
 			arm = -1
 		}
-		fmt.Fprintf(bw, "%s,%d,%s,%s,%s,%s,%s\n", sig(d.TimeS, -1), arm, sig(d.OffsetRad, -1), sig(d.WidthRad, -1),
-			sig(d.VelocityErrRadS, -1), sig(d.GroundBand, -1), sig(d.Norm, -1))
+		fmt.Fprintf(bw, "%s,%d,%s,%s,%s,%s,%s\n", present.Sig(d.TimeS, -1), arm, present.Sig(d.OffsetRad, -1), present.Sig(d.WidthRad, -1),
+			present.Sig(d.VelocityErrRadS, -1), present.Sig(d.GroundBand, -1), present.Sig(d.Norm, -1))
 	}
 	return bw.Flush()
 }

@@ -11,6 +11,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"rampart/cmd/internal/present"
 	"rampart/mc"
 	"rampart/scenario"
 	"rampart/sim"
@@ -185,7 +186,7 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 	}
 	ramp := cfg.Sequence.Up.Name() + " ramp"
 	workLine := work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens)
-	specLine := fmt.Sprintf("Spec: %s, at %s %% confidence", o.spec, sig(100*req.Confidence, 3))
+	specLine := fmt.Sprintf("Spec: %s, at %s %% confidence", o.spec, present.Sig(100*req.Confidence, 3))
 	if o.report != "" {
 		tol, err := toleranceSection(rep)
 		if err != nil {

@@ -9,6 +9,7 @@ import (
 
 	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/report"
 	"rampart/mc"
 )
@@ -34,18 +35,18 @@ func binding(res mc.ToleranceResult, p mc.TolerancePoint) (mc.Criterion, bool) {
 }
 
 // toleranceGrid returns the tolerance table: a row per source searched.
-func toleranceGrid(rep toleranceReport) *grid {
-	conf := sig(100*rep.Requirements.Confidence, 3) + " %"
-	t := newGrid("The tolerance of each noise source against spec "+rep.Spec, "Source", "Unit", "Nominal", "Tolerance", "Status",
+func toleranceGrid(rep toleranceReport) *present.Grid {
+	conf := present.Sig(100*rep.Requirements.Confidence, 3) + " %"
+	t := present.NewGrid("The tolerance of each noise source against spec "+rep.Spec, "Source", "Unit", "Nominal", "Tolerance", "Status",
 		"Binding criterion", "At the tolerance", "Bounds ("+conf+" one-sided)", "At the tolerance (deg/h)", "Curve points")
 	for _, res := range rep.Results {
 		nominal := "off"
 		if res.Nominal != nil {
-			nominal = sig(*res.Nominal, 4)
+			nominal = present.Sig(*res.Nominal, 4)
 		}
 		tol, value, bounds, degPerH := "-", "", "", ""
 		if a, ok := res.Tolerance(); ok {
-			tol = sig(a, 3)
+			tol = present.Sig(a, 3)
 			if res.Status == mc.ToleranceAboveRange {
 				tol = ">= " + tol
 			}
@@ -53,7 +54,7 @@ func toleranceGrid(rep toleranceReport) *grid {
 				f := criterionFormat(c)
 				value, bounds = f(c.Value), interval(c.Lo, c.Hi, f)
 				if c.Unit == "rad" {
-					degPerH = sci(mc.BiasDegPerH(c.Value, rep.ScaleFactorS), 3)
+					degPerH = present.Sci(mc.BiasDegPerH(c.Value, rep.ScaleFactorS), 3)
 				}
 			}
 		}
@@ -71,7 +72,7 @@ func toleranceGrid(rep toleranceReport) *grid {
 func toleranceNotes(rep toleranceReport) []string {
 	out := []string{
 		"Each tolerance holds with every other source at its value in the budget; budget is the factor by which the whole budget may be scaled.",
-		fmt.Sprintf("The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.", sig(rep.Results[0].Precision, 3)),
+		fmt.Sprintf("The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.", present.Sig(rep.Results[0].Precision, 3)),
 	}
 	statuses := map[mc.ToleranceStatus]bool{}
 	monotone := true
@@ -100,7 +101,7 @@ func toleranceSection(rep toleranceReport) (report.Section, error) {
 	return report.Section{
 		Heading: "Tolerances",
 		Text:    strings.Join(toleranceNotes(rep), "\n\n"),
-		Tables:  []report.Table{toleranceGrid(rep).table()},
+		Tables:  []report.Table{toleranceGrid(rep).Table()},
 		Figures: figs,
 	}, nil
 }
@@ -114,8 +115,8 @@ func writeToleranceCurves(dir string, rep toleranceReport) error {
 		for _, res := range rep.Results {
 			for _, p := range res.Points {
 				c, _ := binding(res, p)
-				fmt.Fprintf(bw, "%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%t\n", res.Source, res.Unit, sig(p.Amplitude, -1), res.Metric, sig(c.Limit, -1),
-					sig(p.Value, -1), sig(p.Lo, -1), sig(p.Hi, -1), sig(p.Envelope.Value, -1), sig(p.Envelope.Lo, -1), sig(p.Envelope.Hi, -1), p.Holds)
+				fmt.Fprintf(bw, "%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%t\n", res.Source, res.Unit, present.Sig(p.Amplitude, -1), res.Metric, present.Sig(c.Limit, -1),
+					present.Sig(p.Value, -1), present.Sig(p.Lo, -1), present.Sig(p.Hi, -1), present.Sig(p.Envelope.Value, -1), present.Sig(p.Envelope.Lo, -1), present.Sig(p.Envelope.Hi, -1), p.Holds)
 			}
 		}
 		return bw.Flush()
@@ -161,11 +162,11 @@ func toleranceFigure(res mc.ToleranceResult, confidence float64) (*plots.Figure,
 		XLabel: fmt.Sprintf("%s (%s)", res.Source, res.Unit),
 		YLabel: criterionLabels[res.Metric],
 		LogX:   !strings.HasPrefix(res.Unit, "dB"),
-		Bands:  []plots.Band{{Name: fmt.Sprintf("%s %% one-sided bounds", sig(100*confidence, 3)), X: x, Lo: lo, Hi: hi}},
-		HLines: []plots.Marker{{Label: "spec limit " + sig(c.Limit, 4), Value: c.Limit}},
+		Bands:  []plots.Band{{Name: fmt.Sprintf("%s %% one-sided bounds", present.Sig(100*confidence, 3)), X: x, Lo: lo, Hi: hi}},
+		HLines: []plots.Marker{{Label: "spec limit " + present.Sig(c.Limit, 4), Value: c.Limit}},
 	}
 	if a, ok := res.Tolerance(); ok {
-		opts.VLines = []plots.Marker{{Label: "tolerance " + sig(a, 3) + " " + res.Unit, Value: a}}
+		opts.VLines = []plots.Marker{{Label: "tolerance " + present.Sig(a, 3) + " " + res.Unit, Value: a}}
 	}
 	return plots.Lines([]plots.Series{{Name: criterionLabels[res.Metric], X: x, Y: y}}, opts)
 }
