@@ -82,11 +82,11 @@ type demo struct {
 
 	// filled in by the stages
 	cs      []scenario.Contestant
-	ranking rankReport
+	ranking present.RankReport
 	recs    [][]mc.Record
 	winner  int
-	qualify qualifyReport
-	tol     toleranceReport
+	qualify present.QualifyReport
+	tol     present.ToleranceReport
 }
 
 func newDemo(e env, out io.Writer) (*demo, error) {
@@ -117,7 +117,7 @@ func (d *demo) check() error {
 	if err != nil {
 		return err
 	}
-	if n := minYieldSamples(req); o.toleranceSamples < n {
+	if n := mc.MinYieldSamples(req); o.toleranceSamples < n {
 		return fmt.Errorf("--tolerance-samples %d: the demo spec's yield of at least %g at %g %% confidence needs at least %d realisations per amplitude", o.toleranceSamples, req.YieldMin, 100*req.Confidence, n)
 	}
 	return nil
@@ -169,7 +169,7 @@ func (d *demo) compareRamps() error {
 		d.cs = append(d.cs, scenario.Contestant{Name: dr.name, Spec: "demo ramp " + dr.name, Scenario: sc, Config: c})
 	}
 	w := d.out
-	fmt.Fprintf(w, "rampart demo: the built-in scenario %s\n%s\n\n", d.base.Name, describe(d.base, cfg, strings.Join(names, ", ")+" ramps"))
+	fmt.Fprintf(w, "rampart demo: the built-in scenario %s\n%s\n\n", d.base.Name, present.Describe(d.base, cfg, strings.Join(names, ", ")+" ramps"))
 	if story := d.story(); story != "" {
 		fmt.Fprintf(w, "%s\n\n", story)
 	}

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"rampart"
+	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/spec"
 	"rampart/mc"
 	"rampart/scenario"
@@ -63,9 +64,9 @@ func (d *demo) rank() error {
 	d.winner = slices.IndexFunc(d.cs, func(c scenario.Contestant) bool { return c.Name == rep.Ranking.Ranking[0].Name })
 	w := d.out
 	fmt.Fprintf(w, "2. The three ramps under the noise budget, ranked by the 5th-percentile contrast\n")
-	fmt.Fprintf(w, "Noise budget: %s\n", budgetLine(budget))
+	fmt.Fprintf(w, "Noise budget: %s\n", present.BudgetLine(budget))
 	fmt.Fprintf(w, "%s\n\n", work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(d.cs), o.samples), o))
-	return rankingGrid(rep).RenderNoted(w, rankingNotes(rep))
+	return present.RankingGrid(rep).RenderNoted(w, present.RankingNotes(rep))
 }
 
 func (d *demo) qualifyWinner() error {
@@ -75,13 +76,13 @@ func (d *demo) qualifyWinner() error {
 	}
 	ramp := d.ranking.Ramps[d.winner]
 	q := mc.Qualify(d.recs[d.winner], req, ramp.Summary.ScaleFactorS, d.opts.seed)
-	d.qualify = qualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.gyro(ramp.Summary)}
+	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.gyro(ramp.Summary)}
 	fmt.Fprintf(d.out, "3. The winner, %s, qualified against the spec %s on its %d realisations\n\n", ramp.Name, demoSpec, len(d.recs[d.winner]))
-	if err := printQualification(d.out, d.qualify); err != nil {
+	if err := present.PrintQualification(d.out, d.qualify); err != nil {
 		return err
 	}
 	if q.Verdict != mc.Pass {
-		fmt.Fprintf(d.out, "Deciding: %s\n", strings.Join(deciding(q), "; "))
+		fmt.Fprintf(d.out, "Deciding: %s\n", strings.Join(present.Deciding(q), "; "))
 	}
 	return nil
 }
@@ -107,7 +108,7 @@ func (d *demo) tolerances() error {
 	d.tol = rep
 	fmt.Fprintf(d.out, "4. Hardware tolerances for %s: the largest amplitude of each source (the others as budgeted) at which the spec still holds\n", c.Name)
 	fmt.Fprintf(d.out, "%s\n\n", work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.samples), o))
-	return toleranceGrid(rep).RenderNoted(d.out, toleranceNotes(rep))
+	return present.ToleranceGrid(rep).RenderNoted(d.out, present.ToleranceNotes(rep))
 }
 
 // demoTolerancePrecision is the relative precision of the demo's tolerance
@@ -116,14 +117,14 @@ func (d *demo) tolerances() error {
 const demoTolerancePrecision = 0.1
 
 func (d *demo) writeReport() error {
-	cfgs := make([]namedConfig, len(d.cs))
+	cfgs := make([]present.NamedConfig, len(d.cs))
 	recs := map[string][]mc.Record{}
 	for i, c := range d.cs {
-		cfgs[i] = namedConfig{c.Name, c.Config}
+		cfgs[i] = present.NamedConfig{Name: c.Name, Config: c.Config}
 		recs[c.Name] = d.recs[i]
 	}
 	winner := d.cs[d.winner].Name
-	secs, err := driveAndDynamics(cfgs, winner)
+	secs, err := present.DriveAndDynamics(cfgs, winner)
 	if err != nil {
 		return err
 	}
@@ -131,15 +132,15 @@ func (d *demo) writeReport() error {
 	if err != nil {
 		return err
 	}
-	ranked, err := rankSections(d.ranking, cfgs, recs, req.Yield)
+	ranked, err := present.RankSections(d.ranking, cfgs, recs, req.Yield)
 	if err != nil {
 		return err
 	}
-	qual, err := qualifySection(d.qualify)
+	qual, err := present.QualifySection(d.qualify)
 	if err != nil {
 		return err
 	}
-	tol, err := toleranceSection(d.tol)
+	tol, err := present.ToleranceSection(d.tol)
 	if err != nil {
 		return err
 	}

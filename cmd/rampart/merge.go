@@ -6,6 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"rampart/cmd/internal/present"
 	"rampart/mc"
 )
 
@@ -53,19 +54,19 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	if err != nil {
 		return err
 	}
-	sum := summarise(m, recs, o.confidence, spec)
+	sum := present.Summarise(m, recs, o.confidence, spec)
 	if o.out != "" {
 		if err := mc.WriteRun(o.out, m, recs); err != nil {
 			return err
 		}
-		if err := writeResults(o.out, sum, recs, spec); err != nil {
+		if err := present.WriteResults(o.out, sum, recs, spec); err != nil {
 			return err
 		}
 		fmt.Fprintf(stderr, "merged %d shards, %d realisations, into %s\n", len(dirs), len(recs), o.out)
 	}
 	if o.json {
-		return writeJSON(stdout, sum)
+		return present.WriteJSON(stdout, sum)
 	}
 	fmt.Fprintf(stdout, "Merged %d shards: %d realisations, seed %d, %s sampler\n\n", len(dirs), len(recs), m.Seed, m.Sampler)
-	return printSummary(stdout, sum)
+	return present.PrintSummary(stdout, sum)
 }

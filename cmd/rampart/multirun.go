@@ -9,6 +9,7 @@ import (
 	"strings"
 	"time"
 
+	"rampart/cmd/internal/present"
 	"rampart/mc"
 	"rampart/scenario"
 )
@@ -113,7 +114,7 @@ func (w ensembleWork) line(what string, o ensembleOptions) string {
 		s += ", shard " + o.shard
 	}
 	if w.fresh > 0 {
-		el, unit := duration(w.elapsed)
+		el, unit := present.Duration(w.elapsed)
 		s += fmt.Sprintf("; %d simulated in %s %s", w.fresh, el, unit)
 	}
 	if w.resumed > 0 {

@@ -6,7 +6,6 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"rampart/cmd/internal/present"
 	"rampart/mc"
 	"rampart/scenario"
 )
@@ -63,26 +62,3 @@ func (r readout) gyro(s mc.Summary) *mc.Gyro {
 	g := s.Gyro(r.atoms, r.cycleS)
 	return &g
 }
-
-// absBiasP95DegPerH is the 95th percentile of |bias| of a summary as a
-// rotation-rate error.
-func absBiasP95DegPerH(s mc.Summary) float64 { return mc.BiasDegPerH(s.AbsBiasRad.P95, s.ScaleFactorS) }
-
-// gyroGrid returns the gyroscope figures of an ensemble: its biases as
-// rotation rates and, with a read-out, the projection-noise limit and the
-// angle random walk (PHYSICS.md section 8).
-func gyroGrid(s mc.Summary, g *mc.Gyro) *present.Grid {
-	b3 := func(x float64) string { return present.Sci(x, 3) }
-	t := present.NewGrid("Gyroscope figures", "Gyroscope figure", "Value", "Unit")
-	t.Append("Scale factor K = 2 I phi(T) / hbar", present.Sig(s.ScaleFactorS, 6), "s (rad per rad/s)")
-	t.Append("Mean bias as a rotation rate", b3(s.BiasDegPerH.Mean), "deg/h")
-	t.Append("|bias| p95 as a rotation rate", b3(absBiasP95DegPerH(s)), "deg/h")
-	if g != nil {
-		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms at contrast %s", present.Sig(g.Atoms, 6), present.Fixed(g.Contrast, 4)), b3(g.ShotNoiseDegPerH), "deg/h")
-		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", present.Sig(g.CycleS, 6)), b3(g.AngleRandomWalkDegPerSqrtH), "deg/sqrt(h)")
-	}
-	return t
-}
-
-// noReadout says what the gyroscope figures lack without a read-out.
-const noReadout = "(For the projection-noise limit and the angle random walk, give the scenario a [readout] table or --atoms and --cycle-s.)"

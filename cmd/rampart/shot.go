@@ -1,8 +1,6 @@
 package main
 
 import (
-	"bufio"
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -98,13 +96,13 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 		rep.Check = newCheckReport(run, f)
 	}
 	if o.trace != "" {
-		if err := outfile.Write(o.trace, func(w io.Writer) error { return writeTrace(w, trace) }); err != nil {
+		if err := outfile.Write(o.trace, func(w io.Writer) error { return present.WriteTrace(w, trace) }); err != nil {
 			return err
 		}
 		fmt.Fprintf(stderr, "wrote %d rows of diagnostics to %s\n", len(trace), o.trace)
 	}
 	if o.json {
-		return writeJSON(stdout, rep)
+		return present.WriteJSON(stdout, rep)
 	}
 	return rep.print(stdout, sc, run.cfg)
 }
@@ -233,7 +231,7 @@ func newCheckReport(base, fine shotRun) *checkReport {
 }
 
 func (rep *shotReport) print(w io.Writer, sc *scenario.Scenario, cfg sim.Config) error {
-	fmt.Fprintf(w, "Scenario %s\n%s\n\n", sc.Name, describe(sc, cfg, cfg.Sequence.Up.Name()+" ramp"))
+	fmt.Fprintf(w, "Scenario %s\n%s\n\n", sc.Name, present.Describe(sc, cfg, cfg.Sequence.Up.Name()+" ramp"))
 	t := present.NewTable(w, "Quantity", "Value", "Unit")
 	t.Append("Contrast C = |z|", present.Fixed(rep.Contrast, 5), "")
 	t.Append("Interferometer phase arg z", present.Sci(rep.PhaseRad, 7), "rad")
@@ -254,7 +252,7 @@ func (rep *shotReport) print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	if len(rep.Levels) > 1 {
 		t.Append("Levels of the site propagated", strconv.Itoa(len(rep.Levels)), "")
 	}
-	el, unit := duration(time.Duration(rep.ElapsedS * float64(time.Second)))
+	el, unit := present.Duration(time.Duration(rep.ElapsedS * float64(time.Second)))
 	t.Append("Elapsed (one shot)", el, unit)
 	if err := t.Render(); err != nil {
 		return err
@@ -283,53 +281,4 @@ func (rep *shotReport) print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 		}
 	}
 	return nil
-}
-
-// describe says in one line what the scenario simulates; ramp names the ramp.
-func describe(sc *scenario.Scenario, cfg sim.Config, ramp string) string {
-	atom := fmt.Sprintf("atom of %s u", present.Sig(sc.Atom.MassU, 6))
-	if sc.Atom.MassU == sim.Rb87MassU {
-		atom = "Rb-87 atom"
-	}
-	start := "ground-state start"
-	if sc.Thermal() {
-		start = fmt.Sprintf("thermal start at %s nK", present.Sig(sc.Start.TemperatureNK, 6))
-	}
-	laps := "laps"
-	if sc.Motion.Laps == 1 {
-		laps = "lap"
-	}
-	return fmt.Sprintf("%s, %d sites of radius %s um, %s kHz deep (trap %s kHz); %s of %s us to %s rad/s, %s %s; rotation %s rad/s; %s",
-		atom, sc.Ring.Sites, present.Sig(sc.Ring.RadiusUM, 6), present.Sig(sc.Lattice.DepthKHz, 6), present.Sig(cfg.Ring.TrapHz(cfg.DepthHz)/1e3, 4),
-		ramp, present.Sig(cfg.Sequence.Up.Duration()*1e6, 6), present.Sig(sc.Motion.CruiseRadS, 6), present.Sig(sc.Motion.Laps, 6), laps,
-		present.Sig(sc.Motion.RotationRadS, 6), start)
-}
-
-// duration formats an elapsed time in ms, or in s from one second on.
-func duration(d time.Duration) (value, unit string) {
-	if d >= time.Second {
-		return present.Sig(d.Seconds(), 3), "s"
-	}
-	return present.Sig(d.Seconds()*1e3, 3), "ms"
-}
-
-func writeJSON(w io.Writer, v any) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(v)
-}
-
-// writeTrace writes the observer's diagnostics as CSV, arm s = +1 or -1.
-func writeTrace(w io.Writer, rows []sim.Diagnostics) error {
-	bw := bufio.NewWriter(w)
-	fmt.Fprintln(bw, "time_s,arm,offset_rad,width_rad,velocity_error_rad_s,ground_band,norm")
-	for _, d := range rows {
-		arm := 1
-		if d.Arm == 1 {
-			arm = -1
-		}
-		fmt.Fprintf(bw, "%s,%d,%s,%s,%s,%s,%s\n", present.Sig(d.TimeS, -1), arm, present.Sig(d.OffsetRad, -1), present.Sig(d.WidthRad, -1),
-			present.Sig(d.VelocityErrRadS, -1), present.Sig(d.GroundBand, -1), present.Sig(d.Norm, -1))
-	}
-	return bw.Flush()
 }

@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -67,26 +66,15 @@ the step before.`,
 	return cmd
 }
 
-// toleranceReport is what tolerance --json prints.
-type toleranceReport struct {
-	Spec         string               `json:"spec"`
-	Requirements mc.Requirements      `json:"requirements"`
-	Samples      int                  `json:"samples"`
-	Seed         uint64               `json:"seed"`
-	Sampler      string               `json:"sampler"`
-	ScaleFactorS float64              `json:"scale_factor_s"`
-	Results      []mc.ToleranceResult `json:"results"`
-}
-
 // searchTolerances searches the tolerance of each named source of budget
 // (mc.SourceBudget for the whole budget scaled) against req, every
 // amplitude an ensemble of the options' size on common random numbers (one
 // noise grid sized for the widest search), kept in a subdirectory
 // SOURCE/AMPLITUDE of the options' directory if there is one.
-func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (toleranceReport, ensembleWork, error) {
+func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (present.ToleranceReport, ensembleWork, error) {
 	var work ensembleWork
-	if n := minYieldSamples(req); o.samples < n {
-		return toleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot show a yield of at least %g with %g %% confidence even if every one is inside (the exact lower bound for n of n is (1-c)^(1/n)); give at least %d",
+	if n := mc.MinYieldSamples(req); o.samples < n {
+		return present.ToleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot show a yield of at least %g with %g %% confidence even if every one is inside (the exact lower bound for n of n is (1-c)^(1/n)); give at least %d",
 			o.samples, req.YieldMin, 100*req.Confidence, n)
 	}
 	search := mc.ToleranceSearch{
@@ -96,7 +84,7 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 	}
 	grid, err := mc.SharedGrid([]sim.Config{cfg}, search.Widest())
 	if err != nil {
-		return toleranceReport{}, work, fmt.Errorf("scenario %q: %w", sc.Name, err)
+		return present.ToleranceReport{}, work, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
 	evaluator := func(name string) mc.Evaluator {
 		return func(ctx context.Context, b mc.Budget) ([]mc.Record, error) {
@@ -111,25 +99,15 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 			return run.records, checkRecords(run.records)
 		}
 	}
-	rep := toleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS}
+	rep := present.ToleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS}
 	for _, name := range names {
 		res, err := search.Source(ctx, evaluator(name), name)
 		if err != nil {
-			return toleranceReport{}, work, err
+			return present.ToleranceReport{}, work, err
 		}
 		rep.Results = append(rep.Results, res)
 	}
 	return rep, work, nil
-}
-
-// minYieldSamples returns the fewest realisations with which a yield
-// requirement can pass: n of n inside has the one-sided lower bound
-// (1-c)^(1/n), which must reach the minimum yield (0 without one).
-func minYieldSamples(req mc.Requirements) int {
-	if !(req.YieldMin > 0 && req.YieldMin < 1) {
-		return 0
-	}
-	return int(math.Ceil(math.Log(1-req.Confidence) / math.Log(req.YieldMin)))
 }
 
 // toleranceTag sets an ensemble of a tolerance search apart from the others
@@ -179,30 +157,30 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 	}
 	rep.Spec = o.spec
 	if dir := o.ens.dir(); dir != "" {
-		if err := writeToleranceCurves(dir, rep); err != nil {
+		if err := present.WriteToleranceCurves(dir, rep); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %s, a figure per source and every ensemble of the search to %s\n", toleranceCurvesFile, dir)
+		fmt.Fprintf(stderr, "wrote %s, a figure per source and every ensemble of the search to %s\n", present.ToleranceCurvesFile, dir)
 	}
 	ramp := cfg.Sequence.Up.Name() + " ramp"
 	workLine := work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens)
 	specLine := fmt.Sprintf("Spec: %s, at %s %% confidence", o.spec, present.Sig(100*req.Confidence, 3))
 	if o.report != "" {
-		tol, err := toleranceSection(rep)
+		tol, err := present.ToleranceSection(rep)
 		if err != nil {
 			return err
 		}
-		cfgs, name := oneRamp(cfg)
+		cfgs, name := present.OneRamp(cfg)
 		if err := writeDecisionReport(e, stderr, o.decisionOptions, "Tolerances of "+name+" on "+sc.Name+" against "+o.spec, sc, cfgs, name,
-			setupText(sc, cfg, ramp, budget, workLine, specLine), tol); err != nil {
+			present.SetupText(sc, cfg, ramp, budget, workLine, specLine), tol); err != nil {
 			return err
 		}
 	}
 	if o.json {
-		return writeJSON(stdout, rep)
+		return present.WriteJSON(stdout, rep)
 	}
-	printHeader(stdout, sc, cfg, ramp, budget, workLine, specLine)
-	return toleranceGrid(rep).RenderNoted(stdout, toleranceNotes(rep))
+	present.PrintHeader(stdout, sc, cfg, ramp, budget, workLine, specLine)
+	return present.ToleranceGrid(rep).RenderNoted(stdout, present.ToleranceNotes(rep))
 }
 
 // toleranceSources returns the sources to search: those listed
