@@ -152,7 +152,7 @@ func (d *demo) variant(i int) (*scenario.Scenario, sim.Config, error) {
 
 // compareRamps runs one noise-free shot with each of demoShapes.
 func (d *demo) compareRamps() error {
-	var runs []shotRun
+	var runs []present.ShotRun
 	var cfg sim.Config
 	var names []string
 	for i, dr := range demoRamps {
@@ -177,37 +177,37 @@ func (d *demo) compareRamps() error {
 	fmt.Fprintln(w, "1. One noise-free shot of each ramp")
 	header := append([]string{"Quantity"}, names...)
 	t := present.NewTable(w, append(header, "Unit")...)
-	row := func(label, unit string, value func(r shotRun) string) {
+	row := func(label, unit string, value func(r present.ShotRun) string) {
 		cells := []string{label}
 		for _, r := range runs {
 			cells = append(cells, value(r))
 		}
 		t.Append(append(cells, unit))
 	}
-	row("Contrast C = |z|", "", func(r shotRun) string { return present.Fixed(r.result.Contrast, 5) })
-	row("Ground band after ramp-up, arm s = +1", "", func(r shotRun) string { return present.Fixed(r.result.GroundAfterRampUp[0], 5) })
-	row("Ground band after ramp-up, arm s = -1", "", func(r shotRun) string { return present.Fixed(r.result.GroundAfterRampUp[1], 5) })
-	row("Interferometer phase arg z", "rad", func(r shotRun) string { return present.Sci(r.result.PhaseRad, 7) })
-	row("Sagnac phase", "rad", func(r shotRun) string { return present.Sci(r.result.SagnacRad, 7) })
-	row("Bias b = phase - Sagnac phase", "rad", func(r shotRun) string { return present.Sci(r.result.BiasRad, 3) })
-	row("Bias as a rotation rate b / K", "deg/h", func(r shotRun) string { return present.Sci(r.result.BiasDegPerH, 3) })
-	row("Peak speed max |Omega|", "rad/s", func(r shotRun) string {
-		peak, _ := sim.PeakSpeed(r.cfg.Sequence.Up)
+	row("Contrast C = |z|", "", func(r present.ShotRun) string { return present.Fixed(r.Result.Contrast, 5) })
+	row("Ground band after ramp-up, arm s = +1", "", func(r present.ShotRun) string { return present.Fixed(r.Result.GroundAfterRampUp[0], 5) })
+	row("Ground band after ramp-up, arm s = -1", "", func(r present.ShotRun) string { return present.Fixed(r.Result.GroundAfterRampUp[1], 5) })
+	row("Interferometer phase arg z", "rad", func(r present.ShotRun) string { return present.Sci(r.Result.PhaseRad, 7) })
+	row("Sagnac phase", "rad", func(r present.ShotRun) string { return present.Sci(r.Result.SagnacRad, 7) })
+	row("Bias b = phase - Sagnac phase", "rad", func(r present.ShotRun) string { return present.Sci(r.Result.BiasRad, 3) })
+	row("Bias as a rotation rate b / K", "deg/h", func(r present.ShotRun) string { return present.Sci(r.Result.BiasDegPerH, 3) })
+	row("Peak speed max |Omega|", "rad/s", func(r present.ShotRun) string {
+		peak, _ := sim.PeakSpeed(r.Config.Sequence.Up)
 		return present.Sig(peak, 5)
 	})
-	row("Speed reverses (throw and catch)", "", func(r shotRun) string {
-		_, rev := sim.PeakSpeed(r.cfg.Sequence.Up)
+	row("Speed reverses (throw and catch)", "", func(r present.ShotRun) string {
+		_, rev := sim.PeakSpeed(r.Config.Sequence.Up)
 		return present.YesNo(rev)
 	})
-	row("Elapsed (one shot)", "ms", func(r shotRun) string { return present.Sig(r.elapsed.Seconds()*1e3, 3) })
+	row("Elapsed (one shot)", "ms", func(r present.ShotRun) string { return present.Sig(r.Elapsed.Seconds()*1e3, 3) })
 	if err := t.Render(); err != nil {
 		return err
 	}
 
-	up := runs[0].cfg.Sequence.Up
+	up := runs[0].Config.Sequence.Up
 	var outside []string
 	for _, r := range runs {
-		outside = append(outside, fmt.Sprintf("%s %s %%", names[len(outside)], present.Sig(100*(1-r.result.GroundAfterRampUp[0]), 2)))
+		outside = append(outside, fmt.Sprintf("%s %s %%", names[len(outside)], present.Sig(100*(1-r.Result.GroundAfterRampUp[0]), 2)))
 	}
 	fmt.Fprintf(w, "\nA ramp-up of %s us is %s trap periods. Left outside the moving ground band after it: %s.\n",
 		present.Sig(up.Duration()*1e6, 6), present.Sig(up.Duration()*cfg.Ring.TrapHz(cfg.DepthHz), 2), strings.Join(outside, ", "))

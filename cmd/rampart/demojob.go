@@ -35,14 +35,14 @@ func (d *demo) requirements() (mc.Requirements, error) {
 }
 
 // inputs returns the demo's noise budget, spec and read-out.
-func (d *demo) inputs() (mc.Budget, mc.Requirements, readout, error) {
+func (d *demo) inputs() (mc.Budget, mc.Requirements, mc.Readout, error) {
 	budget, err := d.base.Budget()
 	if err != nil {
-		return mc.Budget{}, mc.Requirements{}, readout{}, err
+		return mc.Budget{}, mc.Requirements{}, mc.Readout{}, err
 	}
 	req, err := d.requirements()
 	if err != nil {
-		return mc.Budget{}, mc.Requirements{}, readout{}, err
+		return mc.Budget{}, mc.Requirements{}, mc.Readout{}, err
 	}
 	ro, err := readoutOptions{}.of(d.base)
 	return budget, req, ro, err
@@ -76,7 +76,7 @@ func (d *demo) qualifyWinner() error {
 	}
 	ramp := d.ranking.Ramps[d.winner]
 	q := mc.Qualify(d.recs[d.winner], req, ramp.Summary.ScaleFactorS, d.opts.seed)
-	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.gyro(ramp.Summary)}
+	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.Gyro(ramp.Summary)}
 	fmt.Fprintf(d.out, "3. The winner, %s, qualified against the spec %s on its %d realisations\n\n", ramp.Name, demoSpec, len(d.recs[d.winner]))
 	if err := present.PrintQualification(d.out, d.qualify); err != nil {
 		return err

@@ -109,7 +109,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		return printShardNote(stdout, o.ens, []string{""}, "qualify the merged ensemble")
 	}
 	q := mc.Qualify(run.records, req, run.manifest.ScaleFactorS, run.manifest.Seed)
-	rep := present.QualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.gyro(sum)}
+	rep := present.QualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.Gyro(sum)}
 	if dir != "" {
 		if err := present.WriteResults(dir, sum, run.records, req.Yield); err != nil {
 			return err

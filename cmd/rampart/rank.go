@@ -139,7 +139,7 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 // grid that serves them all), storing each in its subdirectory of the
 // options' directory if there is one, and ranks them by metric (not for a
 // shard, which ranks nothing). recs[i] holds contestant i's records.
-func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario.Contestant, budget mc.Budget, o ensembleOptions, metric string, spec mc.Spec, ro readout) (present.RankReport, [][]mc.Record, ensembleWork, error) {
+func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario.Contestant, budget mc.Budget, o ensembleOptions, metric string, spec mc.Spec, ro mc.Readout) (present.RankReport, [][]mc.Record, ensembleWork, error) {
 	var work ensembleWork
 	cfgs := make([]sim.Config, len(cs))
 	for i, c := range cs {
@@ -170,7 +170,7 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario
 		rep.Ramps[i] = present.RampReport{
 			Name: c.Name, Spec: c.Spec, RampUpS: c.Config.Sequence.Up.Duration(), Dir: dir,
 			ContrastMean: sum.Contrast.Mean, AbsBiasP95Rad: sum.AbsBiasRad.P95, AbsBiasP95DegPerH: present.AbsBiasP95DegPerH(sum),
-			Summary: sum, Gyro: ro.gyro(sum),
+			Summary: sum, Gyro: ro.Gyro(sum),
 		}
 	}
 	if o.shard != "" {

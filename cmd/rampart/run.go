@@ -108,7 +108,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 		return err
 	}
 	fmt.Fprintln(stdout)
-	g := ro.gyro(sum)
+	g := ro.Gyro(sum)
 	if err := present.GyroGrid(sum, g).Render(stdout); err != nil {
 		return err
 	}
@@ -119,7 +119,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 }
 
 // writeRunReport writes the report of an ensemble run.
-func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario, run *ensembleRun, budget mc.Budget, sum mc.Summary, spec mc.Spec, ro readout) error {
+func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario, run *ensembleRun, budget mc.Budget, sum mc.Summary, spec mc.Spec, ro mc.Readout) error {
 	cfg := run.realiser.Config()
 	r := newReport(e, "Monte Carlo ensemble of "+cfg.Sequence.Up.Name()+" on "+sc.Name, sc, scenarioText(o.scenario), o.sets, run.manifest.Seed)
 	name := cfg.Sequence.Up.Name()
@@ -135,7 +135,7 @@ func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario
 	if err != nil {
 		return err
 	}
-	ens.Tables = append(ens.Tables, present.GyroGrid(sum, ro.gyro(sum)).Table())
+	ens.Tables = append(ens.Tables, present.GyroGrid(sum, ro.Gyro(sum)).Table())
 	r.Sections = append(r.Sections, drive, dyn, ens)
 	return writeReport(stderr, r, o.report)
 }
