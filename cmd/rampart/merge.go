@@ -18,7 +18,9 @@ type mergeOptions struct {
 	json        bool
 }
 
-func newMergeCmd(e env) *cobra.Command {
+// newMergeCmd returns the command; run is what it runs with the parsed
+// options (runMerge outside tests).
+func newMergeCmd(e env, run func(e env, stdout, stderr io.Writer, dirs []string, o mergeOptions) error) *cobra.Command {
 	var o mergeOptions
 	cmd := &cobra.Command{
 		Use:   "merge DIR... [--out DIR]",
@@ -30,7 +32,7 @@ summary and histograms. Every realisation must be present exactly once, and the
 shards must share the scenario, seed, sample count and sampler.`,
 		Args: cobra.MinimumNArgs(1),
 		RunE: func(cmd *cobra.Command, dirs []string) error {
-			return runMerge(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), dirs, o)
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), dirs, o)
 		},
 	}
 	f := cmd.Flags()

@@ -21,7 +21,9 @@ type qualifyOptions struct {
 	readout readoutOptions
 }
 
-func newQualifyCmd(e env) *cobra.Command {
+// newQualifyCmd returns the command; run is what it runs with the parsed
+// options (runQualify outside tests).
+func newQualifyCmd(e env, run func(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiven bool) error) *cobra.Command {
 	var o qualifyOptions
 	cmd := &cobra.Command{
 		Use:   "qualify --scenario FILE --spec SPEC.toml",
@@ -43,7 +45,7 @@ qualification.json; --resume DIR continues it.
 qualify the merged ensemble.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			return runQualify(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
 		},
 	}
 	o.add(cmd, 1000, "the qualification")

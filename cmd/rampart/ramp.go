@@ -17,7 +17,9 @@ type rampOptions struct {
 	out      string
 }
 
-func newRampCmd(e env) *cobra.Command {
+// newRampCmd returns the command; run is what it runs with the parsed
+// options (runRamp outside tests).
+func newRampCmd(e env, run func(stdout, stderr io.Writer, o rampOptions) error) *cobra.Command {
 	var o rampOptions
 	cmd := &cobra.Command{
 		Use:   "ramp --scenario FILE",
@@ -28,7 +30,7 @@ times, the laps and whether the arms close. With --out, write the whole
 sequence's speed Omega(t) and angle phi(t) as CSV.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			return runRamp(cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
+			return run(cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
 		},
 	}
 	addScenarioFlags(cmd, &o.scenario, &o.sets)

@@ -24,7 +24,9 @@ type rankOptions struct {
 	readout     readoutOptions
 }
 
-func newRankCmd(e env) *cobra.Command {
+// newRankCmd returns the command; run is what it runs with the parsed
+// options (runRank outside tests).
+func newRankCmd(e env, run func(e env, stdout, stderr io.Writer, o rankOptions, files []string) error) *cobra.Command {
 	var o rankOptions
 	cmd := &cobra.Command{
 		Use:   "rank --scenario FILE --ramp NAME=SPEC... [SCENARIO...]",
@@ -54,7 +56,7 @@ runs and continues the others. --shard k/n runs slice k of every ramp into
 DIR/NAME and prints how to merge the slices and rank the merged set.`,
 		Args: cobra.ArbitraryArgs,
 		RunE: func(cmd *cobra.Command, files []string) error {
-			return runRank(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, files)
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, files)
 		},
 	}
 	o.add(cmd, 1000, "the ranking")

@@ -22,7 +22,9 @@ type runOptions struct {
 	readout     readoutOptions
 }
 
-func newRunCmd(e env) *cobra.Command {
+// newRunCmd returns the command; run is what it runs with the parsed
+// options (runRun outside tests).
+func newRunCmd(e env, run func(e env, stdout, stderr io.Writer, o runOptions) error) *cobra.Command {
 	var o runOptions
 	cmd := &cobra.Command{
 		Use:   "run --scenario FILE",
@@ -40,7 +42,7 @@ the ensemble for a cluster job array; rampart merge combines the slices.
 --report DIR writes a self-contained HTML report of the run.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			return runRun(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
 		},
 	}
 	addScenarioFlags(cmd, &o.scenario, &o.sets)

@@ -16,7 +16,9 @@ type sensitivityOptions struct {
 	base int
 }
 
-func newSensitivityCmd(e env) *cobra.Command {
+// newSensitivityCmd returns the command; run is what it runs with the parsed
+// options (runSensitivity outside tests).
+func newSensitivityCmd(e env, run func(e env, stdout, stderr io.Writer, o sensitivityOptions) error) *cobra.Command {
 	var o sensitivityOptions
 	cmd := &cobra.Command{
 		Use:   "sensitivity --scenario FILE [--base N]",
@@ -43,7 +45,7 @@ the indices of the merged design.`,
 			if cmd.Flags().Changed("samples") {
 				return fmt.Errorf("--samples does not apply to sensitivity: the design of --base N rows runs N (d + 2) shots for d inputs; give --base")
 			}
-			return runSensitivity(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
 		},
 	}
 	o.add(cmd, 1, "the indices and derivatives")

@@ -21,7 +21,9 @@ type shotOptions struct {
 	readout  readoutOptions
 }
 
-func newShotCmd(e env) *cobra.Command {
+// newShotCmd returns the command; run is what it runs with the parsed
+// options (runShot outside tests).
+func newShotCmd(e env, run func(e env, stdout, stderr io.Writer, o shotOptions) error) *cobra.Command {
 	var o shotOptions
 	cmd := &cobra.Command{
 		Use:   "shot --scenario FILE",
@@ -33,7 +35,7 @@ a rotation rate, the scale factor, each arm's ground-band population after the
 ramp-up, the per-level breakdown of a thermal start, and the numerics used.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			return runShot(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
 		},
 	}
 	addScenarioFlags(cmd, &o.scenario, &o.sets)

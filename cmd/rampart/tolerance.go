@@ -24,7 +24,9 @@ type toleranceOptions struct {
 	precision float64
 }
 
-func newToleranceCmd(e env) *cobra.Command {
+// newToleranceCmd returns the command; run is what it runs with the parsed
+// options (runTolerance outside tests).
+func newToleranceCmd(e env, run func(e env, stdout, stderr io.Writer, o toleranceOptions, confidenceGiven bool) error) *cobra.Command {
 	var o toleranceOptions
 	cmd := &cobra.Command{
 		Use:   "tolerance --scenario FILE --spec SPEC.toml",
@@ -52,7 +54,7 @@ them. --shard is refused: each step of the search needs the whole ensemble of
 the step before.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			return runTolerance(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
 		},
 	}
 	o.add(cmd, 200, "the tolerances and their curves")
