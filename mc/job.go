@@ -71,6 +71,12 @@ func (j Job) Manifest() Manifest {
 	}
 }
 
+// Summarise summarises records of the run m describes: their seed, Sagnac
+// phase and scale factor come from the manifest (Summarise).
+func (m Manifest) Summarise(recs []Record, confidence float64, spec Spec) Summary {
+	return Summarise(recs, m.Seed, m.SagnacRad, m.ScaleFactorS, confidence, spec)
+}
+
 func (j Job) records() int {
 	if j.Records > 0 {
 		return j.Records

@@ -261,3 +261,15 @@ func (s Source) On(b Budget) bool {
 	}
 	return *s.PSD(&b) != nil
 }
+
+// ActiveSources returns the keys of the sources budget b switches on, in
+// the order of SourceKeys.
+func ActiveSources(b Budget) []string {
+	var out []string
+	for _, key := range SourceKeys() {
+		if s, _ := LookupSource(key); s.On(b) {
+			out = append(out, key)
+		}
+	}
+	return out
+}

@@ -123,6 +123,9 @@ func TestSourcesApply(t *testing.T) {
 		if got := *s.Sigma(ptr(b.Scaled(2))); got != 2e-9 {
 			t.Errorf("%s: Scaled(2) gives %g, want 2e-9", s.Key, got)
 		}
+		if got := ActiveSources(b); len(got) != 1 || got[0] != s.Key {
+			t.Errorf("%s: active sources %q, want only it", s.Key, got)
+		}
 		a, on := SourceAmplitude(s.Key, b, b)
 		if want := 1e-9 * s.Scale; !on || math.Abs(a-want) > 1e-15*want {
 			t.Errorf("%s: amplitude %g %s (on %v), want %g", s.Key, a, s.Unit, on, want)

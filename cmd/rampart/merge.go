@@ -56,7 +56,7 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	if err != nil {
 		return err
 	}
-	sum := present.Summarise(m, recs, o.confidence, spec)
+	sum := m.Summarise(recs, o.confidence, spec)
 	if o.out != "" {
 		if err := mc.WriteRun(o.out, m, recs); err != nil {
 			return err

@@ -102,7 +102,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	if err := checkRecords(run.records); err != nil {
 		return fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
-	sum := present.Summarise(run.manifest, run.records, req.Confidence, req.Yield)
+	sum := run.manifest.Summarise(run.records, req.Confidence, req.Yield)
 	dir := o.ens.dir()
 	if o.ens.shard != "" {
 		if err := present.WriteResults(dir, sum, run.records, req.Yield); err != nil {

@@ -162,7 +162,7 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario
 			return present.RankReport{}, nil, work, err
 		}
 		work.add(run)
-		sum := present.Summarise(run.manifest, run.records, o.confidence, spec)
+		sum := run.manifest.Summarise(run.records, o.confidence, spec)
 		if dir != "" {
 			if err := present.WriteResults(dir, sum, run.records, spec); err != nil {
 				return present.RankReport{}, nil, work, err

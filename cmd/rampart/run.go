@@ -88,7 +88,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err != nil {
 		return err
 	}
-	sum := present.Summarise(run.manifest, run.records, o.ens.confidence, spec)
+	sum := run.manifest.Summarise(run.records, o.ens.confidence, spec)
 	if dir := o.ens.dir(); dir != "" {
 		if err := present.WriteResults(dir, sum, run.records, spec); err != nil {
 			return err

@@ -206,12 +206,7 @@ func toleranceSources(b mc.Budget, list string) ([]string, error) {
 		}
 		return out, nil
 	}
-	var out []string
-	for _, name := range mc.SourceKeys() {
-		if _, on := mc.SourceAmplitude(name, b, b); on {
-			out = append(out, name)
-		}
-	}
+	out := mc.ActiveSources(b)
 	if len(out) == 0 {
 		return nil, fmt.Errorf("the noise budget has no active source: give --sources to search some from their reference amplitudes")
 	}

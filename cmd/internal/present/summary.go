@@ -10,10 +10,6 @@ import (
 	"rampart/mc"
 )
 
-func Summarise(m mc.Manifest, recs []mc.Record, confidence float64, spec mc.Spec) mc.Summary {
-	return mc.Summarise(recs, m.Seed, m.SagnacRad, m.ScaleFactorS, confidence, spec)
-}
-
 // WriteResults writes the summary and the histograms of an ensemble to dir.
 func WriteResults(dir string, sum mc.Summary, recs []mc.Record, spec mc.Spec) error {
 	if err := outfile.Write(filepath.Join(dir, SummaryFile), func(w io.Writer) error { return WriteJSON(w, sum) }); err != nil {
