@@ -7,31 +7,6 @@ import (
 	"rampart/noise"
 )
 
-// Budget is the hardware noise a Monte Carlo ensemble draws from, in SI
-// units. A zero field switches its source off.
-type Budget struct {
-	// Static, shot-to-shot errors (standard deviations of normal draws).
-	DepthCommonRel       float64 // relative depth error common to both spin states
-	DepthDifferentialRel float64 // relative depth difference eps_+ - eps_- between the spin states
-	ClockRel             float64 // waveform time-base error kappa: the profile plays (1+kappa) faster
-	SpeedRel             float64 // drive-frequency scale error: speeds and angles scale by (1+k)
-	SkewS                float64 // delay of the s = -1 arm's drive after the s = +1 arm's
-	TemperatureSpreadK   float64 // shot-to-shot spread of the start temperature (clamped at 0 K)
-	PulseAreaRel         float64 // relative area error of each pi/2 pulse, independent
-
-	// Noise during the shot.
-	// RIN is the one-sided PSD of the relative intensity noise eps(t) in
-	// 1/Hz, common to both spin states (one laser); nil: none.
-	RIN     noise.PSD
-	RINBand noise.Band
-	// Phase is the one-sided PSD S_alpha(f) in rad^2/Hz of each arm's drive
-	// phase; the lattice angle moves by alpha/N. nil: none.
-	Phase noise.PSD
-	// PhaseCorrelation is the correlation coefficient of the two arms'
-	// drive phase noise, in [-1, 1].
-	PhaseCorrelation float64
-}
-
 // Param is one static parameter drawn per realisation: value = Sigma * x,
 // x standard normal.
 type Param struct {
@@ -69,8 +44,16 @@ func (b Budget) Params() []Param {
 	return out
 }
 
-// Dynamic reports whether any noise source changes during a shot.
-func (b Budget) Dynamic() bool { return b.RIN != nil || b.Phase != nil }
+// Dynamic reports whether any noise source changes during a shot: whether
+// b switches on a Process row of Sources.
+func (b Budget) Dynamic() bool {
+	for _, s := range Sources {
+		if s.Kind == Process && s.On(b) {
+			return true
+		}
+	}
+	return false
+}
 
 // Validate checks that every amplitude is finite and non-negative.
 func (b Budget) Validate() error {

@@ -7,6 +7,33 @@ import (
 	"rampart/sim"
 )
 
+// Budget is the hardware noise a Monte Carlo ensemble draws from, in SI
+// units. A zero field switches its source off. Each field is a row's of
+// Sources (its Sigma or PSD points at it), and lives beside the table so
+// that a new static source is a field here and a row below.
+type Budget struct {
+	// Static, shot-to-shot errors (standard deviations of normal draws).
+	DepthCommonRel       float64 // relative depth error common to both spin states
+	DepthDifferentialRel float64 // relative depth difference eps_+ - eps_- between the spin states
+	ClockRel             float64 // waveform time-base error kappa: the profile plays (1+kappa) faster
+	SpeedRel             float64 // drive-frequency scale error: speeds and angles scale by (1+k)
+	SkewS                float64 // delay of the s = -1 arm's drive after the s = +1 arm's
+	TemperatureSpreadK   float64 // shot-to-shot spread of the start temperature (clamped at 0 K)
+	PulseAreaRel         float64 // relative area error of each pi/2 pulse, independent
+
+	// Noise during the shot.
+	// RIN is the one-sided PSD of the relative intensity noise eps(t) in
+	// 1/Hz, common to both spin states (one laser); nil: none.
+	RIN     noise.PSD
+	RINBand noise.Band
+	// Phase is the one-sided PSD S_alpha(f) in rad^2/Hz of each arm's drive
+	// phase; the lattice angle moves by alpha/N. nil: none.
+	Phase noise.PSD
+	// PhaseCorrelation is the correlation coefficient of the two arms'
+	// drive phase noise, in [-1, 1].
+	PhaseCorrelation float64
+}
+
 // Kind is how a perturbation source enters a shot.
 type Kind int
 

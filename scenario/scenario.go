@@ -28,6 +28,13 @@ type Scenario struct {
 	Noise    Noise
 	Readout  Readout
 
+	// SourceNoise holds, by scenario key and in file units, the sigmas of
+	// the static sources of mc.Sources that Noise has no field for: their
+	// keys are made from the table (keys.go), so that adding a source
+	// needs no change here. Empty (and absent from the fingerprint) unless
+	// the file sets one.
+	SourceNoise map[string]float64 `json:",omitempty"`
+
 	fsys fs.FS // where File and PhaseTable are read; nil: the operating system
 }
 

@@ -215,7 +215,7 @@ func (rep *ShotReport) Print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	if err := t.Render(); err != nil {
 		return err
 	}
-	if sc.Noise != (scenario.Noise{}) {
+	if sc.Noise != (scenario.Noise{}) || len(sc.SourceNoise) > 0 {
 		fmt.Fprintln(w, "\nNote: the scenario's [noise.*] tables describe an ensemble; this shot is noise-free.")
 	}
 	if sc.Thermal() {
