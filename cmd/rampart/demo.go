@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"io"
-	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -168,66 +167,5 @@ func (d *demo) compareRamps() error {
 		names = append(names, dr.name)
 		d.cs = append(d.cs, scenario.Contestant{Name: dr.name, Spec: "demo ramp " + dr.name, Scenario: sc, Config: c})
 	}
-	w := d.out
-	fmt.Fprintf(w, "rampart demo: the built-in scenario %s\n%s\n\n", d.base.Name, present.Describe(d.base, cfg, strings.Join(names, ", ")+" ramps"))
-	if story := d.story(); story != "" {
-		fmt.Fprintf(w, "%s\n\n", story)
-	}
-
-	fmt.Fprintln(w, "1. One noise-free shot of each ramp")
-	header := append([]string{"Quantity"}, names...)
-	t := present.NewTable(w, append(header, "Unit")...)
-	row := func(label, unit string, value func(r present.ShotRun) string) {
-		cells := []string{label}
-		for _, r := range runs {
-			cells = append(cells, value(r))
-		}
-		t.Append(append(cells, unit))
-	}
-	row("Contrast C = |z|", "", func(r present.ShotRun) string { return present.Fixed(r.Result.Contrast, 5) })
-	row("Ground band after ramp-up, arm s = +1", "", func(r present.ShotRun) string { return present.Fixed(r.Result.GroundAfterRampUp[0], 5) })
-	row("Ground band after ramp-up, arm s = -1", "", func(r present.ShotRun) string { return present.Fixed(r.Result.GroundAfterRampUp[1], 5) })
-	row("Interferometer phase arg z", "rad", func(r present.ShotRun) string { return present.Sci(r.Result.PhaseRad, 7) })
-	row("Sagnac phase", "rad", func(r present.ShotRun) string { return present.Sci(r.Result.SagnacRad, 7) })
-	row("Bias b = phase - Sagnac phase", "rad", func(r present.ShotRun) string { return present.Sci(r.Result.BiasRad, 3) })
-	row("Bias as a rotation rate b / K", "deg/h", func(r present.ShotRun) string { return present.Sci(r.Result.BiasDegPerH, 3) })
-	row("Peak speed max |Omega|", "rad/s", func(r present.ShotRun) string {
-		peak, _ := sim.PeakSpeed(r.Config.Sequence.Up)
-		return present.Sig(peak, 5)
-	})
-	row("Speed reverses (throw and catch)", "", func(r present.ShotRun) string {
-		_, rev := sim.PeakSpeed(r.Config.Sequence.Up)
-		return present.YesNo(rev)
-	})
-	row("Elapsed (one shot)", "ms", func(r present.ShotRun) string { return present.Sig(r.Elapsed.Seconds()*1e3, 3) })
-	if err := t.Render(); err != nil {
-		return err
-	}
-
-	up := runs[0].Config.Sequence.Up
-	var outside []string
-	for _, r := range runs {
-		outside = append(outside, fmt.Sprintf("%s %s %%", names[len(outside)], present.Sig(100*(1-r.Result.GroundAfterRampUp[0]), 2)))
-	}
-	fmt.Fprintf(w, "\nA ramp-up of %s us is %s trap periods. Left outside the moving ground band after it: %s.\n",
-		present.Sig(up.Duration()*1e6, 6), present.Sig(up.Duration()*cfg.Ring.TrapHz(cfg.DepthHz), 2), strings.Join(outside, ", "))
-	return nil
-}
-
-// story returns the leading comment of the demo scenario, which tells the
-// demo's invented lab story.
-func (d *demo) story() string {
-	data, err := d.base.ReadFile(d.base.Name)
-	if err != nil {
-		return ""
-	}
-	var lines []string
-	for _, line := range strings.Split(string(data), "\n") {
-		text, ok := strings.CutPrefix(line, "#")
-		if !ok {
-			break
-		}
-		lines = append(lines, strings.TrimPrefix(text, " "))
-	}
-	return strings.TrimSpace(strings.Join(lines, "\n"))
+	return present.PrintRampComparison(d.out, d.base, cfg, names, runs)
 }

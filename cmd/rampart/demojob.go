@@ -65,7 +65,7 @@ func (d *demo) rank() error {
 	w := d.out
 	fmt.Fprintf(w, "2. The three ramps under the noise budget, ranked by the 5th-percentile contrast\n")
 	fmt.Fprintf(w, "Noise budget: %s\n", present.BudgetLine(budget))
-	fmt.Fprintf(w, "%s\n\n", work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(d.cs), o.samples), o))
+	fmt.Fprintf(w, "%s\n\n", work.Line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(d.cs), o.samples), o.seed, o.sampler, o.shard))
 	return present.RankingGrid(rep).RenderNoted(w, present.RankingNotes(rep))
 }
 
@@ -107,7 +107,7 @@ func (d *demo) tolerances() error {
 	rep.Spec = demoSpec
 	d.tol = rep
 	fmt.Fprintf(d.out, "4. Hardware tolerances for %s: the largest amplitude of each source (the others as budgeted) at which the spec still holds\n", c.Name)
-	fmt.Fprintf(d.out, "%s\n\n", work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.samples), o))
+	fmt.Fprintf(d.out, "%s\n\n", work.Line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.samples), o.seed, o.sampler, o.shard))
 	return present.ToleranceGrid(rep).RenderNoted(d.out, present.ToleranceNotes(rep))
 }
 

@@ -108,7 +108,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		if err := present.WriteResults(dir, sum, run.records, req.Yield); err != nil {
 			return err
 		}
-		return printShardNote(stdout, o.ens, []string{""}, "qualify the merged ensemble")
+		return present.PrintShardNote(stdout, o.ens.shard, o.ens.dir(), []string{""}, "qualify the merged ensemble")
 	}
 	q := mc.Qualify(run.records, req, run.manifest.ScaleFactorS, run.manifest.Seed)
 	rep := present.QualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.Gyro(sum)}
@@ -124,7 +124,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	cfg = run.realiser.Config()
 	ramp, specLine := cfg.Sequence.Up.Name()+" ramp", "Spec: "+o.spec
 	if o.report != "" {
-		if err := writeQualifyReport(e, stderr, o, sc, run, rep, req.Yield, present.SetupText(sc, cfg, ramp, budget, ensembleLine(run, o.ens), specLine)); err != nil {
+		if err := writeQualifyReport(e, stderr, o, sc, run, rep, req.Yield, present.SetupText(sc, cfg, ramp, budget, present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed), specLine)); err != nil {
 			return err
 		}
 	}
@@ -133,7 +133,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 			return err
 		}
 	} else {
-		present.PrintHeader(stdout, sc, cfg, ramp, budget, ensembleLine(run, o.ens), specLine)
+		present.PrintHeader(stdout, sc, cfg, ramp, budget, present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed), specLine)
 		if err := present.PrintQualification(stdout, rep); err != nil {
 			return err
 		}

@@ -109,7 +109,7 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 		for i, c := range cs {
 			names[i] = c.Name
 		}
-		return printShardNote(stdout, o.ens, names, "rank the merged set")
+		return present.PrintShardNote(stdout, o.ens.shard, o.ens.dir(), names, "rank the merged set")
 	}
 	if dir := o.ens.dir(); dir != "" {
 		if err := present.WriteRanking(dir, rep); err != nil {
@@ -122,7 +122,7 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 		ramps = append(ramps, fmt.Sprintf("%s = %s (%s us)", r.Name, present.RampDefinition(r), present.Sig(r.RampUpS*1e6, 6)))
 	}
 	rampsLine := "Ramps: " + strings.Join(ramps, ", ")
-	workLine := work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(cs), o.ens.samples), o.ens)
+	workLine := work.Line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(cs), o.ens.samples), o.ens.seed, o.ens.sampler, o.ens.shard)
 	what := fmt.Sprintf("%d ramps", len(cs))
 	if o.report != "" {
 		if err := writeRankReport(e, stderr, o, sc, cs, recs, rep, spec, present.SetupText(sc, cfg, what, budget, rampsLine, workLine)); err != nil {
@@ -141,8 +141,8 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 // grid that serves them all), storing each in its subdirectory of the
 // options' directory if there is one, and ranks them by metric (not for a
 // shard, which ranks nothing). recs[i] holds contestant i's records.
-func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario.Contestant, budget mc.Budget, o ensembleOptions, metric string, spec mc.Spec, ro mc.Readout) (present.RankReport, [][]mc.Record, ensembleWork, error) {
-	var work ensembleWork
+func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario.Contestant, budget mc.Budget, o ensembleOptions, metric string, spec mc.Spec, ro mc.Readout) (present.RankReport, [][]mc.Record, present.Work, error) {
+	var work present.Work
 	cfgs := make([]sim.Config, len(cs))
 	for i, c := range cs {
 		cfgs[i] = c.Config
@@ -161,7 +161,7 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario
 		if err != nil {
 			return present.RankReport{}, nil, work, err
 		}
-		work.add(run)
+		work.Add(run.fresh, len(run.records), run.elapsed)
 		sum := run.manifest.Summarise(run.records, o.confidence, spec)
 		if dir != "" {
 			if err := present.WriteResults(dir, sum, run.records, spec); err != nil {

@@ -105,7 +105,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	}
 	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, present.Describe(sc, run.realiser.Config(), run.realiser.Config().Sequence.Up.Name()+" ramp"))
 	fmt.Fprintf(stdout, "Noise budget: %s\n", present.BudgetLine(budget))
-	fmt.Fprintf(stdout, "%s\n\n", ensembleLine(run, o.ens))
+	fmt.Fprintf(stdout, "%s\n\n", present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed))
 	if err := present.PrintSummary(stdout, sum); err != nil {
 		return err
 	}
@@ -133,29 +133,11 @@ func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario
 	if err != nil {
 		return err
 	}
-	ens, err := present.EnsembleSection("Ensemble", "ensemble-", sum, run.records, spec, present.SetupText(sc, cfg, name+" ramp", budget, ensembleLine(run, o.ens)))
+	ens, err := present.EnsembleSection("Ensemble", "ensemble-", sum, run.records, spec, present.SetupText(sc, cfg, name+" ramp", budget, present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed)))
 	if err != nil {
 		return err
 	}
 	ens.Tables = append(ens.Tables, present.GyroGrid(sum, ro.Gyro(sum)).Table())
 	r.Sections = append(r.Sections, drive, dyn, ens)
 	return writeReport(stderr, r, o.report)
-}
-
-// ensembleLine says how the ensemble was drawn and how long it took.
-func ensembleLine(run *ensembleRun, o ensembleOptions) string {
-	m := run.manifest
-	s := fmt.Sprintf("Ensemble: %d realisations, seed %d, %s sampler", len(run.records), m.Seed, m.Sampler)
-	if m.Shard != nil {
-		from, to := m.Range()
-		s += fmt.Sprintf(", shard %d/%d (realisations %d to %d of %d; merge the shards for the whole ensemble)", m.Shard.Index, m.Shard.Count, from, to-1, m.Samples)
-	}
-	if run.fresh > 0 {
-		el, unit := present.Duration(run.elapsed)
-		s += fmt.Sprintf("; %d simulated in %s %s", run.fresh, el, unit)
-		if len(run.records) > run.fresh {
-			s += fmt.Sprintf(", %d resumed", len(run.records)-run.fresh)
-		}
-	}
-	return s
 }

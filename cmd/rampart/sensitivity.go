@@ -97,7 +97,7 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 		return err
 	}
 	if o.ens.shard != "" {
-		return printShardNote(stdout, o.ens, []string{""}, "compute the indices of the merged design")
+		return present.PrintShardNote(stdout, o.ens.shard, o.ens.dir(), []string{""}, "compute the indices of the merged design")
 	}
 	if err := checkRecords(run.records); err != nil {
 		return fmt.Errorf("scenario %q: %w", sc.Name, err)
@@ -117,10 +117,10 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 		fmt.Fprintf(stderr, "wrote %d shots, %s and the bar charts to %s\n", len(run.records), present.SensitivityFile, dir)
 	}
 	cfg, ramp := r.Config(), r.Config().Sequence.Up.Name()+" ramp"
-	var work ensembleWork
-	work.add(run)
+	var work present.Work
+	work.Add(run.fresh, len(run.records), run.elapsed)
 	what := fmt.Sprintf("Saltelli design of %d base rows x (%d inputs + 2) = %d shots", o.base, len(rep.Inputs), rep.Shots)
-	designLine := strings.Replace(work.line(what, o.ens), "Ensembles: ", "Design: ", 1)
+	designLine := strings.Replace(work.Line(what, o.ens.seed, o.ens.sampler, o.ens.shard), "Ensembles: ", "Design: ", 1)
 	if o.report != "" {
 		sens, err := present.SensitivitySection(rep)
 		if err != nil {

@@ -73,8 +73,8 @@ the step before.`,
 // amplitude an ensemble of the options' size on common random numbers (one
 // noise grid sized for the widest search), kept in a subdirectory
 // SOURCE/AMPLITUDE of the options' directory if there is one.
-func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (present.ToleranceReport, ensembleWork, error) {
-	var work ensembleWork
+func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (present.ToleranceReport, present.Work, error) {
+	var work present.Work
 	if n := mc.MinYieldSamples(req); o.samples < n {
 		return present.ToleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot show a yield of at least %g with %g %% confidence even if every one is inside (the exact lower bound for n of n is (1-c)^(1/n)); give at least %d",
 			o.samples, req.YieldMin, 100*req.Confidence, n)
@@ -97,7 +97,7 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 			if err != nil {
 				return nil, err
 			}
-			work.add(run)
+			work.Add(run.fresh, len(run.records), run.elapsed)
 			return run.records, checkRecords(run.records)
 		}
 	}
@@ -165,7 +165,7 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 		fmt.Fprintf(stderr, "wrote %s, a figure per source and every ensemble of the search to %s\n", present.ToleranceCurvesFile, dir)
 	}
 	ramp := cfg.Sequence.Up.Name() + " ramp"
-	workLine := work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens)
+	workLine := work.Line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens.seed, o.ens.sampler, o.ens.shard)
 	specLine := fmt.Sprintf("Spec: %s, at %s %% confidence", o.spec, present.Sig(100*req.Confidence, 3))
 	if o.report != "" {
 		tol, err := present.ToleranceSection(rep)
