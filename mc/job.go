@@ -139,6 +139,18 @@ func (j Job) Execute(ctx context.Context) (*JobResult, error) {
 	return res, err
 }
 
+// CheckDecidable refuses records whose contrast or bias is not a number
+// (a shot whose arms do not overlap at all has no phase), on which no
+// statistic can be decided.
+func CheckDecidable(recs []Record) error {
+	for _, r := range recs {
+		if r.Contrast != r.Contrast || r.BiasRad != r.BiasRad {
+			return fmt.Errorf("realisation %d has contrast %g and bias %g rad: no statistic is defined over it; the noise budget is too large for this sequence", r.Index, r.Contrast, r.BiasRad)
+		}
+	}
+	return nil
+}
+
 // NoiseGrid is the noise grid that ensembles compared on common random
 // numbers share (Ensemble.NoiseStepS and NoiseDurationS).
 type NoiseGrid struct {

@@ -9,6 +9,7 @@ import (
 
 	"rampart/mc"
 	"rampart/noise"
+	"rampart/sim"
 )
 
 // Budget returns the Monte Carlo noise budget of the scenario's [noise.*]
@@ -50,6 +51,20 @@ func (sc *Scenario) Budget() (mc.Budget, error) {
 		return mc.Budget{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
 	return b, nil
+}
+
+// LoadBudget reads the scenario file at path with its overrides and
+// returns it with its simulation configuration and its noise budget.
+func LoadBudget(path string, sets []string) (*Scenario, sim.Config, mc.Budget, error) {
+	sc, cfg, err := LoadConfig(path, sets)
+	if err != nil {
+		return nil, sim.Config{}, mc.Budget{}, err
+	}
+	budget, err := sc.Budget()
+	if err != nil {
+		return nil, sim.Config{}, mc.Budget{}, err
+	}
+	return sc, cfg, budget, nil
 }
 
 // Fingerprint identifies what a scenario simulates: the effective values

@@ -58,21 +58,7 @@ func (o *decisionOptions) validate() error {
 
 // load reads the scenario, its configuration and its noise budget.
 func (o *decisionOptions) load() (*scenario.Scenario, sim.Config, mc.Budget, error) {
-	return loadWithBudget(o.scenario, o.sets)
-}
-
-// loadWithBudget reads a scenario, its simulation configuration and its
-// noise budget.
-func loadWithBudget(path string, sets []string) (*scenario.Scenario, sim.Config, mc.Budget, error) {
-	sc, cfg, err := scenario.LoadConfig(path, sets)
-	if err != nil {
-		return nil, sim.Config{}, mc.Budget{}, err
-	}
-	budget, err := sc.Budget()
-	if err != nil {
-		return nil, sim.Config{}, mc.Budget{}, err
-	}
-	return sc, cfg, budget, nil
+	return scenario.LoadBudget(o.scenario, o.sets)
 }
 
 // writeDecisionReport writes the report of a decision command: the drive

@@ -99,7 +99,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	if err != nil {
 		return err
 	}
-	if err := checkRecords(run.records); err != nil {
+	if err := mc.CheckDecidable(run.records); err != nil {
 		return fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
 	sum := run.manifest.Summarise(run.records, req.Confidence, req.Yield)
@@ -142,18 +142,6 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		return nil
 	}
 	return &exitError{code: q.ExitCode(), err: fmt.Errorf("%s against spec %q: %s", q.Verdict, o.spec, strings.Join(present.Deciding(q), "; "))}
-}
-
-// checkRecords refuses records whose contrast or bias is not a number (a
-// shot whose arms do not overlap at all has no phase), on which no
-// statistic can be decided.
-func checkRecords(recs []mc.Record) error {
-	for _, r := range recs {
-		if r.Contrast != r.Contrast || r.BiasRad != r.BiasRad {
-			return fmt.Errorf("realisation %d has contrast %g and bias %g rad: no statistic is defined over it; the noise budget is too large for this sequence", r.Index, r.Contrast, r.BiasRad)
-		}
-	}
-	return nil
 }
 
 // writeQualifyReport writes the report of a qualification: the drive and

@@ -74,7 +74,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err != nil {
 		return err
 	}
-	sc, cfg, budget, err := loadWithBudget(o.scenario, o.sets)
+	sc, cfg, budget, err := scenario.LoadBudget(o.scenario, o.sets)
 	if err != nil {
 		return err
 	}

@@ -99,7 +99,7 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	if o.ens.shard != "" {
 		return present.PrintShardNote(stdout, o.ens.shard, o.ens.dir(), []string{""}, "compute the indices of the merged design")
 	}
-	if err := checkRecords(run.records); err != nil {
+	if err := mc.CheckDecidable(run.records); err != nil {
 		return fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
 	indices, err := design.Indices(run.records, o.ens.confidence)

@@ -98,7 +98,7 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 				return nil, err
 			}
 			work.Add(run.fresh, len(run.records), run.elapsed)
-			return run.records, checkRecords(run.records)
+			return run.records, mc.CheckDecidable(run.records)
 		}
 	}
 	rep := present.ToleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS}
