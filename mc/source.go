@@ -69,8 +69,11 @@ type Source struct {
 	// Unit is the lab unit of tables and reports. A static amplitude in SI
 	// times Scale is in Unit; a process amplitude is a white floor's level
 	// in Unit (Level converts a one-sided PSD level to it, FromLevel back).
-	Unit      string
-	Scale     float64
+	Unit  string
+	Scale float64
+	// SIUnit is the unit of a static source's SI amplitude, "s", or
+	// "1 (relative)" for a relative error (local derivatives are per it).
+	SIUnit    string
 	Level     func(psd float64) float64
 	FromLevel func(level float64) float64
 
@@ -153,6 +156,9 @@ const (
 	maxTemperatureK  = 1e-6  // far above a lattice-loaded start
 )
 
+// relative is the SI unit of a relative error.
+const relative = "1 (relative)"
+
 // model is the section of the model document every source cites.
 const model = "docs/model.md, Perturbations: "
 
@@ -165,7 +171,7 @@ var Sources = []Source{
 	{
 		Key: ParamDepthCommon, Meaning: "relative depth error common to both spin states",
 		Scenario: "noise.depth.common_rel", FileScale: 1,
-		Unit: "%", Scale: 100, Kind: Static, Inputs: []string{ParamDepthCommon},
+		Unit: "%", Scale: 100, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthCommon},
 		Sigma: func(b *Budget) *float64 { return &b.DepthCommonRel },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.DepthRel[0] += v; sh.DepthRel[1] += v },
 		Ref:   RefDepthRel, Max: maxRelativeSigma,
@@ -174,7 +180,7 @@ var Sources = []Source{
 	{
 		Key: ParamDepthDifferential, Meaning: "relative depth difference eps_+ - eps_- between the spin states",
 		Scenario: "noise.depth.differential_rel", FileScale: 1,
-		Unit: "%", Scale: 100, Kind: Static, Inputs: []string{ParamDepthDifferential},
+		Unit: "%", Scale: 100, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthDifferential},
 		Sigma: func(b *Budget) *float64 { return &b.DepthDifferentialRel },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.DepthRel[0] += v / 2; sh.DepthRel[1] -= v / 2 },
 		Ref:   RefDepthRel, Max: maxRelativeSigma,
@@ -201,7 +207,7 @@ var Sources = []Source{
 	{
 		Key: ParamClock, Meaning: "waveform time-base error kappa: the profile plays (1+kappa) faster",
 		Scenario: "noise.timing.clock_ppm", FileScale: 1e-6,
-		Unit: "ppm", Scale: 1e6, Kind: Static, Inputs: []string{ParamClock},
+		Unit: "ppm", Scale: 1e6, SIUnit: relative, Kind: Static, Inputs: []string{ParamClock},
 		Sigma: func(b *Budget) *float64 { return &b.ClockRel },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.ClockRel = v },
 		Ref:   RefClockRel, Max: maxRateSigma,
@@ -210,7 +216,7 @@ var Sources = []Source{
 	{
 		Key: ParamSpeed, Meaning: "drive-frequency scale error: speeds and angles scale by (1+k)",
 		Scenario: "noise.timing.speed_ppm", FileScale: 1e-6,
-		Unit: "ppm", Scale: 1e6, Kind: Static, Inputs: []string{ParamSpeed},
+		Unit: "ppm", Scale: 1e6, SIUnit: relative, Kind: Static, Inputs: []string{ParamSpeed},
 		Sigma: func(b *Budget) *float64 { return &b.SpeedRel },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.SpeedRel = v },
 		Ref:   RefSpeedRel, Max: maxRateSigma,
@@ -219,7 +225,7 @@ var Sources = []Source{
 	{
 		Key: ParamSkew, Meaning: "delay of the s = -1 arm's drive after the s = +1 arm's",
 		Scenario: "noise.timing.skew_ns", FileScale: 1e-9,
-		Unit: "ns", Scale: 1e9, Kind: Static, Inputs: []string{ParamSkew},
+		Unit: "ns", Scale: 1e9, SIUnit: "s", Kind: Static, Inputs: []string{ParamSkew},
 		Sigma: func(b *Budget) *float64 { return &b.SkewS },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.SkewS = v },
 		Ref:   RefSkewS, Max: maxSkewS,
@@ -228,7 +234,7 @@ var Sources = []Source{
 	{
 		Key: SourceTemperature, Meaning: "shot-to-shot spread of the start temperature (clamped at 0 K)",
 		Scenario: "noise.temperature.spread_nk", FileScale: 1e-9,
-		Unit: "nK", Scale: 1e9, Kind: Static, Inputs: []string{ParamTemperature},
+		Unit: "nK", Scale: 1e9, SIUnit: "K", Kind: Static, Inputs: []string{ParamTemperature},
 		Sigma: func(b *Budget) *float64 { return &b.TemperatureSpreadK },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.TemperatureOffsetK = v },
 		Ref:   RefTemperatureK, Max: maxTemperatureK,
@@ -237,7 +243,7 @@ var Sources = []Source{
 	{
 		Key: SourcePulse, Meaning: "relative area error of each pi/2 pulse, independent",
 		Scenario: "noise.pulses.area_rel", FileScale: 1,
-		Unit: "%", Scale: 100, Kind: Static, Inputs: []string{ParamPulse1, ParamPulse2},
+		Unit: "%", Scale: 100, SIUnit: relative, Kind: Static, Inputs: []string{ParamPulse1, ParamPulse2},
 		Sigma: func(b *Budget) *float64 { return &b.PulseAreaRel },
 		Apply: func(sh *sim.Shot, i int, v float64) { sh.PulseAreaRel[i] = v },
 		Ref:   RefPulseAreaRel, Max: maxRelativeSigma,
@@ -279,6 +285,19 @@ func LookupSource(key string) (Source, bool) {
 		}
 	}
 	return Source{}, false
+}
+
+// InputUnit returns the SI unit of a drawn input of a static source (a
+// name of Inputs), and whether there is such an input.
+func InputUnit(input string) (string, bool) {
+	for _, s := range Sources {
+		for _, in := range s.Inputs {
+			if in == input {
+				return s.SIUnit, true
+			}
+		}
+	}
+	return "", false
 }
 
 // On reports whether budget b switches the source on.

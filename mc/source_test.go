@@ -44,8 +44,8 @@ func TestSourcesComplete(t *testing.T) {
 		}
 		switch s.Kind {
 		case Static:
-			if s.Scale == 0 || s.FileScale == 0 {
-				missing("a display scale and a file scale")
+			if s.Scale == 0 || s.FileScale == 0 || s.SIUnit == "" {
+				missing("a display scale, a file scale and an SI unit")
 			}
 			if len(s.Inputs) == 0 {
 				missing("its drawn inputs")

@@ -98,15 +98,10 @@ func SensitivitySection(rep SensitivityReport) (report.Section, error) {
 	return sec, nil
 }
 
-// siUnit is the SI unit of a static parameter, which its name carries.
+// siUnit is the SI unit of a static parameter, from the table of sources.
 func siUnit(param string) string {
-	switch {
-	case strings.HasSuffix(param, "_s"):
-		return "s"
-	case strings.HasSuffix(param, "_k"):
-		return "K"
-	}
-	return "1 (relative)"
+	u, _ := mc.InputUnit(param)
+	return u
 }
 
 // WriteSensitivity writes the indices and their bar charts to dir.
