@@ -103,7 +103,7 @@ func AbsBiasP95DegPerH(s mc.Summary) float64 { return mc.BiasDegPerH(s.AbsBiasRa
 
 // GyroGrid returns the gyroscope figures of an ensemble: its biases as
 // rotation rates and, with a read-out, the projection-noise limit and the
-// angle random walk (PHYSICS.md section 8).
+// angle random walk (docs/model.md, Gyroscope figures).
 func GyroGrid(s mc.Summary, g *mc.Gyro) *Grid {
 	b3 := func(x float64) string { return Sci(x, 3) }
 	t := NewGrid("Gyroscope figures", "Gyroscope figure", "Value", "Unit")
