@@ -4,6 +4,8 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"os"
+	"path/filepath"
 	"runtime"
 
 	"rampart/sim"
@@ -44,6 +46,23 @@ type Job struct {
 	// each new record is kept.
 	Started  func(total, resumed int)
 	Recorded func()
+}
+
+// Within returns the job kept in the subdirectory sub of j.Dir, as a
+// command that keeps several runs in one directory (one per ramp, or per
+// amplitude tried) lays them out: resuming, a run there is continued (a
+// complete one is reused as it is) and a missing one started, as an
+// interrupted command leaves them; otherwise a new run is started there.
+func (j Job) Within(sub string) Job {
+	j.Dir = filepath.Join(j.Dir, sub)
+	j.Resume = j.Resume && HasRun(j.Dir)
+	return j
+}
+
+// HasRun reports whether dir holds a run (its manifest).
+func HasRun(dir string) bool {
+	_, err := os.Stat(filepath.Join(dir, ManifestFile))
+	return err == nil
 }
 
 // JobResult is what a job ran: its manifest, the records of its range in

@@ -111,7 +111,7 @@ func runEnsembleOf(ctx context.Context, e env, stderr io.Writer, sc *scenario.Sc
 	if err != nil {
 		return nil, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
-	return runJob(ctx, e, stderr, sc, ensembleJob{realiser: r, runner: r, records: ens.Samples}, o, dir, label)
+	return runJob(ctx, e, stderr, sc, ensembleJob{realiser: r, runner: r, records: ens.Samples}, o, dir, o.resume != "", label)
 }
 
 // ensembleJob is a run of records to store: records [0, records) of runner
@@ -132,8 +132,9 @@ type ensembleJob struct {
 	resume string
 }
 
-// runJob runs (or resumes) a job, storing it in dir if one is given.
-func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir, label string) (*ensembleRun, error) {
+// runJob runs a job, storing it in dir if one is given (resuming the run
+// there if resume).
+func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir string, resume bool, label string) (*ensembleRun, error) {
 	hash, text, err := sc.Fingerprint()
 	if err != nil {
 		return nil, err
@@ -144,7 +145,7 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 		}
 	}
 	j := mc.Job{Realiser: job.realiser, Runner: job.runner, Records: job.records,
-		Fingerprint: hash, Scenario: text, Dir: dir, Resume: dir != "" && o.resume != "", Workers: o.workers}
+		Fingerprint: hash, Scenario: text, Dir: dir, Resume: dir != "" && resume, Workers: o.workers}
 	if o.shard != "" {
 		sh, err := mc.ParseShard(o.shard)
 		if err != nil {

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"path/filepath"
 
 	"rampart/mc"
 	"rampart/scenario"
@@ -14,22 +13,6 @@ import (
 // Commands that run several ensembles (rank: one per ramp; tolerance: one
 // per amplitude tried) keep each in a subdirectory of --out DIR, and
 // --resume DIR continues all of them.
-
-// within returns the options of the run kept in dir, a subdirectory of the
-// options' directory: with --resume a run there is continued (a complete
-// one is reused as it is) and a missing one started, as an interrupted
-// command leaves them; with --out a new run is started there.
-func (o ensembleOptions) within(dir string) ensembleOptions {
-	switch {
-	case o.resume == "":
-		o.out = dir
-	case hasRun(dir):
-		o.out, o.resume = "", dir
-	default:
-		o.out, o.resume = dir, ""
-	}
-	return o
-}
 
 // checkResumeDir refuses --resume DIR of a command that keeps several runs
 // in DIR when there is no DIR: nothing was started there.
@@ -43,12 +26,6 @@ func (o ensembleOptions) checkResumeDir() error {
 	return nil
 }
 
-// hasRun reports whether dir holds a run (its manifest).
-func hasRun(dir string) bool {
-	_, err := os.Stat(filepath.Join(dir, mc.ManifestFile))
-	return err == nil
-}
-
 // runPart runs the ensemble ens, one of several a command runs, in the
 // subdirectory sub of the options' directory (none without one). tag sets
 // its records apart from those of the others (see ensembleJob).
@@ -57,12 +34,11 @@ func runPart(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario
 	if err != nil {
 		return nil, "", fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
-	dir, po := "", o
+	var place mc.Job
 	if top := o.dir(); top != "" {
-		dir = filepath.Join(top, sub)
-		po = o.within(dir)
+		place = mc.Job{Dir: top, Resume: o.resume != ""}.Within(sub)
 	}
 	job := ensembleJob{realiser: r, runner: r, records: ens.Samples, tag: tag, resume: o.dir()}
-	run, err := runJob(ctx, e, stderr, sc, job, po, dir, label)
-	return run, dir, err
+	run, err := runJob(ctx, e, stderr, sc, job, o, place.Dir, place.Resume, label)
+	return run, place.Dir, err
 }

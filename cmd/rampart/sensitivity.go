@@ -92,7 +92,7 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	ctx, stop := signalContext()
 	defer stop()
 	job := ensembleJob{realiser: r, runner: design, records: design.Len(), tag: sensitivityTag{BaseRows: o.base, Inputs: design.Inputs()}}
-	run, err := runJob(ctx, e, stderr, sc, job, o.ens, o.ens.dir(), "sensitivity")
+	run, err := runJob(ctx, e, stderr, sc, job, o.ens, o.ens.dir(), o.ens.resume != "", "sensitivity")
 	if err != nil {
 		return err
 	}
