@@ -7,43 +7,6 @@ import (
 	"rampart/noise"
 )
 
-// Budget is the hardware noise a Monte Carlo ensemble draws from, in SI
-// units. A zero field switches its source off.
-type Budget struct {
-	// Static, shot-to-shot errors (standard deviations of normal draws).
-	DepthCommonRel       float64 // relative depth error common to both spin states
-	DepthDifferentialRel float64 // relative depth difference eps_+ - eps_- between the spin states
-	ClockRel             float64 // waveform time-base error kappa: the profile plays (1+kappa) faster
-	SpeedRel             float64 // drive-frequency scale error: speeds and angles scale by (1+k)
-	SkewS                float64 // delay of the s = -1 arm's drive after the s = +1 arm's
-	TemperatureSpreadK   float64 // shot-to-shot spread of the start temperature (clamped at 0 K)
-	PulseAreaRel         float64 // relative area error of each pi/2 pulse, independent
-
-	// Noise during the shot.
-	// RIN is the one-sided PSD of the relative intensity noise eps(t) in
-	// 1/Hz, common to both spin states (one laser); nil: none.
-	RIN     noise.PSD
-	RINBand noise.Band
-	// Phase is the one-sided PSD S_alpha(f) in rad^2/Hz of each arm's drive
-	// phase; the lattice angle moves by alpha/N. nil: none.
-	Phase noise.PSD
-	// PhaseCorrelation is the correlation coefficient of the two arms'
-	// drive phase noise, in [-1, 1].
-	PhaseCorrelation float64
-}
-
-// Static parameter names, in sampler order when active.
-const (
-	ParamDepthCommon       = "depth_common_rel"
-	ParamDepthDifferential = "depth_differential_rel"
-	ParamClock             = "clock_rel"
-	ParamSpeed             = "speed_rel"
-	ParamSkew              = "skew_s"
-	ParamTemperature       = "temperature_offset_k"
-	ParamPulse1            = "pulse1_area_rel"
-	ParamPulse2            = "pulse2_area_rel"
-)
-
 // Param is one static parameter drawn per realisation: value = Sigma * x,
 // x standard normal.
 type Param struct {
@@ -52,25 +15,23 @@ type Param struct {
 }
 
 // allParams returns every static parameter of b, active or not, in the
-// fixed order of the sampler's coordinates: coordinate k always drives
-// parameter k, so that switching a source off or rescaling it leaves the
-// draws of the others, and its own normal variates, unchanged (common
-// random numbers across budgets).
+// fixed order of the sampler's coordinates (the drawn inputs of the static
+// rows of Sources): coordinate k always drives parameter k, so that
+// switching a source off or rescaling it leaves the draws of the others,
+// and its own normal variates, unchanged (common random numbers across
+// budgets).
 func (b Budget) allParams() []Param {
-	return []Param{
-		{ParamDepthCommon, b.DepthCommonRel},
-		{ParamDepthDifferential, b.DepthDifferentialRel},
-		{ParamClock, b.ClockRel},
-		{ParamSpeed, b.SpeedRel},
-		{ParamSkew, b.SkewS},
-		{ParamTemperature, b.TemperatureSpreadK},
-		{ParamPulse1, b.PulseAreaRel},
-		{ParamPulse2, b.PulseAreaRel},
+	out := make([]Param, 0, StaticDim)
+	for _, s := range Sources {
+		if s.Kind != Static {
+			continue
+		}
+		for _, name := range s.Inputs {
+			out = append(out, Param{name, *s.Sigma(&b)})
+		}
 	}
+	return out
 }
-
-// StaticDim is the dimension of the static parameters' design.
-const StaticDim = 8
 
 // Params returns the active static parameters of b in sampler order.
 func (b Budget) Params() []Param {
@@ -83,8 +44,16 @@ func (b Budget) Params() []Param {
 	return out
 }
 
-// Dynamic reports whether any noise source changes during a shot.
-func (b Budget) Dynamic() bool { return b.RIN != nil || b.Phase != nil }
+// Dynamic reports whether any noise source changes during a shot: whether
+// b switches on a Process row of Sources.
+func (b Budget) Dynamic() bool {
+	for _, s := range Sources {
+		if s.Kind == Process && s.On(b) {
+			return true
+		}
+	}
+	return false
+}
 
 // Validate checks that every amplitude is finite and non-negative.
 func (b Budget) Validate() error {
@@ -103,15 +72,13 @@ func (b Budget) Validate() error {
 // (standard deviations by k, PSDs by k^2): the budget's tolerance axis.
 func (b Budget) Scaled(k float64) Budget {
 	c := b
-	c.DepthCommonRel *= k
-	c.DepthDifferentialRel *= k
-	c.ClockRel *= k
-	c.SpeedRel *= k
-	c.SkewS *= k
-	c.TemperatureSpreadK *= k
-	c.PulseAreaRel *= k
-	c.RIN = scalePSD(b.RIN, k*k)
-	c.Phase = scalePSD(b.Phase, k*k)
+	for _, s := range Sources {
+		if s.Kind == Static {
+			*s.Sigma(&c) *= k
+		} else {
+			*s.PSD(&c) = scalePSD(*s.PSD(&b), k*k)
+		}
+	}
 	return c
 }
 

@@ -14,6 +14,17 @@
 // without computing the others. [Normal] maps a sampler's points to standard
 // normal variates by the inverse normal distribution function.
 //
+// # Perturbation sources
+//
+// [Sources] is the one table of perturbation sources: for each its key, its
+// meaning, the scenario key that sets it, its lab unit and scale, its kind
+// (a [Static] draw per shot, or a noise [Process] during the shot), its
+// field of [Budget], how a shot applies it, its reference amplitude and
+// search range. Sampling (one coordinate per drawn input: [StaticDim]),
+// [Budget.Scaled], the tolerance search's axes and [SourceAmplitude], the
+// sensitivity design's inputs and the tables and budget lines of the
+// commands all iterate over it (docs/model.md, Perturbations).
+//
 // # Ensembles
 //
 // Realisation i of an ensemble takes its static parameters from point i of the
@@ -43,7 +54,11 @@
 // a pool of workers and emits the [Record]s in index order, cancellably. A
 // [Store] streams them to a directory as they complete; [Resume] continues an
 // interrupted run and [Merge] combines the shards of one ([Shard]) into the
-// records of a single run, byte for byte. [Summarise] gives the distributions
+// records of a single run, byte for byte. A [Job] does all of it for one
+// run directory: it writes the [Manifest] (with the scale factor of the
+// nominal sequence), creates or resumes the store and runs its shard.
+// [SharedGrid] sizes one noise grid for ensembles compared on common random
+// numbers. [Summarise] ([Manifest.Summarise]) gives the distributions
 // of contrast and bias with bootstrap intervals, the averaged-fringe contrast
 // and a yield.
 //

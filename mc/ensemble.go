@@ -202,41 +202,26 @@ func (w *Worker) ShotAt(index int, z []float64, noise [2]int) (sim.Shot, Record)
 	}
 	rec := Record{Index: index, Inputs: make([]float64, len(r.params))}
 	var sh sim.Shot
-	pulse, active := 0, 0
-	for k, p := range r.ens.Budget.allParams() {
-		if p.Sigma == 0 {
-			if p.Name == ParamPulse1 || p.Name == ParamPulse2 {
-				pulse++
-			}
+	k, active := 0, 0
+	for _, src := range Sources {
+		if src.Kind != Static {
 			continue
 		}
-		v := p.Sigma * z[k]
-		rec.Inputs[active] = v
-		active++
-		switch p.Name {
-		case ParamDepthCommon:
-			sh.DepthRel[0] += v
-			sh.DepthRel[1] += v
-		case ParamDepthDifferential:
-			sh.DepthRel[0] += v / 2
-			sh.DepthRel[1] -= v / 2
-		case ParamClock:
-			sh.ClockRel = v
-		case ParamSpeed:
-			sh.SpeedRel = v
-		case ParamSkew:
-			sh.SkewS = v
-		case ParamTemperature:
-			sh.TemperatureOffsetK = v
-		case ParamPulse1, ParamPulse2:
-			sh.PulseAreaRel[pulse] = v
-			pulse++
+		sigma := *src.Sigma(&r.ens.Budget)
+		for i := range src.Inputs {
+			if sigma != 0 {
+				v := sigma * z[k]
+				rec.Inputs[active] = v
+				active++
+				src.Apply(&sh, i, v)
+			}
+			k++
 		}
 	}
 	if w.rin != nil {
 		x := w.rin.Synthesize(w.bufRIN, Substream(r.ens.Seed, noise[0], "noise/rin"))
 		s := &sim.Series{StepS: r.noiseStep, Values: x}
-		sh.DepthNoise = [2]*sim.Series{s, s}
+		rinRow.ApplyNoise(&sh, [2]*sim.Series{s, s})
 		rec.RINRms = rms(x)
 	}
 	if w.phase != nil {
@@ -246,7 +231,7 @@ func (w *Worker) ShotAt(index int, z []float64, noise [2]int) (sim.Shot, Record)
 		for j := range a {
 			a[j], b[j] = w.bufA[j]/n, w.bufB[j]/n
 		}
-		sh.Jitter = [2]*sim.Series{{StepS: r.noiseStep, Values: a}, {StepS: r.noiseStep, Values: b}}
+		phaseRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: a}, {StepS: r.noiseStep, Values: b}})
 		rec.PhaseRms = [2]float64{rms(w.bufA), rms(w.bufB)}
 	}
 	return sh, rec
@@ -265,6 +250,17 @@ func (w *Worker) RunShot(sh sim.Shot, rec Record) Record {
 	rec.Z = res.Z
 	rec.Ground = res.GroundAfterRampUp
 	return rec
+}
+
+// The noise processes' rows, whose records a Worker synthesises.
+var rinRow, phaseRow = mustSource(SourceRIN), mustSource(SourcePhase)
+
+func mustSource(key string) Source {
+	s, ok := LookupSource(key)
+	if !ok {
+		panic("mc: no source " + key)
+	}
+	return s
 }
 
 func rms(x []float64) float64 {

@@ -158,22 +158,22 @@ func checkRamp(durationS, cruise float64) error {
 	return nil
 }
 
-// NewShape returns the analytic ramp of the given name: "sin2", "minjerk" or
-// "inverse". trapRadS is used by "inverse" only.
+// NewShape returns the analytic ramp of the given name, one of Shapes. The
+// inverse ramp is given its trap frequency trapRadS directly (the other
+// shapes ignore it); Shape.New designs it for a depth instead.
 func NewShape(name string, durationS, cruiseRadS, trapRadS float64) (Ramp, error) {
 	if err := checkRamp(durationS, cruiseRadS); err != nil {
 		return nil, err
 	}
-	switch name {
-	case "sin2":
-		return Sin2{durationS, cruiseRadS}, nil
-	case "minjerk":
-		return MinJerk{durationS, cruiseRadS}, nil
-	case "inverse":
+	if name == "inverse" {
 		if !(trapRadS > 0) || math.IsInf(trapRadS, 0) {
 			return nil, fmt.Errorf("inverse ramp needs a positive trap frequency, got %g rad/s", trapRadS)
 		}
 		return Inverse{DurationS: durationS, CruiseRadS: cruiseRadS, TrapRadS: trapRadS}, nil
 	}
-	return nil, fmt.Errorf("unknown ramp shape %q (want sin2, minjerk, inverse or file)", name)
+	shape, err := LookupShape(name)
+	if err != nil {
+		return nil, err
+	}
+	return shape.New(Ring{}, durationS, cruiseRadS, 0)
 }

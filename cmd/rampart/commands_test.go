@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"rampart/cmd/internal/present"
 )
 
 func TestBadInput(t *testing.T) {
@@ -140,8 +142,8 @@ func TestRampProfile(t *testing.T) {
 	if got := strings.Join(rows[0], ","); got != "t_s,omega_rad_s,phi_rad" {
 		t.Fatalf("header %q", got)
 	}
-	if n := len(rows) - 1; n != 2*profileRampPoints+profileCruisePoints+1 {
-		t.Errorf("%d samples, want %d", n, 2*profileRampPoints+profileCruisePoints+1)
+	if n := len(rows) - 1; n != 2*present.ProfileRampPoints+present.ProfileCruisePoints+1 {
+		t.Errorf("%d samples, want %d", n, 2*present.ProfileRampPoints+present.ProfileCruisePoints+1)
 	}
 	first, end := floats(t, rows[1]), floats(t, rows[len(rows)-1])
 	// The sequence starts and ends at rest; the arm turns exactly one lap.

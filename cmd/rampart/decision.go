@@ -7,9 +7,10 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/report"
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -57,41 +58,15 @@ func (o *decisionOptions) validate() error {
 
 // load reads the scenario, its configuration and its noise budget.
 func (o *decisionOptions) load() (*scenario.Scenario, sim.Config, mc.Budget, error) {
-	return loadWithBudget(o.scenario, o.sets)
-}
-
-// loadWithBudget reads a scenario, its simulation configuration and its
-// noise budget.
-func loadWithBudget(path string, sets []string) (*scenario.Scenario, sim.Config, mc.Budget, error) {
-	sc, cfg, err := loadScenario(path, sets)
-	if err != nil {
-		return nil, sim.Config{}, mc.Budget{}, err
-	}
-	budget, err := budgetOf(sc)
-	if err != nil {
-		return nil, sim.Config{}, mc.Budget{}, err
-	}
-	return sc, cfg, budget, nil
-}
-
-// printHeader says what was simulated: the scenario, its sequence (with
-// ramp naming the ramp) and its noise budget, then how, in lines such as
-// the ensemble's, and a blank line (setupText says the same in a report).
-func printHeader(w io.Writer, sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget, lines ...string) {
-	fmt.Fprintf(w, "Scenario %s\n%s\n", sc.Name, describe(sc, cfg, ramp))
-	fmt.Fprintf(w, "Noise budget: %s\n", budgetLine(b))
-	for _, line := range lines {
-		fmt.Fprintln(w, line)
-	}
-	fmt.Fprintln(w)
+	return scenario.LoadBudget(o.scenario, o.sets)
 }
 
 // writeDecisionReport writes the report of a decision command: the drive
 // profiles of cfgs, the co-moving dynamics of the one named best, then
 // secs, the first of them led by setup (what was simulated and how).
-func writeDecisionReport(e env, stderr io.Writer, o decisionOptions, title string, sc *scenario.Scenario, cfgs []namedConfig, best, setup string, secs ...report.Section) error {
+func writeDecisionReport(e env, stderr io.Writer, o decisionOptions, title string, sc *scenario.Scenario, cfgs []present.NamedConfig, best, setup string, secs ...report.Section) error {
 	r := newReport(e, title, sc, scenarioText(o.scenario), o.sets, o.ens.seed)
-	lead, err := driveAndDynamics(cfgs, best)
+	lead, err := present.DriveAndDynamics(cfgs, best)
 	if err != nil {
 		return err
 	}

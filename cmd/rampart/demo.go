@@ -3,13 +3,13 @@ package main
 import (
 	"fmt"
 	"io"
-	"strings"
 
 	"github.com/spf13/cobra"
 
 	"rampart"
-	"rampart/cmd/internal/scenario"
+	"rampart/cmd/internal/present"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -80,12 +80,12 @@ type demo struct {
 	base   *scenario.Scenario
 
 	// filled in by the stages
-	cs      []contestant
-	ranking rankReport
+	cs      []scenario.Contestant
+	ranking present.RankReport
 	recs    [][]mc.Record
 	winner  int
-	qualify qualifyReport
-	tol     toleranceReport
+	qualify present.QualifyReport
+	tol     present.ToleranceReport
 }
 
 func newDemo(e env, out io.Writer) (*demo, error) {
@@ -116,7 +116,7 @@ func (d *demo) check() error {
 	if err != nil {
 		return err
 	}
-	if n := minYieldSamples(req); o.toleranceSamples < n {
+	if n := mc.MinYieldSamples(req); o.toleranceSamples < n {
 		return fmt.Errorf("--tolerance-samples %d: the demo spec's yield of at least %g at %g %% confidence needs at least %d realisations per amplitude", o.toleranceSamples, req.YieldMin, 100*req.Confidence, n)
 	}
 	return nil
@@ -151,7 +151,7 @@ func (d *demo) variant(i int) (*scenario.Scenario, sim.Config, error) {
 
 // compareRamps runs one noise-free shot with each of demoShapes.
 func (d *demo) compareRamps() error {
-	var runs []shotRun
+	var runs []present.ShotRun
 	var cfg sim.Config
 	var names []string
 	for i, dr := range demoRamps {
@@ -165,68 +165,7 @@ func (d *demo) compareRamps() error {
 		}
 		runs, cfg = append(runs, run), c
 		names = append(names, dr.name)
-		d.cs = append(d.cs, contestant{name: dr.name, spec: "demo ramp " + dr.name, sc: sc, cfg: c})
+		d.cs = append(d.cs, scenario.Contestant{Name: dr.name, Spec: "demo ramp " + dr.name, Scenario: sc, Config: c})
 	}
-	w := d.out
-	fmt.Fprintf(w, "rampart demo: the built-in scenario %s\n%s\n\n", d.base.Name, describe(d.base, cfg, strings.Join(names, ", ")+" ramps"))
-	if story := d.story(); story != "" {
-		fmt.Fprintf(w, "%s\n\n", story)
-	}
-
-	fmt.Fprintln(w, "1. One noise-free shot of each ramp")
-	header := append([]string{"Quantity"}, names...)
-	t := newTable(w, append(header, "Unit")...)
-	row := func(label, unit string, value func(r shotRun) string) {
-		cells := []string{label}
-		for _, r := range runs {
-			cells = append(cells, value(r))
-		}
-		t.Append(append(cells, unit))
-	}
-	row("Contrast C = |z|", "", func(r shotRun) string { return fixed(r.result.Contrast, 5) })
-	row("Ground band after ramp-up, arm s = +1", "", func(r shotRun) string { return fixed(r.result.GroundAfterRampUp[0], 5) })
-	row("Ground band after ramp-up, arm s = -1", "", func(r shotRun) string { return fixed(r.result.GroundAfterRampUp[1], 5) })
-	row("Interferometer phase arg z", "rad", func(r shotRun) string { return sci(r.result.PhaseRad, 7) })
-	row("Sagnac phase", "rad", func(r shotRun) string { return sci(r.result.SagnacRad, 7) })
-	row("Bias b = phase - Sagnac phase", "rad", func(r shotRun) string { return sci(r.result.BiasRad, 3) })
-	row("Bias as a rotation rate b / K", "deg/h", func(r shotRun) string { return sci(r.result.BiasDegPerH, 3) })
-	row("Peak speed max |Omega|", "rad/s", func(r shotRun) string {
-		peak, _ := sim.PeakSpeed(r.cfg.Sequence.Up)
-		return sig(peak, 5)
-	})
-	row("Speed reverses (throw and catch)", "", func(r shotRun) string {
-		_, rev := sim.PeakSpeed(r.cfg.Sequence.Up)
-		return yesNo(rev)
-	})
-	row("Elapsed (one shot)", "ms", func(r shotRun) string { return sig(r.elapsed.Seconds()*1e3, 3) })
-	if err := t.Render(); err != nil {
-		return err
-	}
-
-	up := runs[0].cfg.Sequence.Up
-	var outside []string
-	for _, r := range runs {
-		outside = append(outside, fmt.Sprintf("%s %s %%", names[len(outside)], sig(100*(1-r.result.GroundAfterRampUp[0]), 2)))
-	}
-	fmt.Fprintf(w, "\nA ramp-up of %s us is %s trap periods. Left outside the moving ground band after it: %s.\n",
-		sig(up.Duration()*1e6, 6), sig(up.Duration()*cfg.Ring.TrapHz(cfg.DepthHz), 2), strings.Join(outside, ", "))
-	return nil
-}
-
-// story returns the leading comment of the demo scenario, which tells the
-// demo's invented lab story.
-func (d *demo) story() string {
-	data, err := d.base.ReadFile(d.base.Name)
-	if err != nil {
-		return ""
-	}
-	var lines []string
-	for _, line := range strings.Split(string(data), "\n") {
-		text, ok := strings.CutPrefix(line, "#")
-		if !ok {
-			break
-		}
-		lines = append(lines, strings.TrimPrefix(text, " "))
-	}
-	return strings.TrimSpace(strings.Join(lines, "\n"))
+	return present.PrintRampComparison(d.out, d.base, cfg, names, runs)
 }

@@ -26,7 +26,7 @@ func TestDemoClaims(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if c := run.result.Contrast; c < want.min || c > want.max {
+		if c := run.Result.Contrast; c < want.min || c > want.max {
 			t.Errorf("%s: contrast %.5f, want between %g and %g", demoRamps[i].name, c, want.min, want.max)
 		}
 	}

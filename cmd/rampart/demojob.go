@@ -6,8 +6,10 @@ import (
 	"strings"
 
 	"rampart"
+	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/spec"
 	"rampart/mc"
+	"rampart/scenario"
 )
 
 // The stages of the demo after the noise-free comparison: the ranking, the
@@ -33,14 +35,14 @@ func (d *demo) requirements() (mc.Requirements, error) {
 }
 
 // inputs returns the demo's noise budget, spec and read-out.
-func (d *demo) inputs() (mc.Budget, mc.Requirements, readout, error) {
-	budget, err := budgetOf(d.base)
+func (d *demo) inputs() (mc.Budget, mc.Requirements, mc.Readout, error) {
+	budget, err := d.base.Budget()
 	if err != nil {
-		return mc.Budget{}, mc.Requirements{}, readout{}, err
+		return mc.Budget{}, mc.Requirements{}, mc.Readout{}, err
 	}
 	req, err := d.requirements()
 	if err != nil {
-		return mc.Budget{}, mc.Requirements{}, readout{}, err
+		return mc.Budget{}, mc.Requirements{}, mc.Readout{}, err
 	}
 	ro, err := readoutOptions{}.of(d.base)
 	return budget, req, ro, err
@@ -59,12 +61,12 @@ func (d *demo) rank() error {
 		return err
 	}
 	d.ranking, d.recs = rep, recs
-	d.winner = slices.IndexFunc(d.cs, func(c contestant) bool { return c.name == rep.Ranking.Ranking[0].Name })
+	d.winner = slices.IndexFunc(d.cs, func(c scenario.Contestant) bool { return c.Name == rep.Ranking.Ranking[0].Name })
 	w := d.out
 	fmt.Fprintf(w, "2. The three ramps under the noise budget, ranked by the 5th-percentile contrast\n")
-	fmt.Fprintf(w, "Noise budget: %s\n", budgetLine(budget))
-	fmt.Fprintf(w, "%s\n\n", work.line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(d.cs), o.samples), o))
-	return rankingGrid(rep).RenderNoted(w, rankingNotes(rep))
+	fmt.Fprintf(w, "Noise budget: %s\n", present.BudgetLine(budget))
+	fmt.Fprintf(w, "%s\n\n", work.Line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(d.cs), o.samples), o.seed, o.sampler, o.shard))
+	return present.RankingGrid(rep).RenderNoted(w, present.RankingNotes(rep))
 }
 
 func (d *demo) qualifyWinner() error {
@@ -74,13 +76,13 @@ func (d *demo) qualifyWinner() error {
 	}
 	ramp := d.ranking.Ramps[d.winner]
 	q := mc.Qualify(d.recs[d.winner], req, ramp.Summary.ScaleFactorS, d.opts.seed)
-	d.qualify = qualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.gyro(ramp.Summary)}
+	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.Gyro(ramp.Summary)}
 	fmt.Fprintf(d.out, "3. The winner, %s, qualified against the spec %s on its %d realisations\n\n", ramp.Name, demoSpec, len(d.recs[d.winner]))
-	if err := printQualification(d.out, d.qualify); err != nil {
+	if err := present.PrintQualification(d.out, d.qualify); err != nil {
 		return err
 	}
 	if q.Verdict != mc.Pass {
-		fmt.Fprintf(d.out, "Deciding: %s\n", strings.Join(deciding(q), "; "))
+		fmt.Fprintf(d.out, "Deciding: %s\n", strings.Join(present.Deciding(q), "; "))
 	}
 	return nil
 }
@@ -98,15 +100,15 @@ func (d *demo) tolerances() error {
 	defer stop()
 	c := d.cs[d.winner]
 	o := d.demoEnsemble(d.opts.toleranceSamples)
-	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.sc, c.cfg, budget, req, names, o, demoTolerancePrecision)
+	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.Scenario, c.Config, budget, req, names, o, demoTolerancePrecision)
 	if err != nil {
 		return err
 	}
 	rep.Spec = demoSpec
 	d.tol = rep
-	fmt.Fprintf(d.out, "4. Hardware tolerances for %s: the largest amplitude of each source (the others as budgeted) at which the spec still holds\n", c.name)
-	fmt.Fprintf(d.out, "%s\n\n", work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.samples), o))
-	return toleranceGrid(rep).RenderNoted(d.out, toleranceNotes(rep))
+	fmt.Fprintf(d.out, "4. Hardware tolerances for %s: the largest amplitude of each source (the others as budgeted) at which the spec still holds\n", c.Name)
+	fmt.Fprintf(d.out, "%s\n\n", work.Line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.samples), o.seed, o.sampler, o.shard))
+	return present.ToleranceGrid(rep).RenderNoted(d.out, present.ToleranceNotes(rep))
 }
 
 // demoTolerancePrecision is the relative precision of the demo's tolerance
@@ -115,14 +117,14 @@ func (d *demo) tolerances() error {
 const demoTolerancePrecision = 0.1
 
 func (d *demo) writeReport() error {
-	cfgs := make([]namedConfig, len(d.cs))
+	cfgs := make([]present.NamedConfig, len(d.cs))
 	recs := map[string][]mc.Record{}
 	for i, c := range d.cs {
-		cfgs[i] = namedConfig{c.name, c.cfg}
-		recs[c.name] = d.recs[i]
+		cfgs[i] = present.NamedConfig{Name: c.Name, Config: c.Config}
+		recs[c.Name] = d.recs[i]
 	}
-	winner := d.cs[d.winner].name
-	secs, err := driveAndDynamics(cfgs, winner)
+	winner := d.cs[d.winner].Name
+	secs, err := present.DriveAndDynamics(cfgs, winner)
 	if err != nil {
 		return err
 	}
@@ -130,15 +132,15 @@ func (d *demo) writeReport() error {
 	if err != nil {
 		return err
 	}
-	ranked, err := rankSections(d.ranking, cfgs, recs, req.Yield)
+	ranked, err := present.RankSections(d.ranking, cfgs, recs, req.Yield)
 	if err != nil {
 		return err
 	}
-	qual, err := qualifySection(d.qualify)
+	qual, err := present.QualifySection(d.qualify)
 	if err != nil {
 		return err
 	}
-	tol, err := toleranceSection(d.tol)
+	tol, err := present.ToleranceSection(d.tol)
 	if err != nil {
 		return err
 	}

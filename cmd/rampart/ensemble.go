@@ -16,8 +16,8 @@ import (
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
 
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -78,18 +78,7 @@ func (o *ensembleOptions) validate() error {
 // command returns (the kernel would at exit in any case).
 var heldDirs []func() error
 
-// holdRunDir keeps dir locked until the command returns (see heldDirs); dir
-// must already be locked by this process, so this only counts the lock.
-func holdRunDir(dir string) error {
-	unlock, err := mc.LockDir(dir)
-	if err != nil {
-		return err
-	}
-	heldDirs = append(heldDirs, unlock)
-	return nil
-}
-
-// releaseRunDirs releases what holdRunDir kept.
+// releaseRunDirs releases what runJob kept (mc.JobResult.Release).
 func releaseRunDirs() {
 	for _, unlock := range heldDirs {
 		unlock()
@@ -144,7 +133,7 @@ func runEnsembleOf(ctx context.Context, e env, stderr io.Writer, sc *scenario.Sc
 	if err != nil {
 		return nil, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
-	return runJob(ctx, e, stderr, sc, ensembleJob{realiser: r, runner: r, records: ens.Samples}, o, dir, label)
+	return runJob(ctx, e, stderr, sc, ensembleJob{realiser: r, runner: r, records: ens.Samples}, o, dir, o.resume != "", label)
 }
 
 // ensembleJob is a run of records to store: records [0, records) of runner
@@ -165,32 +154,21 @@ type ensembleJob struct {
 	resume string
 }
 
-// runJob runs (or resumes) a job, storing it in dir if one is given.
-func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir, label string) (*ensembleRun, error) {
-	if job.records > mc.MaxSamples {
-		return nil, fmt.Errorf("%d shots in one run, more than the %d a run directory holds: use fewer realisations or base rows", job.records, mc.MaxSamples)
-	}
-	r := job.realiser
-	ens := r.Ensemble()
-	hash, text, err := fingerprint(sc)
+// runJob runs a job, storing it in dir if one is given (resuming the run
+// there if resume).
+func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir string, resume bool, label string) (*ensembleRun, error) {
+	hash, text, err := sc.Fingerprint()
 	if err != nil {
 		return nil, err
 	}
 	if job.tag != nil {
-		if hash, text, err = withTag(hash, text, job.tag); err != nil {
+		if hash, text, err = scenario.WithTag(hash, text, job.tag); err != nil {
 			return nil, err
 		}
 	}
-	c := r.Config()
-	k := c.Ring.ScaleFactor(c.Sequence.TotalAngle())
-	numerics := mc.NumericsOf(c)
-	m := mc.Manifest{
-		Format: mc.ManifestFormat, Fingerprint: hash, Scenario: text,
-		SagnacRad: k * c.RotationRadS, ScaleFactorS: k,
-		Seed: ens.Seed, Samples: job.records, Sampler: ens.Sampler,
-		Columns:  mc.Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
-		Numerics: &numerics, YieldSpec: o.yield, Confidence: o.confidence,
-	}
+	j := mc.Job{Realiser: job.realiser, Runner: job.runner, Records: job.records,
+		Fingerprint: hash, Scenario: text, Dir: dir, Resume: dir != "" && resume, Workers: o.workers,
+		YieldSpec: o.yield, Confidence: o.confidence}
 	if o.shard != "" {
 		sh, err := mc.ParseShard(o.shard)
 		if err != nil {
@@ -199,62 +177,45 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 		if sh.Count > job.records {
 			return nil, fmt.Errorf("--shard %s: more shards than the %d realisations", o.shard, job.records)
 		}
-		m.Shard = &sh
+		j.Shard = &sh
 	}
-	run := &ensembleRun{manifest: m, realiser: r}
-	emit := func(rec mc.Record) error { run.records = append(run.records, rec); return nil }
-	if dir != "" {
-		var st *mc.Store
-		if o.resume != "" {
-			st, run.records, err = mc.Resume(dir, m)
-		} else {
-			st, err = mc.Create(dir, m)
-		}
-		if err != nil {
-			return nil, err
-		}
-		if err := holdRunDir(dir); err != nil {
-			st.Close()
-			return nil, err
-		}
-		defer st.Close()
-		emit = func(rec mc.Record) error {
-			if err := st.Append(rec); err != nil {
-				return err
-			}
-			run.records = append(run.records, rec)
-			return nil
-		}
+	var bar progress = silent{}
+	var t0, wall time.Time
+	left, fresh, batch := 0, 0, o.workers
+	if batch == 0 {
+		batch = runtime.GOMAXPROCS(0)
 	}
-	from, to := m.Range()
-	start := from + len(run.records)
-	bar := newProgress(stderr, to-from, len(run.records), label)
-	workers := o.workers
-	if workers == 0 {
-		workers = runtime.GOMAXPROCS(0)
+	j.Started = func(total, resumed int) {
+		bar = newProgress(stderr, total, resumed, label)
+		t0 = e.now()
+		// The duration note reads the wall clock, not e.now: it is shown
+		// only for runs beyond an hour, and e.now's readings are counted by
+		// tests.
+		wall, left = time.Now(), total-resumed
 	}
-	t0 := e.now()
-	// The duration note reads the wall clock, not e.now: it is shown only
-	// for runs beyond an hour, and e.now's readings are counted by tests.
-	wall, fresh := time.Now(), 0
-	n, err := job.runner.Run(ctx, start, to, workers, func(rec mc.Record) error {
-		if err := emit(rec); err != nil {
-			return err
-		}
-		if fresh++; fresh == workers { // the first batch measures the rate
-			fmt.Fprint(stderr, durationNote(fresh, time.Since(wall), to-start-fresh, dir))
+	j.Recorded = func() {
+		if fresh++; fresh == batch { // the first batch measures the rate
+			fmt.Fprint(stderr, durationNote(fresh, time.Since(wall), left-fresh, dir))
 		}
 		bar.Add(1)
-		return nil
-	})
+	}
+	res, err := j.Execute(ctx)
+	if res == nil {
+		return nil, err
+	}
+	if res.Release != nil {
+		heldDirs = append(heldDirs, res.Release)
+	}
 	bar.Finish()
-	run.elapsed, run.fresh = e.now().Sub(t0), n
+	run := &ensembleRun{manifest: res.Manifest, records: res.Records, realiser: job.realiser,
+		elapsed: e.now().Sub(t0), fresh: res.Fresh}
 	if err != nil {
 		if errors.Is(err, context.Canceled) {
 			hint := dir
 			if job.resume != "" {
 				hint = job.resume
 			}
+			from, to := res.Manifest.Range()
 			return run, interruptedError(len(run.records), to-from, hint)
 		}
 		return run, err

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"rampart/cmd/internal/present"
 	"time"
 )
 
@@ -26,13 +27,13 @@ func durationNote(done int, elapsed time.Duration, left int, dir string) string 
 		keep = "Ctrl-C stops cleanly and --resume " + dir + " continues"
 	}
 	return fmt.Sprintf("note: at the measured %s shots/s the %d realisations left take about %s; %s\n",
-		sig(rate, 3), left, roughDuration(est), keep)
+		present.Sig(rate, 3), left, roughDuration(est), keep)
 }
 
 // roughDuration formats a long duration in hours or days to two figures.
 func roughDuration(d time.Duration) string {
 	if h := d.Hours(); h < 48 {
-		return sig(h, 2) + " h"
+		return present.Sig(h, 2) + " h"
 	}
-	return sig(d.Hours()/24, 2) + " days"
+	return present.Sig(d.Hours()/24, 2) + " days"
 }

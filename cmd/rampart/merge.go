@@ -6,6 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"rampart/cmd/internal/present"
 	"rampart/mc"
 )
 
@@ -20,7 +21,9 @@ type mergeOptions struct {
 	specGiven, confidenceGiven bool
 }
 
-func newMergeCmd(e env) *cobra.Command {
+// newMergeCmd returns the command; run is what it runs with the parsed
+// options (runMerge outside tests).
+func newMergeCmd(e env, run func(e env, stdout, stderr io.Writer, dirs []string, o mergeOptions) error) *cobra.Command {
 	var o mergeOptions
 	cmd := &cobra.Command{
 		Use:   "merge DIR... [--out DIR]",
@@ -39,7 +42,7 @@ replace them.`,
 			f := cmd.Flags()
 			o.specGiven = f.Changed("min-contrast") || f.Changed("max-bias-rad")
 			o.confidenceGiven = f.Changed("confidence")
-			return runMerge(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), dirs, o)
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), dirs, o)
 		},
 	}
 	f := cmd.Flags()
@@ -74,7 +77,7 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	if spec.Active() {
 		m.YieldSpec = &spec
 	}
-	sum := summarise(m, recs, o.confidence, spec)
+	sum := m.Summarise(recs, o.confidence, spec)
 	if o.out != "" {
 		unlock, err := mc.LockDir(o.out) // held for the records, summary and figures
 		if err != nil {
@@ -84,14 +87,14 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 		if err := mc.WriteRun(o.out, m, recs); err != nil {
 			return err
 		}
-		if err := writeResults(o.out, sum, recs, spec); err != nil {
+		if err := present.WriteResults(o.out, sum, recs, spec); err != nil {
 			return err
 		}
 		fmt.Fprintf(stderr, "merged %d shards, %d realisations, into %s\n", len(dirs), len(recs), o.out)
 	}
 	if o.json {
-		return writeJSON(stdout, sum)
+		return present.WriteJSON(stdout, sum)
 	}
 	fmt.Fprintf(stdout, "Merged %d shards: %d realisations, seed %d, %s sampler\n\n", len(dirs), len(recs), m.Seed, m.Sampler)
-	return printSummary(stdout, sum)
+	return present.PrintSummary(stdout, sum)
 }

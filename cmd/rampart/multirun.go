@@ -4,36 +4,15 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"math"
 	"os"
-	"path/filepath"
-	"strings"
-	"time"
 
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
-	"rampart/sim"
+	"rampart/scenario"
 )
 
 // Commands that run several ensembles (rank: one per ramp; tolerance: one
 // per amplitude tried) keep each in a subdirectory of --out DIR, and
 // --resume DIR continues all of them.
-
-// within returns the options of the run kept in dir, a subdirectory of the
-// options' directory: with --resume a run there is continued (a complete
-// one is reused as it is) and a missing one started, as an interrupted
-// command leaves them; with --out a new run is started there.
-func (o ensembleOptions) within(dir string) ensembleOptions {
-	switch {
-	case o.resume == "":
-		o.out = dir
-	case hasRun(dir):
-		o.out, o.resume = "", dir
-	default:
-		o.out, o.resume = dir, ""
-	}
-	return o
-}
 
 // checkResumeDir refuses --resume DIR of a command that keeps several runs
 // in DIR when there is no DIR: nothing was started there.
@@ -47,12 +26,6 @@ func (o ensembleOptions) checkResumeDir() error {
 	return nil
 }
 
-// hasRun reports whether dir holds a run (its manifest).
-func hasRun(dir string) bool {
-	_, err := os.Stat(filepath.Join(dir, mc.ManifestFile))
-	return err == nil
-}
-
 // runPart runs the ensemble ens, one of several a command runs, in the
 // subdirectory sub of the options' directory (none without one). tag sets
 // its records apart from those of the others (see ensembleJob).
@@ -61,100 +34,11 @@ func runPart(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario
 	if err != nil {
 		return nil, "", fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
-	dir, po := "", o
+	var place mc.Job
 	if top := o.dir(); top != "" {
-		dir = filepath.Join(top, sub)
-		po = o.within(dir)
+		place = mc.Job{Dir: top, Resume: o.resume != ""}.Within(sub)
 	}
 	job := ensembleJob{realiser: r, runner: r, records: ens.Samples, tag: tag, resume: o.dir()}
-	run, err := runJob(ctx, e, stderr, sc, job, po, dir, label)
-	return run, dir, err
-}
-
-// noiseGrid is the noise grid that ensembles compared on common random
-// numbers share (mc.Ensemble.NoiseStepS and NoiseDurationS).
-type noiseGrid struct {
-	StepS     float64 `json:"noise_step_s"`
-	DurationS float64 `json:"noise_duration_s"`
-}
-
-// sharedGrid returns the grid that serves every configuration in cfgs under
-// budget b (the widest a command runs): the finest of their noise steps (a
-// quarter of the split step) over the longest of their shots.
-func sharedGrid(cfgs []sim.Config, b mc.Budget) (noiseGrid, error) {
-	g := noiseGrid{StepS: math.Inf(1)}
-	for _, cfg := range cfgs {
-		s, err := sim.NewSimulator(cfg)
-		if err != nil {
-			return noiseGrid{}, err
-		}
-		g.StepS = math.Min(g.StepS, s.Config().StepS/mc.NoiseSamplesPerStep)
-		g.DurationS = math.Max(g.DurationS, mc.NoiseDuration(cfg, b))
-	}
-	return g, nil
-}
-
-// apply sets the grid of ens, and returns the tag that records it: the
-// grid shapes the noise records only when the budget has noise during the
-// shot, so that an ensemble without any is tagged by nothing and keeps the
-// directory of a plain run.
-func (g noiseGrid) apply(ens *mc.Ensemble) any {
-	ens.NoiseStepS, ens.NoiseDurationS = g.StepS, g.DurationS
-	if !ens.Budget.Dynamic() {
-		return nil
-	}
-	return g
-}
-
-// printShardNote tells how to combine the shards of the runs a command
-// keeps in the subdirectories subs of its directory ("" for the directory
-// itself), and what to run on the merged set.
-func printShardNote(w io.Writer, o ensembleOptions, subs []string, then string) error {
-	sh, err := mc.ParseShard(o.shard)
-	if err != nil {
-		return err
-	}
-	fmt.Fprintf(w, "Ran shard %d/%d into %s. When every shard has run, each with its own --out (D1 to D%d below), merge them:\n", sh.Index, sh.Count, o.dir(), sh.Count)
-	for _, s := range subs {
-		var dirs []string
-		for k := 1; k <= sh.Count; k++ {
-			if sh.Count > 4 && k == 3 {
-				dirs = append(dirs, "...")
-				k = sh.Count
-			}
-			dirs = append(dirs, filepath.Join(fmt.Sprintf("D%d", k), s))
-		}
-		fmt.Fprintf(w, "  rampart merge --out %s %s\n", filepath.Join("ALL", s), strings.Join(dirs, " "))
-	}
-	fmt.Fprintf(w, "then %s: run this command again without --shard, with --resume ALL in place of --out.\n", then)
-	return nil
-}
-
-// ensembleWork adds up the realisations a command simulated and resumed
-// over its ensembles, and the time it took.
-type ensembleWork struct {
-	fresh, resumed int
-	elapsed        time.Duration
-}
-
-func (w *ensembleWork) add(run *ensembleRun) {
-	w.fresh += run.fresh
-	w.resumed += len(run.records) - run.fresh
-	w.elapsed += run.elapsed
-}
-
-// line says what was run (what) and how: seed, sampler, shard and work.
-func (w ensembleWork) line(what string, o ensembleOptions) string {
-	s := fmt.Sprintf("Ensembles: %s, seed %d, %s sampler", what, o.seed, o.sampler)
-	if o.shard != "" {
-		s += ", shard " + o.shard
-	}
-	if w.fresh > 0 {
-		el, unit := duration(w.elapsed)
-		s += fmt.Sprintf("; %d simulated in %s %s", w.fresh, el, unit)
-	}
-	if w.resumed > 0 {
-		s += fmt.Sprintf("; %d resumed", w.resumed)
-	}
-	return s
+	run, err := runJob(ctx, e, stderr, sc, job, o, place.Dir, place.Resume, label)
+	return run, place.Dir, err
 }

@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"rampart/cmd/internal/present"
 )
 
 // qualifyArgs qualifies a small fixed-seed ensemble of the inverse ramp.
@@ -110,7 +112,7 @@ func TestQualifyOut(t *testing.T) {
 	if _, stderr, code := execute(t, append(qualifyArgs("testdata/demo/spec.toml"), "--out", out)...); code != 1 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	for _, f := range []string{"manifest.json", "realisations.csv", summaryFile, qualificationFile} {
+	for _, f := range []string{"manifest.json", "realisations.csv", present.SummaryFile, present.QualificationFile} {
 		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
 			t.Error(err)
 		}

@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"rampart/cmd/internal/present"
 )
 
 // rankArgs ranks three ramps of the fast ensemble: sin2, the
@@ -25,13 +27,13 @@ func TestRankGolden(t *testing.T) {
 }
 
 // rankJSON runs rank --json and decodes the ranking.
-func rankJSON(t *testing.T, args ...string) rankReport {
+func rankJSON(t *testing.T, args ...string) present.RankReport {
 	t.Helper()
 	stdout, stderr, code := execute(t, append(args, "--json")...)
 	if code != 0 {
 		t.Fatalf("%q: exit %d: %s", args, code, stderr)
 	}
-	var rep rankReport
+	var rep present.RankReport
 	if err := json.Unmarshal([]byte(stdout), &rep); err != nil {
 		t.Fatalf("not one JSON object: %v\n%s", err, stdout)
 	}
@@ -115,7 +117,7 @@ func TestRankStoresRuns(t *testing.T) {
 			t.Errorf("rank's inv/%s differs from run's (%v)", f, err)
 		}
 	}
-	for _, f := range []string{rankingFile, "ranking.svg", "ranking.png"} {
+	for _, f := range []string{present.RankingFile, "ranking.svg", "ranking.png"} {
 		if _, err := os.Stat(filepath.Join(one, f)); err != nil {
 			t.Errorf("rank --out: %v", err)
 		}

@@ -6,8 +6,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
+	"rampart/scenario"
 )
 
 // readoutOptions are --atoms and --cycle-s, the read-out behind the
@@ -23,65 +23,26 @@ func addReadoutFlags(cmd *cobra.Command, o *readoutOptions) {
 	f.Float64Var(&o.cycleS, "cycle-s", 0, "cycle time `T` of one shot in s, for the angle random walk (default: the scenario's [readout] cycle_s)")
 }
 
-// readout is the read-out of an ensemble's shots; zero: none given.
-type readout struct {
-	atoms  float64
-	cycleS float64
-}
-
 // of returns the read-out of sc with the flags' overrides.
-func (o readoutOptions) of(sc *scenario.Scenario) (readout, error) {
+func (o readoutOptions) of(sc *scenario.Scenario) (mc.Readout, error) {
 	switch {
 	case !(o.atoms >= 0) || math.IsInf(o.atoms, 0):
-		return readout{}, fmt.Errorf("--atoms %g: want a positive number of atoms per shot", o.atoms)
+		return mc.Readout{}, fmt.Errorf("--atoms %g: want a positive number of atoms per shot", o.atoms)
 	case !(o.cycleS >= 0) || math.IsInf(o.cycleS, 0):
-		return readout{}, fmt.Errorf("--cycle-s %g: want a positive cycle time in s", o.cycleS)
+		return mc.Readout{}, fmt.Errorf("--cycle-s %g: want a positive cycle time in s", o.cycleS)
 	}
-	r := readout{atoms: sc.Readout.Atoms, cycleS: sc.Readout.CycleS}
+	r := mc.Readout{Atoms: sc.Readout.Atoms, CycleS: sc.Readout.CycleS}
 	if o.atoms > 0 {
-		r.atoms = o.atoms
+		r.Atoms = o.atoms
 	}
 	if o.cycleS > 0 {
-		r.cycleS = o.cycleS
+		r.CycleS = o.cycleS
 	}
 	switch {
-	case r.atoms > 0 && r.cycleS == 0:
-		return readout{}, fmt.Errorf("--atoms %g needs a cycle time too: give --cycle-s T or cycle_s in the scenario's [readout]", r.atoms)
-	case r.cycleS > 0 && r.atoms == 0:
-		return readout{}, fmt.Errorf("--cycle-s %g needs the atoms per shot too: give --atoms N or atoms in the scenario's [readout]", r.cycleS)
+	case r.Atoms > 0 && r.CycleS == 0:
+		return mc.Readout{}, fmt.Errorf("--atoms %g needs a cycle time too: give --cycle-s T or cycle_s in the scenario's [readout]", r.Atoms)
+	case r.CycleS > 0 && r.Atoms == 0:
+		return mc.Readout{}, fmt.Errorf("--cycle-s %g needs the atoms per shot too: give --atoms N or atoms in the scenario's [readout]", r.CycleS)
 	}
 	return r, nil
 }
-
-// gyro returns the gyroscope figures of an ensemble summary (mc.Summary.Gyro),
-// nil without a read-out or without a fringe to read.
-func (r readout) gyro(s mc.Summary) *mc.Gyro {
-	if r.atoms == 0 || !(s.Contrast.Mean > 0) || !(s.ScaleFactorS > 0) {
-		return nil
-	}
-	g := s.Gyro(r.atoms, r.cycleS)
-	return &g
-}
-
-// absBiasP95DegPerH is the 95th percentile of |bias| of a summary as a
-// rotation-rate error.
-func absBiasP95DegPerH(s mc.Summary) float64 { return mc.BiasDegPerH(s.AbsBiasRad.P95, s.ScaleFactorS) }
-
-// gyroGrid returns the gyroscope figures of an ensemble: its biases as
-// rotation rates and, with a read-out, the projection-noise limit and the
-// angle random walk (PHYSICS.md section 8).
-func gyroGrid(s mc.Summary, g *mc.Gyro) *grid {
-	b3 := func(x float64) string { return sci(x, 3) }
-	t := newGrid("Gyroscope figures", "Gyroscope figure", "Value", "Unit")
-	t.Append("Scale factor K = 2 I phi(T) / hbar", sig(s.ScaleFactorS, 6), "s (rad per rad/s)")
-	t.Append("Mean bias as a rotation rate", b3(s.BiasDegPerH.Mean), "deg/h")
-	t.Append("|bias| p95 as a rotation rate", b3(absBiasP95DegPerH(s)), "deg/h")
-	if g != nil {
-		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms at contrast %s", sig(g.Atoms, 6), fixed(g.Contrast, 4)), b3(g.ShotNoiseDegPerH), "deg/h")
-		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", sig(g.CycleS, 6)), b3(g.AngleRandomWalkDegPerSqrtH), "deg/sqrt(h)")
-	}
-	return t
-}
-
-// noReadout says what the gyroscope figures lack without a read-out.
-const noReadout = "(For the projection-noise limit and the angle random walk, give the scenario a [readout] table or --atoms and --cycle-s.)"

@@ -48,6 +48,8 @@ func newRoot(e env) *cobra.Command {
 		Version: versionLine(),
 	}
 	root.SetVersionTemplate("{{.Version}}")
-	root.AddCommand(newShotCmd(e), newRampCmd(e), newRunCmd(e), newMergeCmd(e), newRankCmd(e), newQualifyCmd(e), newToleranceCmd(e), newSensitivityCmd(e), newDemoCmd(e))
+	root.AddCommand(newShotCmd(e, runShot), newRampCmd(e, runRamp), newRunCmd(e, runRun), newMergeCmd(e, runMerge),
+		newRankCmd(e, runRank), newQualifyCmd(e, runQualify), newToleranceCmd(e, runTolerance),
+		newSensitivityCmd(e, runSensitivity), newDemoCmd(e))
 	return root
 }

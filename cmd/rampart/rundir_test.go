@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"rampart/cmd/internal/present"
 	"strings"
 	"syscall"
 	"testing"
@@ -165,7 +166,7 @@ func TestManifestRecordsBuildAndNumerics(t *testing.T) {
 		m.YieldSpec == nil || m.YieldSpec.MinContrast != 0.9 || len(m.RecordsSHA256) != 64 {
 		t.Errorf("manifest %+v", m)
 	}
-	sum, _ := os.ReadFile(filepath.Join(out, summaryFile))
+	sum, _ := os.ReadFile(filepath.Join(out, present.SummaryFile))
 	if !strings.HasPrefix(string(sum), "{\n  \"rampart\": {\n    \"version\": \"test\",") {
 		t.Errorf("summary.json does not start with the build: %.80s", sum)
 	}

@@ -3,15 +3,11 @@ package main
 import (
 	"fmt"
 	"io"
-	"math"
-	"path/filepath"
 	"strings"
 
 	"github.com/spf13/cobra"
 
-	"rampart/cmd/internal/outfile"
-	"rampart/cmd/internal/plots"
-	"rampart/cmd/internal/report"
+	"rampart/cmd/internal/present"
 	"rampart/mc"
 )
 
@@ -20,10 +16,9 @@ type sensitivityOptions struct {
 	base int
 }
 
-// sensitivityFile holds the indices and derivatives in the output directory.
-const sensitivityFile = "sensitivity.json"
-
-func newSensitivityCmd(e env) *cobra.Command {
+// newSensitivityCmd returns the command; run is what it runs with the parsed
+// options (runSensitivity outside tests).
+func newSensitivityCmd(e env, run func(e env, stdout, stderr io.Writer, o sensitivityOptions) error) *cobra.Command {
 	var o sensitivityOptions
 	cmd := &cobra.Command{
 		Use:   "sensitivity --scenario FILE [--base N]",
@@ -50,7 +45,7 @@ the indices of the merged design.`,
 			if cmd.Flags().Changed("samples") {
 				return fmt.Errorf("--samples does not apply to sensitivity: the design of --base N rows runs N (d + 2) shots for d inputs; give --base")
 			}
-			return runSensitivity(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
 		},
 	}
 	o.add(cmd, 1, "the indices and derivatives")
@@ -61,18 +56,6 @@ the indices of the merged design.`,
 	sampler.Value.Set("sobol")
 	f.IntVar(&o.base, "base", 256, "base rows `N` of the Saltelli design: N (d + 2) shots for d inputs")
 	return cmd
-}
-
-// sensitivityReport is what sensitivity --json prints.
-type sensitivityReport struct {
-	Inputs       []string        `json:"inputs"`
-	BaseRows     int             `json:"base_rows"`
-	Shots        int             `json:"shots"`
-	Seed         uint64          `json:"seed"`
-	Sampler      string          `json:"sampler"`
-	ScaleFactorS float64         `json:"scale_factor_s"`
-	Indices      mc.SobolResult  `json:"indices"`
-	Derivatives  []mc.Derivative `json:"derivatives"`
 }
 
 // sensitivityTag records the design in a run's fingerprint (see ensembleJob).
@@ -112,188 +95,49 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	ctx, stop := signalContext()
 	defer stop()
 	job := ensembleJob{realiser: r, runner: design, records: design.Len(), tag: sensitivityTag{BaseRows: o.base, Inputs: design.Inputs()}}
-	run, err := runJob(ctx, e, stderr, sc, job, o.ens, o.ens.dir(), "sensitivity")
+	run, err := runJob(ctx, e, stderr, sc, job, o.ens, o.ens.dir(), o.ens.resume != "", "sensitivity")
 	if err != nil {
 		return err
 	}
 	if o.ens.shard != "" {
-		return printShardNote(stdout, o.ens, []string{""}, "compute the indices of the merged design")
+		return present.PrintShardNote(stdout, o.ens.shard, o.ens.dir(), []string{""}, "compute the indices of the merged design")
 	}
-	if err := checkRecords(run.records); err != nil {
+	if err := mc.CheckDecidable(run.records); err != nil {
 		return fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
 	indices, err := design.Indices(run.records, o.ens.confidence)
 	if err != nil {
 		return err
 	}
-	rep := sensitivityReport{
+	rep := present.SensitivityReport{
 		Inputs: design.Inputs(), BaseRows: o.base, Shots: design.Len(), Seed: o.ens.seed, Sampler: o.ens.sampler,
 		ScaleFactorS: run.manifest.ScaleFactorS, Indices: indices, Derivatives: mc.LocalDerivatives(r),
 	}
 	if dir := o.ens.dir(); dir != "" {
-		if err := writeSensitivity(dir, rep); err != nil {
+		if err := present.WriteSensitivity(dir, rep); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %d shots, %s and the bar charts to %s\n", len(run.records), sensitivityFile, dir)
+		fmt.Fprintf(stderr, "wrote %d shots, %s and the bar charts to %s\n", len(run.records), present.SensitivityFile, dir)
 	}
 	cfg, ramp := r.Config(), r.Config().Sequence.Up.Name()+" ramp"
-	var work ensembleWork
-	work.add(run)
+	var work present.Work
+	work.Add(run.fresh, len(run.records), run.elapsed)
 	what := fmt.Sprintf("Saltelli design of %d base rows x (%d inputs + 2) = %d shots", o.base, len(rep.Inputs), rep.Shots)
-	designLine := strings.Replace(work.line(what, o.ens), "Ensembles: ", "Design: ", 1)
+	designLine := strings.Replace(work.Line(what, o.ens.seed, o.ens.sampler, o.ens.shard), "Ensembles: ", "Design: ", 1)
 	if o.report != "" {
-		sens, err := sensitivitySection(rep)
+		sens, err := present.SensitivitySection(rep)
 		if err != nil {
 			return err
 		}
-		cfgs, name := oneRamp(cfg)
+		cfgs, name := present.OneRamp(cfg)
 		if err := writeDecisionReport(e, stderr, o.decisionOptions, "Sensitivity of "+name+" on "+sc.Name+" to its noise sources", sc, cfgs, name,
-			setupText(sc, cfg, ramp, budget, designLine), sens); err != nil {
+			present.SetupText(sc, cfg, ramp, budget, designLine), sens); err != nil {
 			return err
 		}
 	}
 	if o.json {
-		return writeJSON(stdout, rep)
+		return present.WriteJSON(stdout, rep)
 	}
-	printHeader(stdout, sc, cfg, ramp, budget, designLine)
-	return printSensitivity(stdout, rep)
-}
-
-func printSensitivity(w io.Writer, rep sensitivityReport) error {
-	if err := sobolGrid(rep).Render(w); err != nil {
-		return err
-	}
-	fmt.Fprintf(w, "\n%s\n\n", sobolNote(rep))
-	d := derivativeGrid(rep)
-	if d == nil {
-		fmt.Fprintln(w, noDerivatives)
-		return nil
-	}
-	fmt.Fprintln(w, derivativesLead)
-	return d.Render(w)
-}
-
-// sobolGrid returns the table of the Sobol' indices, a row per input.
-func sobolGrid(rep sensitivityReport) *grid {
-	conf := sig(100*rep.Indices.Confidence, 3) + " % interval"
-	f := func(x float64) string { return fixed(x, 3) }
-	t := newGrid(fmt.Sprintf("Sobol' indices of contrast and bias, %d shots", rep.Shots), "Input", "Contrast S1", conf, "Contrast ST", conf, "Bias S1", conf, "Bias ST", conf)
-	for _, in := range rep.Indices.Inputs {
-		row := []string{in.Name}
-		for _, i := range []mc.Interval{in.ContrastFirst, in.ContrastTotal, in.BiasFirst, in.BiasTotal} {
-			row = append(row, f(i.Value), interval(i.Lo, i.Hi, f))
-		}
-		t.Append(row...)
-	}
-	return t
-}
-
-// sobolNote explains the indices and gives the spread they apportion.
-func sobolNote(rep sensitivityReport) string {
-	biasStd := math.Sqrt(rep.Indices.BiasVariance)
-	return fmt.Sprintf("S1: the share of the variance an input causes alone; ST: with all its interactions (ST >= S1; 1 - sum S1 is the share of interactions). Spread over the design: contrast std %s, bias std %s rad (%s deg/h). Bootstrap intervals over the %d rows; small negative values are sampling error about zero.",
-		sci(math.Sqrt(rep.Indices.ContrastVariance), 3), sci(biasStd, 3), sci(mc.BiasDegPerH(biasStd, rep.ScaleFactorS), 3), rep.BaseRows)
-}
-
-// noDerivatives and derivativesLead introduce the table of local
-// derivatives, or say why there is none.
-const (
-	noDerivatives   = "No static errors in the budget: no local derivatives."
-	derivativesLead = "Local derivatives of one shot at nominal, central differences over the step h (one budget standard deviation):"
-)
-
-// derivativeGrid returns the table of local derivatives, nil without a
-// static error in the budget.
-func derivativeGrid(rep sensitivityReport) *grid {
-	if len(rep.Derivatives) == 0 {
-		return nil
-	}
-	t := newGrid(strings.TrimSuffix(derivativesLead, ":"), "Input", "Step h", "Unit", "dC/dx", "d2C/dx2", "Contrast change C'' h^2/2",
-		"db/dx (rad per unit)", "Bias shift b' h (rad)", "Bias shift b' h (deg/h)")
-	for _, d := range rep.Derivatives {
-		shift := d.BiasRad * d.StepSI
-		t.Append(d.Input, sig(d.StepSI, 4), siUnit(d.Input), sci(d.Contrast, 3), sci(d.ContrastSecond, 3), sci(d.ContrastSecond*d.StepSI*d.StepSI/2, 3),
-			sci(d.BiasRad, 3), sci(shift, 3), sci(mc.BiasDegPerH(shift, rep.ScaleFactorS), 3))
-	}
-	return t
-}
-
-// sensitivitySection takes what sensitivity --json prints and shows the
-// Sobol' index table with its bar charts and the local derivatives.
-func sensitivitySection(rep sensitivityReport) (report.Section, error) {
-	figs, err := figures(sensitivityFigures(rep))
-	if err != nil {
-		return report.Section{}, err
-	}
-	sec := report.Section{
-		Heading: "Sensitivity",
-		Text:    sobolNote(rep),
-		Tables:  []report.Table{sobolGrid(rep).table()},
-		Figures: figs,
-	}
-	if d := derivativeGrid(rep); d != nil {
-		sec.Tables = append(sec.Tables, d.table())
-	} else {
-		sec.Text += "\n\n" + noDerivatives
-	}
-	return sec, nil
-}
-
-// siUnit is the SI unit of a static parameter, which its name carries.
-func siUnit(param string) string {
-	switch {
-	case strings.HasSuffix(param, "_s"):
-		return "s"
-	case strings.HasSuffix(param, "_k"):
-		return "K"
-	}
-	return "1 (relative)"
-}
-
-// writeSensitivity writes the indices and their bar charts to dir.
-func writeSensitivity(dir string, rep sensitivityReport) error {
-	if err := outfile.Write(filepath.Join(dir, sensitivityFile), func(w io.Writer) error { return writeJSON(w, rep) }); err != nil {
-		return err
-	}
-	nfs, err := sensitivityFigures(rep)
-	if err != nil {
-		return err
-	}
-	return writeFigures(dir, nfs)
-}
-
-// sensitivityFigures returns the bar charts of the indices of the contrast
-// and of the bias, named sensitivity-contrast and sensitivity-bias.
-func sensitivityFigures(rep sensitivityReport) ([]namedFigure, error) {
-	var out []namedFigure
-	for _, output := range []struct {
-		name, label string
-		first       func(mc.SobolInput) mc.Interval
-		total       func(mc.SobolInput) mc.Interval
-	}{
-		{"contrast", "contrast", func(i mc.SobolInput) mc.Interval { return i.ContrastFirst }, func(i mc.SobolInput) mc.Interval { return i.ContrastTotal }},
-		{"bias", "bias", func(i mc.SobolInput) mc.Interval { return i.BiasFirst }, func(i mc.SobolInput) mc.Interval { return i.BiasTotal }},
-	} {
-		first := plots.BarSeries{Name: "first order S1"}
-		total := plots.BarSeries{Name: "total ST"}
-		for _, in := range rep.Indices.Inputs {
-			for _, s := range []struct {
-				b *plots.BarSeries
-				i mc.Interval
-			}{{&first, output.first(in)}, {&total, output.total(in)}} {
-				s.b.Values, s.b.Lo, s.b.Hi = append(s.b.Values, s.i.Value), append(s.b.Lo, s.i.Lo), append(s.b.Hi, s.i.Hi)
-			}
-		}
-		fig, err := plots.Bars(rep.Inputs, []plots.BarSeries{first, total}, plots.BarsOptions{
-			Title:      fmt.Sprintf("Sobol' indices of the %s, %d shots", output.label, rep.Shots),
-			ValueLabel: "share of the variance of the " + output.label,
-			Horizontal: true,
-		})
-		if err != nil {
-			return nil, fmt.Errorf("bar chart of the %s indices: %w", output.label, err)
-		}
-		caption := fmt.Sprintf("First-order and total Sobol' indices of the %s for each input, with their %s %% bootstrap intervals.", output.label, sig(100*rep.Indices.Confidence, 3))
-		out = append(out, namedFigure{name: "sensitivity-" + output.name, caption: caption, fig: fig})
-	}
-	return out, nil
+	present.PrintHeader(stdout, sc, cfg, ramp, budget, designLine)
+	return present.PrintSensitivity(stdout, rep)
 }

@@ -6,6 +6,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"rampart/cmd/internal/present"
 )
 
 // sensitivityArgs is a small design on the fast ensemble: 4 base rows of
@@ -59,7 +61,7 @@ func TestSensitivityStore(t *testing.T) {
 	if rows := readCSV(t, filepath.Join(one, "realisations.csv")); len(rows)-1 != 32 {
 		t.Errorf("%d stored shots, want 32", len(rows)-1)
 	}
-	for _, f := range []string{sensitivityFile, "sensitivity-contrast.svg", "sensitivity-contrast.png", "sensitivity-bias.svg", "sensitivity-bias.png"} {
+	for _, f := range []string{present.SensitivityFile, "sensitivity-contrast.svg", "sensitivity-contrast.png", "sensitivity-bias.svg", "sensitivity-bias.png"} {
 		if _, err := os.Stat(filepath.Join(one, f)); err != nil {
 			t.Error(err)
 		}

@@ -1,20 +1,14 @@
 package main
 
 import (
-	"bufio"
-	"bytes"
-	"encoding/json"
 	"fmt"
 	"io"
-	"math"
-	"strconv"
-	"time"
 
 	"github.com/spf13/cobra"
 
-	"rampart/cmd/internal/outfile"
-	"rampart/cmd/internal/scenario"
-	"rampart/mc"
+	"rampart/cmd/internal/present"
+	"rampart/internal/atomicfile"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -27,7 +21,9 @@ type shotOptions struct {
 	readout  readoutOptions
 }
 
-func newShotCmd(e env) *cobra.Command {
+// newShotCmd returns the command; run is what it runs with the parsed
+// options (runShot outside tests).
+func newShotCmd(e env, run func(e env, stdout, stderr io.Writer, o shotOptions) error) *cobra.Command {
 	var o shotOptions
 	cmd := &cobra.Command{
 		Use:   "shot --scenario FILE",
@@ -39,7 +35,7 @@ a rotation rate, the scale factor, each arm's ground-band population after the
 ramp-up, the per-level breakdown of a thermal start, and the numerics used.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			return runShot(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
 		},
 	}
 	addScenarioFlags(cmd, &o.scenario, &o.sets)
@@ -59,21 +55,8 @@ func addScenarioFlags(cmd *cobra.Command, path *string, sets *[]string) {
 	cmd.MarkFlagRequired("scenario")
 }
 
-// loadScenario reads a scenario and its simulation configuration.
-func loadScenario(path string, sets []string) (*scenario.Scenario, sim.Config, error) {
-	sc, err := scenario.Load(path, sets)
-	if err != nil {
-		return nil, sim.Config{}, err
-	}
-	cfg, err := sc.Config()
-	if err != nil {
-		return nil, sim.Config{}, err
-	}
-	return sc, cfg, nil
-}
-
 func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
-	sc, cfg, err := loadScenario(o.scenario, o.sets)
+	sc, cfg, err := scenario.LoadConfig(o.scenario, o.sets)
 	if err != nil {
 		return err
 	}
@@ -94,11 +77,11 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 			return err
 		}
 	}
-	rep := newShotReport(sc, run, ro)
+	rep := present.NewShotReport(sc, run, ro)
 	if o.json {
 		// The JSON separates the zero-rate bias from the scale-factor error
 		// (IEEE Std 952-1997 terms), from two more shots at Omega +- h.
-		s, err := sim.NewSimulator(run.cfg)
+		s, err := sim.NewSimulator(run.Config)
 		if err != nil {
 			return err
 		}
@@ -107,260 +90,34 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 			return err
 		}
 		rep.BiasRad, rep.ScaleFactorErrorPPM = g.ZeroRateBiasRad, &g.ScaleFactorErrorPPM
-		rep.BiasRadS = g.ZeroRateBiasRad / run.result.ScaleFactorS
+		rep.BiasRadS = g.ZeroRateBiasRad / run.Result.ScaleFactorS
 		rep.BiasDegPerH = sim.RadPerSToDegPerH(rep.BiasRadS)
 	}
 	if o.check {
-		f, err := simulate(e, sc, sim.Refine(run.cfg), nil)
+		f, err := simulate(e, sc, sim.Refine(run.Config), nil)
 		if err != nil {
 			return err
 		}
-		rep.Check = newCheckReport(sim.CompareNumerics(run.result, f.result))
+		rep.Check = present.NewCheckReport(sim.CompareNumerics(run.Result, f.Result))
 	}
 	if o.trace != "" {
-		if err := outfile.Write(o.trace, func(w io.Writer) error { return writeTrace(w, trace) }); err != nil {
+		if err := atomicfile.Write(o.trace, func(w io.Writer) error { return present.WriteTrace(w, trace) }); err != nil {
 			return err
 		}
 		fmt.Fprintf(stderr, "wrote %d rows of diagnostics to %s\n", len(trace), o.trace)
 	}
 	if o.json {
-		return writeJSON(stdout, rep)
+		return present.WriteJSON(stdout, rep)
 	}
-	return rep.print(stdout, sc, run.cfg)
+	return rep.Print(stdout, sc, run.Config)
 }
 
-// shotRun is one simulated shot.
-type shotRun struct {
-	cfg     sim.Config // with the numerics in use filled in
-	result  sim.Result
-	elapsed time.Duration
-}
-
-func simulate(e env, sc *scenario.Scenario, cfg sim.Config, obs sim.Observer) (shotRun, error) {
+func simulate(e env, sc *scenario.Scenario, cfg sim.Config, obs sim.Observer) (present.ShotRun, error) {
 	s, err := sim.NewSimulator(cfg)
 	if err != nil {
-		return shotRun{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
+		return present.ShotRun{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
 	start := e.now()
 	r := s.Run(sim.Shot{}, obs)
-	return shotRun{cfg: s.Config(), result: r, elapsed: e.now().Sub(start)}, nil
-}
-
-// shotReport is the output of `rampart shot`, the object --json prints.
-type shotReport struct {
-	Scenario     string  `json:"scenario"`
-	Ramp         string  `json:"ramp"`
-	Contrast     float64 `json:"contrast"`
-	PhaseRad     float64 `json:"phase_rad"`
-	SagnacRad    float64 `json:"sagnac_rad"`
-	BiasRad      float64 `json:"bias_rad"` // in the JSON: the bias at zero rotation, phase - K_shot Omega
-	BiasRadS     float64 `json:"bias_rad_s"`
-	BiasDegPerH  float64 `json:"bias_deg_per_h"`
-	ScaleFactorS float64 `json:"scale_factor_s"`
-	// ScaleFactorErrorPPM is K_shot/K - 1 in ppm, K_shot = dPhi/dOmega of
-	// the shot (sim.Simulator.Gyro); JSON only.
-	ScaleFactorErrorPPM *float64       `json:"scale_factor_error_ppm,omitempty"`
-	GroundBand          [2]float64     `json:"ground_band_after_rampup"`
-	Grid                int            `json:"grid"`
-	StepS               float64        `json:"step_s"`
-	TemperatureK        float64        `json:"temperature_k"`
-	Levels              []levelReport  `json:"levels"`
-	ElapsedS            float64        `json:"elapsed_s"`
-	Readout             *readoutReport `json:"readout,omitempty"`
-	Check               *checkReport   `json:"check,omitempty"`
-}
-
-// levelReport is one of the site's levels of a thermal start.
-type levelReport struct {
-	Band         int     `json:"band"`
-	Weight       float64 `json:"weight"`        // Boltzmann weight p_n
-	EnergyHz     float64 `json:"energy_hz"`     // band mean energy E_n/h, including the lattice's -V0/2
-	ExcitationHz float64 `json:"excitation_hz"` // (E_n - E_0)/h
-	AbsZ         float64 `json:"abs_z"`         // |z_n|, the contrast of this level alone
-	ArgZRad      float64 `json:"arg_z_rad"`     // arg z_n
-}
-
-// readoutReport holds the gyroscope figures of the [readout] table.
-type readoutReport struct {
-	Atoms             float64 `json:"atoms"`
-	CycleS            float64 `json:"cycle_s"`
-	ProjectionRadS    float64 `json:"projection_noise_rad_s"`
-	ProjectionDegPerH float64 `json:"projection_noise_deg_per_h"`
-	ARWDegPerSqrtH    float64 `json:"angle_random_walk_deg_per_sqrt_h"`
-}
-
-// checkReport compares a shot with one on a doubled grid and a halved step.
-type checkReport struct {
-	Grid              int     `json:"grid"`
-	StepS             float64 `json:"step_s"`
-	ContrastChange    float64 `json:"contrast_change"`
-	PhaseChangeRad    float64 `json:"phase_change_rad"`
-	ContrastTolerance float64 `json:"contrast_tolerance"`
-	PhaseToleranceRad float64 `json:"phase_tolerance_rad"`
-	Converged         bool    `json:"converged"`
-}
-
-func newShotReport(sc *scenario.Scenario, run shotRun, ro readout) *shotReport {
-	r := run.result
-	rep := &shotReport{
-		Scenario:     sc.Name,
-		Ramp:         run.cfg.Sequence.Up.Name(),
-		Contrast:     r.Contrast,
-		PhaseRad:     r.PhaseRad,
-		SagnacRad:    r.SagnacRad,
-		BiasRad:      r.BiasRad,
-		BiasRadS:     r.BiasRadS,
-		BiasDegPerH:  r.BiasDegPerH,
-		ScaleFactorS: r.ScaleFactorS,
-		GroundBand:   r.GroundAfterRampUp,
-		Grid:         r.Grid,
-		StepS:        r.StepS,
-		TemperatureK: run.cfg.TemperatureK,
-		ElapsedS:     run.elapsed.Seconds(),
-	}
-	for _, l := range r.Levels {
-		rep.Levels = append(rep.Levels, levelReport{
-			Band:         l.Band,
-			Weight:       l.Weight,
-			EnergyHz:     l.EnergyHz,
-			ExcitationHz: l.EnergyHz - r.Levels[0].EnergyHz,
-			AbsZ:         math.Hypot(real(l.Z), imag(l.Z)),
-			ArgZRad:      math.Atan2(imag(l.Z), real(l.Z)),
-		})
-	}
-	if ro.atoms > 0 && r.Contrast > 0 && r.ScaleFactorS > 0 {
-		g := mc.GyroFigures(r.ScaleFactorS, r.Contrast, ro.atoms, ro.cycleS)
-		rep.Readout = &readoutReport{
-			Atoms:             g.Atoms,
-			CycleS:            g.CycleS,
-			ProjectionRadS:    g.ShotNoiseRadS,
-			ProjectionDegPerH: g.ShotNoiseDegPerH,
-			ARWDegPerSqrtH:    g.AngleRandomWalkDegPerSqrtH,
-		}
-	}
-	return rep
-}
-
-func newCheckReport(est sim.ErrorEstimate) *checkReport {
-	return &checkReport{
-		Grid:              est.RefinedGrid,
-		StepS:             est.RefinedStepS,
-		ContrastChange:    est.ContrastChange,
-		PhaseChangeRad:    est.PhaseChangeRad,
-		ContrastTolerance: est.ContrastTarget,
-		PhaseToleranceRad: est.PhaseTargetRad,
-		Converged:         est.Met,
-	}
-}
-
-func (rep *shotReport) print(w io.Writer, sc *scenario.Scenario, cfg sim.Config) error {
-	fmt.Fprintf(w, "Scenario %s\n%s\n\n", sc.Name, describe(sc, cfg, cfg.Sequence.Up.Name()+" ramp"))
-	t := newTable(w, "Quantity", "Value", "Unit")
-	t.Append("Contrast C = |z|", fixed(rep.Contrast, 5), "")
-	t.Append("Interferometer phase arg z", sci(rep.PhaseRad, 7), "rad")
-	t.Append("Sagnac phase 2 I phi(T) Omega_bg / hbar", sci(rep.SagnacRad, 7), "rad")
-	t.Append("Bias b = phase - Sagnac phase", sci(rep.BiasRad, 3), "rad")
-	t.Append("Bias as a rotation rate b / K", sci(rep.BiasRadS, 3), "rad/s")
-	t.Append("Bias as a rotation rate b / K", sci(rep.BiasDegPerH, 3), "deg/h")
-	t.Append("Scale factor K = 2 I phi(T) / hbar", sig(rep.ScaleFactorS, 6), "s (rad per rad/s)")
-	t.Append("Ground band after ramp-up, arm s = +1", fixed(rep.GroundBand[0], 5), "")
-	t.Append("Ground band after ramp-up, arm s = -1", fixed(rep.GroundBand[1], 5), "")
-	if ro := rep.Readout; ro != nil {
-		t.Append(fmt.Sprintf("Projection noise per shot, %s atoms", sig(ro.Atoms, 6)), sci(ro.ProjectionRadS, 3), "rad/s")
-		t.Append(fmt.Sprintf("Projection noise per shot, %s atoms", sig(ro.Atoms, 6)), sci(ro.ProjectionDegPerH, 3), "deg/h")
-		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", sig(ro.CycleS, 6)), sci(ro.ARWDegPerSqrtH, 3), "deg/sqrt(h)")
-	}
-	t.Append("Momentum grid", strconv.Itoa(rep.Grid), "states")
-	t.Append("Time step while the drive changes", sig(rep.StepS*1e6, 4), "us")
-	if len(rep.Levels) > 1 {
-		t.Append("Levels of the site propagated", strconv.Itoa(len(rep.Levels)), "")
-	}
-	el, unit := duration(time.Duration(rep.ElapsedS * float64(time.Second)))
-	t.Append("Elapsed (one shot)", el, unit)
-	if err := t.Render(); err != nil {
-		return err
-	}
-	if sc.Noise != (scenario.Noise{}) {
-		fmt.Fprintln(w, "\nNote: the scenario's [noise.*] tables describe an ensemble; this shot is noise-free.")
-	}
-	if sc.Thermal() {
-		fmt.Fprintf(w, "\nThermal start at %s nK: the levels of the site\n", sig(sc.Start.TemperatureNK, 6))
-		lt := newTable(w, "Band n", "Weight p_n", "(E_n - E_0)/h (kHz)", "|z_n|", "arg z_n (rad)")
-		for _, l := range rep.Levels {
-			lt.Append(strconv.Itoa(l.Band), sci(l.Weight, 4), fixed(l.ExcitationHz/1e3, 3), fixed(l.AbsZ, 5), sci(l.ArgZRad, 7))
-		}
-		if err := lt.Render(); err != nil {
-			return err
-		}
-	}
-	if c := rep.Check; c != nil {
-		fmt.Fprintf(w, "\nNumerics check: grid %d and step %s us against grid %d and step %s us\n",
-			c.Grid, sig(c.StepS*1e6, 4), rep.Grid, sig(rep.StepS*1e6, 4))
-		ct := newTable(w, "Change", "Value", "Tolerance", "Within")
-		ct.Append("Contrast", sci(c.ContrastChange, 2), sci(c.ContrastTolerance, 1), yesNo(math.Abs(c.ContrastChange) <= c.ContrastTolerance))
-		ct.Append("Phase (rad)", sci(c.PhaseChangeRad, 2), sci(c.PhaseToleranceRad, 1), yesNo(math.Abs(c.PhaseChangeRad) <= c.PhaseToleranceRad))
-		if err := ct.Render(); err != nil {
-			return err
-		}
-	}
-	return nil
-}
-
-// describe says in one line what the scenario simulates; ramp names the ramp.
-func describe(sc *scenario.Scenario, cfg sim.Config, ramp string) string {
-	atom := fmt.Sprintf("atom of %s u", sig(sc.Atom.MassU, 6))
-	if sc.Atom.MassU == sim.Rb87MassU {
-		atom = "Rb-87 atom"
-	}
-	start := "ground-state start"
-	if sc.Thermal() {
-		start = fmt.Sprintf("thermal start at %s nK", sig(sc.Start.TemperatureNK, 6))
-	}
-	laps := "laps"
-	if sc.Motion.Laps == 1 {
-		laps = "lap"
-	}
-	return fmt.Sprintf("%s, %d sites of radius %s um, %s kHz deep (trap %s kHz); %s of %s us to %s rad/s, %s %s; rotation %s rad/s; %s",
-		atom, sc.Ring.Sites, sig(sc.Ring.RadiusUM, 6), sig(sc.Lattice.DepthKHz, 6), sig(cfg.Ring.TrapHz(cfg.DepthHz)/1e3, 4),
-		ramp, sig(cfg.Sequence.Up.Duration()*1e6, 6), sig(sc.Motion.CruiseRadS, 6), sig(sc.Motion.Laps, 6), laps,
-		sig(sc.Motion.RotationRadS, 6), start)
-}
-
-// duration formats an elapsed time in ms, or in s from one second on.
-func duration(d time.Duration) (value, unit string) {
-	if d >= time.Second {
-		return sig(d.Seconds(), 3), "s"
-	}
-	return sig(d.Seconds()*1e3, 3), "ms"
-}
-
-// A JSON object gains a first member "rampart" naming the build that wrote
-// it (version.Info), so that every result says what produced it.
-func writeJSON(w io.Writer, v any) error {
-	b, err := stampVersion(v)
-	if err != nil {
-		return err
-	}
-	var out bytes.Buffer
-	if err := json.Indent(&out, b, "", "  "); err != nil {
-		return err
-	}
-	out.WriteByte('\n')
-	_, err = out.WriteTo(w)
-	return err
-}
-
-// writeTrace writes the observer's diagnostics as CSV, arm s = +1 or -1.
-func writeTrace(w io.Writer, rows []sim.Diagnostics) error {
-	bw := bufio.NewWriter(w)
-	fmt.Fprintln(bw, "time_s,arm,offset_rad,width_rad,velocity_error_rad_s,ground_band,norm")
-	for _, d := range rows {
-		arm := 1
-		if d.Arm == 1 {
-			arm = -1
-		}
-		fmt.Fprintf(bw, "%s,%d,%s,%s,%s,%s,%s\n", sig(d.TimeS, -1), arm, sig(d.OffsetRad, -1), sig(d.WidthRad, -1),
-			sig(d.VelocityErrRadS, -1), sig(d.GroundBand, -1), sig(d.Norm, -1))
-	}
-	return bw.Flush()
+	return present.ShotRun{Config: s.Config(), Result: r, Elapsed: e.now().Sub(start)}, nil
 }

@@ -4,15 +4,15 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
 
-	"rampart/cmd/internal/scenario"
+	"rampart/cmd/internal/present"
 	"rampart/mc"
+	"rampart/scenario"
 	"rampart/sim"
 )
 
@@ -24,7 +24,9 @@ type toleranceOptions struct {
 	precision float64
 }
 
-func newToleranceCmd(e env) *cobra.Command {
+// newToleranceCmd returns the command; run is what it runs with the parsed
+// options (runTolerance outside tests).
+func newToleranceCmd(e env, run func(e env, stdout, stderr io.Writer, o toleranceOptions, confidenceGiven bool) error) *cobra.Command {
 	var o toleranceOptions
 	cmd := &cobra.Command{
 		Use:   "tolerance --scenario FILE --spec SPEC.toml",
@@ -52,29 +54,18 @@ them. --shard is refused: each step of the search needs the whole ensemble of
 the step before.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			return runTolerance(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
+			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
 		},
 	}
 	o.add(cmd, 200, "the tolerances and their curves")
 	confidenceFromSpec(cmd)
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
-	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.Sources, ", ")+", or all (default: those the budget switches on)")
+	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.SourceKeys(), ", ")+", or all (default: those the budget switches on)")
 	f.BoolVar(&o.joint, "joint", false, "also search the factor by which the whole budget may be scaled")
 	f.Float64Var(&o.precision, "precision", 0.05, "relative precision `P` of each tolerance, in [0.001, 1]")
 	cmd.MarkFlagRequired("spec")
 	return cmd
-}
-
-// toleranceReport is what tolerance --json prints.
-type toleranceReport struct {
-	Spec         string               `json:"spec"`
-	Requirements mc.Requirements      `json:"requirements"`
-	Samples      int                  `json:"samples"`
-	Seed         uint64               `json:"seed"`
-	Sampler      string               `json:"sampler"`
-	ScaleFactorS float64              `json:"scale_factor_s"`
-	Results      []mc.ToleranceResult `json:"results"`
 }
 
 // searchTolerances searches the tolerance of each named source of budget
@@ -82,10 +73,10 @@ type toleranceReport struct {
 // amplitude an ensemble of the options' size on common random numbers (one
 // noise grid sized for the widest search), kept in a subdirectory
 // SOURCE/AMPLITUDE of the options' directory if there is one.
-func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (toleranceReport, ensembleWork, error) {
-	var work ensembleWork
-	if n := minYieldSamples(req); o.samples < n {
-		return toleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot show a yield of at least %g with %g %% confidence even if every one is inside (the exact lower bound for n of n is (1-c)^(1/n)); give at least %d",
+func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (present.ToleranceReport, present.Work, error) {
+	var work present.Work
+	if n := mc.MinYieldSamples(req); o.samples < n {
+		return present.ToleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot show a yield of at least %g with %g %% confidence even if every one is inside (the exact lower bound for n of n is (1-c)^(1/n)); give at least %d",
 			o.samples, req.YieldMin, 100*req.Confidence, n)
 	}
 	search := mc.ToleranceSearch{
@@ -93,42 +84,32 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		ScaleFactorS: cfg.Ring.ScaleFactor(cfg.Sequence.TotalAngle()),
 		Options:      mc.ToleranceOptions{Precision: precision},
 	}
-	grid, err := sharedGrid([]sim.Config{cfg}, search.Widest())
+	grid, err := mc.SharedGrid([]sim.Config{cfg}, search.Widest())
 	if err != nil {
-		return toleranceReport{}, work, fmt.Errorf("scenario %q: %w", sc.Name, err)
+		return present.ToleranceReport{}, work, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
 	evaluator := func(name string) mc.Evaluator {
 		return func(ctx context.Context, b mc.Budget) ([]mc.Record, error) {
 			key := amplitudeKey(name, budget, b)
 			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
-			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.apply(&ens)}
+			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.Apply(&ens)}
 			run, _, err := runPart(ctx, e, stderr, sc, ens, tag, o, filepath.Join(name, key), "tolerance "+name+" "+key)
 			if err != nil {
 				return nil, err
 			}
-			work.add(run)
-			return run.records, checkRecords(run.records)
+			work.Add(run.fresh, len(run.records), run.elapsed)
+			return run.records, mc.CheckDecidable(run.records)
 		}
 	}
-	rep := toleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS}
+	rep := present.ToleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS}
 	for _, name := range names {
 		res, err := search.Source(ctx, evaluator(name), name)
 		if err != nil {
-			return toleranceReport{}, work, err
+			return present.ToleranceReport{}, work, err
 		}
 		rep.Results = append(rep.Results, res)
 	}
 	return rep, work, nil
-}
-
-// minYieldSamples returns the fewest realisations with which a yield
-// requirement can pass: n of n inside has the one-sided lower bound
-// (1-c)^(1/n), which must reach the minimum yield (0 without one).
-func minYieldSamples(req mc.Requirements) int {
-	if !(req.YieldMin > 0 && req.YieldMin < 1) {
-		return 0
-	}
-	return int(math.Ceil(math.Log(1-req.Confidence) / math.Log(req.YieldMin)))
 }
 
 // toleranceTag sets an ensemble of a tolerance search apart from the others
@@ -178,59 +159,54 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 	}
 	rep.Spec = o.spec
 	if dir := o.ens.dir(); dir != "" {
-		if err := writeToleranceCurves(dir, rep); err != nil {
+		if err := present.WriteToleranceCurves(dir, rep); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %s, a figure per source and every ensemble of the search to %s\n", toleranceCurvesFile, dir)
+		fmt.Fprintf(stderr, "wrote %s, a figure per source and every ensemble of the search to %s\n", present.ToleranceCurvesFile, dir)
 	}
 	ramp := cfg.Sequence.Up.Name() + " ramp"
-	workLine := work.line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens)
-	specLine := fmt.Sprintf("Spec: %s, at %s %% confidence", o.spec, sig(100*req.Confidence, 3))
+	workLine := work.Line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens.seed, o.ens.sampler, o.ens.shard)
+	specLine := fmt.Sprintf("Spec: %s, at %s %% confidence", o.spec, present.Sig(100*req.Confidence, 3))
 	if o.report != "" {
-		tol, err := toleranceSection(rep)
+		tol, err := present.ToleranceSection(rep)
 		if err != nil {
 			return err
 		}
-		cfgs, name := oneRamp(cfg)
+		cfgs, name := present.OneRamp(cfg)
 		if err := writeDecisionReport(e, stderr, o.decisionOptions, "Tolerances of "+name+" on "+sc.Name+" against "+o.spec, sc, cfgs, name,
-			setupText(sc, cfg, ramp, budget, workLine, specLine), tol); err != nil {
+			present.SetupText(sc, cfg, ramp, budget, workLine, specLine), tol); err != nil {
 			return err
 		}
 	}
 	if o.json {
-		return writeJSON(stdout, rep)
+		return present.WriteJSON(stdout, rep)
 	}
-	printHeader(stdout, sc, cfg, ramp, budget, workLine, specLine)
-	return toleranceGrid(rep).RenderNoted(stdout, toleranceNotes(rep))
+	present.PrintHeader(stdout, sc, cfg, ramp, budget, workLine, specLine)
+	return present.ToleranceGrid(rep).RenderNoted(stdout, present.ToleranceNotes(rep))
 }
 
 // toleranceSources returns the sources to search: those listed
 // (comma-separated, or "all"), or the sources b switches on.
 func toleranceSources(b mc.Budget, list string) ([]string, error) {
 	if list == "all" {
-		return mc.Sources, nil
+		return mc.SourceKeys(), nil
 	}
 	if list != "" {
 		var out []string
 		for _, name := range strings.Split(list, ",") {
 			name = strings.TrimSpace(name)
-			if _, ok := sourceAmplitudes[name]; !ok {
+			if _, ok := mc.LookupSource(name); !ok {
 				hint := ""
 				if name == mc.SourceBudget {
 					hint = " (--joint searches the whole budget)"
 				}
-				return nil, fmt.Errorf("--sources: unknown noise source %q%s: want %s, or all", name, hint, strings.Join(mc.Sources, ", "))
+				return nil, fmt.Errorf("--sources: unknown noise source %q%s: want %s, or all", name, hint, strings.Join(mc.SourceKeys(), ", "))
 			}
 			out = append(out, name)
 		}
 		return out, nil
 	}
-	var out []string
-	for _, name := range mc.Sources {
-		if _, on := sourceAmplitudes[name](b, b); on {
-			out = append(out, name)
-		}
-	}
+	out := mc.ActiveSources(b)
 	if len(out) == 0 {
 		return nil, fmt.Errorf("the noise budget has no active source: give --sources to search some from their reference amplitudes")
 	}
@@ -241,7 +217,7 @@ func toleranceSources(b mc.Budget, list string) ([]string, error) {
 // (the budget's nominal value of every other source): the source's
 // amplitude in the unit of the tolerance table to six digits, or "off".
 func amplitudeKey(name string, nominal, b mc.Budget) string {
-	a, on := sourceAmplitude(name, nominal, b)
+	a, on := mc.SourceAmplitude(name, nominal, b)
 	if !on {
 		return "off"
 	}

@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"rampart/cmd/internal/present"
 )
 
 // skewArgs searches the skew tolerance of the fast ensemble with the
@@ -94,7 +96,7 @@ func TestToleranceSkew(t *testing.T) {
 		t.Errorf("run at %v ns: |bias| p95 %v rad, want the search's %v (tol 1e-9 relative) and at most 1e-4", tol, got, want)
 	}
 
-	rows := readCSV(t, filepath.Join(out, toleranceCurvesFile))
+	rows := readCSV(t, filepath.Join(out, present.ToleranceCurvesFile))
 	if got := strings.Join(rows[0], ","); got != "source,unit,amplitude,metric,limit,value,lo,hi,envelope_value,envelope_lo,envelope_hi,holds" {
 		t.Errorf("curves header %q", got)
 	}

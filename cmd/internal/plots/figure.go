@@ -12,7 +12,7 @@ import (
 	"gonum.org/v1/plot/vg/vgimg"
 	"gonum.org/v1/plot/vg/vgsvg"
 
-	"rampart/cmd/internal/outfile"
+	"rampart/internal/atomicfile"
 )
 
 // FileDPI is the resolution of the PNG that WriteFiles writes.
@@ -107,7 +107,7 @@ func (f *Figure) PNG(dpi int) ([]byte, error) {
 
 // WriteFiles writes the figure to base+".svg" and base+".png" (at FileDPI).
 // Both are rendered before either is written, and each file is written whole
-// or not at all (see package outfile).
+// or not at all (see package atomicfile).
 func (f *Figure) WriteFiles(base string) error {
 	svg, err := f.SVG()
 	if err != nil {
@@ -121,7 +121,7 @@ func (f *Figure) WriteFiles(base string) error {
 		path string
 		data []byte
 	}{{base + ".svg", svg}, {base + ".png", png}} {
-		err := outfile.Write(file.path, func(w io.Writer) error {
+		err := atomicfile.Write(file.path, func(w io.Writer) error {
 			_, err := w.Write(file.data)
 			return err
 		})

@@ -12,7 +12,7 @@ import (
 	"regexp"
 	"strings"
 
-	"rampart/cmd/internal/outfile"
+	"rampart/internal/atomicfile"
 )
 
 // FileName is the name of the page that Write writes.
@@ -110,7 +110,7 @@ func (r *Report) Write(dir string) (string, error) {
 		return "", fmt.Errorf("report: %w", err)
 	}
 	path := filepath.Join(dir, FileName)
-	err = outfile.Write(path, func(w io.Writer) error {
+	err = atomicfile.Write(path, func(w io.Writer) error {
 		_, err := w.Write(html)
 		return err
 	})

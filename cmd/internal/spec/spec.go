@@ -5,9 +5,9 @@ import (
 	"fmt"
 	"io/fs"
 	"math"
-	"rampart/cmd/internal/tomlguard"
-	"rampart/cmd/internal/tomlpos"
 	"rampart/internal/boundedread"
+	"rampart/internal/tomlguard"
+	"rampart/internal/tomlpos"
 	"strconv"
 	"strings"
 

@@ -3,10 +3,10 @@ package scenario
 import (
 	"fmt"
 	"math"
-	"rampart/cmd/internal/tomlpos"
-	"strings"
-
+	"rampart/internal/tomlpos"
+	"rampart/mc"
 	"rampart/sim"
+	"strings"
 )
 
 // kind is the TOML type a key takes.
@@ -69,11 +69,14 @@ type key struct {
 	choices  []string // text keys with a fixed set of values
 	required bool
 	meaning  string              // what the value is, with its unit
-	field    func(*Scenario) any // pointer to the Scenario field
+	field    func(*Scenario) any // pointer to the Scenario field; nil: a source key
+	// source marks a key made from a row of mc.Sources, stored in
+	// Scenario.SourceNoise.
+	source bool
 }
 
-// shapes are the values of ramp.shape.
-var shapes = []string{"sin2", "minjerk", "inverse", "file"}
+// shapes are the values of ramp.shape: the registered shapes, and a file.
+var shapes = append(sim.ShapeNames(), "file")
 
 // keys is the scenario schema, in the order of the reference in README.md.
 var keys = []*key{
@@ -141,6 +144,7 @@ var (
 )
 
 func init() {
+	keys = append(keys, sourceKeys()...)
 	for _, k := range keys {
 		keyByName[k.name] = k
 		parts := strings.Split(k.name, ".")
@@ -262,8 +266,34 @@ func (k *key) convert(v any) (any, error) {
 	panic("scenario: unknown key kind")
 }
 
+// sourceKeys returns a key for every static row of mc.Sources whose
+// scenario key the schema above lacks: a sigma in the file unit the key's
+// name carries, zero switching the source off.
+func sourceKeys() []*key {
+	have := map[string]bool{}
+	for _, k := range keys {
+		have[k.name] = true
+	}
+	var out []*key
+	for _, s := range mc.Sources {
+		if s.Kind != mc.Static || have[s.Scenario] {
+			continue
+		}
+		out = append(out, &key{name: s.Scenario, kind: number, bound: zeroOrAbove("off"),
+			meaning: "the sigma of the " + s.Meaning, source: true})
+	}
+	return out
+}
+
 // set stores a converted value in the Scenario field of the key.
 func (k *key) set(s *Scenario, v any) {
+	if k.source {
+		if s.SourceNoise == nil {
+			s.SourceNoise = map[string]float64{}
+		}
+		s.SourceNoise[k.name] = v.(float64)
+		return
+	}
 	switch p := k.field(s).(type) {
 	case *float64:
 		*p = v.(float64)
@@ -276,4 +306,17 @@ func (k *key) set(s *Scenario, v any) {
 	default:
 		panic("scenario: unsupported field type")
 	}
+}
+
+// Number returns the value of the number key name ("noise.timing.skew_ns")
+// in s, and whether the schema has such a key.
+func (s *Scenario) Number(name string) (float64, bool) {
+	k, ok := keyByName[name]
+	if !ok || k.kind != number {
+		return 0, false
+	}
+	if k.source {
+		return s.SourceNoise[name], true
+	}
+	return *k.field(s).(*float64), true
 }

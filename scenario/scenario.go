@@ -28,6 +28,13 @@ type Scenario struct {
 	Noise    Noise
 	Readout  Readout
 
+	// SourceNoise holds, by scenario key and in file units, the sigmas of
+	// the static sources of mc.Sources that Noise has no field for: their
+	// keys are made from the table (keys.go), so that adding a source
+	// needs no change here. Empty (and absent from the fingerprint) unless
+	// the file sets one.
+	SourceNoise map[string]float64 `json:",omitempty"`
+
 	fsys fs.FS // where File and PhaseTable are read; nil: the operating system
 }
 
@@ -292,14 +299,12 @@ func (s *Scenario) rampUp() (sim.Ramp, *keyError) {
 				s.Ramp.DurationUS, s.Ramp.File, tab.Duration(), tab.Duration()*1e6)}
 		}
 		return tab, nil
-	case "inverse":
-		inv, err := sim.NewInverse(s.simRing(), dur, cruise, s.designDepthHz())
-		if err != nil {
-			return nil, &keyError{"ramp", err}
-		}
-		return inv, nil
 	}
-	r, err := sim.NewShape(s.Ramp.Shape, dur, cruise, 0)
+	shape, err := sim.LookupShape(s.Ramp.Shape)
+	if err != nil {
+		return nil, &keyError{"ramp", err}
+	}
+	r, err := shape.New(s.simRing(), dur, cruise, s.designDepthHz())
 	if err != nil {
 		return nil, &keyError{"ramp", err}
 	}

@@ -1,4 +1,4 @@
-package main
+package present
 
 import (
 	"bufio"
@@ -7,14 +7,14 @@ import (
 	"path/filepath"
 	"strings"
 
-	"rampart/cmd/internal/outfile"
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
+	"rampart/internal/atomicfile"
 	"rampart/mc"
 )
 
-// toleranceCurvesFile holds the tolerance curves in the output directory.
-const toleranceCurvesFile = "tolerance-curves.csv"
+// ToleranceCurvesFile holds the tolerance curves in the output directory.
+const ToleranceCurvesFile = "tolerance-curves.csv"
 
 // toleranceStatusNotes explain the statuses of a tolerance search.
 var toleranceStatusNotes = map[mc.ToleranceStatus]string{
@@ -23,37 +23,27 @@ var toleranceStatusNotes = map[mc.ToleranceStatus]string{
 	mc.ToleranceNone:       "fails-without-source: the spec fails even with the source off; the other sources or the sequence itself break it.",
 }
 
-// binding returns the binding criterion of a tolerance result at a point.
-func binding(res mc.ToleranceResult, p mc.TolerancePoint) (mc.Criterion, bool) {
-	for _, c := range p.Criteria {
-		if c.Name == res.Metric {
-			return c, true
-		}
-	}
-	return mc.Criterion{}, false
-}
-
-// toleranceGrid returns the tolerance table: a row per source searched.
-func toleranceGrid(rep toleranceReport) *grid {
-	conf := sig(100*rep.Requirements.Confidence, 3) + " %"
-	t := newGrid("The tolerance of each noise source against spec "+rep.Spec, "Source", "Unit", "Nominal", "Tolerance", "Status",
+// ToleranceGrid returns the tolerance table: a row per source searched.
+func ToleranceGrid(rep ToleranceReport) *Grid {
+	conf := Sig(100*rep.Requirements.Confidence, 3) + " %"
+	t := NewGrid("The tolerance of each noise source against spec "+rep.Spec, "Source", "Unit", "Nominal", "Tolerance", "Status",
 		"Binding criterion", "At the tolerance", "Bounds ("+conf+" one-sided)", "At the tolerance (deg/h)", "Curve points")
 	for _, res := range rep.Results {
 		nominal := "off"
 		if res.Nominal != nil {
-			nominal = sig(*res.Nominal, 4)
+			nominal = Sig(*res.Nominal, 4)
 		}
 		tol, value, bounds, degPerH := "-", "", "", ""
 		if a, ok := res.Tolerance(); ok {
-			tol = sig(a, 3)
+			tol = Sig(a, 3)
 			if res.Status == mc.ToleranceAboveRange {
 				tol = ">= " + tol
 			}
-			if c, ok := binding(res, *res.At); ok {
+			if c, ok := res.Binding(*res.At); ok {
 				f := criterionFormat(c)
 				value, bounds = f(c.Value), interval(c.Lo, c.Hi, f)
 				if c.Unit == "rad" {
-					degPerH = sci(mc.BiasDegPerH(c.Value, rep.ScaleFactorS), 3)
+					degPerH = Sci(mc.BiasDegPerH(c.Value, rep.ScaleFactorS), 3)
 				}
 			}
 		}
@@ -66,12 +56,12 @@ func toleranceGrid(rep toleranceReport) *grid {
 	return t
 }
 
-// toleranceNotes explain the tolerance table: what a tolerance is, and
+// ToleranceNotes explain the tolerance table: what a tolerance is, and
 // the statuses and marks it shows.
-func toleranceNotes(rep toleranceReport) []string {
+func ToleranceNotes(rep ToleranceReport) []string {
 	out := []string{
 		"Each tolerance holds with every other source at its value in the budget; budget is the factor by which the whole budget may be scaled.",
-		fmt.Sprintf("The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.", sig(rep.Results[0].Precision, 3)),
+		fmt.Sprintf("The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.", Sig(rep.Results[0].Precision, 3)),
 	}
 	statuses := map[mc.ToleranceStatus]bool{}
 	monotone := true
@@ -90,32 +80,32 @@ func toleranceNotes(rep toleranceReport) []string {
 	return out
 }
 
-// toleranceSection takes what tolerance --json prints and shows the
+// ToleranceSection takes what tolerance --json prints and shows the
 // tolerance table and the curve of each source.
-func toleranceSection(rep toleranceReport) (report.Section, error) {
+func ToleranceSection(rep ToleranceReport) (report.Section, error) {
 	figs, err := figures(toleranceFigures(rep))
 	if err != nil {
 		return report.Section{}, err
 	}
 	return report.Section{
 		Heading: "Tolerances",
-		Text:    strings.Join(toleranceNotes(rep), "\n\n"),
-		Tables:  []report.Table{toleranceGrid(rep).table()},
+		Text:    strings.Join(ToleranceNotes(rep), "\n\n"),
+		Tables:  []report.Table{ToleranceGrid(rep).Table()},
 		Figures: figs,
 	}, nil
 }
 
-// writeToleranceCurves writes the curves of every search as CSV, and a
+// WriteToleranceCurves writes the curves of every search as CSV, and a
 // figure of each, to dir.
-func writeToleranceCurves(dir string, rep toleranceReport) error {
-	if err := outfile.Write(filepath.Join(dir, toleranceCurvesFile), func(w io.Writer) error {
+func WriteToleranceCurves(dir string, rep ToleranceReport) error {
+	if err := atomicfile.Write(filepath.Join(dir, ToleranceCurvesFile), func(w io.Writer) error {
 		bw := bufio.NewWriter(w)
 		fmt.Fprintln(bw, "source,unit,amplitude,metric,limit,value,lo,hi,envelope_value,envelope_lo,envelope_hi,holds")
 		for _, res := range rep.Results {
 			for _, p := range res.Points {
-				c, _ := binding(res, p)
-				fmt.Fprintf(bw, "%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%t\n", res.Source, res.Unit, sig(p.Amplitude, -1), res.Metric, sig(c.Limit, -1),
-					sig(p.Value, -1), sig(p.Lo, -1), sig(p.Hi, -1), sig(p.Envelope.Value, -1), sig(p.Envelope.Lo, -1), sig(p.Envelope.Hi, -1), p.Holds)
+				c, _ := res.Binding(p)
+				fmt.Fprintf(bw, "%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%t\n", res.Source, res.Unit, Sig(p.Amplitude, -1), res.Metric, Sig(c.Limit, -1),
+					Sig(p.Value, -1), Sig(p.Lo, -1), Sig(p.Hi, -1), Sig(p.Envelope.Value, -1), Sig(p.Envelope.Lo, -1), Sig(p.Envelope.Hi, -1), p.Holds)
 			}
 		}
 		return bw.Flush()
@@ -131,7 +121,7 @@ func writeToleranceCurves(dir string, rep toleranceReport) error {
 
 // toleranceFigures returns the curve of each search that has one (two
 // amplitudes or more), named tolerance-SOURCE.
-func toleranceFigures(rep toleranceReport) ([]namedFigure, error) {
+func toleranceFigures(rep ToleranceReport) ([]namedFigure, error) {
 	var out []namedFigure
 	for _, res := range rep.Results {
 		if len(res.Points) < 2 {
@@ -155,17 +145,28 @@ func toleranceFigure(res mc.ToleranceResult, confidence float64) (*plots.Figure,
 		x, y = append(x, p.Amplitude), append(y, p.Value)
 		lo, hi = append(lo, p.Lo), append(hi, p.Hi)
 	}
-	c, _ := binding(res, res.Points[0])
+	c, _ := res.Binding(res.Points[0])
 	opts := plots.LinesOptions{
 		Title:  fmt.Sprintf("Tolerance of %s: %s", res.Source, res.Status),
 		XLabel: fmt.Sprintf("%s (%s)", res.Source, res.Unit),
 		YLabel: criterionLabels[res.Metric],
 		LogX:   !strings.HasPrefix(res.Unit, "dB"),
-		Bands:  []plots.Band{{Name: fmt.Sprintf("%s %% one-sided bounds", sig(100*confidence, 3)), X: x, Lo: lo, Hi: hi}},
-		HLines: []plots.Marker{{Label: "spec limit " + sig(c.Limit, 4), Value: c.Limit}},
+		Bands:  []plots.Band{{Name: fmt.Sprintf("%s %% one-sided bounds", Sig(100*confidence, 3)), X: x, Lo: lo, Hi: hi}},
+		HLines: []plots.Marker{{Label: "spec limit " + Sig(c.Limit, 4), Value: c.Limit}},
 	}
 	if a, ok := res.Tolerance(); ok {
-		opts.VLines = []plots.Marker{{Label: "tolerance " + sig(a, 3) + " " + res.Unit, Value: a}}
+		opts.VLines = []plots.Marker{{Label: "tolerance " + Sig(a, 3) + " " + res.Unit, Value: a}}
 	}
 	return plots.Lines([]plots.Series{{Name: criterionLabels[res.Metric], X: x, Y: y}}, opts)
+}
+
+// ToleranceReport is what tolerance --json prints.
+type ToleranceReport struct {
+	Spec         string               `json:"spec"`
+	Requirements mc.Requirements      `json:"requirements"`
+	Samples      int                  `json:"samples"`
+	Seed         uint64               `json:"seed"`
+	Sampler      string               `json:"sampler"`
+	ScaleFactorS float64              `json:"scale_factor_s"`
+	Results      []mc.ToleranceResult `json:"results"`
 }

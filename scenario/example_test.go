@@ -4,11 +4,11 @@ import (
 	"fmt"
 	"log"
 
-	"rampart/cmd/internal/scenario"
+	"rampart/scenario"
 )
 
 func ExampleLoad() {
-	s, err := scenario.Load("../../../testdata/scenarios/benchmark.toml", []string{"ramp.shape=inverse"})
+	s, err := scenario.Load("../testdata/scenarios/benchmark.toml", []string{"ramp.shape=inverse"})
 	if err != nil {
 		log.Fatal(err)
 	}
@@ -19,7 +19,7 @@ func ExampleLoad() {
 	fmt.Printf("%s ramp, %g us up, %d sites of radius %g um\n", cfg.Sequence.Up.Name(), s.Ramp.DurationUS, cfg.Ring.Sites, s.Ring.RadiusUM)
 	fmt.Printf("trap frequency %.1f Hz, sequence %.3f ms\n", cfg.Ring.TrapHz(cfg.DepthHz), cfg.Sequence.Duration()*1e3)
 
-	_, err = scenario.Load("../../../testdata/scenarios/benchmark.toml", []string{"motion.laps=0.7"})
+	_, err = scenario.Load("../testdata/scenarios/benchmark.toml", []string{"motion.laps=0.7"})
 	fmt.Println(err)
 	// Output:
 	// inverse ramp, 150 us up, 20 sites of radius 5 um

@@ -1,4 +1,4 @@
-package main
+package present
 
 import (
 	"io"
@@ -9,10 +9,10 @@ import (
 	"github.com/olekukonko/tablewriter/tw"
 )
 
-// newTable returns an ASCII table with the given header. The first column
+// NewTable returns an ASCII table with the given header. The first column
 // (labels) and a column headed "Unit" are aligned left, the others (values)
 // right.
-func newTable(w io.Writer, header ...string) *tablewriter.Table {
+func NewTable(w io.Writer, header ...string) *tablewriter.Table {
 	align := make([]tw.Align, len(header))
 	for i, h := range header {
 		align[i] = tw.AlignRight
@@ -30,17 +30,17 @@ func newTable(w io.Writer, header ...string) *tablewriter.Table {
 	return t
 }
 
-// sig formats x with n significant digits, in exponent form when x is very
+// Sig formats x with n significant digits, in exponent form when x is very
 // small or large.
-func sig(x float64, n int) string { return strconv.FormatFloat(x, 'g', n, 64) }
+func Sig(x float64, n int) string { return strconv.FormatFloat(x, 'g', n, 64) }
 
-// sci formats x in exponent form with n significant digits.
-func sci(x float64, n int) string { return strconv.FormatFloat(x, 'e', n-1, 64) }
+// Sci formats x in exponent form with n significant digits.
+func Sci(x float64, n int) string { return strconv.FormatFloat(x, 'e', n-1, 64) }
 
-// fixed formats x with n digits after the decimal point.
-func fixed(x float64, n int) string { return strconv.FormatFloat(x, 'f', n, 64) }
+// Fixed formats x with n digits after the decimal point.
+func Fixed(x float64, n int) string { return strconv.FormatFloat(x, 'f', n, 64) }
 
-func yesNo(b bool) string {
+func YesNo(b bool) string {
 	if b {
 		return "yes"
 	}

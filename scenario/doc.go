@@ -15,6 +15,13 @@
 // in microseconds, temperature_nk in nanokelvin). Scenario.Config converts
 // them to the SI units of package sim.
 //
+// A scenario gives what a Go user needs to run it without the command line:
+// its simulation configuration (Config), its noise budget (Budget, one
+// static row of mc.Sources at a time) and its fingerprint (Fingerprint, what
+// an mc.Job records so that only shards of one ensemble merge); see
+// Example_shards. Contestants and RampVariant build the ramps of a ranking
+// from the registry of shapes (sim.Shapes).
+//
 // A ramp file ("file" shape) is a CSV table of the ramp-up, read by ParseRamp:
 // a header row naming the columns t_s and either omega_rad_s or drive_hz (the
 // drive frequency offset N Omega / 2 pi), then one row per sample. Between

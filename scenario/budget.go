@@ -1,4 +1,4 @@
-package main
+package scenario
 
 import (
 	"bytes"
@@ -7,24 +7,27 @@ import (
 	"encoding/json"
 	"fmt"
 
-	"rampart/cmd/internal/scenario"
 	"rampart/mc"
 	"rampart/noise"
+	"rampart/sim"
 )
 
-// budgetOf converts a scenario's [noise.*] tables (file units) to the
-// Monte Carlo noise budget (SI units).
-func budgetOf(sc *scenario.Scenario) (mc.Budget, error) {
+// Budget returns the Monte Carlo noise budget of the scenario's [noise.*]
+// tables, converted from file units to SI: every static row of mc.Sources
+// reads its key (mc.Source.Scenario) scaled by its FileScale; the noise
+// processes read their level, band or table.
+func (sc *Scenario) Budget() (mc.Budget, error) {
 	n := sc.Noise
-	b := mc.Budget{
-		DepthCommonRel:       n.Depth.CommonRel,
-		DepthDifferentialRel: n.Depth.DifferentialRel,
-		ClockRel:             n.Timing.ClockPPM * 1e-6,
-		SpeedRel:             n.Timing.SpeedPPM * 1e-6,
-		SkewS:                n.Timing.SkewNS * 1e-9,
-		TemperatureSpreadK:   n.Temperature.SpreadNK * 1e-9,
-		PulseAreaRel:         n.Pulses.AreaRel,
-		PhaseCorrelation:     n.Drive.Correlation,
+	b := mc.Budget{PhaseCorrelation: n.Drive.Correlation}
+	for _, s := range mc.Sources {
+		if s.Kind != mc.Static {
+			continue
+		}
+		v, ok := sc.Number(s.Scenario)
+		if !ok {
+			return mc.Budget{}, fmt.Errorf("scenario %q: source %s: no number key %q", sc.Name, s.Key, s.Scenario)
+		}
+		*s.Sigma(&b) = v * s.FileScale
 	}
 	if n.Depth.RINDBPerHz != 0 {
 		b.RIN = noise.White{Level: noise.IntensityFromRIN(n.Depth.RINDBPerHz)}
@@ -50,11 +53,25 @@ func budgetOf(sc *scenario.Scenario) (mc.Budget, error) {
 	return b, nil
 }
 
-// fingerprint identifies what a scenario simulates: the effective values
+// LoadBudget reads the scenario file at path with its overrides and
+// returns it with its simulation configuration and its noise budget.
+func LoadBudget(path string, sets []string) (*Scenario, sim.Config, mc.Budget, error) {
+	sc, cfg, err := LoadConfig(path, sets)
+	if err != nil {
+		return nil, sim.Config{}, mc.Budget{}, err
+	}
+	budget, err := sc.Budget()
+	if err != nil {
+		return nil, sim.Config{}, mc.Budget{}, err
+	}
+	return sc, cfg, budget, nil
+}
+
+// Fingerprint identifies what a scenario simulates: the effective values
 // (after overrides) and the contents of the files it refers to, but not
 // where those files are, so that shards run from different directories
 // merge. It also returns the canonical text recorded in a run's manifest.
-func fingerprint(sc *scenario.Scenario) (hash, text string, err error) {
+func (sc *Scenario) Fingerprint() (hash, text string, err error) {
 	c := *sc
 	c.Name = ""
 	files := map[string]string{}
@@ -78,9 +95,9 @@ func fingerprint(sc *scenario.Scenario) (hash, text string, err error) {
 	return hex.EncodeToString(sum[:]), string(b), nil
 }
 
-// withTag extends a scenario's fingerprint and text by a tag: what, beside
+// WithTag extends a scenario's fingerprint and text by a tag: what, beside
 // the scenario, sets a run's records apart from another's.
-func withTag(hash, text string, tag any) (string, string, error) {
+func WithTag(hash, text string, tag any) (string, string, error) {
 	b, err := json.Marshal(tag)
 	if err != nil {
 		return "", "", err

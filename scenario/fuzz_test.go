@@ -12,7 +12,7 @@ import (
 // ramp or an error, never panic, and a ramp it returns must satisfy the
 // format's promises. Run with
 //
-//	go test -fuzz=FuzzParseRamp ./cmd/internal/scenario
+//	go test -fuzz=FuzzParseRamp ./scenario
 func FuzzParseRamp(f *testing.F) {
 	for _, name := range []string{"sin2-41.csv", "sin2-41-drive.csv"} {
 		data, err := os.ReadFile(filepath.Join(root, "testdata", "ramps", name))
@@ -51,7 +51,7 @@ func FuzzParseRamp(f *testing.F) {
 // scenario parser: it must return a scenario or an error, never panic, and a
 // scenario it returns must give a valid simulation configuration. Run with
 //
-//	go test -fuzz=FuzzParseScenario ./cmd/internal/scenario
+//	go test -fuzz=FuzzParseScenario ./scenario
 func FuzzParseScenario(f *testing.F) {
 	files, err := filepath.Glob(filepath.Join(root, "testdata", "scenarios", "*.toml"))
 	if err != nil {

@@ -29,7 +29,7 @@ shape = "sin2"
 duration_us = 150.0
 `
 
-const root = "../../.."
+const root = ".."
 
 func TestLoadExamples(t *testing.T) {
 	files, err := filepath.Glob(filepath.Join(root, "testdata", "scenarios", "*.toml"))

@@ -1,4 +1,4 @@
-package main
+package present
 
 import (
 	"fmt"
@@ -7,21 +7,21 @@ import (
 	"rampart/cmd/internal/report"
 )
 
-// grid is a table's cells, rendered either on the terminal (tablewriter)
+// Grid is a table's cells, rendered either on the terminal (tablewriter)
 // or into a report, so that both show the same numbers.
-type grid struct {
+type Grid struct {
 	caption string
 	header  []string
 	rows    [][]string
 }
 
-func newGrid(caption string, header ...string) *grid { return &grid{caption: caption, header: header} }
+func NewGrid(caption string, header ...string) *Grid { return &Grid{caption: caption, header: header} }
 
-func (g *grid) Append(cells ...string) { g.rows = append(g.rows, cells) }
+func (g *Grid) Append(cells ...string) { g.rows = append(g.rows, cells) }
 
 // Render prints the grid as a terminal table.
-func (g *grid) Render(w io.Writer) error {
-	t := newTable(w, g.header...)
+func (g *Grid) Render(w io.Writer) error {
+	t := NewTable(w, g.header...)
 	for _, r := range g.rows {
 		t.Append(r)
 	}
@@ -30,7 +30,7 @@ func (g *grid) Render(w io.Writer) error {
 
 // RenderNoted prints the grid as a terminal table, then a blank line and
 // the notes that explain it, a line each.
-func (g *grid) RenderNoted(w io.Writer, notes []string) error {
+func (g *Grid) RenderNoted(w io.Writer, notes []string) error {
 	if err := g.Render(w); err != nil {
 		return err
 	}
@@ -41,7 +41,7 @@ func (g *grid) RenderNoted(w io.Writer, notes []string) error {
 	return nil
 }
 
-// table returns the grid as a report table.
-func (g *grid) table() report.Table {
+// Table returns the grid as a report table.
+func (g *Grid) Table() report.Table {
 	return report.Table{Caption: g.caption, Header: g.header, Rows: g.rows}
 }

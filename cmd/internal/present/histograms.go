@@ -1,4 +1,4 @@
-package main
+package present
 
 import (
 	"path/filepath"
@@ -15,18 +15,18 @@ func ensembleFigures(sum mc.Summary, recs []mc.Record, spec mc.Spec) (contrast, 
 	for i, r := range recs {
 		c[i], b[i] = r.Contrast, r.BiasRad
 	}
-	cm := []plots.Marker{{Label: "5th percentile " + fixed(sum.Contrast.P05, 4), Value: sum.Contrast.P05}}
+	cm := []plots.Marker{{Label: "5th percentile " + Fixed(sum.Contrast.P05, 4), Value: sum.Contrast.P05}}
 	if spec.MinContrast > 0 {
-		cm = append(cm, plots.Marker{Label: "spec: contrast ≥ " + sig(spec.MinContrast, 6), Value: spec.MinContrast})
+		cm = append(cm, plots.Marker{Label: "spec: contrast ≥ " + Sig(spec.MinContrast, 6), Value: spec.MinContrast})
 	}
 	var bm []plots.Marker
 	if spec.MaxAbsBiasRad > 0 {
 		bm = []plots.Marker{
-			{Label: "spec: bias ≥ −" + sig(spec.MaxAbsBiasRad, 6) + " rad", Value: -spec.MaxAbsBiasRad},
-			{Label: "spec: bias ≤ " + sig(spec.MaxAbsBiasRad, 6) + " rad", Value: spec.MaxAbsBiasRad},
+			{Label: "spec: bias ≥ −" + Sig(spec.MaxAbsBiasRad, 6) + " rad", Value: -spec.MaxAbsBiasRad},
+			{Label: "spec: bias ≤ " + Sig(spec.MaxAbsBiasRad, 6) + " rad", Value: spec.MaxAbsBiasRad},
 		}
 	}
-	n := sig(float64(len(recs)), 6) + " realisations"
+	n := Sig(float64(len(recs)), 6) + " realisations"
 	contrast, err = plots.Histogram(c, plots.HistogramOptions{Title: "Contrast of the shots, " + n, XLabel: "contrast |z|", Markers: cm})
 	if err != nil {
 		return nil, nil, err

@@ -4,9 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
-	"rampart/cmd/internal/tomlguard"
-	"rampart/cmd/internal/tomlpos"
 	"rampart/internal/boundedread"
+	"rampart/internal/tomlguard"
+	"rampart/internal/tomlpos"
 	"strings"
 
 	"github.com/BurntSushi/toml"

@@ -1,0 +1,156 @@
+package present
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	"rampart/cmd/internal/report"
+	"rampart/mc"
+)
+
+// QualifyReport is what qualify --json prints.
+type QualifyReport struct {
+	mc.Qualification
+	Spec    string     `json:"spec"`
+	Summary mc.Summary `json:"summary"`
+	Gyro    *mc.Gyro   `json:"gyro,omitempty"`
+}
+
+// Deciding lists the criteria behind an overall verdict other than pass:
+// those that fail, or else those undecided with what would decide them.
+func Deciding(q mc.Qualification) []string {
+	var out []string
+	for _, c := range q.Criteria {
+		if c.Verdict != q.Verdict {
+			continue
+		}
+		s := c.Name
+		if c.Verdict == mc.Undecided {
+			s += " (" + toDecide(c) + ")"
+		}
+		out = append(out, s)
+	}
+	return out
+}
+
+// toDecide says how many more realisations would decide an undecided
+// criterion.
+func toDecide(c mc.Criterion) string {
+	switch {
+	case c.Verdict != mc.Undecided:
+		return ""
+	case c.OutOfReach:
+		return "out of reach: the value sits on the limit"
+	}
+	return fmt.Sprintf("about %d more realisations", c.Extra)
+}
+
+// criterionLabels name the statistics of the criteria in figures.
+var criterionLabels = map[string]string{
+	mc.CriterionContrastMean: "mean contrast",
+	mc.CriterionContrastP05:  "contrast p05",
+	mc.CriterionBiasRad:      "|bias| p95 (rad)",
+	mc.CriterionBiasDegPerH:  "|bias| p95 (deg/h)",
+	mc.CriterionYield:        "yield",
+}
+
+// criterionFormat formats the values of a criterion in its unit.
+func criterionFormat(c mc.Criterion) func(float64) string {
+	if c.Unit == "" {
+		return func(x float64) string { return Fixed(x, 5) }
+	}
+	return func(x float64) string { return Sci(x, 3) }
+}
+
+func PrintQualification(w io.Writer, rep QualifyReport) error {
+	if err := criteriaGrid(rep).Render(w); err != nil {
+		return err
+	}
+	for _, line := range criteriaNotes(rep) {
+		fmt.Fprintln(w, line)
+	}
+	fmt.Fprintln(w)
+	if err := GyroGrid(rep.Summary, rep.Gyro).Render(w); err != nil {
+		return err
+	}
+	if rep.Gyro == nil {
+		fmt.Fprintln(w, NoReadout)
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, verdictLine(rep.Qualification))
+	return nil
+}
+
+// criteriaGrid returns the table of a qualification's criteria.
+func criteriaGrid(rep QualifyReport) *Grid {
+	q, s := rep.Qualification, rep.Summary
+	conf := Sig(100*q.Confidence, 3) + " %"
+	t := NewGrid("The criteria of spec "+rep.Spec+" against the ensemble", "Criterion", "Limit", "Unit", "Measured",
+		"Lower bound ("+conf+" one-sided)", "Upper bound ("+conf+" one-sided)", "Margin", "Verdict", "To decide", "Measured (deg/h)")
+	for _, c := range q.Criteria {
+		f := criterionFormat(c)
+		limit := "<= " + f(c.Limit)
+		if c.AtLeast {
+			limit = ">= " + f(c.Limit)
+		}
+		degPerH := ""
+		if c.Unit == "rad" {
+			degPerH = Sci(mc.BiasDegPerH(c.Value, s.ScaleFactorS), 3)
+		}
+		t.Append(c.Name, limit, c.Unit, f(c.Value), f(c.Lo), f(c.Hi), f(c.Margin), c.Verdict.String(), toDecide(c), degPerH)
+	}
+	return t
+}
+
+// criteriaNotes explain the criteria table: the yield's count and how a
+// bound decides.
+func criteriaNotes(rep QualifyReport) []string {
+	var out []string
+	if s := rep.Summary; s.Yield != nil {
+		out = append(out, fmt.Sprintf("Yield: %d of %d realisations inside %s.", s.Yield.Inside, s.Samples, yieldLimits(s.Yield.Spec, s.ScaleFactorS)))
+	}
+	return append(out, "A limit \"at least\" passes when the lower bound clears it and fails when the upper bound misses it; \"at most\" the other way round.")
+}
+
+// verdictLine states the overall verdict and what decides it.
+func verdictLine(q mc.Qualification) string {
+	conf := Sig(100*q.Confidence, 3) + " %"
+	switch q.Verdict {
+	case mc.Pass:
+		return fmt.Sprintf("Verdict: pass. Every criterion is met with %s confidence over %d realisations.", conf, q.Samples)
+	case mc.Fail:
+		return fmt.Sprintf("Verdict: fail. Missed with %s confidence: %s.", conf, strings.Join(Deciding(q), ", "))
+	}
+	return fmt.Sprintf("Verdict: undecided. Not decided at %s confidence over %d realisations: %s.", conf, q.Samples, strings.Join(Deciding(q), ", "))
+}
+
+// QualifySection takes what qualify --json prints and shows the verdict,
+// the criteria table and the gyroscope figures; the ensemble's own section
+// is the caller's to add.
+func QualifySection(q QualifyReport) (report.Section, error) {
+	text := append([]string{verdictLine(q.Qualification)}, criteriaNotes(q)...)
+	if q.Gyro == nil {
+		text = append(text, NoReadout)
+	}
+	return report.Section{
+		Heading: "Qualification against " + q.Spec,
+		Text:    strings.Join(text, "\n\n"),
+		Tables:  []report.Table{criteriaGrid(q).Table(), GyroGrid(q.Summary, q.Gyro).Table()},
+	}, nil
+}
+
+// yieldLimits describes a yield spec, with its bias limit as a rotation rate.
+func yieldLimits(y mc.Spec, scaleFactorS float64) string {
+	var lim []string
+	if y.MinContrast > 0 {
+		lim = append(lim, "contrast >= "+Sig(y.MinContrast, 6))
+	}
+	if y.MaxAbsBiasRad > 0 {
+		lim = append(lim, fmt.Sprintf("|bias| <= %s rad (%s deg/h)", Sig(y.MaxAbsBiasRad, 6), Sig(mc.BiasDegPerH(y.MaxAbsBiasRad, scaleFactorS), 3)))
+	}
+	return strings.Join(lim, " and ")
+}
+
+// QualificationFile is the verdict in the output directory of qualify.
+const QualificationFile = "qualification.json"

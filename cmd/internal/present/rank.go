@@ -1,0 +1,193 @@
+package present
+
+import (
+	"fmt"
+	"io"
+	"path/filepath"
+	"slices"
+	"strings"
+
+	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/report"
+	"rampart/internal/atomicfile"
+	"rampart/mc"
+	"rampart/sim"
+)
+
+// RankReport is what rank --json prints: the ranking and, for context,
+// each ramp's ensemble.
+type RankReport struct {
+	mc.Ranking
+	Ramps []RampReport `json:"ramps"`
+}
+
+// RampReport is one ramp's ensemble in a ranking.
+type RampReport struct {
+	Name              string     `json:"name"`
+	Spec              string     `json:"spec"`
+	RampUpS           float64    `json:"ramp_up_s"`
+	Dir               string     `json:"dir,omitempty"`
+	ContrastMean      float64    `json:"contrast_mean"`
+	AbsBiasP95Rad     float64    `json:"abs_bias_p95_rad"`
+	AbsBiasP95DegPerH float64    `json:"abs_bias_p95_deg_per_h"`
+	Summary           mc.Summary `json:"summary"`
+	Gyro              *mc.Gyro   `json:"gyro,omitempty"`
+}
+
+// metricFormat formats a value of a ranking metric.
+func metricFormat(metric string) func(float64) string {
+	switch metric {
+	case mc.MetricYield:
+		return func(x float64) string { return Fixed(x, 4) }
+	case mc.MetricBiasSpread:
+		return func(x float64) string { return Sci(x, 3) }
+	}
+	return func(x float64) string { return Fixed(x, 5) }
+}
+
+// RankingGrid returns the ranking table: the places best first, with the
+// metric and the paired differences, and each ramp's ensemble for context.
+func RankingGrid(rep RankReport) *Grid {
+	r := rep.Ranking
+	conf := fmt.Sprintf("%s %% interval", Sig(100*r.Confidence, 3))
+	f := metricFormat(r.Metric)
+	byName := map[string]RampReport{}
+	withGyro := false
+	for _, rr := range rep.Ramps {
+		byName[rr.Name] = rr
+		withGyro = withGyro || rr.Gyro != nil
+	}
+	header := []string{"Place and ramp", metricLabels[r.Metric], conf, "Diff to best", conf, "Diff to next", "Resolved", "Mean contrast", "|bias| p95 (rad)", "|bias| p95 (deg/h)"}
+	if withGyro {
+		header = append(header, "ARW (deg/sqrt(h))")
+	}
+	t := NewGrid(fmt.Sprintf("Ramps ranked by %s, best first", strings.ToLower(metricLabels[r.Metric])), header...)
+	for _, p := range r.Ranking {
+		rr := byName[p.Name]
+		next := ""
+		if p.DiffToNext != nil {
+			next = Sci(p.DiffToNext.Value, 2)
+		}
+		row := []string{fmt.Sprintf("%d. %s", p.Place, p.Name), f(p.Value), interval(p.Lo, p.Hi, f),
+			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), next, YesNo(p.Resolved),
+			Fixed(rr.ContrastMean, 5), Sci(rr.AbsBiasP95Rad, 3), Sci(rr.AbsBiasP95DegPerH, 3)}
+		if withGyro {
+			arw := ""
+			if rr.Gyro != nil {
+				arw = Sci(rr.Gyro.AngleRandomWalkDegPerSqrtH, 3)
+			}
+			row = append(row, arw)
+		}
+		t.Append(row...)
+	}
+	return t
+}
+
+// RankingNotes explain the ranking table: the order, the intervals and, with
+// a read-out, the angle random walk.
+func RankingNotes(rep RankReport) []string {
+	r := rep.Ranking
+	better := "higher"
+	if !r.HigherBetter {
+		better = "lower"
+	}
+	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %d realisations per ramp. Intervals are %s %% two-sided: bootstrap percentile, Clopper-Pearson for a yield; the differences are paired over the same noise draws. A place is resolved when the paired intervals of its differences to the places above and below (Diff to next) exclude zero.",
+		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, Sig(100*r.Confidence, 3))}
+	if g := rep.Ramps[0].Gyro; g != nil {
+		out = append(out, fmt.Sprintf("ARW: the angle random walk at each ramp's mean contrast, %s atoms per shot, one shot per %s s.", Sig(g.Atoms, 6), Sig(g.CycleS, 6)))
+	}
+	return out
+}
+
+// RampDefinition is what defined a ramp: its --ramp SPEC or its scenario
+// file.
+func RampDefinition(r RampReport) string {
+	return strings.TrimPrefix(r.Spec, "--ramp "+r.Name+"=")
+}
+
+// WriteRanking writes the ranking and its figure to dir.
+func WriteRanking(dir string, rep RankReport) error {
+	if err := atomicfile.Write(filepath.Join(dir, RankingFile), func(w io.Writer) error { return WriteJSON(w, rep) }); err != nil {
+		return err
+	}
+	nfs, err := rankingFigure(rep)
+	if err != nil {
+		return err
+	}
+	return writeFigures(dir, nfs)
+}
+
+// rankingFigure plots each ramp's metric with its interval, best first: one
+// figure, named ranking.
+func rankingFigure(rep RankReport) ([]namedFigure, error) {
+	items := make([]plots.Estimate, len(rep.Ranking.Ranking))
+	for i, p := range rep.Ranking.Ranking {
+		items[i] = plots.Estimate{Name: p.Name, Value: p.Value, Lo: p.Lo, Hi: p.Hi}
+	}
+	fig, err := plots.Ranking(items, plots.RankingOptions{
+		Title:      fmt.Sprintf("Ramps ranked by %s, %d realisations each", strings.ToLower(metricLabels[rep.Metric]), rep.Samples),
+		ValueLabel: metricLabels[rep.Metric],
+	})
+	if err != nil {
+		return nil, err
+	}
+	caption := fmt.Sprintf("Each ramp's %s with its %s %% interval, best first.", strings.ToLower(metricLabels[rep.Metric]), Sig(100*rep.Confidence, 3))
+	return []namedFigure{{name: "ranking", caption: caption, fig: fig}}, nil
+}
+
+// RankSections takes the ranking (rank --json's object), each ramp's
+// configuration, its records by name and the yield spec, and shows the
+// ranking table and figure, then each ramp's ensemble, best first, its
+// figures' ids prefixed "rank-NAME-" (a '.' in NAME as '_', and the place
+// added should that make two prefixes the same).
+func RankSections(rep RankReport, cfgs []NamedConfig, recs map[string][]mc.Record, spec mc.Spec) ([]report.Section, error) {
+	figs, err := figures(rankingFigure(rep))
+	if err != nil {
+		return nil, err
+	}
+	out := []report.Section{{
+		Heading: "Ranking",
+		Text:    strings.Join(RankingNotes(rep), "\n\n"),
+		Tables:  []report.Table{RankingGrid(rep).Table()},
+		Figures: figs,
+	}}
+	byName := map[string]RampReport{}
+	for _, rr := range rep.Ramps {
+		byName[rr.Name] = rr
+	}
+	prefixes := map[string]bool{}
+	for _, p := range rep.Ranking.Ranking {
+		i := slices.IndexFunc(cfgs, func(c NamedConfig) bool { return c.Name == p.Name })
+		rr, ok := byName[p.Name]
+		if i < 0 || !ok || recs[p.Name] == nil {
+			return nil, fmt.Errorf("ranking report: ramp %q lacks its configuration, summary or records", p.Name)
+		}
+		// A ramp's name may hold a '.', which an id may not.
+		prefix := "rank-" + strings.ReplaceAll(p.Name, ".", "_") + "-"
+		if prefixes[prefix] {
+			prefix += fmt.Sprint(p.Place) + "-"
+		}
+		prefixes[prefix] = true
+		up := cfgs[i].Config.Sequence.Up
+		peak, _ := sim.PeakSpeed(up)
+		text := fmt.Sprintf("Place %d: %s = %s, ramp-up %s of %s us with a peak speed of %s rad/s, on the noise draws that every ramp shares.",
+			p.Place, p.Name, RampDefinition(rr), up.Name(), Sig(up.Duration()*1e6, 6), Sig(peak, 5))
+		sec, err := EnsembleSection("Ensemble of "+p.Name, prefix, rr.Summary, recs[p.Name], spec, text)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, sec)
+	}
+	return out, nil
+}
+
+// RankingFile is the ranking in the output directory of rank.
+const RankingFile = "ranking.json"
+
+// metricLabels name the ranking metrics in tables and figures.
+var metricLabels = map[string]string{
+	mc.MetricP05:        "Contrast p05",
+	mc.MetricMean:       "Mean contrast",
+	mc.MetricYield:      "Yield",
+	mc.MetricBiasSpread: "|bias| p95 (rad)",
+}

@@ -1,0 +1,163 @@
+package present
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"path/filepath"
+	"strings"
+
+	"rampart/cmd/internal/plots"
+	"rampart/cmd/internal/report"
+	"rampart/internal/atomicfile"
+	"rampart/mc"
+)
+
+// SensitivityReport is what sensitivity --json prints.
+type SensitivityReport struct {
+	Inputs       []string        `json:"inputs"`
+	BaseRows     int             `json:"base_rows"`
+	Shots        int             `json:"shots"`
+	Seed         uint64          `json:"seed"`
+	Sampler      string          `json:"sampler"`
+	ScaleFactorS float64         `json:"scale_factor_s"`
+	Indices      mc.SobolResult  `json:"indices"`
+	Derivatives  []mc.Derivative `json:"derivatives"`
+}
+
+func PrintSensitivity(w io.Writer, rep SensitivityReport) error {
+	if err := sobolGrid(rep).Render(w); err != nil {
+		return err
+	}
+	fmt.Fprintf(w, "\n%s\n\n", sobolNote(rep))
+	d := derivativeGrid(rep)
+	if d == nil {
+		fmt.Fprintln(w, noDerivatives)
+		return nil
+	}
+	fmt.Fprintln(w, derivativesLead)
+	return d.Render(w)
+}
+
+// sobolGrid returns the table of the Sobol' indices, a row per input.
+func sobolGrid(rep SensitivityReport) *Grid {
+	conf := Sig(100*rep.Indices.Confidence, 3) + " % interval"
+	f := func(x float64) string { return Fixed(x, 3) }
+	t := NewGrid(fmt.Sprintf("Sobol' indices of contrast and bias, %d shots", rep.Shots), "Input", "Contrast S1", conf, "Contrast ST", conf, "Bias S1", conf, "Bias ST", conf)
+	for _, in := range rep.Indices.Inputs {
+		row := []string{in.Name}
+		for _, i := range []mc.Interval{in.ContrastFirst, in.ContrastTotal, in.BiasFirst, in.BiasTotal} {
+			row = append(row, f(i.Value), interval(i.Lo, i.Hi, f))
+		}
+		t.Append(row...)
+	}
+	return t
+}
+
+// sobolNote explains the indices and gives the spread they apportion.
+func sobolNote(rep SensitivityReport) string {
+	biasStd := math.Sqrt(rep.Indices.BiasVariance)
+	return fmt.Sprintf("S1: the share of the variance an input causes alone; ST: with all its interactions (ST >= S1; 1 - sum S1 is the share of interactions). Spread over the design: contrast std %s, bias std %s rad (%s deg/h). Bootstrap intervals over the %d rows; small negative values are sampling error about zero.",
+		Sci(math.Sqrt(rep.Indices.ContrastVariance), 3), Sci(biasStd, 3), Sci(mc.BiasDegPerH(biasStd, rep.ScaleFactorS), 3), rep.BaseRows)
+}
+
+// derivativeGrid returns the table of local derivatives, nil without a
+// static error in the budget.
+func derivativeGrid(rep SensitivityReport) *Grid {
+	if len(rep.Derivatives) == 0 {
+		return nil
+	}
+	t := NewGrid(strings.TrimSuffix(derivativesLead, ":"), "Input", "Step h", "Unit", "dC/dx", "d2C/dx2", "Contrast change C'' h^2/2",
+		"db/dx (rad per unit)", "Bias shift b' h (rad)", "Bias shift b' h (deg/h)")
+	for _, d := range rep.Derivatives {
+		shift := d.BiasRad * d.StepSI
+		t.Append(d.Input, Sig(d.StepSI, 4), siUnit(d.Input), Sci(d.Contrast, 3), Sci(d.ContrastSecond, 3), Sci(d.ContrastSecond*d.StepSI*d.StepSI/2, 3),
+			Sci(d.BiasRad, 3), Sci(shift, 3), Sci(mc.BiasDegPerH(shift, rep.ScaleFactorS), 3))
+	}
+	return t
+}
+
+// SensitivitySection takes what sensitivity --json prints and shows the
+// Sobol' index table with its bar charts and the local derivatives.
+func SensitivitySection(rep SensitivityReport) (report.Section, error) {
+	figs, err := figures(sensitivityFigures(rep))
+	if err != nil {
+		return report.Section{}, err
+	}
+	sec := report.Section{
+		Heading: "Sensitivity",
+		Text:    sobolNote(rep),
+		Tables:  []report.Table{sobolGrid(rep).Table()},
+		Figures: figs,
+	}
+	if d := derivativeGrid(rep); d != nil {
+		sec.Tables = append(sec.Tables, d.Table())
+	} else {
+		sec.Text += "\n\n" + noDerivatives
+	}
+	return sec, nil
+}
+
+// siUnit is the SI unit of a static parameter, from the table of sources.
+func siUnit(param string) string {
+	u, _ := mc.InputUnit(param)
+	return u
+}
+
+// WriteSensitivity writes the indices and their bar charts to dir.
+func WriteSensitivity(dir string, rep SensitivityReport) error {
+	if err := atomicfile.Write(filepath.Join(dir, SensitivityFile), func(w io.Writer) error { return WriteJSON(w, rep) }); err != nil {
+		return err
+	}
+	nfs, err := sensitivityFigures(rep)
+	if err != nil {
+		return err
+	}
+	return writeFigures(dir, nfs)
+}
+
+// sensitivityFigures returns the bar charts of the indices of the contrast
+// and of the bias, named sensitivity-contrast and sensitivity-bias.
+func sensitivityFigures(rep SensitivityReport) ([]namedFigure, error) {
+	var out []namedFigure
+	for _, output := range []struct {
+		name, label string
+		first       func(mc.SobolInput) mc.Interval
+		total       func(mc.SobolInput) mc.Interval
+	}{
+		{"contrast", "contrast", func(i mc.SobolInput) mc.Interval { return i.ContrastFirst }, func(i mc.SobolInput) mc.Interval { return i.ContrastTotal }},
+		{"bias", "bias", func(i mc.SobolInput) mc.Interval { return i.BiasFirst }, func(i mc.SobolInput) mc.Interval { return i.BiasTotal }},
+	} {
+		first := plots.BarSeries{Name: "first order S1"}
+		total := plots.BarSeries{Name: "total ST"}
+		for _, in := range rep.Indices.Inputs {
+			for _, s := range []struct {
+				b *plots.BarSeries
+				i mc.Interval
+			}{{&first, output.first(in)}, {&total, output.total(in)}} {
+				s.b.Values, s.b.Lo, s.b.Hi = append(s.b.Values, s.i.Value), append(s.b.Lo, s.i.Lo), append(s.b.Hi, s.i.Hi)
+			}
+		}
+		fig, err := plots.Bars(rep.Inputs, []plots.BarSeries{first, total}, plots.BarsOptions{
+			Title:      fmt.Sprintf("Sobol' indices of the %s, %d shots", output.label, rep.Shots),
+			ValueLabel: "share of the variance of the " + output.label,
+			Horizontal: true,
+		})
+		if err != nil {
+			return nil, fmt.Errorf("bar chart of the %s indices: %w", output.label, err)
+		}
+		caption := fmt.Sprintf("First-order and total Sobol' indices of the %s for each input, with their %s %% bootstrap intervals.", output.label, Sig(100*rep.Indices.Confidence, 3))
+		out = append(out, namedFigure{name: "sensitivity-" + output.name, caption: caption, fig: fig})
+	}
+	return out, nil
+}
+
+// SensitivityFile holds the indices and derivatives in the output directory.
+const SensitivityFile = "sensitivity.json"
+
+// noDerivatives and derivativesLead introduce the table of local
+// derivatives, or say why there is none.
+const (
+	noDerivatives   = "No static errors in the budget: no local derivatives."
+	derivativesLead = "Local derivatives of one shot at nominal, central differences over the step h (one budget standard deviation):"
+)

@@ -1,0 +1,124 @@
+package present
+
+import (
+	"fmt"
+	"io"
+	"path/filepath"
+	"strings"
+
+	"rampart/internal/atomicfile"
+	"rampart/mc"
+)
+
+// WriteResults writes the summary and the histograms of an ensemble to dir.
+func WriteResults(dir string, sum mc.Summary, recs []mc.Record, spec mc.Spec) error {
+	if err := atomicfile.Write(filepath.Join(dir, SummaryFile), func(w io.Writer) error { return WriteJSON(w, sum) }); err != nil {
+		return err
+	}
+	return writeHistograms(dir, sum, recs, spec)
+}
+
+// BudgetLine lists the active noise sources of a budget.
+func BudgetLine(b mc.Budget) string {
+	var parts []string
+	for _, s := range mc.Sources {
+		if !s.On(b) {
+			continue
+		}
+		line := s.Line
+		if s.Kind == mc.Static {
+			line = strings.ReplaceAll(line, "{}", Sig(s.Scale**s.Sigma(&b), 3)+" "+s.Unit)
+		}
+		parts = append(parts, strings.ReplaceAll(line, "{correlation}", Sig(b.PhaseCorrelation, 3)))
+	}
+	if len(parts) == 0 {
+		return "none (every realisation is the nominal shot)"
+	}
+	return strings.Join(parts, ", ") + " (standard deviations)"
+}
+
+// interval formats an interval of values formatted by f.
+func interval(lo, hi float64, f func(float64) string) string {
+	return "[" + f(lo) + ", " + f(hi) + "]"
+}
+
+func PrintSummary(w io.Writer, s mc.Summary) error {
+	for i, g := range summaryGrids(s) {
+		if i > 0 {
+			fmt.Fprintln(w)
+		}
+		if err := g.Render(w); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// summaryGrids returns the tables of an ensemble summary: the
+// distributions, then the fringe, bias spread, scale factor and yield.
+func summaryGrids(s mc.Summary) []*Grid {
+	conf := fmt.Sprintf("%s %% interval", Sig(100*s.Confidence, 3))
+	c5 := func(x float64) string { return Fixed(x, 5) }
+	b3 := func(x float64) string { return Sci(x, 3) }
+	t := NewGrid("Distributions over the realisations, with percentile-bootstrap intervals",
+		"Statistic", "Contrast", conf, "Bias (rad)", conf, "Bias (deg/h)")
+	rows := []struct {
+		name, key string
+		c, b, d   float64
+	}{
+		{"mean", "mean", s.Contrast.Mean, s.BiasRad.Mean, s.BiasDegPerH.Mean},
+		{"std", "std", s.Contrast.Std, s.BiasRad.Std, s.BiasDegPerH.Std},
+		{"p01", "p01", s.Contrast.P01, s.BiasRad.P01, s.BiasDegPerH.P01},
+		{"p05", "p05", s.Contrast.P05, s.BiasRad.P05, s.BiasDegPerH.P05},
+		{"p50 (median)", "p50", s.Contrast.P50, s.BiasRad.P50, s.BiasDegPerH.P50},
+		{"p95", "p95", s.Contrast.P95, s.BiasRad.P95, s.BiasDegPerH.P95},
+		{"p99", "p99", s.Contrast.P99, s.BiasRad.P99, s.BiasDegPerH.P99},
+	}
+	for _, r := range rows {
+		ci, bi := s.Contrast.CI[r.key], s.BiasRad.CI[r.key]
+		t.Append(r.name, c5(r.c), interval(ci[0], ci[1], c5), b3(r.b), interval(bi[0], bi[1], b3), b3(r.d))
+	}
+	u := NewGrid("The averaged fringe, the bias spread and the yield", "Quantity", "Value", conf, "Unit")
+	u.Append("Averaged-fringe contrast |mean z|", c5(s.FringeContrast.Value), interval(s.FringeContrast.Lo, s.FringeContrast.Hi, c5), "")
+	u.Append("Averaged-fringe bias arg(mean z) - Sagnac", b3(s.FringeBiasRad.Value), interval(s.FringeBiasRad.Lo, s.FringeBiasRad.Hi, b3), "rad")
+	u.Append("|bias| p95", b3(s.AbsBiasRad.P95), interval(s.AbsBiasRad.CI["p95"][0], s.AbsBiasRad.CI["p95"][1], b3), "rad")
+	u.Append("Scale factor K", Sig(s.ScaleFactorS, 6), "", "s (rad per rad/s)")
+	if y := s.Yield; y != nil {
+		var lim []string
+		if y.Spec.MinContrast > 0 {
+			lim = append(lim, "contrast >= "+Sig(y.Spec.MinContrast, 6))
+		}
+		if y.Spec.MaxAbsBiasRad > 0 {
+			lim = append(lim, "|bias| <= "+Sig(y.Spec.MaxAbsBiasRad, 6)+" rad")
+		}
+		u.Append(fmt.Sprintf("Yield (%s): %d of %d", strings.Join(lim, ", "), y.Inside, s.Samples), Fixed(y.Value, 4),
+			interval(y.Lo, y.Hi, func(x float64) string { return Fixed(x, 4) })+" exact", "")
+	}
+	return []*Grid{t, u}
+}
+
+// AbsBiasP95DegPerH is the 95th percentile of |bias| of a summary as a
+// rotation-rate error.
+func AbsBiasP95DegPerH(s mc.Summary) float64 { return mc.BiasDegPerH(s.AbsBiasRad.P95, s.ScaleFactorS) }
+
+// GyroGrid returns the gyroscope figures of an ensemble: its biases as
+// rotation rates and, with a read-out, the projection-noise limit and the
+// angle random walk (docs/model.md, Gyroscope figures).
+func GyroGrid(s mc.Summary, g *mc.Gyro) *Grid {
+	b3 := func(x float64) string { return Sci(x, 3) }
+	t := NewGrid("Gyroscope figures", "Gyroscope figure", "Value", "Unit")
+	t.Append("Scale factor K = 2 I phi(T) / hbar", Sig(s.ScaleFactorS, 6), "s (rad per rad/s)")
+	t.Append("Mean bias as a rotation rate", b3(s.BiasDegPerH.Mean), "deg/h")
+	t.Append("|bias| p95 as a rotation rate", b3(AbsBiasP95DegPerH(s)), "deg/h")
+	if g != nil {
+		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms at contrast %s", Sig(g.Atoms, 6), Fixed(g.Contrast, 4)), b3(g.ShotNoiseDegPerH), "deg/h")
+		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", Sig(g.CycleS, 6)), b3(g.AngleRandomWalkDegPerSqrtH), "deg/sqrt(h)")
+	}
+	return t
+}
+
+// NoReadout says what the gyroscope figures lack without a read-out.
+const NoReadout = "(For the projection-noise limit and the angle random walk, give the scenario a [readout] table or --atoms and --cycle-s.)"
+
+// SummaryFile is the JSON summary in an output directory.
+const SummaryFile = "summary.json"

@@ -1,0 +1,321 @@
+package mc
+
+import (
+	"math"
+
+	"rampart/noise"
+	"rampart/sim"
+)
+
+// Budget is the hardware noise a Monte Carlo ensemble draws from, in SI
+// units. A zero field switches its source off. Each field is a row's of
+// Sources (its Sigma or PSD points at it), and lives beside the table so
+// that a new static source is a field here and a row below.
+type Budget struct {
+	// Static, shot-to-shot errors (standard deviations of normal draws).
+	DepthCommonRel       float64 // relative depth error common to both spin states
+	DepthDifferentialRel float64 // relative depth difference eps_+ - eps_- between the spin states
+	ClockRel             float64 // waveform time-base error kappa: the profile plays (1+kappa) faster
+	SpeedRel             float64 // drive-frequency scale error: speeds and angles scale by (1+k)
+	SkewS                float64 // delay of the s = -1 arm's drive after the s = +1 arm's
+	TemperatureSpreadK   float64 // shot-to-shot spread of the start temperature (clamped at 0 K)
+	PulseAreaRel         float64 // relative area error of each pi/2 pulse, independent
+
+	// Noise during the shot.
+	// RIN is the one-sided PSD of the relative intensity noise eps(t) in
+	// 1/Hz, common to both spin states (one laser); nil: none.
+	RIN     noise.PSD
+	RINBand noise.Band
+	// Phase is the one-sided PSD S_alpha(f) in rad^2/Hz of each arm's drive
+	// phase; the lattice angle moves by alpha/N. nil: none.
+	Phase noise.PSD
+	// PhaseCorrelation is the correlation coefficient of the two arms'
+	// drive phase noise, in [-1, 1].
+	PhaseCorrelation float64
+}
+
+// Kind is how a perturbation source enters a shot.
+type Kind int
+
+const (
+	// Static sources are drawn once per shot: value = sigma * x, x standard
+	// normal, one sampler coordinate per drawn input.
+	Static Kind = iota
+	// Process sources are noise processes during the shot, given by their
+	// one-sided PSD and synthesised as time series.
+	Process
+)
+
+func (k Kind) String() string {
+	if k == Static {
+		return "static"
+	}
+	return "process"
+}
+
+// Source is one row of the table of perturbation sources: everything the
+// library needs to parse, sample, apply, scale, search, tabulate and
+// describe it. The sampler's coordinates are the static rows' Inputs in
+// table order; a process has none.
+type Source struct {
+	Key     string // budget and tolerance name, "skew_s"
+	Meaning string // one line, for help and tables
+
+	// Scenario is the scenario key that sets it, "noise.timing.skew_ns",
+	// and FileScale converts the file's value to SI (static sources).
+	Scenario  string
+	FileScale float64
+
+	// Unit is the lab unit of tables and reports. A static amplitude in SI
+	// times Scale is in Unit; a process amplitude is a white floor's level
+	// in Unit (Level converts a one-sided PSD level to it, FromLevel back).
+	Unit  string
+	Scale float64
+	// SIUnit is the unit of a static source's SI amplitude, "s", or
+	// "1 (relative)" for a relative error (local derivatives are per it).
+	SIUnit    string
+	Level     func(psd float64) float64
+	FromLevel func(level float64) float64
+
+	Kind Kind
+
+	// Inputs names the drawn inputs of a static source in sampler order
+	// (the pulse area draws one per pi/2 pulse).
+	Inputs []string
+	// Sigma points at the static source's standard deviation in a budget
+	// (SI units).
+	Sigma func(b *Budget) *float64
+	// Apply writes the value v of drawn input i of a static source into
+	// the shot.
+	Apply func(sh *sim.Shot, i int, v float64)
+
+	// PSD points at the process's PSD in a budget (nil: off).
+	PSD func(b *Budget) *noise.PSD
+	// ApplyNoise writes the process's records (in the unit of the shot's
+	// field, one per arm) into the shot.
+	ApplyNoise func(sh *sim.Shot, arms [2]*sim.Series)
+
+	// Ref is where a tolerance search of a source the budget switches off
+	// starts: an SI standard deviation, or a white level in Unit. Max is
+	// the largest amplitude a search tries (SI; +Inf: none).
+	Ref, Max float64
+
+	// Line is the source's phrase in a budget line; "{}" stands for its
+	// amplitude with its unit, "{correlation}" for the drive phase
+	// correlation.
+	Line string
+
+	// Reference names where the model of its effect is written down.
+	Reference string
+}
+
+// Static parameter names, in sampler order when active.
+const (
+	ParamDepthCommon       = "depth_common_rel"
+	ParamDepthDifferential = "depth_differential_rel"
+	ParamClock             = "clock_rel"
+	ParamSpeed             = "speed_rel"
+	ParamSkew              = "skew_s"
+	ParamTemperature       = "temperature_offset_k"
+	ParamPulse1            = "pulse1_area_rel"
+	ParamPulse2            = "pulse2_area_rel"
+)
+
+// Tolerance sources: the static parameters by their budget names, the two
+// noise processes, and the whole budget scaled together.
+const (
+	SourceTemperature = "temperature_spread_k"
+	SourcePulse       = "pulse_area_rel"
+	SourceRIN         = "rin"
+	SourcePhase       = "phase"
+	SourceBudget      = "budget"
+)
+
+// Reference amplitudes: where a search of a source that the budget switches
+// off starts. They are typical of a well-built apparatus (common practice,
+// not measurements): a 0.1% depth stabilisation, a 1 ppm clock and drive
+// frequency, 10 ns of skew, 10 nK of temperature spread, 1% pulse area,
+// and white intensity and phase noise floors at -120 dB/Hz and -120 dBc/Hz.
+const (
+	RefDepthRel      = 1e-3
+	RefClockRel      = 1e-6
+	RefSpeedRel      = 1e-6
+	RefSkewS         = 10e-9
+	RefTemperatureK  = 10e-9
+	RefPulseAreaRel  = 1e-2
+	RefRINDBPerHz    = -120
+	RefPhaseDBcPerHz = -120
+)
+
+// The largest amplitudes a search tries, whatever its Range: beyond them a
+// static error is no longer a small perturbation of the sequence.
+const (
+	maxRelativeSigma = 0.3   // relative depth and pulse area errors
+	maxRateSigma     = 0.1   // clock and drive-frequency errors, 1e5 ppm
+	maxSkewS         = 10e-6 // a tenth of a typical ramp
+	maxTemperatureK  = 1e-6  // far above a lattice-loaded start
+)
+
+// relative is the SI unit of a relative error.
+const relative = "1 (relative)"
+
+// model is the section of the model document every source cites.
+const model = "docs/model.md, Perturbations: "
+
+// Sources is the table of perturbation sources, grouped by what they
+// perturb (depth, drive, timing, temperature, pulses). The static rows'
+// order is the order of the sampler's coordinates: a new static source goes
+// last among them (after the pulses), so that earlier coordinates, and the
+// draws of every existing budget, stay.
+var Sources = []Source{
+	{
+		Key: ParamDepthCommon, Meaning: "relative depth error common to both spin states",
+		Scenario: "noise.depth.common_rel", FileScale: 1,
+		Unit: "%", Scale: 100, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthCommon},
+		Sigma: func(b *Budget) *float64 { return &b.DepthCommonRel },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.DepthRel[0] += v; sh.DepthRel[1] += v },
+		Ref:   RefDepthRel, Max: maxRelativeSigma,
+		Line: "depth {} common", Reference: model + "lattice depth",
+	},
+	{
+		Key: ParamDepthDifferential, Meaning: "relative depth difference eps_+ - eps_- between the spin states",
+		Scenario: "noise.depth.differential_rel", FileScale: 1,
+		Unit: "%", Scale: 100, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthDifferential},
+		Sigma: func(b *Budget) *float64 { return &b.DepthDifferentialRel },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.DepthRel[0] += v / 2; sh.DepthRel[1] -= v / 2 },
+		Ref:   RefDepthRel, Max: maxRelativeSigma,
+		Line: "{} differential", Reference: model + "lattice depth",
+	},
+	{
+		Key: SourceRIN, Meaning: "relative intensity noise of the lattice light, common to both spin states",
+		Scenario: "noise.depth.rin_db_hz",
+		Unit:     "dB/Hz", Level: noise.RINFromIntensity, FromLevel: noise.IntensityFromRIN, Kind: Process,
+		PSD:        func(b *Budget) *noise.PSD { return &b.RIN },
+		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.DepthNoise = arms },
+		Ref:        RefRINDBPerHz, Max: math.Inf(1),
+		Line: "intensity noise", Reference: model + "intensity noise",
+	},
+	{
+		Key: SourcePhase, Meaning: "phase noise of each arm's drive; the lattice angle moves by alpha/N",
+		Scenario: "noise.drive.phase_dbc_hz",
+		Unit:     "dBc/Hz", Level: noise.DBcFromPhase, FromLevel: noise.PhaseFromDBc, Kind: Process,
+		PSD:        func(b *Budget) *noise.PSD { return &b.Phase },
+		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.Jitter = arms },
+		Ref:        RefPhaseDBcPerHz, Max: math.Inf(1),
+		Line: "drive phase noise (correlation {correlation})", Reference: model + "drive phase noise",
+	},
+	{
+		Key: ParamClock, Meaning: "waveform time-base error kappa: the profile plays (1+kappa) faster",
+		Scenario: "noise.timing.clock_ppm", FileScale: 1e-6,
+		Unit: "ppm", Scale: 1e6, SIUnit: relative, Kind: Static, Inputs: []string{ParamClock},
+		Sigma: func(b *Budget) *float64 { return &b.ClockRel },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.ClockRel = v },
+		Ref:   RefClockRel, Max: maxRateSigma,
+		Line: "clock {}", Reference: model + "timing",
+	},
+	{
+		Key: ParamSpeed, Meaning: "drive-frequency scale error: speeds and angles scale by (1+k)",
+		Scenario: "noise.timing.speed_ppm", FileScale: 1e-6,
+		Unit: "ppm", Scale: 1e6, SIUnit: relative, Kind: Static, Inputs: []string{ParamSpeed},
+		Sigma: func(b *Budget) *float64 { return &b.SpeedRel },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.SpeedRel = v },
+		Ref:   RefSpeedRel, Max: maxRateSigma,
+		Line: "speed {}", Reference: model + "timing",
+	},
+	{
+		Key: ParamSkew, Meaning: "delay of the s = -1 arm's drive after the s = +1 arm's",
+		Scenario: "noise.timing.skew_ns", FileScale: 1e-9,
+		Unit: "ns", Scale: 1e9, SIUnit: "s", Kind: Static, Inputs: []string{ParamSkew},
+		Sigma: func(b *Budget) *float64 { return &b.SkewS },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.SkewS = v },
+		Ref:   RefSkewS, Max: maxSkewS,
+		Line: "skew {}", Reference: model + "timing",
+	},
+	{
+		Key: SourceTemperature, Meaning: "shot-to-shot spread of the start temperature (clamped at 0 K)",
+		Scenario: "noise.temperature.spread_nk", FileScale: 1e-9,
+		Unit: "nK", Scale: 1e9, SIUnit: "K", Kind: Static, Inputs: []string{ParamTemperature},
+		Sigma: func(b *Budget) *float64 { return &b.TemperatureSpreadK },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.TemperatureOffsetK = v },
+		Ref:   RefTemperatureK, Max: maxTemperatureK,
+		Line: "temperature spread {}", Reference: model + "start temperature",
+	},
+	{
+		Key: SourcePulse, Meaning: "relative area error of each pi/2 pulse, independent",
+		Scenario: "noise.pulses.area_rel", FileScale: 1,
+		Unit: "%", Scale: 100, SIUnit: relative, Kind: Static, Inputs: []string{ParamPulse1, ParamPulse2},
+		Sigma: func(b *Budget) *float64 { return &b.PulseAreaRel },
+		Apply: func(sh *sim.Shot, i int, v float64) { sh.PulseAreaRel[i] = v },
+		Ref:   RefPulseAreaRel, Max: maxRelativeSigma,
+		Line: "pulse area {}", Reference: model + "pulses",
+	},
+}
+
+// StaticDim is the dimension of the static parameters' design: one
+// coordinate per drawn input of the static rows of Sources.
+var StaticDim = staticDim()
+
+func staticDim() int {
+	n := 0
+	for _, s := range Sources {
+		n += len(s.Inputs)
+	}
+	return n
+}
+
+// SourceKeys returns the keys a tolerance search can vary one at a time:
+// the static sources, then the noise processes, each in table order.
+func SourceKeys() []string {
+	var keys []string
+	for _, k := range []Kind{Static, Process} {
+		for _, s := range Sources {
+			if s.Kind == k {
+				keys = append(keys, s.Key)
+			}
+		}
+	}
+	return keys
+}
+
+// LookupSource returns the row of Sources with the given key.
+func LookupSource(key string) (Source, bool) {
+	for _, s := range Sources {
+		if s.Key == key {
+			return s, true
+		}
+	}
+	return Source{}, false
+}
+
+// InputUnit returns the SI unit of a drawn input of a static source (a
+// name of Inputs), and whether there is such an input.
+func InputUnit(input string) (string, bool) {
+	for _, s := range Sources {
+		for _, in := range s.Inputs {
+			if in == input {
+				return s.SIUnit, true
+			}
+		}
+	}
+	return "", false
+}
+
+// On reports whether budget b switches the source on.
+func (s Source) On(b Budget) bool {
+	if s.Kind == Static {
+		return *s.Sigma(&b) > 0
+	}
+	return *s.PSD(&b) != nil
+}
+
+// ActiveSources returns the keys of the sources budget b switches on, in
+// the order of SourceKeys.
+func ActiveSources(b Budget) []string {
+	var out []string
+	for _, key := range SourceKeys() {
+		if s, _ := LookupSource(key); s.On(b) {
+			out = append(out, key)
+		}
+	}
+	return out
+}
