@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"rampart/sim"
+	"rampart/stats"
 )
 
 // Requirements is a qualification spec: the criteria an ensemble must meet
@@ -211,10 +212,10 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 	// at c as its ends.
 	bootstrapped := func(name, stream, unit string, atLeast bool, limit float64, s *statistic, k float64) {
 		lo, hi := percentileOf(n, Substream(seed, 0, "qualify/"+stream), 2*c-1, s.at)
-		e := Estimate{Value: k * s.value(), Lo: k * lo, Hi: k * hi, Confidence: 2*c - 1}
+		e := stats.Estimate{Value: k * s.value(), Lo: k * lo, Hi: k * hi, Confidence: 2*c - 1}
 		cr := decide(Criterion{Name: name, Unit: unit, AtLeast: atLeast, Limit: limit}, e)
 		if cr.Verdict == Undecided {
-			cr.Extra, cr.OutOfReach = extraRealisations(AdditionalSamples(n, e, limit))
+			cr.Extra, cr.OutOfReach = extraRealisations(stats.AdditionalSamples(n, e, limit))
 		}
 		q.Criteria = append(q.Criteria, cr)
 	}
@@ -241,10 +242,10 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 				k++
 			}
 		}
-		e := Estimate{Value: float64(k) / float64(n), Lo: ClopperPearsonLower(k, n, c), Hi: ClopperPearsonUpper(k, n, c), Confidence: 2*c - 1}
+		e := stats.Estimate{Value: float64(k) / float64(n), Lo: stats.ClopperPearsonLower(k, n, c), Hi: stats.ClopperPearsonUpper(k, n, c), Confidence: 2*c - 1}
 		cr := decide(Criterion{Name: CriterionYield, AtLeast: true, Limit: l}, e)
 		if cr.Verdict == Undecided {
-			cr.Extra, cr.OutOfReach = extraRealisations(AdditionalTrials(k, n, 2*c-1, l))
+			cr.Extra, cr.OutOfReach = extraRealisations(stats.AdditionalTrials(k, n, 2*c-1, l))
 		}
 		q.Criteria = append(q.Criteria, cr)
 	}
@@ -261,7 +262,7 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 }
 
 // decide fills in the estimate, margin and verdict of a criterion.
-func decide(cr Criterion, e Estimate) Criterion {
+func decide(cr Criterion, e stats.Estimate) Criterion {
 	cr.Value, cr.Lo, cr.Hi = e.Value, e.Lo, e.Hi
 	good, bad := e.Lo >= cr.Limit, e.Hi < cr.Limit
 	cr.Margin = e.Value - cr.Limit

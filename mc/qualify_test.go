@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"rampart/sim"
+	"rampart/stats"
 )
 
 // normalRecords are N = 400 realisations with contrast 0.95 + 0.01 z1 and
@@ -77,8 +78,8 @@ func TestQualifyVerdicts(t *testing.T) {
 					t.Errorf("%s: margin got %v, want %v (exact)", name, c.Margin, margin)
 				}
 				if c.Verdict == Undecided {
-					e := Estimate{Value: c.Value, Lo: c.Lo, Hi: c.Hi}
-					extra, ok := AdditionalSamples(q.Samples, e, c.Limit)
+					e := stats.Estimate{Value: c.Value, Lo: c.Lo, Hi: c.Hi}
+					extra, ok := stats.AdditionalSamples(q.Samples, e, c.Limit)
 					if !ok || c.Extra != extra || extra <= 0 || c.OutOfReach {
 						t.Errorf("%s: extra realisations %d (out of reach %v), want AdditionalSamples %d, ok %v", name, c.Extra, c.OutOfReach, extra, ok)
 					}

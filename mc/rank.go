@@ -7,6 +7,8 @@ import (
 	"math/rand/v2"
 	"slices"
 	"strings"
+
+	"rampart/stats"
 )
 
 // Ranking metrics: the statistic of an ensemble by which Rank orders ramps.
@@ -105,7 +107,7 @@ func Rank(names []string, recs [][]Record, metric string, spec Spec, confidence 
 		return Ranking{}, err
 	}
 	n := len(sorted[0])
-	stats := make([]*statistic, len(names))
+	stat := make([]*statistic, len(names))
 	inside := make([]int, len(names))
 	for r, rs := range sorted {
 		x := make([]float64, n)
@@ -124,21 +126,21 @@ func Rank(names []string, recs [][]Record, metric string, spec Spec, confidence 
 		}
 		switch metric {
 		case MetricP05:
-			stats[r] = quantileStatistic(x, 0.05)
+			stat[r] = quantileStatistic(x, 0.05)
 		case MetricBiasSpread:
-			stats[r] = quantileStatistic(x, 0.95)
+			stat[r] = quantileStatistic(x, 0.95)
 		default:
-			stats[r] = meanStatistic(x)
+			stat[r] = meanStatistic(x)
 		}
 	}
 	higher := metric != MetricBiasSpread
 	rng := func() *rand.Rand { return Substream(seed, 0, "rank") }
 
 	places := make([]Place, len(names))
-	for r, s := range stats {
+	for r, s := range stat {
 		p := Place{Name: names[r], Value: s.value()}
 		if metric == MetricYield {
-			e := ClopperPearson(inside[r], n, confidence)
+			e := stats.ClopperPearson(inside[r], n, confidence)
 			p.Lo, p.Hi = e.Lo, e.Hi
 		} else {
 			p.Lo, p.Hi = percentileOf(n, rng(), confidence, s.at)
@@ -163,7 +165,7 @@ func Rank(names []string, recs [][]Record, metric string, spec Spec, confidence 
 		return strings.Compare(names[a], names[b])
 	})
 	diff := func(a, b int) Interval {
-		sa, sb := stats[a], stats[b]
+		sa, sb := stat[a], stat[b]
 		lo, hi := percentileOf(n, rng(), confidence, func(idx []int) float64 { return sa.at(idx) - sb.at(idx) })
 		return Interval{Value: sa.value() - sb.value(), Lo: lo, Hi: hi}
 	}
@@ -210,7 +212,7 @@ func percentileOf(n int, rng *rand.Rand, confidence float64, stat func(idx []int
 		}
 		reps[b] = stat(idx)
 	}
-	return PercentileInterval(reps, confidence)
+	return stats.PercentileInterval(reps, confidence)
 }
 
 // pairRecords returns each ramp's records sorted by index, after checking

@@ -3,6 +3,8 @@ package mc
 import (
 	"math"
 	"slices"
+
+	"rampart/stats"
 )
 
 // DecisionResamples is the number of bootstrap resamples behind the
@@ -125,7 +127,7 @@ func (s *statistic) at(idx []int) float64 {
 // value evaluates the statistic on the whole sample.
 func (s *statistic) value() float64 {
 	if s.os != nil {
-		return QuantileSorted(s.os.sorted, s.p)
+		return stats.QuantileSorted(s.os.sorted, s.p)
 	}
-	return Mean(s.x)
+	return stats.Mean(s.x)
 }

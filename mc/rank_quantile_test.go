@@ -5,6 +5,8 @@ import (
 	"math/rand/v2"
 	"slices"
 	"testing"
+
+	"rampart/stats"
 )
 
 // TestOrderStatsMatchesQuantile checks the counting shortcut against
@@ -32,7 +34,7 @@ func TestOrderStatsMatchesQuantile(t *testing.T) {
 						buf[k] = x[idx[k]]
 					}
 					for _, p := range []float64{0, 0.05, 0.5, 0.95, 1} {
-						if got, want := o.quantile(idx, p), Quantile(buf, p); got != want {
+						if got, want := o.quantile(idx, p), stats.Quantile(buf, p); got != want {
 							t.Fatalf("p = %g, resample %v: got %v, want %v (exact)", p, buf, got, want)
 						}
 					}

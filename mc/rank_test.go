@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"rampart/sim"
+	"rampart/stats"
 )
 
 // synthetic returns n records whose contrast and bias f gives from
@@ -113,7 +114,7 @@ func TestRankKnownOrder(t *testing.T) {
 			if tt.metric == MetricYield {
 				// Exact for a yield: the interval is Clopper-Pearson.
 				inside := int(math.Round(got.Ranking[0].Value * n))
-				if e := ClopperPearson(inside, n, 0.95); e.Lo != got.Ranking[0].Lo || e.Hi != got.Ranking[0].Hi {
+				if e := stats.ClopperPearson(inside, n, 0.95); e.Lo != got.Ranking[0].Lo || e.Hi != got.Ranking[0].Hi {
 					t.Errorf("yield interval: got [%v, %v], want Clopper-Pearson [%v, %v] (exact)", got.Ranking[0].Lo, got.Ranking[0].Hi, e.Lo, e.Hi)
 				}
 			}

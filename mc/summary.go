@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"rampart/sim"
+	"rampart/stats"
 )
 
 // Spec is a yield specification: a realisation is inside when its contrast
@@ -125,9 +126,9 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 		}
 		repC[b], repB[b] = fringe(idx)
 	}
-	lo, hi := PercentileInterval(repC, confidence)
+	lo, hi := stats.PercentileInterval(repC, confidence)
 	s.FringeContrast = Interval{fc, lo, hi}
-	lo, hi = PercentileInterval(repB, confidence)
+	lo, hi = stats.PercentileInterval(repB, confidence)
 	s.FringeBiasRad = Interval{fb, lo, hi}
 
 	if spec.Active() {
@@ -137,7 +138,7 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 				k++
 			}
 		}
-		e := ClopperPearson(k, n, confidence)
+		e := stats.ClopperPearson(k, n, confidence)
 		s.Yield = &YieldResult{Interval: Interval{e.Value, e.Lo, e.Hi}, Inside: k, Spec: spec}
 	}
 	return s
@@ -148,14 +149,14 @@ var distributionKeys = []string{"mean", "std", "p01", "p05", "p50", "p95", "p99"
 // distribution computes the entries of a Distribution and their bootstrap
 // intervals; one resample serves every entry.
 func distribution(x []float64, rng interface{ IntN(int) int }, confidence float64) Distribution {
-	stats := func(v []float64) []float64 {
+	entries := func(v []float64) []float64 {
 		slices.Sort(v)
 		m, sd := meanStd(v)
 		return []float64{m, sd,
-			QuantileSorted(v, 0.01), QuantileSorted(v, 0.05), QuantileSorted(v, 0.5),
-			QuantileSorted(v, 0.95), QuantileSorted(v, 0.99)}
+			stats.QuantileSorted(v, 0.01), stats.QuantileSorted(v, 0.05), stats.QuantileSorted(v, 0.5),
+			stats.QuantileSorted(v, 0.95), stats.QuantileSorted(v, 0.99)}
 	}
-	v := stats(slices.Clone(x))
+	v := entries(slices.Clone(x))
 	d := Distribution{Mean: v[0], Std: v[1], P01: v[2], P05: v[3], P50: v[4], P95: v[5], P99: v[6], CI: map[string][2]float64{}}
 	reps := make([][]float64, len(distributionKeys))
 	buf := make([]float64, len(x))
@@ -163,12 +164,12 @@ func distribution(x []float64, rng interface{ IntN(int) int }, confidence float6
 		for i := range buf {
 			buf[i] = x[rng.IntN(len(x))]
 		}
-		for k, s := range stats(buf) {
+		for k, s := range entries(buf) {
 			reps[k] = append(reps[k], s)
 		}
 	}
 	for k, key := range distributionKeys {
-		lo, hi := PercentileInterval(reps[k], confidence)
+		lo, hi := stats.PercentileInterval(reps[k], confidence)
 		d.CI[key] = [2]float64{lo, hi}
 	}
 	return d
@@ -177,11 +178,11 @@ func distribution(x []float64, rng interface{ IntN(int) int }, confidence float6
 // meanStd returns the mean and the sample standard deviation (zero for a
 // single value).
 func meanStd(x []float64) (float64, float64) {
-	m := Mean(x)
+	m := stats.Mean(x)
 	if len(x) < 2 {
 		return m, 0
 	}
-	return m, StdDev(x)
+	return m, stats.StdDev(x)
 }
 
 // scaled returns the distribution of k x for k > 0.
