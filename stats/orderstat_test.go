@@ -211,7 +211,7 @@ func TestQuantileIntervalCoverage(t *testing.T) {
 	// case the percentile bootstrap covered 39 % of the time at n = 50 for
 	// p01. R = 4000 samples: coverage must be at least 0.95 less 3
 	// standard errors (0.0034). n = 400: the p01 interval, each end at 97.5 %,
-	// needs 367 (MinSamplesLower(1, 0.01, 0.975)).
+	// needs 368 (MinSamplesLower(1, 0.01, 0.975)).
 	const reps, n = 4000, 400
 	rng := rand.New(rand.NewPCG(5, 5))
 	x := make([]float64, n)
