@@ -2,132 +2,145 @@ package mc
 
 import (
 	"math"
+	"math/bits"
+	"math/rand/v2"
 	"slices"
 
 	"rampart/stats"
 )
 
 // DecisionResamples is the number of bootstrap resamples behind the
-// intervals of a ranking, a qualification and a tolerance search: enough
-// that the 5% tails of the replicates, on which their verdicts turn, hold 50
-// replicates each.
+// bootstrap intervals of a ranking, a qualification and a tolerance search:
+// enough that the 5% tails of the replicates, on which their verdicts turn,
+// hold 50 replicates each.
 const DecisionResamples = 1000
 
-// orderStats takes type-7 quantiles of bootstrap resamples of a sample x in
-// O(n) time rather than the O(n log n) of sorting each resample. With the
-// sample sorted once and rank[i] the position of x[i] in that order, the
-// j-th smallest value of a resample x[idx] is sorted[r_(j)], where r_(j) is
-// the j-th smallest of the ranks rank[idx[k]]; counting the ranks finds it
-// without comparisons. The replicates are those that sorting each resample
-// would give, exactly.
-type orderStats struct {
-	sorted []float64
-	rank   []int
-	count  []int // scratch, all zero between calls
+// comparison holds each ramp's metric with its interval and the
+// simultaneous intervals of the differences between ramps.
+type comparison struct {
+	value    []float64
+	interval [][2]float64
+	diff     func(a, b int) Interval
 }
 
-// newOrderStats prepares the order statistics of x, which must be free of
-// NaN.
-func newOrderStats(x []float64) *orderStats {
-	n := len(x)
-	perm := make([]int, n)
-	for i := range perm {
-		perm[i] = i
-	}
-	slices.SortStableFunc(perm, func(a, b int) int {
-		switch {
-		case x[a] < x[b]:
-			return -1
-		case x[a] > x[b]:
-			return 1
-		}
-		return 0
-	})
-	o := &orderStats{sorted: make([]float64, n), rank: make([]int, n), count: make([]int, n)}
-	for r, i := range perm {
-		o.sorted[r] = x[i]
-		o.rank[i] = r
-	}
-	return o
+// boundsComparison compares ramps by non-overlap of simultaneous
+// intervals: the difference a - b lies in [Lo_a - Hi_b, Hi_a - Lo_b].
+func boundsComparison(value []float64, interval [][2]float64) comparison {
+	return comparison{value: value, interval: interval, diff: func(a, b int) Interval {
+		return Interval{Value: value[a] - value[b], Lo: interval[a][0] - interval[b][1], Hi: interval[a][1] - interval[b][0]}
+	}}
 }
 
-// quantile returns the type-7 p-quantile of the resample x[idx] (see
-// Quantile). It counts the ranks, then walks them from the nearer end to
-// the order statistics j = floor(h) and j + 1, h = (m - 1) p.
-func (o *orderStats) quantile(idx []int, p float64) float64 {
-	m := len(idx)
-	for _, i := range idx {
-		o.count[o.rank[i]]++
-	}
-	h := float64(m-1) * p
-	j := int(math.Floor(h))
-	k := min(j+1, m-1)
-	var lo, hi float64
-	if p <= 0.5 {
-		lo, hi = o.walk(j, k, false)
-	} else {
-		// From the top, ascending position i is descending position m-1-i.
-		hi, lo = o.walk(m-1-k, m-1-j, true)
-	}
-	clear(o.count)
-	return lo + (h-float64(j))*(hi-lo)
-}
-
-// walk returns the order statistics at positions a <= b, counted from the
-// bottom of the counts or, if down, from the top.
-func (o *orderStats) walk(a, b int, down bool) (va, vb float64) {
-	seen, found := 0, false
-	n := len(o.count)
-	for s := range n {
-		r := s
-		if down {
-			r = n - 1 - s
+// quantileComparison gives each ramp the exact order-statistic interval of
+// its p-quantile at the Bonferroni confidence 1 - (1 - c)/k; a missing end
+// is the end of the metric's range.
+func quantileComparison(xs [][]float64, p, confidence float64, support [2]float64) comparison {
+	k := len(xs)
+	c := 1 - (1-confidence)/float64(k)
+	value := make([]float64, k)
+	interval := make([][2]float64, k)
+	for r, x := range xs {
+		s := slices.Sorted(slices.Values(x))
+		value[r] = stats.QuantileSorted(s, p)
+		lo, hi := stats.QuantileInterval(s, p, c)
+		interval[r] = support
+		if lo.OK {
+			interval[r][0] = lo.Value
 		}
-		c := o.count[r]
-		if c == 0 {
-			continue
-		}
-		seen += c
-		if !found && seen > a {
-			va, found = o.sorted[r], true
-		}
-		if found && seen > b {
-			return va, o.sorted[r]
+		if hi.OK {
+			interval[r][1] = hi.Value
 		}
 	}
-	panic("mc: order statistic beyond the sample")
+	return boundsComparison(value, interval)
 }
 
-// statistic is one of the statistics a decision rests on, of one output of
-// one ensemble, evaluated on the whole sample or on a bootstrap resample.
-type statistic struct {
-	x  []float64
-	os *orderStats // nil for the mean
-	p  float64     // the quantile's probability
-}
-
-func quantileStatistic(x []float64, p float64) *statistic {
-	return &statistic{x: x, os: newOrderStats(x), p: p}
-}
-
-func meanStatistic(x []float64) *statistic { return &statistic{x: x} }
-
-// at evaluates the statistic on the resample x[idx].
-func (s *statistic) at(idx []int) float64 {
-	if s.os != nil {
-		return s.os.quantile(idx, s.p)
+// yieldComparison gives each ramp the Clopper-Pearson interval of its yield
+// (x holds 1 inside, 0 outside) at the Bonferroni confidence.
+func yieldComparison(xs [][]float64, confidence float64) comparison {
+	k := len(xs)
+	c := 1 - (1-confidence)/float64(k)
+	value := make([]float64, k)
+	interval := make([][2]float64, k)
+	for r, x := range xs {
+		inside := 0
+		for _, v := range x {
+			if v == 1 {
+				inside++
+			}
+		}
+		e := stats.ClopperPearson(inside, len(x), c)
+		value[r], interval[r] = e.Value, [2]float64{e.Lo, e.Hi}
 	}
-	var sum float64
-	for _, i := range idx {
-		sum += s.x[i]
-	}
-	return sum / float64(len(idx))
+	return boundsComparison(value, interval)
 }
 
-// value evaluates the statistic on the whole sample.
-func (s *statistic) value() float64 {
-	if s.os != nil {
-		return stats.QuantileSorted(s.os.sorted, s.p)
+// meanComparison compares the means of paired samples with the max-type
+// bootstrap described at Rank, and gives each ramp its BCa interval at the
+// confidence. An index is the high word of the 128-bit product of a random
+// word and n (Lemire's multiply-shift without rejection; its departure from
+// uniform, below n/2^64, no bootstrap can see).
+//
+// References:
+//   - D. Lemire, "Fast random integer generation in an interval", ACM Trans.
+//     Model. Comput. Simul. 29, 3 (2019).
+func meanComparison(xs [][]float64, confidence float64, rng *rand.Rand) comparison {
+	k, n := len(xs), len(xs[0])
+	value := make([]float64, k)
+	interval := make([][2]float64, k)
+	for r, x := range xs {
+		value[r] = stats.Mean(x)
+		interval[r] = [2]float64{value[r], value[r]}
+		if n >= 2 {
+			lo, hi := stats.MeanBCa(x, DecisionResamples, rng).Interval(confidence)
+			interval[r] = [2]float64{lo, hi}
+		}
 	}
-	return stats.Mean(s.x)
+	// se[a][b] is the standard error of the mean paired difference.
+	se := make([][]float64, k)
+	for a := range se {
+		se[a] = make([]float64, k)
+		for b := range a {
+			d := make([]float64, n)
+			for i := range d {
+				d[i] = xs[a][i] - xs[b][i]
+			}
+			if n >= 2 {
+				se[a][b] = stats.StdDev(d) / math.Sqrt(float64(n))
+			}
+			se[b][a] = se[a][b]
+		}
+	}
+	var q float64
+	if k > 1 && n >= 2 {
+		tmax := make([]float64, DecisionResamples)
+		idx := make([]int, n)
+		m := make([]float64, k)
+		for bi := range tmax {
+			for i := range idx {
+				w, _ := bits.Mul64(rng.Uint64(), uint64(n))
+				idx[i] = int(w)
+			}
+			for r, x := range xs {
+				var s float64
+				for _, i := range idx {
+					s += x[i]
+				}
+				m[r] = s / float64(n)
+			}
+			for a := range k {
+				for b := range a {
+					if se[a][b] > 0 {
+						t := math.Abs((m[a]-m[b])-(value[a]-value[b])) / se[a][b]
+						tmax[bi] = max(tmax[bi], t)
+					}
+				}
+			}
+		}
+		slices.Sort(tmax)
+		q = stats.QuantileSorted(tmax, confidence)
+	}
+	return comparison{value: value, interval: interval, diff: func(a, b int) Interval {
+		d := value[a] - value[b]
+		return Interval{Value: d, Lo: d - q*se[a][b], Hi: d + q*se[a][b]}
+	}}
 }
