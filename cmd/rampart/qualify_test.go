@@ -11,7 +11,7 @@ import (
 
 // qualifyArgs qualifies a small fixed-seed ensemble of the inverse ramp.
 func qualifyArgs(spec string) []string {
-	return []string{"qualify", "--scenario", ensembleScenario, "--set", "ramp.shape=inverse", "--samples", "16", "--seed", "3", "--spec", spec}
+	return []string{"qualify", "--scenario", ensembleScenario, "--set", "ramp.shape=inverse", "--samples", "80", "--seed", "3", "--spec", spec}
 }
 
 // writeSpec writes a spec file into dir.

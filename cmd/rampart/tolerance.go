@@ -14,6 +14,7 @@ import (
 	"rampart/cmd/internal/scenario"
 	"rampart/mc"
 	"rampart/sim"
+	"rampart/stats"
 )
 
 type toleranceOptions struct {
@@ -123,12 +124,13 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 
 // minYieldSamples returns the fewest realisations with which a yield
 // requirement can pass: n of n inside has the one-sided lower bound
-// (1-c)^(1/n), which must reach the minimum yield (0 without one).
+// alpha_1^(1/n), alpha_1 the first look's level (stats.LookAlpha), which
+// must reach the minimum yield (0 without one).
 func minYieldSamples(req mc.Requirements) int {
 	if !(req.YieldMin > 0 && req.YieldMin < 1) {
 		return 0
 	}
-	return int(math.Ceil(math.Log(1-req.Confidence) / math.Log(req.YieldMin)))
+	return int(math.Ceil(math.Log(stats.LookAlpha(1-req.Confidence, 1)) / math.Log(req.YieldMin)))
 }
 
 // toleranceTag sets an ensemble of a tolerance search apart from the others

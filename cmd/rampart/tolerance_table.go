@@ -11,6 +11,7 @@ import (
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
 	"rampart/mc"
+	"rampart/stats"
 )
 
 // toleranceCurvesFile holds the tolerance curves in the output directory.
@@ -35,7 +36,7 @@ func binding(res mc.ToleranceResult, p mc.TolerancePoint) (mc.Criterion, bool) {
 
 // toleranceGrid returns the tolerance table: a row per source searched.
 func toleranceGrid(rep toleranceReport) *grid {
-	conf := sig(100*rep.Requirements.Confidence, 3) + " %"
+	conf := sig(100*(1-stats.LookAlpha(1-rep.Requirements.Confidence, 1)), 4) + " %" // the first look's share (mc.Qualify)
 	t := newGrid("The tolerance of each noise source against spec "+rep.Spec, "Source", "Unit", "Nominal", "Tolerance", "Status",
 		"Binding criterion", "At the tolerance", "Bounds ("+conf+" one-sided)", "At the tolerance (deg/h)", "Curve points")
 	for _, res := range rep.Results {

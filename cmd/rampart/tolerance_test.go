@@ -16,7 +16,7 @@ import (
 // limit of 1e-4 rad near 15 ns.
 func skewArgs(spec string) []string {
 	return []string{"tolerance", "--scenario", ensembleScenario, "--set", "noise.depth.differential_rel=0",
-		"--spec", spec, "--sources", "skew_s", "--samples", "16", "--seed", "2"}
+		"--spec", spec, "--sources", "skew_s", "--samples", "80", "--seed", "2"}
 }
 
 const skewSpec = "[bias]\nabs_p95_max_rad = 1e-4\n"
@@ -78,7 +78,7 @@ func TestToleranceSkew(t *testing.T) {
 	// rampart run at the tolerance sees the same realisations: the same
 	// |bias| p95 (to rounding of the amplitude, relative 1e-9), within the limit.
 	runOut, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--set", "noise.depth.differential_rel=0",
-		"--set", "noise.timing.skew_ns="+strconv.FormatFloat(tol, 'g', -1, 64), "--samples", "16", "--seed", "2", "--json")
+		"--set", "noise.timing.skew_ns="+strconv.FormatFloat(tol, 'g', -1, 64), "--samples", "80", "--seed", "2", "--json")
 	if code != 0 {
 		t.Fatalf("run: %s", stderr)
 	}
