@@ -28,7 +28,7 @@
 // Per realisation the ensemble yields a contrast C_i, a bias b_i and an overlap
 // z_i. The generic statistics live in package stats, which never imports
 // sim: moments and quantiles, exact order-statistic bounds on quantiles,
-// the BCa bootstrap of a mean, Clopper-Pearson bounds on a yield, Holm's
+// the bootstrap-t of a mean, Clopper-Pearson bounds on a yield, Holm's
 // correction, alpha spending over looks and circular statistics. Here
 // [Histogram] counts fixed bins and [SobolIndices] apportions the variance
 // of an output among the static parameters (first-order and total Sobol'
@@ -48,14 +48,15 @@
 // [Summarise] gives each output's distribution with intervals that hold
 // their confidence: exact distribution-free order-statistic intervals for
 // the quantiles (Hahn, Meeker and Escobar 2017, ch. 5; absent, with the size
-// that would give them, when the ensemble is too small), the BCa bootstrap
-// for the mean (Efron 1987), the percentile bootstrap for the standard
+// that would give them, when the ensemble is too small), the bootstrap-t
+// for the mean (Hall 1988), the percentile bootstrap for the standard
 // deviation, and the bias as an angle (mean direction, circular standard
 // deviation; Fisher 1993) with the count of inverted shots.
 //
 // [Qualify] checks an ensemble against [Requirements]. Each criterion gets
 // two exact or second-order one-sided tests, "met" and "missed": order
-// statistics and binomial tails for quantiles, BCa for the mean contrast,
+// statistics and binomial tails for quantiles, the bootstrap-t for the mean
+// contrast,
 // Clopper-Pearson for a yield. The spec passes when every criterion passes
 // (an intersection-union test, Berger 1982), fails when Holm's correction
 // (Holm 1979) rejects a criterion on the fail side, and is undecided

@@ -144,7 +144,7 @@ type Criterion struct {
 	Lo    float64 `json:"lo"`
 	Hi    float64 `json:"hi"`
 	// Method names how the bounds and the tests were made: "order
-	// statistic" (exact, distribution-free), "BCa bootstrap" or
+	// statistic" (exact, distribution-free), "bootstrap-t" or
 	// "Clopper-Pearson" (exact).
 	Method string `json:"method"`
 	// PPass is the p-value of the test against the limit being missed

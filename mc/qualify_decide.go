@@ -29,7 +29,7 @@ import (
 //     statistic bounds the quantile at this n (below 69 realisations for
 //     the 5th percentile at look 1 and 95 %), the criterion cannot pass and
 //     NoBoundBelow gives the size that would bound it.
-//   - the mean contrast: the BCa bootstrap (stats.MeanBCa, Efron 1987),
+//   - the mean contrast: the bootstrap-t (stats.MeanBootstrapT, Hall 1988),
 //     whose one-sided error is O(1/n), with DecisionResamples resamples
 //     drawn from Substream(seed, 0, "qualify/contrast.mean").
 //   - the yield: exact binomial (Clopper-Pearson) tests.
@@ -48,7 +48,7 @@ import (
 // NaN, or a deg/h limit is given with a scale factor that is not positive.
 //
 // References:
-//   - B. Efron, J. Am. Stat. Assoc. 82, 171 (1987) (BCa).
+//   - P. Hall, Ann. Stat. 16, 927 (1988) (bootstrap-t).
 //   - G. J. Hahn, W. Q. Meeker and L. A. Escobar, Statistical Intervals, 2nd
 //     ed. (Wiley, 2017), ch. 5 (order-statistic bounds).
 //   - C. J. Clopper and E. S. Pearson, Biometrika 26, 404 (1934).
@@ -89,8 +89,11 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 		sortedAbs = slices.Sorted(slices.Values(abs))
 	}
 	if l := req.ContrastMeanMin; l > 0 {
-		b := stats.MeanBCa(contrast, DecisionResamples, Substream(seed, 0, "qualify/contrast.mean"))
-		q.Criteria = append(q.Criteria, t.mean(Criterion{Name: CriterionContrastMean, AtLeast: true, Limit: l}, b))
+		var b *stats.BootstrapT
+		if n >= 2 {
+			b = stats.MeanBootstrapT(contrast, DecisionResamples, Substream(seed, 0, "qualify/contrast.mean"))
+		}
+		q.Criteria = append(q.Criteria, t.mean(Criterion{Name: CriterionContrastMean, AtLeast: true, Limit: l}, contrast, b))
 	}
 	if l := req.ContrastP05Min; l > 0 {
 		q.Criteria = append(q.Criteria, t.quantile(Criterion{Name: CriterionContrastP05, AtLeast: true, Limit: l}, sortedContrast, 0.05, [2]float64{0, 1}, 1))
@@ -194,14 +197,24 @@ func (t qualifyTests) quantile(cr Criterion, sorted []float64, p float64, suppor
 	return cr
 }
 
-// mean fills in the mean-contrast criterion from its BCa bootstrap.
-func (t qualifyTests) mean(cr Criterion, b *stats.BCa) Criterion {
+// mean fills in the mean-contrast criterion from its bootstrap-t (nil for
+// a single realisation, which has no spread and decides nothing: at least
+// one more is needed). Bounds are clamped to the
+// contrast's range [0, 1], where a tied resample made them infinite.
+func (t qualifyTests) mean(cr Criterion, x []float64, b *stats.BootstrapT) Criterion {
 	c := 1 - t.alpha
-	cr.Method = "BCa bootstrap"
-	cr.Value, cr.Lo, cr.Hi = b.Value, b.Lower(c), b.Upper(c)
+	cr.Method = "bootstrap-t"
+	clamp := func(v float64) float64 { return min(max(v, 0), 1) }
+	if b == nil {
+		cr.Value, cr.Lo, cr.Hi, cr.PPass, cr.PFail = x[0], 0, 1, 1, 1
+		cr.Margin = marginOf(cr)
+		cr.Extra = 1
+		return cr
+	}
+	cr.Value, cr.Lo, cr.Hi = b.Value, clamp(b.Lower(c)), clamp(b.Upper(c))
 	cr.PPass, cr.PFail = b.AtLeast(cr.Limit)
 	cr.Margin = marginOf(cr)
-	next := stats.Estimate{Value: b.Value, Lo: b.Lower(1 - t.next), Hi: b.Upper(1 - t.next)}
+	next := stats.Estimate{Value: b.Value, Lo: clamp(b.Lower(1 - t.next)), Hi: clamp(b.Upper(1 - t.next))}
 	cr.Extra, cr.OutOfReach = extraRealisations(stats.AdditionalSamples(t.n, next, cr.Limit))
 	return cr
 }

@@ -35,7 +35,7 @@ type Place struct {
 	// Value is the ramp's metric and [Lo, Hi] its two-sided interval: for
 	// a quantile or a yield the exact interval at the simultaneous
 	// confidence 1 - (1 - c)/k of k ramps, on which the places are decided;
-	// for a mean the BCa interval at c.
+	// for a mean the bootstrap-t interval at c.
 	Value float64 `json:"value"`
 	Lo    float64 `json:"lo"`
 	Hi    float64 `json:"hi"`
@@ -101,7 +101,7 @@ type Place struct {
 //   - G. J. Hahn, W. Q. Meeker and L. A. Escobar, Statistical Intervals, 2nd
 //     ed. (Wiley, 2017), ch. 5.
 //   - C. J. Clopper and E. S. Pearson, Biometrika 26, 404 (1934).
-//   - B. Efron, J. Am. Stat. Assoc. 82, 171 (1987) (BCa).
+//   - P. Hall, Ann. Stat. 16, 927 (1988) (bootstrap-t).
 func Rank(names []string, recs [][]Record, metric string, spec Spec, confidence float64, seed uint64) (Ranking, error) {
 	if metric == "" {
 		metric = MetricP05

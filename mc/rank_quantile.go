@@ -75,7 +75,7 @@ func yieldComparison(xs [][]float64, confidence float64) comparison {
 }
 
 // meanComparison compares the means of paired samples with the max-type
-// bootstrap described at Rank, and gives each ramp its BCa interval at the
+// bootstrap described at Rank, and gives each ramp its bootstrap-t interval at the
 // confidence. An index is the high word of the 128-bit product of a random
 // word and n (Lemire's multiply-shift without rejection; its departure from
 // uniform, below n/2^64, no bootstrap can see).
@@ -91,8 +91,8 @@ func meanComparison(xs [][]float64, confidence float64, rng *rand.Rand) comparis
 		value[r] = stats.Mean(x)
 		interval[r] = [2]float64{value[r], value[r]}
 		if n >= 2 {
-			lo, hi := stats.MeanBCa(x, DecisionResamples, rng).Interval(confidence)
-			interval[r] = [2]float64{lo, hi}
+			lo, hi := stats.MeanBootstrapT(x, DecisionResamples, rng).Interval(confidence)
+			interval[r] = [2]float64{max(lo, 0), min(hi, 1)} // contrast lies in [0, 1]
 		}
 	}
 	// se[a][b] is the standard error of the mean paired difference.

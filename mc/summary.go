@@ -34,7 +34,7 @@ func (s Spec) Inside(r Record) bool {
 
 // Distribution summarises one output over the realisations, with a
 // two-sided interval at the summary's confidence on every entry (CI): the
-// BCa bootstrap for the mean (stats.MeanBCa), the percentile bootstrap for
+// bootstrap-t for the mean (stats.MeanBootstrapT), the percentile bootstrap for
 // the standard deviation, and exact distribution-free order-statistic
 // intervals for the quantiles (stats.QuantileInterval). A quantile interval
 // that needs more realisations than there are is absent from CI, and
@@ -124,9 +124,9 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 	}
 	rng := Substream(seed, 0, "summary")
 	s := Summary{Samples: n, Confidence: confidence, ScaleFactorS: scaleFactorS}
-	s.Contrast = distribution(c, rng, confidence)
-	s.BiasRad = distribution(bias, rng, confidence)
-	s.AbsBiasRad = distribution(abs, rng, confidence)
+	s.Contrast = distribution(c, rng, confidence, [2]float64{0, 1})
+	s.BiasRad = distribution(bias, rng, confidence, [2]float64{-math.Pi, math.Pi})
+	s.AbsBiasRad = distribution(abs, rng, confidence, [2]float64{0, math.Pi})
 	s.BiasDegPerH = s.BiasRad.scaled(sim.RadPerSToDegPerH(1 / scaleFactorS))
 	s.BiasCircular = CircularBias{Circular: stats.CircularStats(bias), ContrastFloor: UsableContrastFloor}
 	for i := range bias {
@@ -182,7 +182,9 @@ var quantileKeys = []struct {
 }{{"p01", 0.01}, {"p05", 0.05}, {"p50", 0.5}, {"p95", 0.95}, {"p99", 0.99}}
 
 // distribution computes the entries of a Distribution and their intervals.
-func distribution(x []float64, rng *rand.Rand, confidence float64) Distribution {
+// support is the range of the output, to which the mean's interval is
+// clamped where a tied resample made the bootstrap-t infinite.
+func distribution(x []float64, rng *rand.Rand, confidence float64, support [2]float64) Distribution {
 	sorted := slices.Sorted(slices.Values(x))
 	m, sd := meanStd(x)
 	d := Distribution{Mean: m, Std: sd, CI: map[string][2]float64{}}
@@ -214,9 +216,8 @@ func distribution(x []float64, rng *rand.Rand, confidence float64) Distribution 
 		d.CI["mean"], d.CI["std"] = [2]float64{m, m}, [2]float64{0, 0}
 		return d
 	}
-	b := stats.MeanBCa(x, BootstrapResamples, rng)
-	lo, hi := b.Interval(confidence)
-	d.CI["mean"] = [2]float64{lo, hi}
+	lo, hi := stats.MeanBootstrapT(x, BootstrapResamples, rng).Interval(confidence)
+	d.CI["mean"] = [2]float64{max(lo, support[0]), min(hi, support[1])}
 	reps := stats.BootstrapReplicates(len(x), BootstrapResamples, rng, func(idx []int) float64 {
 		var s, s2 float64
 		for _, i := range idx {

@@ -36,7 +36,7 @@ func TestSummaryQuantileIntervalsAreOrderStatistics(t *testing.T) {
 		}
 	}
 	if lo, hi := s.Contrast.CI["mean"][0], s.Contrast.CI["mean"][1]; !(lo < s.Contrast.Mean && s.Contrast.Mean < hi) {
-		t.Errorf("mean %v outside its BCa interval [%v, %v]", s.Contrast.Mean, lo, hi)
+		t.Errorf("mean %v outside its bootstrap-t interval [%v, %v]", s.Contrast.Mean, lo, hi)
 	}
 	if _, err := json.Marshal(s); err != nil {
 		t.Errorf("summary does not marshal: %v", err)

@@ -30,11 +30,12 @@
 //
 // # Means and bootstrap intervals
 //
-// [MeanBCa] is the bias-corrected and accelerated bootstrap of a mean
-// (Efron, J. Am. Stat. Assoc. 82, 171 (1987)), whose one-sided coverage
-// error is O(1/n) where the percentile bootstrap's ([Bootstrap],
-// [PairedBootstrap]) is O(1/sqrt(n)); it is what a one-sided verdict on a
-// skewed output needs. [Bootstrap] and [BootstrapReplicates] remain for
+// [MeanBootstrapT] is the studentized bootstrap (bootstrap-t) of a mean
+// (Hall, Ann. Stat. 16, 927 (1988)), whose one-sided coverage error is
+// O(1/n) where the percentile bootstrap's ([Bootstrap], [PairedBootstrap])
+// is O(1/sqrt(n)); it is what a one-sided verdict on a skewed output needs.
+// It was chosen over BCa (Efron 1987) by measured coverage on skewed data
+// at n = 30-60 (see its documentation). [Bootstrap] and [BootstrapReplicates] remain for
 // statistics without a better interval (a standard deviation, Sobol'
 // indices).
 //

@@ -271,7 +271,7 @@ func criteriaNotes(rep qualifyReport) []string {
 	}
 	q := rep.Qualification
 	out = append(out, "A limit \"at least\" passes when the lower bound clears it and fails when the upper bound misses it; \"at most\" the other way round.")
-	return append(out, fmt.Sprintf("Look %d: each bound is one-sided at %s %%, this look's share of the %s %% claim, so that qualifying again after topping up the ensemble keeps it; the advice in \"To decide\" is for the next look. Quantiles have exact order-statistic bounds, the mean a BCa bootstrap, the yield Clopper-Pearson; a fail is corrected for the number of criteria (Holm).",
+	return append(out, fmt.Sprintf("Look %d: each bound is one-sided at %s %%, this look's share of the %s %% claim, so that qualifying again after topping up the ensemble keeps it; the advice in \"To decide\" is for the next look. Quantiles have exact order-statistic bounds, the mean a bootstrap-t, the yield Clopper-Pearson; a fail is corrected for the number of criteria (Holm).",
 		q.Look, sig(100*q.LookConfidence, 4), sig(100*q.Confidence, 3)))
 }
 

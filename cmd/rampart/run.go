@@ -231,7 +231,7 @@ func summaryGrids(s mc.Summary) []*grid {
 	conf := fmt.Sprintf("%s %% interval", sig(100*s.Confidence, 3))
 	c5 := func(x float64) string { return fixed(x, 5) }
 	b3 := func(x float64) string { return sci(x, 3) }
-	t := newGrid("Distributions over the realisations, with intervals: mean BCa bootstrap, std percentile bootstrap, quantiles exact order statistics",
+	t := newGrid("Distributions over the realisations, with intervals: mean bootstrap-t, std percentile bootstrap, quantiles exact order statistics",
 		"Statistic", "Contrast", conf, "Bias (rad)", conf, "Bias (deg/h)")
 	rows := []struct {
 		name, key string
