@@ -3,6 +3,8 @@ package mc
 import (
 	"fmt"
 	"math"
+
+	"rampart/stats"
 )
 
 // Requirements is a qualification spec: the criteria an ensemble must meet
@@ -185,3 +187,33 @@ type Qualification struct {
 
 // ExitCode is the exit status of the overall verdict (see Verdict.ExitCode).
 func (q Qualification) ExitCode() int { return q.Verdict.ExitCode() }
+
+// MinSamples returns the smallest ensemble with which every criterion of
+// the requirements could pass at their look, even if every realisation
+// were far on the good side: a quantile needs an order statistic that
+// bounds it at the look's confidence 1 - alpha_k (stats.MinSamplesLower and
+// stats.MinSamplesUpper: 69 for a 5th or 95th percentile at 95 %, look 1),
+// a yield of at least Y needs alpha_k^(1/n) >= Y (n of n inside, the exact
+// Clopper-Pearson bound), and a mean needs two for a spread (how many more
+// its bootstrap needs depends on the data, so the mean does not raise the
+// count further).
+// Below it a qualification can only fail or be undecided.
+func (q Requirements) MinSamples() int {
+	c := 1 - stats.LookAlpha(1-q.confidence(), q.look())
+	n := 1
+	if q.ContrastMeanMin > 0 {
+		n = 2
+	}
+	if q.ContrastP05Min > 0 {
+		n = max(n, stats.MinSamplesLower(1, 0.05, c))
+	}
+	if q.AbsBiasP95MaxRad > 0 || q.AbsBiasP95MaxDegPerH > 0 {
+		n = max(n, stats.MinSamplesUpper(1, 0.95, c))
+	}
+	if y := q.YieldMin; y > 0 && y < 1 {
+		// The smallest n with Y^n <= 1 - c: by symmetry the size at which
+		// the largest of n bounds a Y-quantile from above.
+		n = max(n, stats.MinSamplesUpper(1, y, c))
+	}
+	return n
+}

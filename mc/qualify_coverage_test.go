@@ -218,3 +218,35 @@ func TestQualifyTopUpOverLooks(t *testing.T) {
 		t.Errorf("four looks on the limit: pass %.4f, fail %.4f, want each at most 0.05 (tol 3 se = %.4f, R = %d)", p, f, tol, reps)
 	}
 }
+
+// TestRequirementsMinSamples: at look 1 and 95 % (alpha_1 = 0.0303964) a
+// 5th or 95th percentile needs ceil(ln alpha_1 / ln 0.95) = ceil(68.11) =
+// 69, a yield of 0.9 ceil(ln alpha_1 / ln 0.9) = ceil(33.16) = 34 and one of
+// 0.99 ceil(347.6) = 348 (by hand); at look 2 (alpha_1/4) a 5th percentile
+// needs ceil(95.13) = 96. One realisation fewer cannot pass even when every
+// realisation is far inside; that many passes.
+func TestRequirementsMinSamples(t *testing.T) {
+	for _, c := range []struct {
+		req  Requirements
+		want int
+	}{
+		{Requirements{ContrastP05Min: 0.5}, 69},
+		{Requirements{AbsBiasP95MaxRad: 1e-3}, 69},
+		{Requirements{YieldMin: 0.9, Yield: Spec{MinContrast: 0.5}}, 34},
+		{Requirements{YieldMin: 0.99, Yield: Spec{MinContrast: 0.5}, ContrastP05Min: 0.5}, 348},
+		{Requirements{ContrastP05Min: 0.5, Look: 2}, 96},
+	} {
+		n := c.req.MinSamples()
+		if n != c.want {
+			t.Errorf("%+v: MinSamples %d, want %d", c.req, n, c.want)
+			continue
+		}
+		inside := func() (float64, float64) { return 0.99, 1e-6 }
+		if v := Qualify(onLimit(n-1, inside), c.req, 1, 1).Verdict; v == Pass {
+			t.Errorf("%+v: %d realisations passed, want not below %d", c.req, n-1, n)
+		}
+		if v := Qualify(onLimit(n, inside), c.req, 1, 1).Verdict; v != Pass {
+			t.Errorf("%+v: %d realisations all inside: %v, want pass", c.req, n, v)
+		}
+	}
+}

@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -14,7 +13,6 @@ import (
 	"rampart/cmd/internal/scenario"
 	"rampart/mc"
 	"rampart/sim"
-	"rampart/stats"
 )
 
 type toleranceOptions struct {
@@ -85,9 +83,9 @@ type toleranceReport struct {
 // SOURCE/AMPLITUDE of the options' directory if there is one.
 func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (toleranceReport, ensembleWork, error) {
 	var work ensembleWork
-	if n := minYieldSamples(req); o.samples < n {
-		return toleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot show a yield of at least %g with %g %% confidence even if every one is inside (the exact lower bound for n of n is (1-c)^(1/n)); give at least %d",
-			o.samples, req.YieldMin, 100*req.Confidence, n)
+	if n := req.MinSamples(); o.samples < n {
+		return toleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot pass the spec at %g %% confidence even if every one is far inside its limits (no exact bound on its quantiles or yield from so few); give at least %d",
+			o.samples, 100*req.Confidence, n)
 	}
 	search := mc.ToleranceSearch{
 		Budget: budget, Requirements: req, Seed: o.seed,
@@ -120,17 +118,6 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		rep.Results = append(rep.Results, res)
 	}
 	return rep, work, nil
-}
-
-// minYieldSamples returns the fewest realisations with which a yield
-// requirement can pass: n of n inside has the one-sided lower bound
-// alpha_1^(1/n), alpha_1 the first look's level (stats.LookAlpha), which
-// must reach the minimum yield (0 without one).
-func minYieldSamples(req mc.Requirements) int {
-	if !(req.YieldMin > 0 && req.YieldMin < 1) {
-		return 0
-	}
-	return int(math.Ceil(math.Log(stats.LookAlpha(1-req.Confidence, 1)) / math.Log(req.YieldMin)))
 }
 
 // toleranceTag sets an ensemble of a tolerance search apart from the others

@@ -144,5 +144,7 @@ func TestToleranceBadInput(t *testing.T) {
 		{"resume nothing", append(skewArgs(spec), "--resume", out), "--resume " + out + ": no such directory"},
 		{"bad spec", append(skewArgs(writeSpec(t, dir, "bad.toml", "[bias]\nabs_p95_max_rad = -1\n")), "--out", out), "bad.toml"},
 		{"empty budget", []string{"tolerance", "--scenario", "testdata/scenarios/benchmark.toml", "--spec", spec, "--out", out}, "has no active source: give --sources"},
+		// A 95th percentile at look 1 needs 69 (mc.Requirements.MinSamples).
+		{"too few to bound", append(skewArgs(spec), "--samples", "68", "--out", out), "give at least 69"},
 	})
 }
