@@ -37,15 +37,13 @@
 // # Statistics
 //
 // Per realisation the ensemble yields a contrast C_i, a bias b_i and an overlap
-// z_i. [Mean], [StdDev] and [Quantile] (Hyndman and Fan type 7, NumPy's default)
-// summarise a sample; [Bootstrap] gives percentile confidence intervals for any
-// statistic and [PairedBootstrap] for the difference of a statistic between two
-// ramps run on common random numbers. A yield, the fraction of realisations
-// inside a specification, has the exact binomial interval of Clopper and
-// Pearson ([ClopperPearson]); with no failures [RuleOfThree] and
-// [ZeroFailureUpper] bound the failure rate. [Histogram] counts fixed bins.
-// [SobolIndices] apportions the variance of an output among the static
-// parameters (first-order and total Sobol' indices).
+// z_i. The generic statistics live in package stats, which never imports
+// sim: moments and quantiles, exact order-statistic bounds on quantiles,
+// the bootstrap-t of a mean, Clopper-Pearson bounds on a yield, Holm's
+// correction, alpha spending over looks and circular statistics. Here
+// [Histogram] counts fixed bins and [SobolIndices] apportions the variance
+// of an output among the static parameters (first-order and total Sobol'
+// indices).
 //
 // # Running
 //
@@ -58,22 +56,42 @@
 // run directory: it writes the [Manifest] (with the scale factor of the
 // nominal sequence), creates or resumes the store and runs its shard.
 // [SharedGrid] sizes one noise grid for ensembles compared on common random
-// numbers. [Summarise] ([Manifest.Summarise]) gives the distributions
-// of contrast and bias with bootstrap intervals, the averaged-fringe contrast
-// and a yield.
+// numbers; [Manifest.Summarise] summarises a run (see below).
 //
 // # Decisions
 //
-// A verdict compares an interval with a threshold: clear above, clear below, or
-// undecided while the interval straddles it. For an undecided verdict,
-// [AdditionalSamples] and [AdditionalTrials] estimate how many more
-// realisations would settle it. On these rest [Rank] (ramps ordered by a
-// metric on common random numbers, with paired differences and whether each
-// place is resolved), [Qualify] (an ensemble against [Requirements]: pass,
-// fail or undecided), [ToleranceSearch] (the largest amplitude of each noise
-// source, or of the whole budget, at which the requirements still hold),
-// [SensitivityDesign] (Sobol' indices of each source on contrast and bias)
-// and [GyroFigures] (projection noise and angle random walk).
+// [Summarise] gives each output's distribution with intervals that hold
+// their confidence: exact distribution-free order-statistic intervals for
+// the quantiles (Hahn, Meeker and Escobar 2017, ch. 5; absent, with the size
+// that would give them, when the ensemble is too small), the bootstrap-t
+// for the mean (Hall 1988), the percentile bootstrap for the standard
+// deviation, and the bias as an angle (mean direction, circular standard
+// deviation; Fisher 1993) with the count of inverted shots.
+//
+// [Qualify] checks an ensemble against [Requirements]. Each criterion gets
+// two exact or second-order one-sided tests, "met" and "missed": order
+// statistics and binomial tails for quantiles, the bootstrap-t for the mean
+// contrast,
+// Clopper-Pearson for a yield. The spec passes when every criterion passes
+// (an intersection-union test, Berger 1982), fails when Holm's correction
+// (Holm 1979) rejects a criterion on the fail side, and is undecided
+// otherwise, never a pass on an ensemble too small to bound its quantiles.
+// Each look at a growing ensemble (Requirements.Look) spends its share
+// alpha 6/(pi^2 k^2) of the level (Lan and DeMets 1983), so topping up and
+// qualifying again keeps the stated confidence; the advice "N more
+// realisations" is for the next look's share. Seeded coverage simulations
+// in the tests hold every rate at its level.
+//
+// [Rank] orders ramps run on common random numbers. Every settled place
+// holds simultaneously at the confidence: quantiles and yields by exact
+// intervals at the Bonferroni level 1 - alpha/k that must not overlap,
+// means by a max-type paired bootstrap over all pairs (Romano and Wolf
+// 2005; Hsu 1996, ch. 4); a place is settled only when it is separated
+// from every other ramp. [ToleranceSearch] (the largest amplitude of each
+// noise source, or of the whole budget, at which the requirements still
+// hold), [SensitivityDesign] (Sobol' indices of each source on contrast and
+// bias) and [GyroFigures] (projection noise and angle random walk) build on
+// these.
 //
 // Confidence levels are fractions in (0, 1), such as 0.95. Programmer misuse
 // (a negative realisation index, a confidence outside (0, 1), mismatched slice

@@ -3,9 +3,8 @@ package mc
 import (
 	"fmt"
 	"math"
-	"slices"
 
-	"rampart/sim"
+	"rampart/stats"
 )
 
 // Requirements is a qualification spec: the criteria an ensemble must meet
@@ -24,6 +23,13 @@ type Requirements struct {
 	// YieldMin is the least fraction of realisations inside Yield.
 	YieldMin float64 `json:"yield_min,omitempty"`
 	Yield    Spec    `json:"yield_spec"`
+
+	// Look is the number of this verdict in a sequence on one growing
+	// ensemble: 1 for the first qualification, 2 after the first top-up,
+	// and so on. Each look spends its share of 1 - Confidence
+	// (stats.LookAlpha), so the whole sequence keeps the stated
+	// confidence. If zero, 1.
+	Look int `json:"look,omitempty"`
 }
 
 // DefaultConfidence is the confidence of Requirements that give none.
@@ -46,12 +52,18 @@ func (q Requirements) confidence() float64 {
 	return q.Confidence
 }
 
+// look returns the look number with its default.
+func (q Requirements) look() int { return max(q.Look, 1) }
+
 // Validate checks that the requirements set at least one criterion, that
 // every limit is finite and in range, and that a yield comes with the limits
 // that define it.
 func (q Requirements) Validate() error {
 	if c := q.Confidence; c != 0 && !(c > 0.5 && c < 1) {
 		return fmt.Errorf("confidence %g is outside (0.5, 1)", c)
+	}
+	if q.Look < 0 {
+		return fmt.Errorf("look %d: want 1 for a first qualification, 2, 3, ... after each top-up", q.Look)
 	}
 	for _, l := range []struct {
 		name  string
@@ -91,7 +103,7 @@ type Verdict int
 const (
 	Pass      Verdict = iota // the limit is met with the confidence
 	Fail                     // the limit is missed with the confidence
-	Undecided                // the interval straddles the limit
+	Undecided                // neither is shown at the confidence
 )
 
 var verdictNames = []string{"pass", "fail", "undecided"}
@@ -126,29 +138,48 @@ type Criterion struct {
 	AtLeast bool    `json:"at_least"` // the value must be at least Limit; otherwise at most
 	Limit   float64 `json:"limit"`
 	// Value is the measured statistic, Lo and Hi its one-sided lower and
-	// upper confidence bounds at the requirements' confidence (together a
-	// two-sided interval at 2 confidence - 1).
+	// upper confidence bounds at the look's confidence
+	// (Qualification.LookConfidence). A quantile bound that does not exist
+	// at this ensemble size is the end of the statistic's range (0 or 1
+	// for contrast, 0 or pi rad for |bias|), a bound that always holds.
 	Value float64 `json:"value"`
 	Lo    float64 `json:"lo"`
 	Hi    float64 `json:"hi"`
+	// Method names how the bounds and the tests were made: "order
+	// statistic" (exact, distribution-free), "bootstrap-t" or
+	// "Clopper-Pearson" (exact).
+	Method string `json:"method"`
+	// PPass is the p-value of the test against the limit being missed
+	// (small when the criterion is met), PFail that against it being met.
+	PPass float64 `json:"p_pass"`
+	PFail float64 `json:"p_fail"`
 	// Margin is how far Value lies on the good side of Limit (negative on
 	// the bad side), in Unit.
 	Margin  float64 `json:"margin"`
 	Verdict Verdict `json:"verdict"`
+	// NoBoundBelow is set for a quantile criterion that cannot pass
+	// because no order statistic bounds its quantile at the look's
+	// confidence from so few realisations: the smallest ensemble that has
+	// such a bound (59 for a 5th percentile at 95 %, Wilks 1941).
+	NoBoundBelow int `json:"no_bound_below,omitempty"`
 	// Extra is, for an undecided verdict, the estimated number of
-	// realisations beyond those measured that would decide it
-	// (AdditionalSamples, AdditionalTrials for the yield); OutOfReach
-	// reports that none would under that estimate (the value sits on the
-	// limit).
+	// realisations beyond those measured that would decide it at the next
+	// look's confidence; OutOfReach reports that none would under that
+	// estimate (the value sits on the limit).
 	Extra      int  `json:"extra_realisations,omitempty"`
 	OutOfReach bool `json:"out_of_reach,omitempty"`
 }
 
 // Qualification is the verdict of an ensemble against Requirements.
 type Qualification struct {
-	Samples    int         `json:"samples"`
-	Confidence float64     `json:"confidence"`
-	Criteria   []Criterion `json:"criteria"`
+	Samples    int     `json:"samples"`
+	Confidence float64 `json:"confidence"`
+	// Look is the look number and LookConfidence = 1 - stats.LookAlpha(1 -
+	// Confidence, Look) the one-sided confidence every criterion is tested
+	// at on it.
+	Look           int         `json:"look"`
+	LookConfidence float64     `json:"look_confidence"`
+	Criteria       []Criterion `json:"criteria"`
 	// Verdict is Fail if any criterion fails, otherwise Undecided if any is
 	// undecided, otherwise Pass.
 	Verdict Verdict `json:"verdict"`
@@ -157,134 +188,32 @@ type Qualification struct {
 // ExitCode is the exit status of the overall verdict (see Verdict.ExitCode).
 func (q Qualification) ExitCode() int { return q.Verdict.ExitCode() }
 
-// Qualify checks the records of an ensemble against the requirements.
-// scaleFactorS is the Sagnac scale factor K of the nominal sequence, which
-// turns a bias b in rad into the rotation-rate error b / K (needed only for
-// AbsBiasP95MaxDegPerH); seed seeds the bootstrap.
-//
-// With c the requirements' confidence, each statistic gets its one-sided
-// lower and upper confidence bounds at c: bootstrap percentiles (1 - c) and
-// c of DecisionResamples replicates for the means and quantiles,
-// Clopper-Pearson bounds (ClopperPearsonLower, ClopperPearsonUpper) for the
-// yield. A limit of the form "at least L" passes when the lower bound is at
-// least L, so that "yield at least 0.99 with 95% confidence" means that the
-// one-sided 95% lower bound clears 0.99; it fails when the upper bound is
-// below L, and is undecided otherwise ("at most L" likewise, mirrored). Each
-// verdict is thus a one-sided test at level 1 - c in its direction.
-//
-// Each statistic draws its bootstrap from its own Substream(seed, 0,
-// "qualify/"+statistic), so adding a criterion does not move the others, the
-// two bias limits (rad and deg/h) see the same resamples, and records in any
-// order give the same result.
-//
-// Qualify panics if recs is empty, the requirements do not Validate, a
-// record's contrast or bias is NaN, or a deg/h limit is given with a
-// scale factor that is not positive.
-//
-// References:
-//   - B. Efron and R. J. Tibshirani, An Introduction to the Bootstrap
-//     (Chapman & Hall, 1993), ch. 13 (percentile intervals).
-//   - C. J. Clopper and E. S. Pearson, Biometrika 26, 404 (1934).
-func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64) Qualification {
-	if len(recs) == 0 {
-		panic("mc: Qualify of no records")
+// MinSamples returns the smallest ensemble with which every criterion of
+// the requirements could pass at their look, even if every realisation
+// were far on the good side: a quantile needs an order statistic that
+// bounds it at the look's confidence 1 - alpha_k (stats.MinSamplesLower and
+// stats.MinSamplesUpper: 69 for a 5th or 95th percentile at 95 %, look 1),
+// a yield of at least Y needs alpha_k^(1/n) >= Y (n of n inside, the exact
+// Clopper-Pearson bound), and a mean needs two for a spread (how many more
+// its bootstrap needs depends on the data, so the mean does not raise the
+// count further).
+// Below it a qualification can only fail or be undecided.
+func (q Requirements) MinSamples() int {
+	c := 1 - stats.LookAlpha(1-q.confidence(), q.look())
+	n := 1
+	if q.ContrastMeanMin > 0 {
+		n = 2
 	}
-	if err := req.Validate(); err != nil {
-		panic("mc: Qualify: " + err.Error())
+	if q.ContrastP05Min > 0 {
+		n = max(n, stats.MinSamplesLower(1, 0.05, c))
 	}
-	if req.AbsBiasP95MaxDegPerH > 0 && !(scaleFactorS > 0) {
-		panic(fmt.Sprintf("mc: Qualify: a deg/h limit needs a positive scale factor, got %g", scaleFactorS))
+	if q.AbsBiasP95MaxRad > 0 || q.AbsBiasP95MaxDegPerH > 0 {
+		n = max(n, stats.MinSamplesUpper(1, 0.95, c))
 	}
-	sorted := slices.Clone(recs)
-	slices.SortFunc(sorted, func(a, b Record) int { return a.Index - b.Index })
-	n := len(sorted)
-	c := req.confidence()
-	contrast, abs := make([]float64, n), make([]float64, n)
-	for i, r := range sorted {
-		if math.IsNaN(r.Contrast) || math.IsNaN(r.BiasRad) {
-			panic(fmt.Sprintf("mc: Qualify: realisation %d has a NaN output", r.Index))
-		}
-		contrast[i], abs[i] = r.Contrast, math.Abs(r.BiasRad)
+	if y := q.YieldMin; y > 0 && y < 1 {
+		// The smallest n with Y^n <= 1 - c: by symmetry the size at which
+		// the largest of n bounds a Y-quantile from above.
+		n = max(n, stats.MinSamplesUpper(1, y, c))
 	}
-	q := Qualification{Samples: n, Confidence: c}
-	// The two-sided percentile interval at 2c - 1 has the one-sided bounds
-	// at c as its ends.
-	bootstrapped := func(name, stream, unit string, atLeast bool, limit float64, s *statistic, k float64) {
-		lo, hi := percentileOf(n, Substream(seed, 0, "qualify/"+stream), 2*c-1, s.at)
-		e := Estimate{Value: k * s.value(), Lo: k * lo, Hi: k * hi, Confidence: 2*c - 1}
-		cr := decide(Criterion{Name: name, Unit: unit, AtLeast: atLeast, Limit: limit}, e)
-		if cr.Verdict == Undecided {
-			cr.Extra, cr.OutOfReach = extraRealisations(AdditionalSamples(n, e, limit))
-		}
-		q.Criteria = append(q.Criteria, cr)
-	}
-	if l := req.ContrastMeanMin; l > 0 {
-		bootstrapped(CriterionContrastMean, "contrast.mean", "", true, l, meanStatistic(contrast), 1)
-	}
-	if l := req.ContrastP05Min; l > 0 {
-		bootstrapped(CriterionContrastP05, "contrast.p05", "", true, l, quantileStatistic(contrast, 0.05), 1)
-	}
-	var p95 *statistic
-	if req.AbsBiasP95MaxRad > 0 || req.AbsBiasP95MaxDegPerH > 0 {
-		p95 = quantileStatistic(abs, 0.95)
-	}
-	if l := req.AbsBiasP95MaxRad; l > 0 {
-		bootstrapped(CriterionBiasRad, "bias.abs_p95", "rad", false, l, p95, 1)
-	}
-	if l := req.AbsBiasP95MaxDegPerH; l > 0 {
-		bootstrapped(CriterionBiasDegPerH, "bias.abs_p95", "deg/h", false, l, p95, sim.RadPerSToDegPerH(1/scaleFactorS))
-	}
-	if l := req.YieldMin; l > 0 {
-		k := 0
-		for _, r := range sorted {
-			if req.Yield.Inside(r) {
-				k++
-			}
-		}
-		e := Estimate{Value: float64(k) / float64(n), Lo: ClopperPearsonLower(k, n, c), Hi: ClopperPearsonUpper(k, n, c), Confidence: 2*c - 1}
-		cr := decide(Criterion{Name: CriterionYield, AtLeast: true, Limit: l}, e)
-		if cr.Verdict == Undecided {
-			cr.Extra, cr.OutOfReach = extraRealisations(AdditionalTrials(k, n, 2*c-1, l))
-		}
-		q.Criteria = append(q.Criteria, cr)
-	}
-	q.Verdict = Pass
-	for _, cr := range q.Criteria {
-		switch {
-		case cr.Verdict == Fail:
-			q.Verdict = Fail
-		case cr.Verdict == Undecided && q.Verdict == Pass:
-			q.Verdict = Undecided
-		}
-	}
-	return q
-}
-
-// decide fills in the estimate, margin and verdict of a criterion.
-func decide(cr Criterion, e Estimate) Criterion {
-	cr.Value, cr.Lo, cr.Hi = e.Value, e.Lo, e.Hi
-	good, bad := e.Lo >= cr.Limit, e.Hi < cr.Limit
-	cr.Margin = e.Value - cr.Limit
-	if !cr.AtLeast {
-		good, bad = e.Hi <= cr.Limit, e.Lo > cr.Limit
-		cr.Margin = cr.Limit - e.Value
-	}
-	switch {
-	case good:
-		cr.Verdict = Pass
-	case bad:
-		cr.Verdict = Fail
-	default:
-		cr.Verdict = Undecided
-	}
-	return cr
-}
-
-// extraRealisations turns a sample-size estimate into Criterion's Extra and
-// OutOfReach.
-func extraRealisations(extra int, ok bool) (int, bool) {
-	if !ok {
-		return 0, true
-	}
-	return extra, false
+	return n
 }

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"rampart/sim"
+	"rampart/stats"
 )
 
 // synthetic returns n records whose contrast and bias f gives from
@@ -111,9 +112,10 @@ func TestRankKnownOrder(t *testing.T) {
 				t.Errorf("best's difference to itself %+v, last's difference to next %v: want zero and nil", got.Ranking[0].DiffToBest, got.Ranking[2].DiffToNext)
 			}
 			if tt.metric == MetricYield {
-				// Exact for a yield: the interval is Clopper-Pearson.
+				// Exact for a yield: the interval is Clopper-Pearson at the
+				// Bonferroni confidence 1 - 0.05/3 of three ramps.
 				inside := int(math.Round(got.Ranking[0].Value * n))
-				if e := ClopperPearson(inside, n, 0.95); e.Lo != got.Ranking[0].Lo || e.Hi != got.Ranking[0].Hi {
+				if e := stats.ClopperPearson(inside, n, 1-0.05/3); e.Lo != got.Ranking[0].Lo || e.Hi != got.Ranking[0].Hi {
 					t.Errorf("yield interval: got [%v, %v], want Clopper-Pearson [%v, %v] (exact)", got.Ranking[0].Lo, got.Ranking[0].Hi, e.Lo, e.Hi)
 				}
 			}
@@ -219,7 +221,10 @@ func TestRankErrors(t *testing.T) {
 // same draws: at a ramp this short (0.65 trap periods) the shortcut keeps a
 // contrast of about 0.64 where sin2 leaves 0.03 (nominal shots, measured
 // when this test was written; sim's TestInverseBeatsSin2ShortRamps shows the
-// same at l0 = 20), so inverse must win, resolved, by about 0.6.
+// same at l0 = 20), so inverse must win by about 0.6, resolved on the mean.
+// On p05 the places cannot be settled from 12 realisations: no order
+// statistic bounds a 5th percentile at 1 - 0.025/2 below 366
+// (stats.MinSamplesLower(1, 0.05, 0.9875)), so both are unresolved.
 func TestRankRealRamps(t *testing.T) {
 	const samples = 12
 	ns := []string{"sin2", "inverse"}
@@ -250,8 +255,9 @@ func TestRankRealRamps(t *testing.T) {
 			t.Fatal(err)
 		}
 		first, second := got.Ranking[0], got.Ranking[1]
-		if first.Name != "inverse" || !first.Resolved || !second.Resolved {
-			t.Errorf("%s: ranking %+v, want inverse first, both places resolved", metric, got.Ranking)
+		resolved := metric == MetricMean
+		if first.Name != "inverse" || first.Resolved != resolved || second.Resolved != resolved {
+			t.Errorf("%s: ranking %+v, want inverse first, both places resolved %v", metric, got.Ranking, resolved)
 		}
 		// Tolerance 0.1 absolute on the gain: the static errors move each
 		// ramp's contrast by about 0.02 (testEnsemble's budget).

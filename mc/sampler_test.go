@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"testing"
+
+	"rampart/stats"
 )
 
 // fixedPoints is a one-dimensional sampler returning given values.
@@ -82,10 +84,10 @@ func TestSamplersMoments(t *testing.T) {
 						}
 					}
 				}
-				if m := Mean(col); math.Abs(m-mean) > 4*seMean {
+				if m := stats.Mean(col); math.Abs(m-mean) > 4*seMean {
 					t.Errorf("%s normal=%v dim %d mean: got %v, want %v (tol %g)", c.name, normal, k, m, mean, 4*seMean)
 				}
-				if v := Variance(col); math.Abs(v-variance) > 4*seVar {
+				if v := stats.Variance(col); math.Abs(v-variance) > 4*seVar {
 					t.Errorf("%s normal=%v dim %d variance: got %v, want %v (tol %g)", c.name, normal, k, v, variance, 4*seVar)
 				}
 			}

@@ -4,6 +4,8 @@ import (
 	"math"
 	"sync"
 	"testing"
+
+	"rampart/stats"
 )
 
 func TestMix64(t *testing.T) {
@@ -75,7 +77,7 @@ func TestStreamNeighboursIndependent(t *testing.T) {
 	for i := range u {
 		u[i] = Stream(2024, i).Float64()
 	}
-	if m := Mean(u); math.Abs(m-0.5) > 4*math.Sqrt(1.0/12/n) {
+	if m := stats.Mean(u); math.Abs(m-0.5) > 4*math.Sqrt(1.0/12/n) {
 		t.Errorf("mean of first uniforms: got %v, want 0.5 (tol %g)", m, 4*math.Sqrt(1.0/12/n))
 	}
 	r := correlation(u[:n], u[1:])
@@ -120,7 +122,7 @@ func TestStreamNegativeIndexPanics(t *testing.T) {
 
 // correlation returns Pearson's correlation coefficient of x and y.
 func correlation(x, y []float64) float64 {
-	mx, my := Mean(x), Mean(y)
+	mx, my := stats.Mean(x), stats.Mean(y)
 	var sxy, sxx, syy float64
 	for k := range x {
 		dx, dy := x[k]-mx, y[k]-my

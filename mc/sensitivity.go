@@ -3,6 +3,8 @@ package mc
 import (
 	"fmt"
 	"math/rand/v2"
+
+	"rampart/stats"
 )
 
 // SaltelliDesign is the set of points at which to evaluate a model of d
@@ -69,9 +71,9 @@ func (s *SaltelliDesign) Point(j int, dst []float64) {
 // Sensitivity holds first-order and total Sobol' indices of a model output,
 // one per input, with bootstrap intervals.
 type Sensitivity struct {
-	First    []Estimate // S_k, the share of variance due to input k alone
-	Total    []Estimate // S_Tk, the share due to input k with all its interactions
-	Variance float64    // V, the variance of the output
+	First    []stats.Estimate // S_k, the share of variance due to input k alone
+	Total    []stats.Estimate // S_Tk, the share due to input k with all its interactions
+	Variance float64          // V, the variance of the output
 }
 
 // SobolIndices estimates the first-order and total Sobol' indices from the
@@ -105,20 +107,22 @@ func SobolIndices(design *SaltelliDesign, y []float64, resamples int, confidence
 	if len(y) != design.Len() {
 		panic(fmt.Sprintf("mc: %d outputs for a Saltelli design of %d points", len(y), design.Len()))
 	}
-	checkBootstrap(design.n, resamples, confidence, rng)
+	if resamples < 1 || rng == nil || !(confidence > 0 && confidence < 1) {
+		panic(fmt.Sprintf("mc: SobolIndices with %d resamples, confidence %g and random source %v: want at least one resample, a confidence in (0, 1) and a source", resamples, confidence, rng))
+	}
 	n, d := design.n, design.dim
 	all := make([]int, n)
 	for j := range all {
 		all[j] = j
 	}
 	v, first, total := saltelli(y, n, d, all)
-	s := Sensitivity{First: make([]Estimate, d), Total: make([]Estimate, d), Variance: v}
+	s := Sensitivity{First: make([]stats.Estimate, d), Total: make([]stats.Estimate, d), Variance: v}
 	reps := make([][]float64, 2*d)
 	for k := range reps {
 		reps[k] = make([]float64, resamples)
 	}
 	b := 0
-	BootstrapReplicates(n, resamples, rng, func(idx []int) float64 {
+	stats.BootstrapReplicates(n, resamples, rng, func(idx []int) float64 {
 		_, f, t := saltelli(y, n, d, idx)
 		for k := range d {
 			reps[k][b], reps[d+k][b] = f[k], t[k]
@@ -127,10 +131,10 @@ func SobolIndices(design *SaltelliDesign, y []float64, resamples int, confidence
 		return 0
 	})
 	for k := range d {
-		lo, hi := PercentileInterval(reps[k], confidence)
-		s.First[k] = Estimate{Value: first[k], Lo: lo, Hi: hi, Confidence: confidence}
-		lo, hi = PercentileInterval(reps[d+k], confidence)
-		s.Total[k] = Estimate{Value: total[k], Lo: lo, Hi: hi, Confidence: confidence}
+		lo, hi := stats.PercentileInterval(reps[k], confidence)
+		s.First[k] = stats.Estimate{Value: first[k], Lo: lo, Hi: hi, Confidence: confidence}
+		lo, hi = stats.PercentileInterval(reps[d+k], confidence)
+		s.Total[k] = stats.Estimate{Value: total[k], Lo: lo, Hi: hi, Confidence: confidence}
 	}
 	return s
 }

@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"rampart/sim"
+	"rampart/stats"
 )
 
 // SensitivityDesign is the Saltelli design of an ensemble's noise sources,
@@ -197,7 +198,7 @@ func (d *SensitivityDesign) Indices(recs []Record, confidence float64) (SobolRes
 	sb := SobolIndices(d.saltelli, b, BootstrapResamples, confidence, Substream(seed, 0, "sensitivity/bias"))
 	res := SobolResult{Rows: d.BaseLen(), Evaluations: d.Len(), Confidence: confidence,
 		ContrastVariance: sc.Variance, BiasVariance: sb.Variance}
-	in := func(s Sensitivity, e Estimate) Interval {
+	in := func(s Sensitivity, e stats.Estimate) Interval {
 		if s.Variance == 0 {
 			return Interval{}
 		}

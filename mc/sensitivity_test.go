@@ -5,6 +5,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"rampart/stats"
 )
 
 // ishigami is the Ishigami function with a = 7, b = 0.1 on u in [0,1)^3
@@ -66,7 +68,7 @@ func TestSobolIndicesIshigamiRandom(t *testing.T) {
 	// errors ((Hi - Lo) / (2 x 1.96)) of the analytic value.
 	d := NewSaltelliDesign(NewRandom(6, 1<<14, 5))
 	s := SobolIndicesOf(ishigami, d, 300, 0.95, rand.New(rand.NewPCG(4, 4)))
-	check := func(name string, e Estimate, want float64) {
+	check := func(name string, e stats.Estimate, want float64) {
 		se := (e.Hi - e.Lo) / (2 * 1.96)
 		if !(e.Lo <= e.Value && e.Value <= e.Hi) || math.Abs(e.Value-want) > 3*se {
 			t.Errorf("%s: got %v, want %v (tol 3 se = %g)", name, e, want, 3*se)

@@ -3,9 +3,11 @@ package mc
 import (
 	"math"
 	"math/cmplx"
+	"math/rand/v2"
 	"slices"
 
 	"rampart/sim"
+	"rampart/stats"
 )
 
 // Spec is a yield specification: a realisation is inside when its contrast
@@ -30,18 +32,40 @@ func (s Spec) Inside(r Record) bool {
 	return true
 }
 
-// Distribution summarises one output over the realisations, with bootstrap
-// percentile intervals (CI, at the summary's confidence) on every entry.
+// Distribution summarises one output over the realisations, with a
+// two-sided interval at the summary's confidence on every entry (CI): the
+// bootstrap-t for the mean (stats.MeanBootstrapT), the percentile bootstrap for
+// the standard deviation, and exact distribution-free order-statistic
+// intervals for the quantiles (stats.QuantileInterval). A quantile interval
+// that needs more realisations than there are is absent from CI, and
+// NoBoundBelow gives the ensemble size that would have it.
 type Distribution struct {
-	Mean float64               `json:"mean"`
-	Std  float64               `json:"std"`
-	P01  float64               `json:"p01"`
-	P05  float64               `json:"p05"`
-	P50  float64               `json:"p50"`
-	P95  float64               `json:"p95"`
-	P99  float64               `json:"p99"`
-	CI   map[string][2]float64 `json:"ci"`
+	Mean         float64               `json:"mean"`
+	Std          float64               `json:"std"`
+	P01          float64               `json:"p01"`
+	P05          float64               `json:"p05"`
+	P50          float64               `json:"p50"`
+	P95          float64               `json:"p95"`
+	P99          float64               `json:"p99"`
+	CI           map[string][2]float64 `json:"ci"`
+	NoBoundBelow map[string]int        `json:"no_bound_below,omitempty"`
 }
+
+// CircularBias summarises the bias as the angle it is (stats.CircularStats:
+// mean direction, mean resultant length, circular standard deviation) and
+// counts the inverted shots, whose fringe cannot be read: |bias| > pi/2 (the
+// fringe is upside down) or contrast below ContrastFloor.
+type CircularBias struct {
+	stats.Circular
+	Inverted      int     `json:"inverted_shots"`
+	ContrastFloor float64 `json:"contrast_floor"`
+}
+
+// UsableContrastFloor is the contrast below which a shot counts as inverted
+// in CircularBias: a fringe of a tenth of full contrast is about the least
+// a phase is read from in practice (a choice of ours, not a published
+// figure).
+const UsableContrastFloor = 0.1
 
 // Interval is an estimate with its confidence interval, as JSON.
 type Interval struct {
@@ -72,6 +96,7 @@ type Summary struct {
 	// shots; FringeBiasRad its phase less the Sagnac phase.
 	FringeContrast Interval     `json:"fringe_contrast"`
 	FringeBiasRad  Interval     `json:"fringe_bias_rad"`
+	BiasCircular   CircularBias `json:"bias_circular"`
 	Yield          *YieldResult `json:"yield,omitempty"`
 }
 
@@ -81,7 +106,8 @@ const BootstrapResamples = 500
 // Summarise computes the summary of records (in any order) of an ensemble
 // with the given seed. sagnacRad and scaleFactorS are those of the nominal
 // sequence. The bootstrap draws from Substream(seed, 0, "summary"), so a
-// summary is reproducible from its records.
+// summary is reproducible from its records. The quantile intervals are
+// computed on each output sorted once; they need no random draws.
 func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence float64, spec Spec) Summary {
 	n := len(recs)
 	if n == 0 {
@@ -98,10 +124,16 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 	}
 	rng := Substream(seed, 0, "summary")
 	s := Summary{Samples: n, Confidence: confidence, ScaleFactorS: scaleFactorS}
-	s.Contrast = distribution(c, rng, confidence)
-	s.BiasRad = distribution(bias, rng, confidence)
-	s.AbsBiasRad = distribution(abs, rng, confidence)
+	s.Contrast = distribution(c, rng, confidence, [2]float64{0, 1})
+	s.BiasRad = distribution(bias, rng, confidence, [2]float64{-math.Pi, math.Pi})
+	s.AbsBiasRad = distribution(abs, rng, confidence, [2]float64{0, math.Pi})
 	s.BiasDegPerH = s.BiasRad.scaled(sim.RadPerSToDegPerH(1 / scaleFactorS))
+	s.BiasCircular = CircularBias{Circular: stats.CircularStats(bias), ContrastFloor: UsableContrastFloor}
+	for i := range bias {
+		if math.Abs(bias[i]) > math.Pi/2 || c[i] < UsableContrastFloor {
+			s.BiasCircular.Inverted++
+		}
+	}
 
 	fringe := func(idx []int) (float64, float64) {
 		var m complex128
@@ -125,9 +157,9 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 		}
 		repC[b], repB[b] = fringe(idx)
 	}
-	lo, hi := PercentileInterval(repC, confidence)
+	lo, hi := stats.PercentileInterval(repC, confidence)
 	s.FringeContrast = Interval{fc, lo, hi}
-	lo, hi = PercentileInterval(repB, confidence)
+	lo, hi = stats.PercentileInterval(repB, confidence)
 	s.FringeBiasRad = Interval{fb, lo, hi}
 
 	if spec.Active() {
@@ -137,56 +169,85 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 				k++
 			}
 		}
-		e := ClopperPearson(k, n, confidence)
+		e := stats.ClopperPearson(k, n, confidence)
 		s.Yield = &YieldResult{Interval: Interval{e.Value, e.Lo, e.Hi}, Inside: k, Spec: spec}
 	}
 	return s
 }
 
-var distributionKeys = []string{"mean", "std", "p01", "p05", "p50", "p95", "p99"}
+// quantileKeys are the quantiles of a Distribution, by CI key.
+var quantileKeys = []struct {
+	key string
+	p   float64
+}{{"p01", 0.01}, {"p05", 0.05}, {"p50", 0.5}, {"p95", 0.95}, {"p99", 0.99}}
 
-// distribution computes the entries of a Distribution and their bootstrap
-// intervals; one resample serves every entry.
-func distribution(x []float64, rng interface{ IntN(int) int }, confidence float64) Distribution {
-	stats := func(v []float64) []float64 {
-		slices.Sort(v)
-		m, sd := meanStd(v)
-		return []float64{m, sd,
-			QuantileSorted(v, 0.01), QuantileSorted(v, 0.05), QuantileSorted(v, 0.5),
-			QuantileSorted(v, 0.95), QuantileSorted(v, 0.99)}
-	}
-	v := stats(slices.Clone(x))
-	d := Distribution{Mean: v[0], Std: v[1], P01: v[2], P05: v[3], P50: v[4], P95: v[5], P99: v[6], CI: map[string][2]float64{}}
-	reps := make([][]float64, len(distributionKeys))
-	buf := make([]float64, len(x))
-	for range BootstrapResamples {
-		for i := range buf {
-			buf[i] = x[rng.IntN(len(x))]
+// distribution computes the entries of a Distribution and their intervals.
+// support is the range of the output, to which the mean's interval is
+// clamped where a tied resample made the bootstrap-t infinite.
+func distribution(x []float64, rng *rand.Rand, confidence float64, support [2]float64) Distribution {
+	sorted := slices.Sorted(slices.Values(x))
+	m, sd := meanStd(x)
+	d := Distribution{Mean: m, Std: sd, CI: map[string][2]float64{}}
+	for _, q := range quantileKeys {
+		v := stats.QuantileSorted(sorted, q.p)
+		switch q.key {
+		case "p01":
+			d.P01 = v
+		case "p05":
+			d.P05 = v
+		case "p50":
+			d.P50 = v
+		case "p95":
+			d.P95 = v
+		case "p99":
+			d.P99 = v
 		}
-		for k, s := range stats(buf) {
-			reps[k] = append(reps[k], s)
+		lo, hi := stats.QuantileInterval(sorted, q.p, confidence)
+		if lo.OK && hi.OK {
+			d.CI[q.key] = [2]float64{lo.Value, hi.Value}
+			continue
 		}
+		if d.NoBoundBelow == nil {
+			d.NoBoundBelow = map[string]int{}
+		}
+		d.NoBoundBelow[q.key] = max(lo.MinSamples, hi.MinSamples)
 	}
-	for k, key := range distributionKeys {
-		lo, hi := PercentileInterval(reps[k], confidence)
-		d.CI[key] = [2]float64{lo, hi}
+	if len(x) < 2 {
+		d.CI["mean"], d.CI["std"] = [2]float64{m, m}, [2]float64{0, 0}
+		return d
 	}
+	lo, hi := stats.MeanBootstrapT(x, BootstrapResamples, rng).Interval(confidence)
+	d.CI["mean"] = [2]float64{max(lo, support[0]), min(hi, support[1])}
+	reps := stats.BootstrapReplicates(len(x), BootstrapResamples, rng, func(idx []int) float64 {
+		var s, s2 float64
+		for _, i := range idx {
+			s += x[i]
+		}
+		mean := s / float64(len(idx))
+		for _, i := range idx {
+			s2 += (x[i] - mean) * (x[i] - mean)
+		}
+		return math.Sqrt(s2 / float64(len(idx)-1))
+	})
+	lo, hi = stats.PercentileInterval(reps, confidence)
+	d.CI["std"] = [2]float64{lo, hi}
 	return d
 }
 
 // meanStd returns the mean and the sample standard deviation (zero for a
 // single value).
 func meanStd(x []float64) (float64, float64) {
-	m := Mean(x)
+	m := stats.Mean(x)
 	if len(x) < 2 {
 		return m, 0
 	}
-	return m, StdDev(x)
+	return m, stats.StdDev(x)
 }
 
 // scaled returns the distribution of k x for k > 0.
 func (d Distribution) scaled(k float64) Distribution {
-	e := Distribution{Mean: k * d.Mean, Std: k * d.Std, P01: k * d.P01, P05: k * d.P05, P50: k * d.P50, P95: k * d.P95, P99: k * d.P99, CI: map[string][2]float64{}}
+	e := Distribution{Mean: k * d.Mean, Std: k * d.Std, P01: k * d.P01, P05: k * d.P05, P50: k * d.P50, P95: k * d.P95, P99: k * d.P99,
+		CI: map[string][2]float64{}, NoBoundBelow: d.NoBoundBelow}
 	for key, v := range d.CI {
 		e.CI[key] = [2]float64{k * v[0], k * v[1]}
 	}

@@ -116,8 +116,8 @@ func (d *demo) check() error {
 	if err != nil {
 		return err
 	}
-	if n := mc.MinYieldSamples(req); o.toleranceSamples < n {
-		return fmt.Errorf("--tolerance-samples %d: the demo spec's yield of at least %g at %g %% confidence needs at least %d realisations per amplitude", o.toleranceSamples, req.YieldMin, 100*req.Confidence, n)
+	if n := req.MinSamples(); o.toleranceSamples < n {
+		return fmt.Errorf("--tolerance-samples %d: the demo spec at %g %% confidence needs at least %d realisations per amplitude to bound its quantiles and yield", o.toleranceSamples, 100*req.Confidence, n)
 	}
 	return nil
 }

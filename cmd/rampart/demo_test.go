@@ -37,7 +37,7 @@ func TestDemoClaims(t *testing.T) {
 // ranking, the tolerance curves and the dynamics.
 func TestDemoGolden(t *testing.T) {
 	dir := t.TempDir()
-	stdout, stderr, code := execute(t, "demo", "--samples", "40", "--tolerance-samples", "32", "--report", dir)
+	stdout, stderr, code := execute(t, "demo", "--samples", "100", "--tolerance-samples", "80", "--report", dir)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}

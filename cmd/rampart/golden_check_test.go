@@ -240,15 +240,20 @@ func TestGoldenYield(t *testing.T) {
 	hi := strings.TrimSuffix(strings.Fields(ci)[1], "]")
 	near(t, "run yield upper", hi, 1-math.Pow(0.025, 1.0/16))
 
-	// demo: 40 of 40, one-sided 95 %: p_L = 0.05^(1/40) = 0.92784.
-	text = readGolden(t, "demo.txt")
-	near(t, "demo yield lower", cell(t, text, "yield.min", 3), math.Pow(0.05, 1.0/40))
+	// The first look of a qualification bounds each side at the look's
+	// share alpha_1 = 0.05 * 6 / pi^2 of the 95 % claim (stats.LookAlpha;
+	// docs/model.md, Statistics).
+	alpha1 := 0.05 * 6 / (math.Pi * math.Pi)
 
-	// qualify: 2 of 16, one-sided 95 % each side.
+	// demo: 100 of 100, one-sided: p_L = alpha_1^(1/100).
+	text = readGolden(t, "demo.txt")
+	near(t, "demo yield lower", cell(t, text, "yield.min", 3), math.Pow(alpha1, 1.0/100))
+
+	// qualify: 7 of 80, one-sided at alpha_1 each side.
 	text = readGolden(t, "qualify-ensemble.txt")
-	near(t, "qualify yield", cell(t, text, "yield.min", 2), 2.0/16)
-	bracketed(t, "qualify yield lower", cell(t, text, "yield.min", 3), func(p float64) float64 { return binomTail(2, 16, p) }, 0.05)
-	bracketed(t, "qualify yield upper", cell(t, text, "yield.min", 4), func(p float64) float64 { return 1 - binomTail(3, 16, p) }, 0.05)
+	near(t, "qualify yield", cell(t, text, "yield.min", 2), 7.0/80)
+	bracketed(t, "qualify yield lower", cell(t, text, "yield.min", 3), func(p float64) float64 { return binomTail(7, 80, p) }, alpha1)
+	bracketed(t, "qualify yield upper", cell(t, text, "yield.min", 4), func(p float64) float64 { return 1 - binomTail(8, 80, p) }, alpha1)
 }
 
 var projectionLabel = regexp.MustCompile(`Projection-noise limit per shot, ([\d.e+]+) atoms at contrast ([\d.]+)`)

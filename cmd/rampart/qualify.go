@@ -18,6 +18,7 @@ import (
 type qualifyOptions struct {
 	decisionOptions
 	spec    string
+	look    int
 	readout readoutOptions
 }
 
@@ -40,7 +41,10 @@ decide it. The exit code gates lab automation: 0 pass, 1 fail, 3 undecided,
 2 bad input.
 
 --out DIR keeps the ensemble as rampart run does, with the verdict in
-qualification.json; --resume DIR continues it.
+qualification.json; --resume DIR continues it. --look K numbers this
+qualification in a sequence on one ensemble that is topped up and qualified
+again (1 the first time): each look spends its share of the confidence, so
+the sequence keeps the stated confidence.
 --shard k/n runs slice k into DIR and prints how to merge the slices and
 qualify the merged ensemble.`,
 		Args: cobra.NoArgs,
@@ -53,6 +57,7 @@ qualify the merged ensemble.`,
 	addReadoutFlags(cmd, &o.readout)
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
+	f.IntVar(&o.look, "look", 1, "number `K` of this qualification of a topped-up ensemble (1 the first time)")
 	cmd.MarkFlagRequired("spec")
 	return cmd
 }
@@ -85,6 +90,10 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		return err
 	}
 	o.ens.confidence = req.Confidence
+	if o.look < 1 {
+		return fmt.Errorf("--look %d: want 1 for a first qualification, 2, 3, ... each time the ensemble is topped up and qualified again", o.look)
+	}
+	req.Look = o.look
 	sc, cfg, budget, err := o.load()
 	if err != nil {
 		return err

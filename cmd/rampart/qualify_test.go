@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -13,7 +14,7 @@ import (
 
 // qualifyArgs qualifies a small fixed-seed ensemble of the inverse ramp.
 func qualifyArgs(spec string) []string {
-	return []string{"qualify", "--scenario", ensembleScenario, "--set", "ramp.shape=inverse", "--samples", "16", "--seed", "3", "--spec", spec}
+	return []string{"qualify", "--scenario", ensembleScenario, "--set", "ramp.shape=inverse", "--samples", "80", "--seed", "3", "--spec", spec}
 }
 
 // writeSpec writes a spec file into dir.
@@ -93,6 +94,33 @@ func TestQualifyExitCodes(t *testing.T) {
 	}
 	if c := q.Criteria[0]; q.Verdict != "undecided" || c.Verdict != "undecided" || (c.Extra <= 0 && !c.OutOfReach) {
 		t.Errorf("undecided criterion %+v: want extra realisations or out of reach", c)
+	}
+}
+
+// TestQualifyLook: --look 2 tests at the second look's share of the 5 %,
+// 0.05 x 6/(4 pi^2) = 0.0075991 (stats.LookAlpha), at which no order
+// statistic of 80 bounds a 5th percentile: that needs
+// ceil(ln 0.0075991 / ln 0.95) = 96, and the third look's level
+// (0.05 x 6/(9 pi^2)) 111, 31 more than 80 (by hand). --look 0 is refused.
+func TestQualifyLook(t *testing.T) {
+	dir := t.TempDir()
+	spec := writeSpec(t, dir, "p05.toml", "[contrast]\np05_min = 0.5\n")
+	stdout, stderr, code := execute(t, append(qualifyArgs(spec), "--look", "2", "--json")...)
+	if want := "no 99.24 % bound below 96 realisations: about 31 more"; code != 3 || !strings.Contains(stderr, want) {
+		t.Fatalf("exit %d, stderr %q; want 3 and %q", code, stderr, want)
+	}
+	var q struct {
+		Look           int     `json:"look"`
+		LookConfidence float64 `json:"look_confidence"`
+	}
+	if err := json.Unmarshal([]byte(stdout), &q); err != nil {
+		t.Fatal(err)
+	}
+	if want := 1 - 0.0075990887731753; q.Look != 2 || math.Abs(q.LookConfidence-want) > 1e-15 {
+		t.Errorf("look %d at %v, want 2 at %v (tol 1e-15)", q.Look, q.LookConfidence, want)
+	}
+	if _, stderr, code := execute(t, append(qualifyArgs(spec), "--look", "0")...); code != 2 || !strings.Contains(stderr, "--look 0") {
+		t.Errorf("--look 0: exit %d, stderr %q; want 2 and a message", code, stderr)
 	}
 }
 

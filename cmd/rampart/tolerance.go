@@ -75,9 +75,9 @@ the step before.`,
 // SOURCE/AMPLITUDE of the options' directory if there is one.
 func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (present.ToleranceReport, present.Work, error) {
 	var work present.Work
-	if n := mc.MinYieldSamples(req); o.samples < n {
-		return present.ToleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot show a yield of at least %g with %g %% confidence even if every one is inside (the exact lower bound for n of n is (1-c)^(1/n)); give at least %d",
-			o.samples, req.YieldMin, 100*req.Confidence, n)
+	if n := req.MinSamples(); o.samples < n {
+		return present.ToleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot pass the spec at %g %% confidence even if every one is far inside its limits (no exact bound on its quantiles or yield from so few); give at least %d",
+			o.samples, 100*req.Confidence, n)
 	}
 	search := mc.ToleranceSearch{
 		Budget: budget, Requirements: req, Seed: o.seed,

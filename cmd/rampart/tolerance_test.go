@@ -18,7 +18,7 @@ import (
 // limit of 1e-4 rad near 15 ns.
 func skewArgs(spec string) []string {
 	return []string{"tolerance", "--scenario", ensembleScenario, "--set", "noise.depth.differential_rel=0",
-		"--spec", spec, "--sources", "skew_s", "--samples", "16", "--seed", "2"}
+		"--spec", spec, "--sources", "skew_s", "--samples", "80", "--seed", "2"}
 }
 
 const skewSpec = "[bias]\nabs_p95_max_rad = 1e-4\n"
@@ -80,7 +80,7 @@ func TestToleranceSkew(t *testing.T) {
 	// rampart run at the tolerance sees the same realisations: the same
 	// |bias| p95 (to rounding of the amplitude, relative 1e-9), within the limit.
 	runOut, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--set", "noise.depth.differential_rel=0",
-		"--set", "noise.timing.skew_ns="+strconv.FormatFloat(tol, 'g', -1, 64), "--samples", "16", "--seed", "2", "--json")
+		"--set", "noise.timing.skew_ns="+strconv.FormatFloat(tol, 'g', -1, 64), "--samples", "80", "--seed", "2", "--json")
 	if code != 0 {
 		t.Fatalf("run: %s", stderr)
 	}
@@ -146,5 +146,7 @@ func TestToleranceBadInput(t *testing.T) {
 		{"resume nothing", append(skewArgs(spec), "--resume", out), "--resume " + out + ": no such directory"},
 		{"bad spec", append(skewArgs(writeSpec(t, dir, "bad.toml", "[bias]\nabs_p95_max_rad = -1\n")), "--out", out), "bad.toml"},
 		{"empty budget", []string{"tolerance", "--scenario", "testdata/scenarios/benchmark.toml", "--spec", spec, "--out", out}, "has no active source: give --sources"},
+		// A 95th percentile at look 1 needs 69 (mc.Requirements.MinSamples).
+		{"too few to bound", append(skewArgs(spec), "--samples", "68", "--out", out), "give at least 69"},
 	})
 }

@@ -27,7 +27,7 @@ func Deciding(q mc.Qualification) []string {
 		}
 		s := c.Name
 		if c.Verdict == mc.Undecided {
-			s += " (" + toDecide(c) + ")"
+			s += " (" + toDecide(c, q.LookConfidence) + ")"
 		}
 		out = append(out, s)
 	}
@@ -35,11 +35,13 @@ func Deciding(q mc.Qualification) []string {
 }
 
 // toDecide says how many more realisations would decide an undecided
-// criterion.
-func toDecide(c mc.Criterion) string {
+// criterion; conf is the look's one-sided confidence.
+func toDecide(c mc.Criterion, conf float64) string {
 	switch {
 	case c.Verdict != mc.Undecided:
 		return ""
+	case c.NoBoundBelow > 0:
+		return fmt.Sprintf("no %s %% bound below %d realisations: about %d more", Sig(100*conf, 4), c.NoBoundBelow, c.Extra)
 	case c.OutOfReach:
 		return "out of reach: the value sits on the limit"
 	}
@@ -85,7 +87,7 @@ func PrintQualification(w io.Writer, rep QualifyReport) error {
 // criteriaGrid returns the table of a qualification's criteria.
 func criteriaGrid(rep QualifyReport) *Grid {
 	q, s := rep.Qualification, rep.Summary
-	conf := Sig(100*q.Confidence, 3) + " %"
+	conf := Sig(100*q.LookConfidence, 4) + " %"
 	t := NewGrid("The criteria of spec "+rep.Spec+" against the ensemble", "Criterion", "Limit", "Unit", "Measured",
 		"Lower bound ("+conf+" one-sided)", "Upper bound ("+conf+" one-sided)", "Margin", "Verdict", "To decide", "Measured (deg/h)")
 	for _, c := range q.Criteria {
@@ -98,7 +100,7 @@ func criteriaGrid(rep QualifyReport) *Grid {
 		if c.Unit == "rad" {
 			degPerH = Sci(mc.BiasDegPerH(c.Value, s.ScaleFactorS), 3)
 		}
-		t.Append(c.Name, limit, c.Unit, f(c.Value), f(c.Lo), f(c.Hi), f(c.Margin), c.Verdict.String(), toDecide(c), degPerH)
+		t.Append(c.Name, limit, c.Unit, f(c.Value), f(c.Lo), f(c.Hi), f(c.Margin), c.Verdict.String(), toDecide(c, q.LookConfidence), degPerH)
 	}
 	return t
 }
@@ -110,7 +112,10 @@ func criteriaNotes(rep QualifyReport) []string {
 	if s := rep.Summary; s.Yield != nil {
 		out = append(out, fmt.Sprintf("Yield: %d of %d realisations inside %s.", s.Yield.Inside, s.Samples, yieldLimits(s.Yield.Spec, s.ScaleFactorS)))
 	}
-	return append(out, "A limit \"at least\" passes when the lower bound clears it and fails when the upper bound misses it; \"at most\" the other way round.")
+	q := rep.Qualification
+	out = append(out, "A limit \"at least\" passes when the lower bound clears it and fails when the upper bound misses it; \"at most\" the other way round.")
+	return append(out, fmt.Sprintf("Look %d: each bound is one-sided at %s %%, this look's share of the %s %% claim, so that qualifying again after topping up the ensemble keeps it; the advice in \"To decide\" is for the next look. Quantiles have exact order-statistic bounds, the mean a bootstrap-t, the yield Clopper-Pearson; a fail is corrected for the number of criteria (Holm).",
+		q.Look, Sig(100*q.LookConfidence, 4), Sig(100*q.Confidence, 3)))
 }
 
 // verdictLine states the overall verdict and what decides it.

@@ -91,7 +91,7 @@ func RankingNotes(rep RankReport) []string {
 	if !r.HigherBetter {
 		better = "lower"
 	}
-	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %d realisations per ramp. Intervals are %s %% two-sided: bootstrap percentile, Clopper-Pearson for a yield; the differences are paired over the same noise draws. A place is resolved when the paired intervals of its differences to the places above and below (Diff to next) exclude zero.",
+	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %d realisations per ramp. Every statement holds simultaneously at %s %%: quantile and yield intervals are exact (order statistics, Clopper-Pearson) at 1 - (1 - c)/k for k ramps, and two ramps differ when their intervals do not overlap; mean differences are paired over the same noise draws with a max-type bootstrap over all pairs. A place is resolved when it is separated from every other ramp.",
 		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, Sig(100*r.Confidence, 3))}
 	if g := rep.Ramps[0].Gyro; g != nil {
 		out = append(out, fmt.Sprintf("ARW: the angle random walk at each ramp's mean contrast, %s atoms per shot, one shot per %s s.", Sig(g.Atoms, 6), Sig(g.CycleS, 6)))

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"rampart/internal/atomicfile"
@@ -42,6 +43,15 @@ func interval(lo, hi float64, f func(float64) string) string {
 	return "[" + f(lo) + ", " + f(hi) + "]"
 }
 
+// ciCell formats the interval of a distribution's entry, or says how many
+// realisations would give one.
+func ciCell(d mc.Distribution, key string, f func(float64) string) string {
+	if ci, ok := d.CI[key]; ok {
+		return interval(ci[0], ci[1], f)
+	}
+	return fmt.Sprintf("none below %d", d.NoBoundBelow[key])
+}
+
 func PrintSummary(w io.Writer, s mc.Summary) error {
 	for i, g := range summaryGrids(s) {
 		if i > 0 {
@@ -60,7 +70,7 @@ func summaryGrids(s mc.Summary) []*Grid {
 	conf := fmt.Sprintf("%s %% interval", Sig(100*s.Confidence, 3))
 	c5 := func(x float64) string { return Fixed(x, 5) }
 	b3 := func(x float64) string { return Sci(x, 3) }
-	t := NewGrid("Distributions over the realisations, with percentile-bootstrap intervals",
+	t := NewGrid("Distributions over the realisations, with intervals: mean bootstrap-t, std percentile bootstrap, quantiles exact order statistics",
 		"Statistic", "Contrast", conf, "Bias (rad)", conf, "Bias (deg/h)")
 	rows := []struct {
 		name, key string
@@ -75,13 +85,15 @@ func summaryGrids(s mc.Summary) []*Grid {
 		{"p99", "p99", s.Contrast.P99, s.BiasRad.P99, s.BiasDegPerH.P99},
 	}
 	for _, r := range rows {
-		ci, bi := s.Contrast.CI[r.key], s.BiasRad.CI[r.key]
-		t.Append(r.name, c5(r.c), interval(ci[0], ci[1], c5), b3(r.b), interval(bi[0], bi[1], b3), b3(r.d))
+		t.Append(r.name, c5(r.c), ciCell(s.Contrast, r.key, c5), b3(r.b), ciCell(s.BiasRad, r.key, b3), b3(r.d))
 	}
 	u := NewGrid("The averaged fringe, the bias spread and the yield", "Quantity", "Value", conf, "Unit")
 	u.Append("Averaged-fringe contrast |mean z|", c5(s.FringeContrast.Value), interval(s.FringeContrast.Lo, s.FringeContrast.Hi, c5), "")
 	u.Append("Averaged-fringe bias arg(mean z) - Sagnac", b3(s.FringeBiasRad.Value), interval(s.FringeBiasRad.Lo, s.FringeBiasRad.Hi, b3), "rad")
-	u.Append("|bias| p95", b3(s.AbsBiasRad.P95), interval(s.AbsBiasRad.CI["p95"][0], s.AbsBiasRad.CI["p95"][1], b3), "rad")
+	u.Append("|bias| p95", b3(s.AbsBiasRad.P95), ciCell(s.AbsBiasRad, "p95", b3), "rad")
+	cb := s.BiasCircular
+	u.Append("Bias as an angle: mean direction (circular std)", b3(cb.MeanDirection), "("+b3(cb.StdDev)+")", "rad")
+	u.Append("Inverted shots: |bias| > pi/2 or contrast < "+Sig(cb.ContrastFloor, 3), strconv.Itoa(cb.Inverted), "", "")
 	u.Append("Scale factor K", Sig(s.ScaleFactorS, 6), "", "s (rad per rad/s)")
 	if y := s.Yield; y != nil {
 		var lim []string

@@ -11,6 +11,7 @@ import (
 	"rampart/cmd/internal/report"
 	"rampart/internal/atomicfile"
 	"rampart/mc"
+	"rampart/stats"
 )
 
 // ToleranceCurvesFile holds the tolerance curves in the output directory.
@@ -25,7 +26,7 @@ var toleranceStatusNotes = map[mc.ToleranceStatus]string{
 
 // ToleranceGrid returns the tolerance table: a row per source searched.
 func ToleranceGrid(rep ToleranceReport) *Grid {
-	conf := Sig(100*rep.Requirements.Confidence, 3) + " %"
+	conf := Sig(100*(1-stats.LookAlpha(1-rep.Requirements.Confidence, 1)), 4) + " %" // the first look's share (mc.Qualify)
 	t := NewGrid("The tolerance of each noise source against spec "+rep.Spec, "Source", "Unit", "Nominal", "Tolerance", "Status",
 		"Binding criterion", "At the tolerance", "Bounds ("+conf+" one-sided)", "At the tolerance (deg/h)", "Curve points")
 	for _, res := range rep.Results {

@@ -1,4 +1,4 @@
-package mc
+package stats
 
 import (
 	"math"
@@ -126,6 +126,6 @@ func QuantileSorted(sorted []float64, p float64) float64 {
 
 func checkProbability(p float64) {
 	if !(p >= 0 && p <= 1) {
-		panic("mc: quantile level outside [0, 1]")
+		panic("stats: quantile level outside [0, 1]")
 	}
 }

@@ -13,20 +13,6 @@ import (
 // 1.10.1 from Debian 12; the file records the versions it ran on).
 type statsReference struct {
 	Versions       map[string]string
-	ClopperPearson []struct {
-		K, N                     int
-		Confidence, Lower, Upper float64
-	} `json:"clopper_pearson"`
-	ZeroFailureUpper []struct {
-		N                 int
-		Confidence, Upper float64
-		BetaPPF           float64 `json:"beta_ppf"`
-	} `json:"zero_failure_upper"`
-	Quantiles []struct {
-		Data, P, Linear []float64
-		Mean            float64
-		StdDDOF1        *float64 `json:"std_ddof1"`
-	}
 	NormalQuantile []struct {
 		P, X float64
 	} `json:"normal_quantile"`
@@ -34,10 +20,6 @@ type statsReference struct {
 		Dim, Start int
 		Points     [][]float64
 	} `json:"sobol_unscrambled"`
-	PercentileCoverage []struct {
-		N                    int
-		Confidence, Coverage float64
-	} `json:"percentile_coverage_normal_mean"`
 	Ishigami struct {
 		A, B, Variance float64
 		First, Total   []float64

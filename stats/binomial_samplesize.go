@@ -1,4 +1,4 @@
-package mc
+package stats
 
 // AdditionalTrials estimates how many trials beyond n would bring the
 // Clopper-Pearson interval at the given confidence clear of threshold, after k

@@ -1,4 +1,4 @@
-package mc
+package stats
 
 import (
 	"fmt"

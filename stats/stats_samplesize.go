@@ -1,4 +1,4 @@
-package mc
+package stats
 
 import "math"
 
@@ -22,7 +22,7 @@ const maxSamples = 1 << 40
 // the estimate too, so check the verdict again after it.
 func AdditionalSamples(n int, e Estimate, threshold float64) (extra int, ok bool) {
 	if n < 1 {
-		panic("mc: sample-size estimate needs at least one sample")
+		panic("stats: sample-size estimate needs at least one sample")
 	}
 	if threshold < e.Lo || threshold > e.Hi {
 		return 0, true

@@ -1,4 +1,4 @@
-package mc
+package stats
 
 import (
 	"fmt"
@@ -65,7 +65,7 @@ func Bootstrap(x []float64, stat func([]float64) float64, resamples int, confide
 // differ in length.
 func PairedBootstrap(x, y []float64, stat func([]float64) float64, resamples int, confidence float64, rng *rand.Rand) Estimate {
 	if len(x) != len(y) {
-		panic(fmt.Sprintf("mc: paired samples of lengths %d and %d", len(x), len(y)))
+		panic(fmt.Sprintf("stats: paired samples of lengths %d and %d", len(x), len(y)))
 	}
 	checkBootstrap(len(x), resamples, confidence, rng)
 	bx, by := slices.Clone(x), slices.Clone(y)
@@ -87,7 +87,7 @@ func PairedBootstrap(x, y []float64, stat func([]float64) float64, resamples int
 // arrays, such as Sobol' indices or a complex mean.
 func BootstrapReplicates(n, resamples int, rng *rand.Rand, stat func(idx []int) float64) []float64 {
 	if n < 1 || resamples < 1 || rng == nil {
-		panic("mc: bootstrap needs at least one observation, one resample and a random source")
+		panic("stats: bootstrap needs at least one observation, one resample and a random source")
 	}
 	idx := make([]int, n)
 	reps := make([]float64, resamples)
@@ -112,19 +112,19 @@ func PercentileInterval(replicates []float64, confidence float64) (lo, hi float6
 
 func checkBootstrap(n, resamples int, confidence float64, rng *rand.Rand) {
 	if n < 1 {
-		panic("mc: bootstrap of an empty sample")
+		panic("stats: bootstrap of an empty sample")
 	}
 	if resamples < 1 {
-		panic(fmt.Sprintf("mc: %d bootstrap resamples, want at least 1", resamples))
+		panic(fmt.Sprintf("stats: %d bootstrap resamples, want at least 1", resamples))
 	}
 	if rng == nil {
-		panic("mc: bootstrap needs a random source")
+		panic("stats: bootstrap needs a random source")
 	}
 	checkConfidence(confidence)
 }
 
 func checkConfidence(c float64) {
 	if !(c > 0 && c < 1) {
-		panic(fmt.Sprintf("mc: confidence %g outside (0, 1)", c))
+		panic(fmt.Sprintf("stats: confidence %g outside (0, 1)", c))
 	}
 }

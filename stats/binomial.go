@@ -1,4 +1,4 @@
-package mc
+package stats
 
 import (
 	"fmt"
@@ -97,6 +97,6 @@ func RuleOfThree(n int) float64 {
 
 func checkTrials(k, n int) {
 	if n < 1 || k < 0 || k > n {
-		panic(fmt.Sprintf("mc: %d successes in %d trials", k, n))
+		panic(fmt.Sprintf("stats: %d successes in %d trials", k, n))
 	}
 }
