@@ -39,7 +39,7 @@ func (s State) String() string { return fmt.Sprintf("|%d,%d>", s.F, s.M) }
 // so that E = g_F mu_B m_F B at small B (Steck, eq. (25)).
 func (s State) LandeG() float64 {
 	s.mustValidate()
-	f := float64(s.F*(s.F+1))
+	f := float64(s.F * (s.F + 1))
 	ii := NuclearSpin * (NuclearSpin + 1)
 	jj := 0.75
 	return ElectronG*(f-ii+jj)/(2*f) + NuclearG*(f+ii-jj)/(2*f)
