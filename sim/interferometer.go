@@ -70,6 +70,11 @@ type Shot struct {
 	TemperatureOffsetK float64
 	Jitter             [2]*Series // lattice angle noise delta a_s(t) in rad
 	DepthNoise         [2]*Series // relative depth noise eps_s(t)
+
+	// Apparatus perturbations (sim/apparatus.go).
+	Field      FieldShift // differential frequency shift of arm s = +1
+	Scattering Scattering // photon scattering of each arm
+	RadiusRel  float64    // true radius R (1 + r) against the nominal R
 }
 
 // Level is the contribution of one of the site's levels to a thermal start.
@@ -256,6 +261,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		res.Levels = append(res.Levels, Level{Band: n, Weight: weights[n], EnergyHz: means[n] / (2 * math.Pi), Z: z})
 		res.Z += complex(weights[n]*pulse, 0) * z
 	}
+	res.Z *= s.apparatus(sh, drives, end)
 	phi := cfg.Sequence.TotalAngle()
 	res.Contrast = cmplxAbs(res.Z)
 	res.PhaseRad = math.Atan2(imag(res.Z), real(res.Z))
