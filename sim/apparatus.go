@@ -1,6 +1,9 @@
 package sim
 
-import "math"
+import (
+	"fmt"
+	"math"
+)
 
 // The perturbations of the apparatus that act on a shot as a factor on z,
 // after the arms are propagated: a differential frequency shift (magnetic
@@ -181,4 +184,41 @@ func seriesIntegrals(x *Series, t0, t1 float64) (lin, sq float64) {
 	}
 	piece(a, t1)
 	return lin, sq
+}
+
+// Validate reports whether f is a finite shift.
+func (f FieldShift) Validate() error {
+	for _, x := range []struct {
+		name string
+		v    float64
+	}{{"differential shift (Hz)", f.ShiftHz}, {"linear Zeeman coefficient (Hz/G)", f.Zeeman.LinearHzPerG},
+		{"quadratic Zeeman coefficient (Hz/G^2)", f.Zeeman.QuadraticHzPerG2}, {"field offset (G)", f.OffsetG}} {
+		if math.IsNaN(x.v) || math.IsInf(x.v, 0) {
+			return fmt.Errorf("%s %g is not finite", x.name, x.v)
+		}
+	}
+	return nil
+}
+
+// Validate reports whether sc has non-negative finite rates and a
+// uniform variate in [0, 1).
+func (sc Scattering) Validate() error {
+	for a, r := range sc.RateS {
+		if !(r >= 0) || math.IsInf(r, 0) {
+			return fmt.Errorf("scattering rate of arm %+d: %g /s is not a finite non-negative rate", 1-2*a, r)
+		}
+	}
+	if !(sc.Uniform >= 0 && sc.Uniform < 1) {
+		return fmt.Errorf("scattering draw %g is not in [0, 1)", sc.Uniform)
+	}
+	return nil
+}
+
+// ValidateRadiusRel reports whether r is a relative radius error that
+// leaves a ring: r > -1 and finite.
+func ValidateRadiusRel(r float64) error {
+	if !(r > -1) || math.IsInf(r, 0) {
+		return fmt.Errorf("relative radius error %g: need a finite number above -1", r)
+	}
+	return nil
 }

@@ -178,3 +178,31 @@ func TestRadiusError(t *testing.T) {
 		}
 	}
 }
+
+func TestApparatusValidate(t *testing.T) {
+	bad := []error{
+		FieldShift{ShiftHz: math.NaN()}.Validate(),
+		FieldShift{OffsetG: math.Inf(1)}.Validate(),
+		Scattering{RateS: [2]float64{-1, 0}}.Validate(),
+		Scattering{Uniform: 1}.Validate(),
+		ValidateRadiusRel(-1),
+		RingPotential{TiltRad: 0.5}.Validate(),
+		RingPotential{Harmonics: []DepthHarmonic{{Order: 0, Rel: 1e-3}}}.Validate(),
+	}
+	for i, err := range bad {
+		if err == nil {
+			t.Errorf("case %d: bad input accepted", i)
+		}
+	}
+	good := []error{
+		FieldShift{ShiftHz: 1, OffsetG: 1e-6}.Validate(),
+		Scattering{RateS: [2]float64{1, 2}, Uniform: 0.5}.Validate(),
+		ValidateRadiusRel(1e-3),
+		RingPotential{TiltRad: 1e-3, Harmonics: []DepthHarmonic{{Order: 2, Rel: 1e-3}}}.Validate(),
+	}
+	for i, err := range good {
+		if err != nil {
+			t.Errorf("case %d: %v", i, err)
+		}
+	}
+}
