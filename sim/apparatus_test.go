@@ -90,6 +90,23 @@ func TestShotFieldShift(t *testing.T) {
 	if math.Abs(got.Contrast-nominal.Contrast) > 1e-14 {
 		t.Errorf("contrast changed: %g against %g", got.Contrast, nominal.Contrast)
 	}
+
+	// A 50 Hz field line of 1 uG from t = 0 on a -2.1 MHz/G pair: the
+	// phase is -2 pi k B (1 - cos 2 pi f T) / (2 pi f). The record is
+	// sampled every 1 us; linear interpolation errs by h^2 / 12 of the
+	// second derivative, 1e-7 relative here.
+	const f, k, b = 50.0, -2.1e6, 1e-6
+	T := c.Sequence.Duration()
+	line := &Series{StepS: 1e-6, Values: make([]float64, int(T/1e-6)+2)}
+	for i := range line.Values {
+		line.Values[i] = b * math.Sin(2*math.Pi*f*float64(i)*1e-6)
+	}
+	got = s.Run(Shot{Field: FieldShift{Zeeman: Zeeman{LinearHzPerG: k}, Noise: line}}, nil)
+	shift := -2 * math.Pi * k * b * (1 - math.Cos(2*math.Pi*f*T)) / (2 * math.Pi * f)
+	want = Wrap(nominal.PhaseRad + shift)
+	if d := math.Abs(Wrap(got.PhaseRad - want)); d > 1e-6*math.Abs(shift) {
+		t.Errorf("phase with a 50 Hz line: got %.10f, want %.10f (shift %.6g rad, relative tol 1e-6)", got.PhaseRad, want, shift)
+	}
 }
 
 // TestScatteringEnsembleMean draws the per-shot outcome of

@@ -75,9 +75,9 @@ type Shot struct {
 	Field      FieldShift // differential frequency shift of arm s = +1
 	Scattering Scattering // photon scattering of each arm
 	RadiusRel  float64    // true radius R (1 + r) against the nominal R
-	// Ring is a static potential around the ring in the apparatus frame
+	// Potential is a static potential around the ring in the apparatus frame
 	// (tilt, depth harmonics), applied at first order (sim/ringpotential.go).
-	Ring RingPotential
+	Potential RingPotential
 }
 
 // Level is the contribution of one of the site's levels to a thermal start.
@@ -255,8 +255,8 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	da := drives[0].Angle(end) - drives[1].Angle(end)
 	pulse := math.Sin(math.Pi/2*(1+sh.PulseAreaRel[0])) * math.Sin(math.Pi/2*(1+sh.PulseAreaRel[1]))
 	var ring []complex128
-	if !sh.Ring.zero() {
-		ring = s.ringFactors(sh.Ring, drives, end, starts)
+	if !sh.Potential.zero() {
+		ring = s.ringFactors(sh.Potential, drives, end, starts)
 	}
 	for n := range lev {
 		plus, minus := fields[0].get(n), fields[1].get(n)

@@ -20,6 +20,14 @@ const StandardGravity = 9.80665
 // harmonics of the lattice depth, V0 (1 + sum_k Rel_k cos(k theta -
 // Phase_k)), which move with nothing: they belong to the beams' imperfect
 // ring, while the sites move. The zero value is the perfect ring.
+//
+// A shot (Shot.Potential) applies it at first order: each arm's packet
+// picks up the phase -integral <U>/hbar dt along its nominal path (see
+// phase), a factor on each level's overlap. Checked against a full-grid
+// split-step integration with U in the Hamiltonian
+// (sim/ringpotential_test.go): 4e-5 relative on adiabatic and 9e-5 on
+// strongly non-adiabatic ramps; the contrast is left unchanged (the full
+// integration moves it by below 1e-8 at these amplitudes).
 type RingPotential struct {
 	TiltRad   float64
 	LowRad    float64
@@ -35,18 +43,20 @@ type DepthHarmonic struct {
 	PhaseRad float64
 }
 
-// Validate reports whether p is a potential the first-order treatment
-// holds for (see RingPotential.phases).
+// Validate reports whether p lies where the first-order treatment was
+// checked against the full-grid integration (tilts to 10 mrad, harmonics
+// to 1e-3 and accepted to 1e-2: the first order's relative error, 4e-5,
+// did not grow with the amplitude over the range tested).
 func (p RingPotential) Validate() error {
-	if math.IsNaN(p.TiltRad) || math.Abs(p.TiltRad) > 0.1 {
-		return fmt.Errorf("ring tilt %g rad is outside [-0.1, 0.1] rad, where the first-order treatment of gravity is tested", p.TiltRad)
+	if math.IsNaN(p.TiltRad) || math.Abs(p.TiltRad) > 0.01 {
+		return fmt.Errorf("ring tilt %g rad is outside [-0.01, 0.01] rad, where the first-order treatment of gravity is tested", p.TiltRad)
 	}
 	for i, h := range p.Harmonics {
 		if h.Order < 1 {
 			return fmt.Errorf("depth harmonic %d: order %d, need a positive order", i+1, h.Order)
 		}
-		if math.IsNaN(h.Rel) || math.Abs(h.Rel) > 0.1 {
-			return fmt.Errorf("depth harmonic %d: relative amplitude %g is outside [-0.1, 0.1]", i+1, h.Rel)
+		if math.IsNaN(h.Rel) || math.Abs(h.Rel) > 0.01 {
+			return fmt.Errorf("depth harmonic %d: relative amplitude %g is outside [-0.01, 0.01]", i+1, h.Rel)
 		}
 	}
 	return nil

@@ -136,7 +136,7 @@ func TestRingPotentialFirstOrder(t *testing.T) {
 			}
 			sh := Shot{SkewS: c.skewS}
 			nominal := s.Run(sh, nil)
-			sh.Ring = c.p
+			sh.Potential = c.p
 			got := s.Run(sh, nil)
 			first := Wrap(got.PhaseRad - nominal.PhaseRad)
 
@@ -187,7 +187,7 @@ func BenchmarkShotRingPotential(b *testing.B) {
 				}
 				var sh Shot
 				if tilted {
-					sh.Ring = RingPotential{TiltRad: 1e-3, LowRad: 1, Harmonics: []DepthHarmonic{{Order: 2, Rel: 1e-3}}}
+					sh.Potential = RingPotential{TiltRad: 1e-3, LowRad: 1, Harmonics: []DepthHarmonic{{Order: 2, Rel: 1e-3}}}
 				}
 				for b.Loop() {
 					s.Run(sh, nil)
