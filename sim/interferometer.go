@@ -70,6 +70,14 @@ type Shot struct {
 	TemperatureOffsetK float64
 	Jitter             [2]*Series // lattice angle noise delta a_s(t) in rad
 	DepthNoise         [2]*Series // relative depth noise eps_s(t)
+
+	// Apparatus perturbations (sim/apparatus.go).
+	Field      FieldShift // differential frequency shift of arm s = +1
+	Scattering Scattering // photon scattering of each arm
+	RadiusRel  float64    // true radius R (1 + r) against the nominal R
+	// Potential is a static potential around the ring in the apparatus frame
+	// (tilt, depth harmonics), applied at first order (sim/ringpotential.go).
+	Potential RingPotential
 }
 
 // Level is the contribution of one of the site's levels to a thermal start.
@@ -246,6 +254,10 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	// Lab frame: psi_l = chi_l exp(-i l a(T)).
 	da := drives[0].Angle(end) - drives[1].Angle(end)
 	pulse := math.Sin(math.Pi/2*(1+sh.PulseAreaRel[0])) * math.Sin(math.Pi/2*(1+sh.PulseAreaRel[1]))
+	var ring []complex128
+	if !sh.Potential.zero() {
+		ring = s.ringFactors(sh.Potential, drives, end, starts)
+	}
 	for n := range lev {
 		plus, minus := fields[0].get(n), fields[1].get(n)
 		var z complex128
@@ -253,9 +265,13 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 			l := float64(b.LMin() + i)
 			z += complexConj(minus.Amp[i]) * plus.Amp[i] * cis(-l*da)
 		}
+		if ring != nil {
+			z *= ring[n]
+		}
 		res.Levels = append(res.Levels, Level{Band: n, Weight: weights[n], EnergyHz: means[n] / (2 * math.Pi), Z: z})
 		res.Z += complex(weights[n]*pulse, 0) * z
 	}
+	res.Z *= s.apparatus(sh, drives, end)
 	phi := cfg.Sequence.TotalAngle()
 	res.Contrast = cmplxAbs(res.Z)
 	res.PhaseRad = math.Atan2(imag(res.Z), real(res.Z))
