@@ -3,6 +3,7 @@ package mc
 import (
 	"math"
 	"os"
+	"reflect"
 	"strings"
 	"testing"
 
@@ -92,7 +93,7 @@ func TestSourcesApply(t *testing.T) {
 			var sh sim.Shot
 			rec := &sim.Series{StepS: 1, Values: []float64{1}}
 			s.ApplyNoise(&sh, [2]*sim.Series{rec, rec})
-			if sh == (sim.Shot{}) {
+			if reflect.DeepEqual(sh, sim.Shot{}) {
 				t.Errorf("%s: ApplyNoise left the shot unchanged", s.Key)
 			}
 			var b Budget
@@ -105,7 +106,7 @@ func TestSourcesApply(t *testing.T) {
 		for i := range s.Inputs {
 			var sh sim.Shot
 			s.Apply(&sh, i, 1e-3)
-			if sh == (sim.Shot{}) {
+			if reflect.DeepEqual(sh, sim.Shot{}) {
 				t.Errorf("%s input %d: Apply left the shot unchanged", s.Key, i)
 			}
 		}

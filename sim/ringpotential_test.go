@@ -69,10 +69,10 @@ func plainWithPotential(s *Simulator, sh Shot, p RingPotential, stepS float64) c
 	return z
 }
 
-// ringConfig is slowConfig's ring and a sin2 ramp of rampS s (2 ms:
+// potentialConfig is slowConfig's ring and a sin2 ramp of rampS s (2 ms:
 // adiabatic to 1e-6) for laps laps, not rotating, so that any phase is the
 // potential's.
-func ringConfig(t *testing.T, laps, rampS float64) Config {
+func potentialConfig(t *testing.T, laps, rampS float64) Config {
 	t.Helper()
 	c := benchConfig(t, 1)
 	c.RotationRadS = 0
@@ -129,7 +129,7 @@ func TestRingPotentialFirstOrder(t *testing.T) {
 		{"tilt, 0.5 lap, 150 us ramp", 0.5, 150e-6, 0, tilt, false, 5e-4},
 	} {
 		t.Run(c.name, func(t *testing.T) {
-			cfg := ringConfig(t, c.laps, c.rampS)
+			cfg := potentialConfig(t, c.laps, c.rampS)
 			s, err := NewSimulator(cfg)
 			if err != nil {
 				t.Fatal(err)
