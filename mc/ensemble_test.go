@@ -87,7 +87,7 @@ func readFile(t *testing.T, path string) []byte {
 	return b
 }
 
-// TestReproducible checks the seeding promise (PHYSICS.md section 7):
+// TestReproducible checks the seeding promise (docs/model.md, Statistics):
 // realisation i is the same whatever the number of workers, an
 // interruption and resume, or a split into shards merged afterwards. The
 // comparison is of the result files, byte for byte.

@@ -8,7 +8,7 @@ import (
 )
 
 // Gyro holds the gyroscope figures of an interferometer read out with
-// Atoms atoms per shot every CycleS seconds (PHYSICS.md section 8). With
+// Atoms atoms per shot every CycleS seconds (docs/model.md, Gyroscope figures). With
 // scale factor K (rad per rad/s) and contrast C, the phase of one shot is
 // known to the atom projection-noise limit 1 / (C sqrt(N_at)) rad, so
 //

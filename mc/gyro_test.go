@@ -7,7 +7,7 @@ import (
 )
 
 // TestGyroFigures checks the figures against hand-worked numbers
-// (PHYSICS.md section 8; 180/pi x 3600 = 206264.806 deg/h per rad/s and
+// (docs/model.md, Gyroscope figures; 180/pi x 3600 = 206264.806 deg/h per rad/s and
 // 180/pi x 60 = 3437.747 deg/sqrt(h) per rad/sqrt(s)).
 //
 //	K = 100 s, C = 0.5, N = 1e4:  dOmega = 1 / (100 x 0.5 x 100) = 2e-4 rad/s

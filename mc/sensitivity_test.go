@@ -20,19 +20,19 @@ func ishigami(u []float64) float64 {
 }
 
 // ishigamiFirst and ishigamiTotal are the analytic indices for a = 7, b = 0.1
-// to 4 decimals (PHYSICS.md section 7).
+// to 4 decimals (docs/model.md, Statistics).
 var (
 	ishigamiFirst = []float64{0.3139, 0.4424, 0}
 	ishigamiTotal = []float64{0.5576, 0.4424, 0.2437}
 )
 
 func TestIshigamiReferenceValues(t *testing.T) {
-	// The 4-decimal values of PHYSICS.md against the closed form evaluated in
+	// The 4-decimal values of docs/model.md (Statistics) against the closed form evaluated in
 	// testdata/reference/stats_reference.py: absolute tolerance 5e-5, the rounding.
 	ref := reference(t).Ishigami
 	for k := range 3 {
 		if math.Abs(ishigamiFirst[k]-ref.First[k]) > 5e-5 || math.Abs(ishigamiTotal[k]-ref.Total[k]) > 5e-5 {
-			t.Errorf("input %d: PHYSICS.md S=%v ST=%v, closed form S=%v ST=%v (tol 5e-5)",
+			t.Errorf("input %d: docs/model.md S=%v ST=%v, closed form S=%v ST=%v (tol 5e-5)",
 				k+1, ishigamiFirst[k], ishigamiTotal[k], ref.First[k], ref.Total[k])
 		}
 	}

@@ -6,7 +6,7 @@ import (
 )
 
 func TestSobolTwoDimensionalReference(t *testing.T) {
-	// PHYSICS.md section 7: unscrambled 2-D points in Gray-code order (exact
+	// docs/model.md, Statistics: unscrambled 2-D points in Gray-code order (exact
 	// dyadic rationals, so exact equality).
 	want := [][2]float64{
 		{0, 0}, {.5, .5}, {.75, .25}, {.25, .75},

@@ -86,8 +86,8 @@ func mathieu(t testing.TB, function string, m int, q float64) mathieuValue {
 //	class 0:   a_0, b_2, a_2, b_4, a_4, ...   (n even: a_n; n odd: b_n+1)
 //	class N/2: b_1, a_1, b_3, a_3, b_5, ...   (n even: b_n+1; n odd: a_n)
 //
-// so band 0 spans [a_0, b_1] and band 1 spans [a_1, b_2] (PHYSICS.md
-// section 3).
+// so band 0 spans [a_0, b_1] and band 1 spans [a_1, b_2] (docs/model.md,
+// Hamiltonian).
 func mathieuOfBand(n int) (centre, edge mathieuKey) {
 	if n%2 == 0 {
 		return mathieuKey{"a", n, 0}, mathieuKey{"b", n + 1, 0}

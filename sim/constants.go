@@ -11,8 +11,8 @@ const (
 )
 
 // Rb87MassU is the mass of rubidium-87 in atomic mass units, the value of
-// D. A. Steck, "Rubidium 87 D Line Data" (table 2) that the project's
-// PHYSICS.md quotes; the revision was not checked here (2.3.x, from memory).
+// D. A. Steck, "Rubidium 87 D Line Data" (table 2) that docs/model.md
+// (Units and constants) quotes; the revision was not checked here (2.3.x, from memory).
 // The mass in kg is Rb87MassU times AtomicMassUnit (CODATA 2018), not the
 // kg value older revisions print with an older m_u.
 const Rb87MassU = 86.909180520

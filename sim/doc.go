@@ -7,7 +7,7 @@
 // E/hbar in rad/s inside the propagator; exported quantities named ...Hz are
 // E/h in Hz, the cold-atom habit.
 //
-// Conventions (see PHYSICS.md of the project):
+// Conventions (docs/model.md, Hamiltonian and Interferometer and signs):
 //
 //	V(theta) = -V0 cos^2(N (theta - a) / 2),  V0 > 0
 //	H        = E_rot l^2 + V,                 E_rot = hbar^2 / (2 I),  I = m R^2

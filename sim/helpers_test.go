@@ -23,7 +23,7 @@ func rb87Ring(sites int, radiusM float64) Ring {
 }
 
 // recoilHz returns E_s/h = N^2 E_rot / (4h), the energy unit of the Mathieu
-// mapping (PHYSICS.md section 3).
+// mapping (docs/model.md, Hamiltonian).
 func recoilHz(r Ring) float64 {
 	n := float64(r.Sites)
 	return n * n * r.RotationalHz() / 4

@@ -24,7 +24,7 @@ func newTestSimulator(t testing.TB, cfg Config, up Ramp, laps float64) *Simulato
 
 // TestSagnacPhaseAdiabatic runs slow sequences in a deep lattice and checks
 // unit contrast and the Sagnac phase Phi_S = 2 m Omega_bg A / hbar with the
-// enclosed area A = R^2 phi(T) (PHYSICS.md section 4), with its sign:
+// enclosed area A = R^2 phi(T) (docs/model.md, Interferometer and signs), with its sign:
 // z ~ exp(+i Phi_S). The lattice is the default ring (20 sites, 5 um, Rb-87)
 // at 20 kHz: q = 21.5, nu = 4.31 kHz, band-0 width 6e-4 Hz, so tunnelling
 // shifts the phase by < 1e-5 rad over these 15 to 35 ms sequences. The

@@ -88,8 +88,8 @@ func TestSpeedError(t *testing.T) {
 
 // TestDifferentialDepth: arms whose lattices differ in depth by
 // delta = eps_+ - eps_- pick up the dynamic phase -(dE_0/d eps) delta T /
-// hbar of their ground-state energies over the sequence (PHYSICS.md
-// section 6); dE_0/d eps is taken from the band energies.
+// hbar of their ground-state energies over the sequence (docs/model.md,
+// Perturbations); dE_0/d eps is taken from the band energies.
 func TestDifferentialDepth(t *testing.T) {
 	c := slowConfig(t, 1e-3)
 	const delta = 1e-4

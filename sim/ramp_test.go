@@ -29,7 +29,7 @@ func testRamps(tr float64) []Ramp {
 var testRampTimes = []float64{23e-6, 150e-6, 2.3e-3}
 
 // TestRampBoundaries checks the boundary values every ramp shape promises
-// (PHYSICS.md section 5): speed 0 at t = 0 and Omega_0 at t_r, zero
+// (docs/model.md, Ramp shapes): speed 0 at t = 0 and Omega_0 at t_r, zero
 // acceleration at both ends, and the ramp angle Omega_0 t_r / 2 (exact for
 // all three: int sin^2(pi s/2) ds = 1/2, int (10s^3-15s^4+6s^5) ds = 1/2,
 // int v ds = 7-14+10-5/2 = 1/2, and the term in the second derivative of v
@@ -153,7 +153,7 @@ func TestInverseRampHarmonicExact(t *testing.T) {
 // TestPeakSpeed checks the drive summary: the smooth shapes peak at the
 // cruise speed and never reverse; the inverse ramp overshoots and, at a
 // ramp of a tenth of a trap period, reverses ("throw and catch",
-// PHYSICS.md section 5).
+// docs/model.md, Ramp shapes).
 func TestPeakSpeed(t *testing.T) {
 	tests := []struct {
 		r        Ramp

@@ -5,7 +5,7 @@ import (
 	"testing"
 )
 
-// TestTrapHz checks nu = N sqrt(V0 E_rot) (PHYSICS.md section 3) against
+// TestTrapHz checks nu = N sqrt(V0 E_rot) (docs/model.md, Hamiltonian) against
 // the same formula evaluated from the constants, E_rot/h = hbar / (4 pi m R^2).
 func TestTrapHz(t *testing.T) {
 	tests := []struct {
@@ -31,13 +31,13 @@ func TestTrapHz(t *testing.T) {
 
 // TestHarmonicLimit checks that in a deep lattice the lowest band sits at the
 // asymptotic Mathieu value and the gap to the next band approaches the trap
-// frequency nu = Ring.TrapHz (PHYSICS.md section 3), using the large-q
+// frequency nu = Ring.TrapHz (docs/model.md, Hamiltonian), using the large-q
 // expansion of A&S 20.2.30, w = 2r + 1,
 //
 //	a_r ~ b_r+1 ~ -2q + 2w sqrt(q) - (w^2+1)/8 - (w^3+3w)/(2^7 sqrt(q))
 //	              - (5w^4+34w^2+9)/(2^12 q) - ...
 //
-// (the first three terms are PHYSICS.md's; the later ones from memory,
+// (the first three terms are in docs/model.md, Hamiltonian; the later ones from memory,
 // confirmed against SciPy 1.10.1: at q = 400 each term cuts the error to
 // a_0 by a factor of 20 to 50). So, in units of E_s = nu / (4 sqrt(q)),
 //

@@ -10,8 +10,8 @@ import (
 	"gonum.org/v1/gonum/integrate/quad"
 )
 
-// TestSequenceGeometry checks a sequence built from laps (PHYSICS.md
-// section 4): total angle 2 pi laps, the cruise lasting what the laps need,
+// TestSequenceGeometry checks a sequence built from laps (docs/model.md,
+// Interferometer and signs): total angle 2 pi laps, the cruise lasting what the laps need,
 // (2 pi laps - Omega_0 t_r) / Omega_0 since the two ramps turn Omega_0 t_r
 // together, the ramp-down the time mirror of the ramp-up, and Angle the
 // integral of Speed over the whole sequence.
@@ -131,7 +131,7 @@ func TestNewSequenceErrors(t *testing.T) {
 	}
 }
 
-// TestCheckClosure checks the closure rule of PHYSICS.md section 4: the
+// TestCheckClosure checks the closure rule of docs/model.md, Interferometer and signs: the
 // arms at +phi and -phi meet only if 2 phi(T) is a multiple of 2 pi, and
 // otherwise the error says how many sites apart they end (2 laps N mod N,
 // the shorter way round) and which laps would close.

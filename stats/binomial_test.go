@@ -26,8 +26,8 @@ func TestClopperPearsonAgainstSciPy(t *testing.T) {
 	}
 }
 
-func TestClopperPearsonPhysicsNotes(t *testing.T) {
-	// PHYSICS.md section 7, printed to 5 decimals: absolute tolerance 5e-6.
+func TestClopperPearsonModelDocument(t *testing.T) {
+	// docs/model.md, Statistics, printed to 5 decimals: absolute tolerance 5e-6.
 	for _, c := range []struct {
 		k, n   int
 		lo, hi float64
@@ -116,7 +116,7 @@ func TestRuleOfThree(t *testing.T) {
 			t.Errorf("n=%d: 3/n = %v exceeds the exact bound %v by more than %g relative", n, r3, exact, tol)
 		}
 	}
-	// The rule of three is one-sided: PHYSICS.md section 7 gives the two-sided
+	// The rule of three is one-sided: docs/model.md, Statistics gives the two-sided
 	// 95% upper limit for 0/10 as 0.30850, above both 3/10 and 0.25887.
 	if two := ClopperPearson(0, 10, 0.95).Hi; two <= RuleOfThree(10) {
 		t.Errorf("two-sided 0/10 upper %v not above 3/10", two)

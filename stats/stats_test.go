@@ -79,7 +79,7 @@ func TestVarianceLargeOffset(t *testing.T) {
 }
 
 func TestMeanComplex(t *testing.T) {
-	// Averaged-fringe contrast |mean z| (PHYSICS.md section 7): two shots of unit
+	// Averaged-fringe contrast |mean z| (docs/model.md, Statistics): two shots of unit
 	// contrast with phases +-pi/3 average to contrast cos(pi/3) = 1/2 at phase 0
 	// (exact trigonometry; tolerance 1e-15 absolute).
 	z := []complex128{cmplx.Rect(1, math.Pi/3), cmplx.Rect(1, -math.Pi/3)}
