@@ -26,14 +26,15 @@ const (
 	IntensityDifferential
 	PhaseCommon
 	PhaseDifferential
-	PhasePlus  // drive phase noise on arm s = +1 alone
-	PhaseMinus // drive phase noise on arm s = -1 alone
+	PhasePlus     // drive phase noise on arm s = +1 alone
+	PhaseMinus    // drive phase noise on arm s = -1 alone
+	IntensityPlus // intensity noise on arm s = +1 alone
 	ShiftDifferential
 	numChannels
 )
 
 var channelNames = [...]string{"intensity_common", "intensity_differential", "phase_common",
-	"phase_differential", "phase_plus", "phase_minus", "shift_differential"}
+	"phase_differential", "phase_plus", "phase_minus", "intensity_plus", "shift_differential"}
 
 // String returns the channel's name.
 func (c Channel) String() string {
@@ -47,7 +48,7 @@ func (c Channel) String() string {
 // unit^2/Hz).
 func (c Channel) Unit() string {
 	switch c {
-	case IntensityCommon, IntensityDifferential:
+	case IntensityCommon, IntensityDifferential, IntensityPlus:
 		return "1"
 	case ShiftDifferential:
 		return "Hz"
@@ -176,6 +177,8 @@ func (s *Simulator) Kernels(maxHz float64) (*Kernels, error) {
 			sp, cp, cm = slope, 1/n, 0
 		case PhaseMinus:
 			sp, cp, cm = slope, 0, 1/n
+		case IntensityPlus:
+			sp, cp, cm = lattice, 1, 0
 		case ShiftDifferential:
 			sp, cp, cm = shift, 0.5, -0.5
 		}
