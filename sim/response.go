@@ -115,11 +115,11 @@ func (k *Kernels) Channel(c Channel) *ChannelKernel {
 //	A1 = -i int x W~,  A2 = -int_{t>t'} x(t) x(t') W~(t) W~(t') - i int x^2 W~2.
 //
 // With E[xi(t) xi(t')] = int S(f) cos(2 pi f (t-t')) df and u = z0/|z0|,
-// the bias is Im(u dz1)/C0 and the contrast |z| = C0 + Re(u dz) +
-// Im(u dz1)^2/(2 C0), so
+// the bias is Im(u* dz1)/C0 and the contrast |z| = C0 + Re(u* dz) +
+// Im(u* dz1)^2/(2 C0), so
 //
-//	Bias(f)     = |H(f)|^2,  H = int e^{-i w t} Im(u rho(t))/C0 dt
-//	Contrast(f) = -Re(u dz2(f)) - C0 Bias(f)/2
+//	Bias(f)     = |H(f)|^2,  H = int e^{-i w t} Im(u* rho(t))/C0 dt
+//	Contrast(f) = -Re(u* dz2(f)) - C0 Bias(f)/2
 //
 // with dz2(f) the coefficient of S(f) in E[dz2]. The ordered double
 // integrals are lag correlations of the sampled W~(t) psi0 and W~(t) m_a,
@@ -198,7 +198,7 @@ func assemble(ch Channel, sp *opSpectra, cp, cm float64, z0 complex128) ChannelK
 	for m := range nf {
 		rp := -icp*sp.r[0][0][m] + icm*conj(sp.r[1][1][m]) // rho at +w
 		rn := -icp*sp.r[0][1][m] + icm*conj(sp.r[1][0][m]) // rho at -w
-		hh := (u*rp - conj(u)*conj(rn)) / complex(0, 2*c0)
+		hh := (conj(u)*rp - u*conj(rn)) / complex(0, 2*c0)
 		g2 := real(hh)*real(hh) + imag(hh)*imag(hh)
 		jp := (sp.j[0][0][m] + sp.j[0][1][m]) / 2
 		jm := (sp.j[1][0][m] + sp.j[1][1][m]) / 2

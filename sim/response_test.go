@@ -99,3 +99,109 @@ func TestResponseSavardRates(t *testing.T) {
 		}
 	}
 }
+
+// TestResponsePurePhase checks the channel that only adds a phase, a
+// differential energy shift nu(t) (sign: +nu/2 on arm s = +1, -nu/2 on
+// arm s = -1, phase -2 pi nu T for a constant shift), against the
+// free-evolution sensitivity function: with instantaneous pulses at 0 and
+// T the sensitivity function is g(t) = 1 on [0, T] (P. Cheinet et al.,
+// IEEE Trans. Instrum. Meas. 57, 1141 (2008), eqs. for a phase that
+// accumulates between the pulses), so
+//
+//	|G_phi(f)|^2 = (2 pi)^2 sin^2(pi f T) / (pi f)^2 = (2 pi T)^2 sinc^2(pi f T),
+//
+// the free-induction filter function 4 sin^2(omega T/2)/omega^2 of the
+// filter-function formalism (T. J. Green, H. Uys and M. J. Biercuk, New
+// J. Phys. 15, 095004 (2013); from memory, the search tool did not confirm
+// its text). A phase cannot change |z|: the contrast kernel must vanish,
+// which checks that the ordered second-order terms cancel the phase
+// variance term exactly. Tolerances: 1e-9 relative on the filter (it is
+// evaluated in closed form; what is tested is the assembly and its
+// conventions) and 1e-9 of
+// C0 (2 pi T)^2 on the contrast kernel.
+func TestResponsePurePhase(t *testing.T) {
+	for _, laps := range []float64{0.5, 1} {
+		c := benchConfig(t, laps)
+		s, err := NewSimulator(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		k, err := s.Kernels(0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		T := c.Sequence.Duration()
+		kc := k.Channel(ShiftDifferential)
+		scale := 4 * math.Pi * math.Pi * T * T
+		for m, f := range k.FrequencyHz {
+			want := scale
+			if f > 0 {
+				x := math.Pi * f * T
+				want = scale * math.Pow(math.Sin(x)/x, 2)
+			}
+			if d := math.Abs(kc.Bias[m] - want); d > 1e-9*scale {
+				t.Fatalf("laps %g, f = %g Hz: |G|^2 = %.10g, want %.10g (tol %.2g)", laps, f, kc.Bias[m], want, 1e-9*scale)
+			}
+			if d := math.Abs(kc.Contrast[m]); d > 1e-9*k.Contrast*scale {
+				t.Fatalf("laps %g, f = %g Hz: contrast kernel %.3g of a pure phase, want 0 (tol %.2g)", laps, f, kc.Contrast[m], 1e-9*k.Contrast*scale)
+			}
+		}
+	}
+}
+
+// TestResponseStaticLimit checks the kernels at f = 0 against finite
+// differences of the simulator under a static differential depth error
+// (a constant noise signal): the phase's derivative is the kernel's
+// H(0) = +-sqrt(Bias(0)), and the contrast's curvature C'' gives
+// Contrast(0) = -C''/2. Two ramps (sin2, and the inverse-engineered ramp)
+// on the benchmark ring, half a lap and one lap. The difference step
+// 1e-4 leaves a truncation error of order 1e-8 relative in the slope and
+// about 1e-3 relative in the curvature (the curvature moved by that much
+// between steps 3e-4 and 1e-4), the numerics (the kernels' finer time
+// step) about 2e-6 in the slope. The curvature is a small difference of
+// two large terms, the phase variance term C0 Bias(0)/2 (1e5 to 1e6 here)
+// and the second-order amplitude, so the test checks their cancellation.
+// Tolerances: 1e-5 relative on the slope and 1e-3 on the curvature
+// (measured: 2e-6 and 1e-8; 7e-5 and 1.2e-4).
+func TestResponseStaticLimit(t *testing.T) {
+	for _, tc := range []struct {
+		shape string
+		laps  float64
+	}{{"sin2", 0.5}, {"inverse", 1}} {
+		c := benchConfig(t, tc.laps)
+		up, err := NewShape(tc.shape, 150e-6, 500, c.TrapRadS())
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c.Sequence, err = NewSequence(up, tc.laps); err != nil {
+			t.Fatal(err)
+		}
+		s, err := NewSimulator(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		k, err := s.Kernels(0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		nom := s.Run(Shot{}, nil)
+		const d = 1e-4
+		p := s.Run(Shot{DepthRel: [2]float64{d / 2, -d / 2}}, nil)
+		m := s.Run(Shot{DepthRel: [2]float64{-d / 2, d / 2}}, nil)
+		slope := math.Abs(Wrap(p.PhaseRad-m.PhaseRad) / (2 * d))
+		curv := (p.Contrast + m.Contrast - 2*nom.Contrast) / (d * d)
+		kd := k.Channel(IntensityDifferential)
+		g0 := math.Sqrt(kd.Bias[0])
+		t.Logf("%s %g laps: |dPhi/deps| %.8g, kernel %.8g; -C''/2 %.8g, kernel %.8g", tc.shape, tc.laps, slope, g0, -curv/2, kd.Contrast[0])
+		if math.Abs(g0-slope) > 1e-5*slope {
+			t.Errorf("%s: |H(0)| = %.8g, finite difference %.8g (tol 1e-5 relative)", tc.shape, g0, slope)
+		}
+		tolC := 1e-3 * math.Abs(curv/2)
+		if math.Abs(kd.Contrast[0]+curv/2) > tolC {
+			t.Errorf("%s: contrast kernel at 0 %.8g, -C''/2 = %.8g (tol %.2g)", tc.shape, kd.Contrast[0], -curv/2, tolC)
+		}
+		if math.Abs(k.Contrast-nom.Contrast) > 1e-5 {
+			t.Errorf("%s: kernels' C0 %.8f, Run %.8f (tol 1e-5)", tc.shape, k.Contrast, nom.Contrast)
+		}
+	}
+}

@@ -275,8 +275,10 @@ func (s *Simulator) responseWalk(p *propagator, d Drive, h float64, nt int,
 func (s *Simulator) responseStep(T, spread float64) (float64, int) {
 	h := s.step / 4
 	if spread > 0 {
-		h = math.Min(h, 0.9*math.Pi/spread)
+		h = math.Min(h, responseNyquistShare*math.Pi/spread)
 	}
 	nt := max(2, int(math.Ceil(T/h-1e-9)))
 	return T / float64(nt), nt
 }
+
+var responseNyquistShare = 0.9
