@@ -294,7 +294,10 @@ func (s *Simulator) responseSetup(maxHz float64) *responseSetup {
 		rs.partner[0] = append(rs.partner[0], mp)
 		rs.partner[1] = append(rs.partner[1], mm)
 	}
-	rs.l = fftLength(2*rs.nt + 1)
+	// Twice the length the lags need: the grid samples the kernels at
+	// twice their Nyquist rate 2 T, so that linear interpolation between
+	// grid points (Predict) follows their sinc^2 lobes.
+	rs.l = fftLength(2 * (2*rs.nt + 1))
 	if maxHz == 0 {
 		maxHz = s.NoiseBandHz()
 	}

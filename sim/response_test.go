@@ -75,8 +75,8 @@ func TestResponseSavardRates(t *testing.T) {
 	gap2 := w2 * w2 / 16
 	gap1 := c.Ring.Inertia() * w1 * w1 * w1 / (4 * Hbar) / (n * n)
 	for _, tc := range []struct {
-		ch       Channel
-		in, away [2]float64
+		ch        Channel
+		in, away  [2]float64
 		rate, gap float64
 	}{
 		{IntensityPlus, [2]float64{1.5 * nu, 2.5 * nu}, [2]float64{0.5 * nu, 1.5 * nu}, gamma2, gap2},
@@ -152,8 +152,8 @@ func TestResponsePurePhase(t *testing.T) {
 // TestResponseStaticLimit checks the kernels at f = 0 against finite
 // differences of the simulator under a static differential depth error
 // (a constant noise signal): the phase's derivative is the kernel's
-// H(0) = +-sqrt(Bias(0)), and the contrast's curvature C'' gives
-// Contrast(0) = -C''/2. Two ramps (sin2, and the inverse-engineered ramp)
+// H(0) = +-sqrt(Bias(0)), and the contrast's curvature C” gives
+// Contrast(0) = -C”/2. Two ramps (sin2, and the inverse-engineered ramp)
 // on the benchmark ring, half a lap and one lap. The difference step
 // 1e-4 leaves a truncation error of order 1e-8 relative in the slope and
 // about 1e-3 relative in the curvature (the curvature moved by that much
