@@ -101,7 +101,7 @@ func (s *Simulator) spectra(rs *responseSetup, op responseOp, second, kick bool)
 		}
 		var coef [][2][]complex128 // eigen coefficients of psi0 and m_a per level
 		var we, w2e blockMat
-		qa, qb, ua := make([]complex128, dim), make([]complex128, dim), make([]complex128, dim)
+		qa, qb, ua, ph := make([]complex128, dim), make([]complex128, dim), make([]complex128, dim), make([]complex128, dim)
 		inCruise := func(j int, ts float64, cf *cruiseFrame) {
 			if coef == nil {
 				coef = make([][2][]complex128, lev)
@@ -114,18 +114,31 @@ func (s *Simulator) spectra(rs *responseSetup, op responseOp, second, kick bool)
 				}
 			}
 			w := weight(j)
+			for c := range b.Sites {
+				for kk, v := range cf.es.vals[c] {
+					ph[b.Sites*kk+c] = cis(-v * ts)
+				}
+			}
 			for n := range lev {
 				for which := range 2 {
-					cf.phases(b, coef[n][which], 1, ts, qa)
+					for i, x := range coef[n][which] {
+						qa[i] = x * ph[i]
+					}
 					we.mul(b, qa, ua)
-					cf.phases(b, ua, -1, ts, qb)
+					for i, x := range ua {
+						qb[i] = x * complexConj(ph[i])
+					}
 					cf.b.mul(b, qb, y)
 					store(series[n][which], j, y, w)
 				}
 				if second {
-					cf.phases(b, coef[n][0], 1, ts, qa)
+					for i, x := range coef[n][0] {
+						qa[i] = x * ph[i]
+					}
 					w2e.mul(b, qa, ua)
-					cf.phases(b, coef[n][1], 1, ts, qb)
+					for i, x := range coef[n][1] {
+						qb[i] = x * ph[i]
+					}
 					q2 += complex(rs.weights[n]*h*w, 0) * dot(qb, ua)
 				}
 			}
@@ -137,13 +150,31 @@ func (s *Simulator) spectra(rs *responseSetup, op responseOp, second, kick bool)
 		// correlation P(nu) = sum_n p_n sum_c conj(Lambdahat) Yhat.
 		p := make([]complex128, L)
 		for n := range lev {
+			// Components whose series carry less than 1e-24 of the total
+			// squared norm are dropped (high momenta the operators barely
+			// reach): their share of any spectrum is below 1e-12.
+			norms := make([]float64, dim)
+			var total float64
+			for which := range 2 {
+				ser := series[n][which]
+				for c := range dim {
+					for _, x := range ser[c*L : c*L+nt+1] {
+						norms[c] += real(x)*real(x) + imag(x)*imag(x)
+					}
+				}
+			}
+			for _, v := range norms {
+				total += v
+			}
 			for which := range 2 {
 				ser := series[n][which]
 				for c := range dim {
 					col := ser[c*L : (c+1)*L]
-					if !allZero(col[:nt+1]) {
-						fft.Coefficients(col, col)
+					if norms[c] < 1e-24*total {
+						clear(col)
+						continue
 					}
+					fft.Coefficients(col, col)
 				}
 			}
 			yh, lh := series[n][0], series[n][1]
@@ -236,15 +267,6 @@ func dot(u, v []complex128) complex128 {
 		s += complex(real(a), -imag(a)) * v[i]
 	}
 	return s
-}
-
-func allZero(x []complex128) bool {
-	for _, v := range x {
-		if v != 0 {
-			return false
-		}
-	}
-	return true
 }
 
 // fftLength returns the smallest n >= k whose prime factors are 2, 3 and 5.

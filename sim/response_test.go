@@ -3,6 +3,8 @@ package sim
 import (
 	"math"
 	"testing"
+
+	"rampart/noise"
 )
 
 // deepRing is the heating test's ring: 4 sites of radius 5 um at 26.9 kHz
@@ -203,5 +205,51 @@ func TestResponseStaticLimit(t *testing.T) {
 		if math.Abs(k.Contrast-nom.Contrast) > 1e-5 {
 			t.Errorf("%s: kernels' C0 %.8f, Run %.8f (tol 1e-5)", tc.shape, k.Contrast, nom.Contrast)
 		}
+	}
+}
+
+// BenchmarkKernels times all kernels of the benchmark scenario
+// (testdata/scenarios/benchmark.toml: one lap, sin2 ramp of 150 us).
+func BenchmarkKernels(b *testing.B) {
+	s, err := NewSimulator(benchConfig(b, 1))
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		if _, err := s.Kernels(0); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkPredict times a prediction for every channel from the
+// benchmark scenario's kernels: white, a power-law sum, and a table.
+func BenchmarkPredict(b *testing.B) {
+	s, err := NewSimulator(benchConfig(b, 1))
+	if err != nil {
+		b.Fatal(err)
+	}
+	k, err := s.Kernels(0)
+	if err != nil {
+		b.Fatal(err)
+	}
+	table, err := noise.NewTable([]float64{10, 100, 1e3, 1e4, 1e5}, []float64{1e-8, 1e-9, 1e-10, 1e-11, 1e-11})
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name string
+		psd  noise.PSD
+	}{
+		{"white", noise.White{Level: 1e-10}},
+		{"powerlaw", noise.Sum{noise.PowerLaw{H: 1e-6, Alpha: -1}, noise.White{Level: 1e-11}}},
+		{"table", table},
+	} {
+		b.Run(tc.name, func(b *testing.B) {
+			band := noise.Band{LowHz: 1 / k.DurationS}
+			for b.Loop() {
+				k.PredictAll(map[Channel]noise.PSD{IntensityCommon: tc.psd, IntensityDifferential: tc.psd, PhaseCommon: tc.psd, PhaseDifferential: tc.psd}, band)
+			}
+		})
 	}
 }
