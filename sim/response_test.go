@@ -167,10 +167,15 @@ func TestResponsePurePhase(t *testing.T) {
 // (measured: 2e-6 and below 1e-7; 7e-5 and 1.2e-4).
 func TestResponseStaticLimit(t *testing.T) {
 	for _, tc := range []struct {
-		shape string
-		laps  float64
-	}{{"sin2", 0.5}, {"inverse", 1}} {
+		shape        string
+		laps         float64
+		temperatureK float64
+	}{{"sin2", 0.5, 0}, {"inverse", 1, 0}, {"inverse", 0.5, 40e-9}} {
+		if tc.temperatureK > 0 && testing.Short() {
+			continue // four levels: four times the cost
+		}
 		c := benchConfig(t, tc.laps)
+		c.TemperatureK = tc.temperatureK
 		up, err := NewShape(tc.shape, 150e-6, 500, c.TrapRadS())
 		if err != nil {
 			t.Fatal(err)
@@ -194,7 +199,7 @@ func TestResponseStaticLimit(t *testing.T) {
 		curv := (p.Contrast + m.Contrast - 2*nom.Contrast) / (d * d)
 		kd := k.Channel(IntensityDifferential)
 		g0 := math.Sqrt(kd.Bias[0])
-		t.Logf("%s %g laps: |dPhi/deps| %.8g, kernel %.8g; -C''/2 %.8g, kernel %.8g", tc.shape, tc.laps, slope, g0, -curv/2, kd.Contrast[0])
+		t.Logf("%s %g laps %g K (%d levels): |dPhi/deps| %.8g, kernel %.8g; -C''/2 %.8g, kernel %.8g", tc.shape, tc.laps, tc.temperatureK, len(nom.Levels), slope, g0, -curv/2, kd.Contrast[0])
 		if math.Abs(g0-slope) > 1e-5*slope {
 			t.Errorf("%s: |H(0)| = %.8g, finite difference %.8g (tol 1e-5 relative)", tc.shape, g0, slope)
 		}
