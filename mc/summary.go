@@ -98,6 +98,9 @@ type Summary struct {
 	FringeBiasRad  Interval     `json:"fringe_bias_rad"`
 	BiasCircular   CircularBias `json:"bias_circular"`
 	Yield          *YieldResult `json:"yield,omitempty"`
+	// Numerics is the estimated numerical error of the nominal shot
+	// (sim.EstimateError), set by the caller that checked it.
+	Numerics *sim.ErrorEstimate `json:"numerics_error,omitempty"`
 }
 
 // BootstrapResamples is the number of bootstrap resamples of a summary.

@@ -101,6 +101,17 @@ type ensembleRun struct {
 	realiser *mc.Realiser
 	elapsed  time.Duration
 	fresh    int // realisations simulated in this invocation
+	// numerics is the estimated numerical error of the nominal shot,
+	// checked before the run (preflight).
+	numerics sim.ErrorEstimate
+}
+
+// summarise summarises the run's records with the numerics estimate.
+func (run *ensembleRun) summarise(confidence float64, spec mc.Spec) mc.Summary {
+	sum := run.manifest.Summarise(run.records, confidence, spec)
+	est := run.numerics
+	sum.Numerics = &est
+	return sum
 }
 
 // interruptedError reports an ensemble stopped by a signal; its exit code is
@@ -157,6 +168,12 @@ type ensembleJob struct {
 // runJob runs a job, storing it in dir if one is given (resuming the run
 // there if resume).
 func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir string, resume bool, label string) (*ensembleRun, error) {
+	// Every ensemble command passes here: its nominal shot's numerics are
+	// checked before anything is written (preflight).
+	est, err := preflight(fmt.Sprintf("scenario %q, %s ramp", sc.Name, job.realiser.Config().Sequence.Up.Name()), job.realiser.Config())
+	if err != nil {
+		return nil, err
+	}
 	hash, text, err := sc.Fingerprint()
 	if err != nil {
 		return nil, err
@@ -208,7 +225,7 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 	}
 	bar.Finish()
 	run := &ensembleRun{manifest: res.Manifest, records: res.Records, realiser: job.realiser,
-		elapsed: e.now().Sub(t0), fresh: res.Fresh}
+		elapsed: e.now().Sub(t0), fresh: res.Fresh, numerics: est}
 	if err != nil {
 		if errors.Is(err, context.Canceled) {
 			hint := dir

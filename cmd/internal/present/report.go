@@ -207,6 +207,9 @@ func EnsembleSection(heading, idPrefix string, sum mc.Summary, recs []mc.Record,
 	if err != nil {
 		return report.Section{}, err
 	}
+	if notes := ResolutionNotes(sum); len(notes) > 0 {
+		text = strings.TrimSpace(text + "\n\n" + strings.Join(notes, "\n\n"))
+	}
 	sec := report.Section{Heading: heading, Text: text, Figures: []report.Figure{fc, fb}}
 	for _, g := range summaryGrids(sum) {
 		sec.Tables = append(sec.Tables, g.Table())

@@ -9,6 +9,7 @@ import (
 
 	"rampart/internal/atomicfile"
 	"rampart/mc"
+	"rampart/sim"
 )
 
 // WriteResults writes the summary and the histograms of an ensemble to dir.
@@ -61,7 +62,34 @@ func PrintSummary(w io.Writer, s mc.Summary) error {
 			return err
 		}
 	}
+	if notes := ResolutionNotes(s); len(notes) > 0 {
+		fmt.Fprintln(w)
+		for _, n := range notes {
+			fmt.Fprintln(w, n)
+		}
+	}
 	return nil
+}
+
+// ResolutionNotes says which of an ensemble's printed biases (the mean,
+// the median and the averaged fringe's) lie below the estimated phase error
+// of the nominal shot: their digits are discretisation error, not a
+// result (BelowResolution). None without an estimate.
+func ResolutionNotes(s mc.Summary) []string {
+	var out []string
+	for _, b := range []struct {
+		what string
+		x    float64
+	}{
+		{"the mean bias", s.BiasRad.Mean},
+		{"the median bias", s.BiasRad.P50},
+		{"the averaged-fringe bias", s.FringeBiasRad.Value},
+	} {
+		if BelowResolution(b.x, s.Numerics) {
+			out = append(out, ResolutionNote(b.what, b.x, s.Numerics))
+		}
+	}
+	return out
 }
 
 // summaryGrids returns the tables of an ensemble summary: the
@@ -134,3 +162,24 @@ const NoReadout = "(For the projection-noise limit and the angle random walk, gi
 
 // SummaryFile is the JSON summary in an output directory.
 const SummaryFile = "summary.json"
+
+// NumericsLine says in one line what numerics a nominal shot used and its
+// estimated numerical error (sim.EstimateError): the errors bound by the
+// change on twice the grid and half the step, against the targets.
+func NumericsLine(est *sim.ErrorEstimate) string {
+	if est == nil {
+		return "Numerics: not checked"
+	}
+	return fmt.Sprintf("Numerics: grid %d, step %s us; estimated error (against grid %d, step %s us) contrast %s, phase %s rad (targets %s, %s rad)",
+		est.Grid, Sig(est.StepS*1e6, 4), est.RefinedGrid, Sig(est.RefinedStepS*1e6, 4),
+		Sci(est.ContrastError, 2), Sci(est.PhaseErrorRad, 2), Sci(est.ContrastTarget, 1), Sci(est.PhaseTargetRad, 1))
+}
+
+// RampNumericsLines is NumericsLine for each ramp of a ranking, named.
+func RampNumericsLines(rep RankReport) []string {
+	var out []string
+	for _, r := range rep.Ramps {
+		out = append(out, strings.Replace(NumericsLine(r.Summary.Numerics), "Numerics:", "Numerics of "+r.Name+":", 1))
+	}
+	return out
+}
