@@ -59,10 +59,16 @@ func writeFigures(dir string, nfs []namedFigure) error {
 
 // SetupText says in a report what was simulated (the scenario's sequence
 // with ramp naming the ramp, and its noise budget) and then how, in lines
-// such as the ensemble's: what the terminal shows above a command's tables.
+// such as the ensemble's: what the terminal shows above a command's tables;
+// then a warning for each input outside the model's validity.
 func SetupText(sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget, lines ...string) string {
 	paragraphs := append([]string{Describe(sc, cfg, ramp), "Noise budget: " + BudgetLine(b)}, lines...)
-	return strings.Join(paragraphs, ".\n\n") + "."
+	text := strings.Join(paragraphs, ".\n\n") + "."
+	// Inputs outside the model's validity (sim.Config.Warnings).
+	for _, w := range cfg.Warnings() {
+		text += "\n\nWarning: " + w + "."
+	}
+	return text
 }
 
 // NamedConfig is a ramp's configuration in a report.
