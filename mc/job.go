@@ -92,13 +92,17 @@ func (j Job) Manifest() Manifest {
 	c := r.Config()
 	k := c.Ring.ScaleFactor(c.Sequence.TotalAngle())
 	numerics := NumericsOf(c)
-	return Manifest{
+	m := Manifest{
 		Format: ManifestFormat, Fingerprint: j.Fingerprint, Scenario: j.Scenario,
 		SagnacRad: k * c.RotationRadS, ScaleFactorS: k,
 		Seed: ens.Seed, Samples: j.records(), Sampler: ens.Sampler, Shard: j.Shard,
 		Columns:  Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
 		Numerics: &numerics, YieldSpec: j.YieldSpec, Confidence: j.Confidence,
 	}
+	if ens.ScaleFactor {
+		m.Columns = WithScaleFactor(m.Columns)
+	}
+	return m
 }
 
 // Summarise summarises records of the run m describes: their seed, Sagnac

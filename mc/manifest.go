@@ -144,7 +144,7 @@ func (m Manifest) layout() (nInputs int, rin, phase bool) {
 			rin = true
 		case "phase_rms_plus_rad":
 			phase = true
-		case "phase_rms_minus_rad", "contrast", "phase_rad", "bias_rad", "z_re", "z_im", "ground_plus", "ground_minus", ChecksumColumn:
+		case "phase_rms_minus_rad", "contrast", "phase_rad", "bias_rad", "z_re", "z_im", "ground_plus", "ground_minus", ScaleFactorColumn, ChecksumColumn:
 		default:
 			nInputs++
 		}
