@@ -116,3 +116,41 @@ func TestScaleFactorColumn(t *testing.T) {
 		t.Error("a summary of records without the column has a scale-factor distribution")
 	}
 }
+
+// TestQualifyScaleFactor checks the criterion scale_factor.abs_p95_max_ppm:
+// on normal scale-factor errors of 5 ppm standard deviation (population
+// |.| p95 = 1.959964 x 5 = 9.80 ppm, the normal 97.5th percentile) it
+// passes a limit of 12 ppm and fails one of 8 ppm at N = 400 (sample p95's
+// standard error 0.35 ppm by the normal approximation, so both limits are
+// more than 5 standard errors clear); it is the |bias| p95 test on the
+// same numbers (the same exact order-statistic bound and p-values); and
+// it asks for the same least ensemble as that criterion.
+func TestQualifyScaleFactor(t *testing.T) {
+	recs := synthetic(400, 11, func(z1, z2 float64) (float64, float64) { return 0.95 + 0.01*z1, 5e-6 * z2 })
+	for i := range recs {
+		recs[i].ScaleFactorErrorPPM, recs[i].HasScaleFactor = recs[i].BiasRad*1e6, true
+	}
+	for _, tt := range []struct {
+		limit float64
+		want  Verdict
+	}{{12, Pass}, {8, Fail}} {
+		q := Qualify(recs, Requirements{AbsScaleFactorP95MaxPPM: tt.limit}, 1, 1)
+		c := criterion(t, q, CriterionScaleFactor)
+		if c.Verdict != tt.want || c.Unit != "ppm" || c.Method != "order statistic" {
+			t.Errorf("limit %g ppm: %s (unit %q, method %q), want %s; p95 %.4g in [%.4g, %.4g]", tt.limit, c.Verdict, c.Unit, c.Method, tt.want, c.Value, c.Lo, c.Hi)
+		}
+		b := criterion(t, Qualify(recs, Requirements{AbsBiasP95MaxRad: tt.limit * 1e-6}, 1, 1), CriterionBiasRad)
+		if math.Abs(c.Value-b.Value*1e6) > 1e-9 || math.Abs(c.Hi-b.Hi*1e6) > 1e-9 || c.PPass != b.PPass || c.PFail != b.PFail {
+			t.Errorf("limit %g ppm: %+v; want the |bias| p95 test's %+v in ppm", tt.limit, c, b)
+		}
+	}
+	if a, b := (Requirements{AbsScaleFactorP95MaxPPM: 1}).MinSamples(), (Requirements{AbsBiasP95MaxRad: 1}).MinSamples(); a != b {
+		t.Errorf("MinSamples %d, want %d as for |bias| p95", a, b)
+	}
+	defer func() {
+		if recover() == nil {
+			t.Error("Qualify of records without scale-factor errors against a scale-factor criterion did not panic")
+		}
+	}()
+	Qualify(synthetic(100, 1, func(z1, z2 float64) (float64, float64) { return 0.9, 0 }), Requirements{AbsScaleFactorP95MaxPPM: 1}, 1, 1)
+}
