@@ -173,6 +173,10 @@ func (m Manifest) sameEnsemble(o Manifest) error {
 		return fmt.Errorf("%d samples, not %d", o.Samples, m.Samples)
 	case m.Sampler != o.Sampler:
 		return fmt.Errorf("sampler %q, not %q", o.Sampler, m.Sampler)
+	case slices.Contains(m.Columns, ScaleFactorColumn) != slices.Contains(o.Columns, ScaleFactorColumn):
+		have := map[bool]string{true: "with", false: "without"}
+		return fmt.Errorf("records %s scale-factor errors, not %s them (a scale-factor criterion or --scale-factor measures them; run both the same way)",
+			have[slices.Contains(o.Columns, ScaleFactorColumn)], have[slices.Contains(m.Columns, ScaleFactorColumn)])
 	case !slices.Equal(m.Columns, o.Columns):
 		return errors.New("different columns")
 	}

@@ -32,6 +32,9 @@ type ensembleOptions struct {
 	resume     string
 	shard      string
 	confidence float64
+	// scaleFactor measures each realisation's scale-factor error
+	// (mc.Ensemble.ScaleFactor); a scale-factor criterion sets it too.
+	scaleFactor bool
 	// yield is the yield spec the run is summarised with, recorded in the
 	// manifest so that merge reproduces the summary (nil: none).
 	yield *mc.Spec
@@ -47,6 +50,7 @@ func addEnsembleFlags(cmd *cobra.Command, o *ensembleOptions, defaultSamples int
 	f.StringVar(&o.resume, "resume", "", "continue the interrupted run in `DIR` (same scenario and flags)")
 	f.StringVar(&o.shard, "shard", "", "run only slice `k/n` of the ensemble (merge the slices with rampart merge)")
 	f.Float64Var(&o.confidence, "confidence", 0.95, "confidence `level` of the intervals, in (0, 1)")
+	f.BoolVar(&o.scaleFactor, "scale-factor", false, "also measure each realisation's scale-factor error K_shot/K - 1 in ppm (two more shots per realisation; on by itself for a spec with [scale_factor])")
 }
 
 func (o *ensembleOptions) validate() error {
@@ -134,7 +138,7 @@ func signalContext() (context.Context, context.CancelFunc) {
 // runEnsemble runs (or resumes) the ensemble of a scenario configuration
 // cfg under budget, storing it in the options' directory if one is given.
 func runEnsemble(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, o ensembleOptions, label string) (*ensembleRun, error) {
-	ens := mc.Ensemble{Config: cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+	ens := mc.Ensemble{Config: cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactor: o.scaleFactor}
 	return runEnsembleOf(ctx, e, stderr, sc, ens, o, o.dir(), label)
 }
 

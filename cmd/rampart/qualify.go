@@ -104,6 +104,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	}
 	ctx, stop := signalContext()
 	defer stop()
+	o.ens.scaleFactor = o.ens.scaleFactor || req.NeedsScaleFactor()
 	run, err := runEnsemble(ctx, e, stderr, sc, cfg, budget, o.ens, "qualify")
 	if err != nil {
 		return err

@@ -159,7 +159,7 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario
 	// that a refusal leaves no run directory behind.
 	enss := make([]mc.Ensemble, len(cs))
 	for i, c := range cs {
-		enss[i] = mc.Ensemble{Config: c.Config, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+		enss[i] = mc.Ensemble{Config: c.Config, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactor: o.scaleFactor}
 		r, err := mc.NewRealiser(enss[i])
 		if err != nil {
 			return present.RankReport{}, nil, work, fmt.Errorf("ramp %s: %w", c.Name, err)

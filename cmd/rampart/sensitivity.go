@@ -68,6 +68,9 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	if err := o.validate(); err != nil {
 		return err
 	}
+	if o.ens.scaleFactor {
+		return fmt.Errorf("--scale-factor: sensitivity apportions the contrast and the bias; measure the scale factor with run, qualify, rank or tolerance")
+	}
 	if o.base < 2 {
 		return fmt.Errorf("--base %d: want at least 2 base rows (256 is usual)", o.base)
 	}

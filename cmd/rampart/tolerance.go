@@ -100,7 +100,7 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 	evaluator := func(name string) mc.Evaluator {
 		return func(ctx context.Context, b mc.Budget) ([]mc.Record, error) {
 			key := amplitudeKey(name, budget, b)
-			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactor: o.scaleFactor || req.NeedsScaleFactor()}
 			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.Apply(&ens)}
 			run, _, err := runPart(ctx, e, stderr, sc, ens, tag, o, filepath.Join(name, key), "tolerance "+name+" "+key)
 			if err != nil {

@@ -134,7 +134,34 @@ func summaryGrids(s mc.Summary) []*Grid {
 		u.Append(fmt.Sprintf("Yield (%s): %d of %d", strings.Join(lim, ", "), y.Inside, s.Samples), Fixed(y.Value, 4),
 			interval(y.Lo, y.Hi, func(x float64) string { return Fixed(x, 4) })+" exact", "")
 	}
-	return []*Grid{t, u}
+	grids := []*Grid{t, u}
+	if sf := s.ScaleFactorErrorPPM; sf != nil {
+		grids = append(grids, scaleFactorGrid(*sf, *s.AbsScaleFactorErrorPPM, conf))
+	}
+	return grids
+}
+
+// scaleFactorGrid returns the distribution of the realisations'
+// scale-factor errors K_shot / K - 1 and of their magnitude, in ppm.
+func scaleFactorGrid(sf, abs mc.Distribution, conf string) *Grid {
+	f := func(x float64) string { return Sci(x, 3) }
+	g := NewGrid("Scale-factor error K_shot / K - 1 over the realisations (ppm; K_shot from shots at Omega +- h)",
+		"Statistic", "Scale-factor error (ppm)", conf, "|Scale-factor error| (ppm)", conf)
+	for _, r := range []struct {
+		name, key string
+		a, b      float64
+	}{
+		{"mean", "mean", sf.Mean, abs.Mean},
+		{"std", "std", sf.Std, abs.Std},
+		{"p01", "p01", sf.P01, abs.P01},
+		{"p05", "p05", sf.P05, abs.P05},
+		{"p50 (median)", "p50", sf.P50, abs.P50},
+		{"p95", "p95", sf.P95, abs.P95},
+		{"p99", "p99", sf.P99, abs.P99},
+	} {
+		g.Append(r.name, f(r.a), ciCell(sf, r.key, f), f(r.b), ciCell(abs, r.key, f))
+	}
+	return g
 }
 
 // AbsBiasP95DegPerH is the 95th percentile of |bias| of a summary as a
