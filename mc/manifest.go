@@ -94,6 +94,9 @@ type Manifest struct {
 	Scenario    string `json:"scenario,omitempty"`
 	// Numerics are those of the shots (nil: not recorded by the caller).
 	Numerics *Numerics `json:"numerics,omitempty"`
+	// NumericsError is the nominal shot's estimated numerical error
+	// (sim.EstimateError), checked before the run (nil: not recorded).
+	NumericsError *sim.ErrorEstimate `json:"numerics_error,omitempty"`
 	// SagnacRad and ScaleFactorS are those of the nominal sequence, for
 	// summaries of the records.
 	SagnacRad    float64  `json:"sagnac_rad"`

@@ -104,7 +104,7 @@ type Summary struct {
 	ScaleFactorErrorPPM    *Distribution `json:"scale_factor_error_ppm,omitempty"`
 	AbsScaleFactorErrorPPM *Distribution `json:"abs_scale_factor_error_ppm,omitempty"`
 	// Numerics is the estimated numerical error of the nominal shot
-	// (sim.EstimateError), set by the caller that checked it.
+	// (sim.EstimateError), from the run's manifest (Manifest.Summarise).
 	Numerics *sim.ErrorEstimate `json:"numerics_error,omitempty"`
 }
 

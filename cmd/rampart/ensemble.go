@@ -110,12 +110,10 @@ type ensembleRun struct {
 	numerics sim.ErrorEstimate
 }
 
-// summarise summarises the run's records with the numerics estimate.
+// summarise summarises the run's records (with the numerics estimate the
+// manifest records).
 func (run *ensembleRun) summarise(confidence float64, spec mc.Spec) mc.Summary {
-	sum := run.manifest.Summarise(run.records, confidence, spec)
-	est := run.numerics
-	sum.Numerics = &est
-	return sum
+	return run.manifest.Summarise(run.records, confidence, spec)
 }
 
 // interruptedError reports an ensemble stopped by a signal; its exit code is
@@ -189,7 +187,7 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 	}
 	j := mc.Job{Realiser: job.realiser, Runner: job.runner, Records: job.records,
 		Fingerprint: hash, Scenario: text, Dir: dir, Resume: dir != "" && resume, Workers: o.workers,
-		YieldSpec: o.yield, Confidence: o.confidence}
+		YieldSpec: o.yield, Confidence: o.confidence, NumericsError: &est}
 	if o.shard != "" {
 		sh, err := mc.ParseShard(o.shard)
 		if err != nil {
