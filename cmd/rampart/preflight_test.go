@@ -65,3 +65,27 @@ func TestValidityWarnings(t *testing.T) {
 		t.Errorf("exit %d, stderr %q; want 0 and the warning", code, stderr)
 	}
 }
+
+// TestReportWarnsAndStatesNumerics checks that an ensemble's report gives
+// the validity warnings and the numerics estimate in its setup, as the
+// terminal does: a 20-site ring of radius 1 um has a site spacing of
+// 2 pi 1 um / 20 = 0.314 um, below the 0.4 um of sim.MinSiteSpacingM.
+func TestReportWarnsAndStatesNumerics(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "rep")
+	stdout, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--samples", "2", "--set", "ring.radius_um=1", "--report", dir)
+	if code != 0 {
+		t.Fatalf("exit %d, stderr %q", code, stderr)
+	}
+	if !strings.Contains(stderr, "rampart: warning: the site spacing 2 pi R / N = 0.314 um") || !strings.Contains(stdout, "Numerics: grid ") {
+		t.Errorf("stderr %q, stdout lacks the numerics line or stderr the warning:\n%s", stderr, stdout)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"Warning: the site spacing 2 pi R / N = 0.314 um", "Numerics: grid "} {
+		if !strings.Contains(string(b), want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+}
