@@ -25,6 +25,10 @@ type Ensemble struct {
 	// random numbers (several ramps) must share one grid.
 	NoiseStepS     float64
 	NoiseDurationS float64
+	// ScaleFactor measures each realisation's scale-factor error K_shot /
+	// K - 1 (Record.ScaleFactorErrorPPM) from two more shots at Omega +- h,
+	// as sim.Simulator.Gyro does: three shots per realisation.
+	ScaleFactor bool
 }
 
 // Samplers lists the accepted values of Ensemble.Sampler.
@@ -35,6 +39,8 @@ var Samplers = []string{"random", "lhs", "sobol"}
 type Realiser struct {
 	ens       Ensemble
 	sim       *sim.Simulator
+	rotated   [2]*sim.Simulator // at Omega + h and Omega - h (ScaleFactor)
+	gyroStep  float64           // h
 	params    []Param
 	design    Sampler
 	noiseStep float64
@@ -68,6 +74,19 @@ func NewRealiser(e Ensemble) (*Realiser, error) {
 	}
 	r := &Realiser{ens: e, sim: s, params: e.Budget.Params()}
 	r.ens.Config = s.Config()
+	if e.ScaleFactor {
+		// The rotated shots share the nominal numerics, so that their
+		// discretisation errors largely cancel in the difference.
+		k := r.ens.Config.Ring.ScaleFactor(r.ens.Config.Sequence.TotalAngle())
+		r.gyroStep = sim.GyroPhaseStep / k
+		for i, sign := range [2]float64{1, -1} {
+			c := r.ens.Config
+			c.RotationRadS += sign * r.gyroStep
+			if r.rotated[i], err = sim.NewSimulator(c); err != nil {
+				return nil, err
+			}
+		}
+	}
 	if d := StaticDim; len(r.params) > 0 {
 		switch e.Sampler {
 		case "", "random":
@@ -249,6 +268,13 @@ func (w *Worker) RunShot(sh sim.Shot, rec Record) Record {
 	rec.Contrast, rec.PhaseRad, rec.BiasRad = res.Contrast, res.PhaseRad, res.BiasRad
 	rec.Z = res.Z
 	rec.Ground = res.GroundAfterRampUp
+	if r := w.r; r.ens.ScaleFactor {
+		// K_shot from the central difference, as sim.Simulator.Gyro.
+		plus, minus := r.rotated[0].Run(sh, nil).PhaseRad, r.rotated[1].Run(sh, nil).PhaseRad
+		ks := sim.Wrap(plus-minus) / (2 * r.gyroStep)
+		rec.ScaleFactorErrorPPM = (ks/res.ScaleFactorS - 1) * 1e6
+		rec.HasScaleFactor = true
+	}
 	return rec
 }
 

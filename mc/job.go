@@ -44,6 +44,10 @@ type Job struct {
 	// manifest records them so that merge reproduces the summary.
 	YieldSpec  *Spec
 	Confidence float64
+	// NumericsError is the nominal shot's estimated numerical error, if
+	// the caller checked it; the manifest records it and summaries of the
+	// run (merged ones too) carry it.
+	NumericsError *sim.ErrorEstimate
 
 	// Started, if set, is called once the resumed records are read, with
 	// the number of records of the run and of those resumed; Recorded after
@@ -92,19 +96,26 @@ func (j Job) Manifest() Manifest {
 	c := r.Config()
 	k := c.Ring.ScaleFactor(c.Sequence.TotalAngle())
 	numerics := NumericsOf(c)
-	return Manifest{
+	m := Manifest{
 		Format: ManifestFormat, Fingerprint: j.Fingerprint, Scenario: j.Scenario,
 		SagnacRad: k * c.RotationRadS, ScaleFactorS: k,
 		Seed: ens.Seed, Samples: j.records(), Sampler: ens.Sampler, Shard: j.Shard,
 		Columns:  Columns(r.Params(), ens.Budget.RIN != nil, ens.Budget.Phase != nil),
 		Numerics: &numerics, YieldSpec: j.YieldSpec, Confidence: j.Confidence,
+		NumericsError: j.NumericsError,
 	}
+	if ens.ScaleFactor {
+		m.Columns = WithScaleFactor(m.Columns)
+	}
+	return m
 }
 
 // Summarise summarises records of the run m describes: their seed, Sagnac
 // phase and scale factor come from the manifest (Summarise).
 func (m Manifest) Summarise(recs []Record, confidence float64, spec Spec) Summary {
-	return Summarise(recs, m.Seed, m.SagnacRad, m.ScaleFactorS, confidence, spec)
+	s := Summarise(recs, m.Seed, m.SagnacRad, m.ScaleFactorS, confidence, spec)
+	s.Numerics = m.NumericsError
+	return s
 }
 
 func (j Job) records() int {

@@ -94,6 +94,9 @@ type Manifest struct {
 	Scenario    string `json:"scenario,omitempty"`
 	// Numerics are those of the shots (nil: not recorded by the caller).
 	Numerics *Numerics `json:"numerics,omitempty"`
+	// NumericsError is the nominal shot's estimated numerical error
+	// (sim.EstimateError), checked before the run (nil: not recorded).
+	NumericsError *sim.ErrorEstimate `json:"numerics_error,omitempty"`
 	// SagnacRad and ScaleFactorS are those of the nominal sequence, for
 	// summaries of the records.
 	SagnacRad    float64  `json:"sagnac_rad"`
@@ -144,7 +147,7 @@ func (m Manifest) layout() (nInputs int, rin, phase bool) {
 			rin = true
 		case "phase_rms_plus_rad":
 			phase = true
-		case "phase_rms_minus_rad", "contrast", "phase_rad", "bias_rad", "z_re", "z_im", "ground_plus", "ground_minus", ChecksumColumn:
+		case "phase_rms_minus_rad", "contrast", "phase_rad", "bias_rad", "z_re", "z_im", "ground_plus", "ground_minus", ScaleFactorColumn, ChecksumColumn:
 		default:
 			nInputs++
 		}
@@ -173,6 +176,10 @@ func (m Manifest) sameEnsemble(o Manifest) error {
 		return fmt.Errorf("%d samples, not %d", o.Samples, m.Samples)
 	case m.Sampler != o.Sampler:
 		return fmt.Errorf("sampler %q, not %q", o.Sampler, m.Sampler)
+	case slices.Contains(m.Columns, ScaleFactorColumn) != slices.Contains(o.Columns, ScaleFactorColumn):
+		have := map[bool]string{true: "with", false: "without"}
+		return fmt.Errorf("records %s scale-factor errors, not %s them (a scale-factor criterion or --scale-factor measures them; run both the same way)",
+			have[slices.Contains(o.Columns, ScaleFactorColumn)], have[slices.Contains(m.Columns, ScaleFactorColumn)])
 	case !slices.Equal(m.Columns, o.Columns):
 		return errors.New("different columns")
 	}

@@ -19,6 +19,10 @@ type Requirements struct {
 	ContrastP05Min       float64 `json:"contrast_p05_min,omitempty"`           // 5th-percentile contrast at least this
 	AbsBiasP95MaxRad     float64 `json:"bias_abs_p95_max_rad,omitempty"`       // 95th percentile of |bias| at most this, rad
 	AbsBiasP95MaxDegPerH float64 `json:"bias_abs_p95_max_deg_per_h,omitempty"` // the same as a rotation rate, deg/h
+	// AbsScaleFactorP95MaxPPM is the largest 95th percentile of the
+	// scale-factor error's magnitude |K_shot / K - 1| in ppm; it needs
+	// records with scale-factor errors (Ensemble.ScaleFactor).
+	AbsScaleFactorP95MaxPPM float64 `json:"scale_factor_abs_p95_max_ppm,omitempty"`
 
 	// YieldMin is the least fraction of realisations inside Yield.
 	YieldMin float64 `json:"yield_min,omitempty"`
@@ -42,7 +46,12 @@ const (
 	CriterionBiasRad      = "bias.abs_p95_max_rad"
 	CriterionBiasDegPerH  = "bias.abs_p95_max_deg_per_h"
 	CriterionYield        = "yield.min"
+	CriterionScaleFactor  = "scale_factor.abs_p95_max_ppm"
 )
+
+// NeedsScaleFactor reports whether the requirements have a scale-factor
+// criterion, whose records must carry scale-factor errors.
+func (q Requirements) NeedsScaleFactor() bool { return q.AbsScaleFactorP95MaxPPM > 0 }
 
 // confidence returns the confidence with its default.
 func (q Requirements) confidence() float64 {
@@ -74,6 +83,7 @@ func (q Requirements) Validate() error {
 		{CriterionBiasRad, q.AbsBiasP95MaxRad, math.Pi},
 		{CriterionBiasDegPerH, q.AbsBiasP95MaxDegPerH, math.Inf(1)},
 		{CriterionYield, q.YieldMin, 1},
+		{CriterionScaleFactor, q.AbsScaleFactorP95MaxPPM, math.MaxFloat64},
 		{"yield.contrast_min", q.Yield.MinContrast, 1},
 		{"yield.bias_max_rad", q.Yield.MaxAbsBiasRad, math.Pi},
 	} {
@@ -90,9 +100,9 @@ func (q Requirements) Validate() error {
 	if q.YieldMin == 0 && q.Yield.Active() {
 		return fmt.Errorf("yield limits are given without %s, the least fraction of realisations inside them", CriterionYield)
 	}
-	if q.ContrastMeanMin == 0 && q.ContrastP05Min == 0 && q.AbsBiasP95MaxRad == 0 && q.AbsBiasP95MaxDegPerH == 0 && q.YieldMin == 0 {
-		return fmt.Errorf("no criterion: give at least one of %s, %s, %s, %s, %s",
-			CriterionContrastMean, CriterionContrastP05, CriterionBiasRad, CriterionBiasDegPerH, CriterionYield)
+	if q.ContrastMeanMin == 0 && q.ContrastP05Min == 0 && q.AbsBiasP95MaxRad == 0 && q.AbsBiasP95MaxDegPerH == 0 && q.YieldMin == 0 && q.AbsScaleFactorP95MaxPPM == 0 {
+		return fmt.Errorf("no criterion: give at least one of %s, %s, %s, %s, %s, %s",
+			CriterionContrastMean, CriterionContrastP05, CriterionBiasRad, CriterionBiasDegPerH, CriterionYield, CriterionScaleFactor)
 	}
 	return nil
 }
@@ -207,7 +217,7 @@ func (q Requirements) MinSamples() int {
 	if q.ContrastP05Min > 0 {
 		n = max(n, stats.MinSamplesLower(1, 0.05, c))
 	}
-	if q.AbsBiasP95MaxRad > 0 || q.AbsBiasP95MaxDegPerH > 0 {
+	if q.AbsBiasP95MaxRad > 0 || q.AbsBiasP95MaxDegPerH > 0 || q.AbsScaleFactorP95MaxPPM > 0 {
 		n = max(n, stats.MinSamplesUpper(1, 0.95, c))
 	}
 	if y := q.YieldMin; y > 0 && y < 1 {

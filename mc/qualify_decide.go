@@ -23,7 +23,7 @@ import (
 // against the limit being missed and "fail" against it being met, with
 // p-values PPass and PFail and the one-sided bounds Lo and Hi at 1 - alpha_k
 // that they are dual to:
-//   - quantiles (contrast p05, |bias| p95): exact distribution-free
+//   - quantiles (contrast p05, |bias| p95, |scale-factor error| p95): exact distribution-free
 //     order-statistic bounds and binomial tests (stats.QuantileAtLeast,
 //     stats.QuantileAtMost; Hahn & Meeker 2017 ch. 5). If no order
 //     statistic bounds the quantile at this n (below 69 realisations for
@@ -66,6 +66,9 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 	if req.AbsBiasP95MaxDegPerH > 0 && !(scaleFactorS > 0) {
 		panic(fmt.Sprintf("mc: Qualify: a deg/h limit needs a positive scale factor, got %g", scaleFactorS))
 	}
+	if _, ok := ScaleFactorErrors(recs); req.NeedsScaleFactor() && !ok {
+		panic("mc: Qualify: a scale-factor criterion needs records with scale-factor errors (Ensemble.ScaleFactor)")
+	}
 	ordered := slices.Clone(recs)
 	slices.SortFunc(ordered, func(a, b Record) int { return a.Index - b.Index })
 	n := len(ordered)
@@ -104,6 +107,14 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 	if l := req.AbsBiasP95MaxDegPerH; l > 0 {
 		k := sim.RadPerSToDegPerH(1 / scaleFactorS)
 		q.Criteria = append(q.Criteria, t.quantile(Criterion{Name: CriterionBiasDegPerH, Unit: "deg/h", Limit: l}, sortedAbs, 0.95, [2]float64{0, math.Pi}, k))
+	}
+	if l := req.AbsScaleFactorP95MaxPPM; l > 0 {
+		sf, _ := ScaleFactorErrors(ordered)
+		for i := range sf {
+			sf[i] = math.Abs(sf[i])
+		}
+		slices.Sort(sf)
+		q.Criteria = append(q.Criteria, t.quantile(Criterion{Name: CriterionScaleFactor, Unit: "ppm", Limit: l}, sf, 0.95, [2]float64{0, math.MaxFloat64}, 1))
 	}
 	if l := req.YieldMin; l > 0 {
 		inside := 0

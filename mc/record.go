@@ -20,6 +20,25 @@ type Record struct {
 	BiasRad  float64
 	Z        complex128
 	Ground   [2]float64 // each arm's ground-band population after the ramp-up
+	// ScaleFactorErrorPPM is K_shot / K - 1 in ppm, the shot's own scale
+	// factor from a central difference in Omega (sim.Simulator.Gyro);
+	// HasScaleFactor says that it was measured (Ensemble.ScaleFactor) and
+	// that the record has the column ScaleFactorColumn.
+	ScaleFactorErrorPPM float64
+	HasScaleFactor      bool
+}
+
+// ScaleFactorColumn is the optional column of a records file with the
+// realisation's scale-factor error in ppm, after ground_minus. Runs written
+// without it (before it existed, or without Ensemble.ScaleFactor) read as
+// they were, with HasScaleFactor false.
+const ScaleFactorColumn = "scale_factor_error_ppm"
+
+// WithScaleFactor returns the columns cols (of Columns) with
+// ScaleFactorColumn before the checksum.
+func WithScaleFactor(cols []string) []string {
+	out := append([]string(nil), cols[:len(cols)-1]...)
+	return append(out, ScaleFactorColumn, ChecksumColumn)
 }
 
 // Columns returns the CSV header of records of an ensemble with the given
@@ -81,6 +100,9 @@ func (rec Record) format(rin, phase bool) string {
 	for _, x := range []float64{rec.Contrast, rec.PhaseRad, rec.BiasRad, real(rec.Z), imag(rec.Z), rec.Ground[0], rec.Ground[1]} {
 		put(x)
 	}
+	if rec.HasScaleFactor {
+		put(rec.ScaleFactorErrorPPM)
+	}
 	sum := rowChecksum(b.String())
 	b.WriteByte(',')
 	b.WriteString(sum)
@@ -107,7 +129,13 @@ func parseRecord(line string, nInputs int, rin, phase bool) (Record, error) {
 	if phase {
 		want += 2
 	}
-	if len(f) != want {
+	// A row one field longer carries ScaleFactorColumn. Whether the run
+	// has that column is held by its header, which the reader compares
+	// with the manifest's columns; a row of the other length passes only
+	// if it was written so with a valid checksum (the summary then leaves
+	// the scale factor out, see Summarise).
+	sf := len(f) == want+1
+	if len(f) != want && !sf {
 		return Record{}, fmt.Errorf("%d fields, want %d", len(f), want)
 	}
 	idx, err := strconv.Atoi(f[0])
@@ -131,6 +159,9 @@ func parseRecord(line string, nInputs int, rin, phase bool) (Record, error) {
 	rec.Contrast, rec.PhaseRad, rec.BiasRad = v[0], v[1], v[2]
 	rec.Z = complex(v[3], v[4])
 	rec.Ground = [2]float64{v[5], v[6]}
+	if sf {
+		rec.ScaleFactorErrorPPM, rec.HasScaleFactor = v[7], true
+	}
 	return rec, rec.check()
 }
 
@@ -157,6 +188,7 @@ func (rec Record) check() error {
 		{"|z|", cmplxAbs(rec.Z), 0, 1 + physicalSlack},
 		{"ground_plus", rec.Ground[0], 0, 1 + physicalSlack},
 		{"ground_minus", rec.Ground[1], 0, 1 + physicalSlack},
+		{ScaleFactorColumn, rec.ScaleFactorErrorPPM, math.Inf(-1), math.Inf(1)},
 	}
 	for _, c := range named {
 		if math.IsNaN(c.x) || math.IsInf(c.x, 0) {

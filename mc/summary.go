@@ -98,6 +98,14 @@ type Summary struct {
 	FringeBiasRad  Interval     `json:"fringe_bias_rad"`
 	BiasCircular   CircularBias `json:"bias_circular"`
 	Yield          *YieldResult `json:"yield,omitempty"`
+	// ScaleFactorErrorPPM and AbsScaleFactorErrorPPM are the distributions
+	// of K_shot / K - 1 and of its magnitude, in ppm, when every record
+	// has it (Ensemble.ScaleFactor); nil otherwise.
+	ScaleFactorErrorPPM    *Distribution `json:"scale_factor_error_ppm,omitempty"`
+	AbsScaleFactorErrorPPM *Distribution `json:"abs_scale_factor_error_ppm,omitempty"`
+	// Numerics is the estimated numerical error of the nominal shot
+	// (sim.EstimateError), from the run's manifest (Manifest.Summarise).
+	Numerics *sim.ErrorEstimate `json:"numerics_error,omitempty"`
 }
 
 // BootstrapResamples is the number of bootstrap resamples of a summary.
@@ -172,7 +180,31 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 		e := stats.ClopperPearson(k, n, confidence)
 		s.Yield = &YieldResult{Interval: Interval{e.Value, e.Lo, e.Hi}, Inside: k, Spec: spec}
 	}
+	if sf, ok := ScaleFactorErrors(sorted); ok {
+		// Its own stream, so that the other entries do not depend on it.
+		rng := Substream(seed, 0, "summary/scale_factor")
+		abs := make([]float64, n)
+		for i, x := range sf {
+			abs[i] = math.Abs(x)
+		}
+		d := distribution(sf, rng, confidence, [2]float64{-math.MaxFloat64, math.MaxFloat64})
+		a := distribution(abs, rng, confidence, [2]float64{0, math.MaxFloat64})
+		s.ScaleFactorErrorPPM, s.AbsScaleFactorErrorPPM = &d, &a
+	}
 	return s
+}
+
+// ScaleFactorErrors returns the records' scale-factor errors in ppm, in
+// their order, and whether every record has one.
+func ScaleFactorErrors(recs []Record) ([]float64, bool) {
+	x := make([]float64, len(recs))
+	for i, r := range recs {
+		if !r.HasScaleFactor {
+			return nil, false
+		}
+		x[i] = r.ScaleFactorErrorPPM
+	}
+	return x, len(recs) > 0
 }
 
 // quantileKeys are the quantiles of a Distribution, by CI key.

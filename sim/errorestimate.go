@@ -8,27 +8,27 @@ import (
 // ErrorEstimate is the estimated numerical error of a nominal shot,
 // measured against a shot on a refined grid and step (see EstimateError).
 type ErrorEstimate struct {
-	Grid  int     // momentum states of the shot
-	StepS float64 // split step of the shot
+	Grid  int     `json:"grid"`   // momentum states of the shot
+	StepS float64 `json:"step_s"` // split step of the shot
 	// RefinedGrid and RefinedStepS are the numerics of the comparison
 	// shot: twice the grid and half the step (Refine).
-	RefinedGrid  int
-	RefinedStepS float64
+	RefinedGrid  int     `json:"refined_grid"`
+	RefinedStepS float64 `json:"refined_step_s"`
 	// ContrastChange and PhaseChangeRad are the refined shot's contrast
 	// and phase minus the shot's (the phase wrapped to (-pi, pi]).
-	ContrastChange float64
-	PhaseChangeRad float64
+	ContrastChange float64 `json:"contrast_change"`
+	PhaseChangeRad float64 `json:"phase_change_rad"`
 	// ContrastError and PhaseErrorRad bound the shot's own errors:
 	// |change| (1 + 1/15), see EstimateError.
-	ContrastError float64
-	PhaseErrorRad float64
+	ContrastError float64 `json:"contrast_error"`
+	PhaseErrorRad float64 `json:"phase_error_rad"`
 	// ContrastTarget and PhaseTargetRad are the targets the estimate is
 	// held to, and Met reports whether both errors are within them.
-	ContrastTarget float64
-	PhaseTargetRad float64
-	Met            bool
+	ContrastTarget float64 `json:"contrast_target"`
+	PhaseTargetRad float64 `json:"phase_target_rad"`
+	Met            bool    `json:"met"`
 	// Remedy says what to change when Met is false; empty otherwise.
-	Remedy string
+	Remedy string `json:"remedy,omitempty"`
 }
 
 // Refine returns c with twice its grid and half its step. c must carry the

@@ -23,7 +23,11 @@ type Numerics struct {
 // TestAutoNumericsAccuracy) and the cruise requirement CruiseTail(omega T):
 // the truncated window shifts the energy of every block eigenstate, and
 // that shift accumulates as phase over the whole sequence T (see
-// docs/model.md, Numerics). The time step resolves the trap period and the ramp.
+// docs/model.md, Numerics). The time step resolves the trap period and the
+// ramp: MinRampSteps steps per ramp, and for a tabulated ramp as many per
+// pi/2 of its time scale |Omega_0| / max|dOmega/dt| (Tabulated.TimeScaleS),
+// so that a table with one steep row is stepped as finely as a sin^2 ramp
+// of that steepness.
 func AutoNumerics(c Config) Numerics {
 	r := c.Ring
 	omega := c.TrapRadS()
@@ -59,6 +63,12 @@ func AutoNumerics(c Config) Numerics {
 	step := period / StepsPerPeriod
 	if c.Sequence.Up != nil {
 		step = math.Min(step, c.Sequence.Up.Duration()/MinRampSteps)
+		// A table may turn far faster than its duration suggests (one steep
+		// row): its steepest stretch gets the steps a sin^2 ramp of the same
+		// steepness would, whose duration is pi/2 times its time scale.
+		if ts, ok := c.Sequence.Up.(interface{ TimeScaleS() float64 }); ok {
+			step = math.Min(step, math.Pi/2*ts.TimeScaleS()/MinRampSteps)
+		}
 	}
 	return Numerics{Grid: n * k, StepS: step, Levels: levels}
 }

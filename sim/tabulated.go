@@ -147,3 +147,41 @@ func (r *Tabulated) Angle(t float64) float64 {
 	u2, u3, u4 := u*u, u*u*u, u*u*u*u
 	return r.cum[i] + h*((u4/2-u3+u)*r.w[i]+(u4/4-2*u3/3+u2/2)*h*r.m[i]+(-u4/2+u3)*r.w[i+1]+(u4/4-u3/3)*h*r.m[i+1])
 }
+
+// MaxAccel returns the largest |dOmega/dt| of the interpolant, in rad/s^2.
+// On each row interval the PCHIP speed is a cubic, so its derivative is a
+// quadratic in u = (t - t_i) / h whose extreme is at an end or at its
+// vertex; the maximum is exact.
+func (r *Tabulated) MaxAccel() float64 {
+	var a float64
+	for i := 0; i+1 < len(r.t); i++ {
+		h := r.t[i+1] - r.t[i]
+		// Speed(u) = h00 w0 + h10 h m0 + h01 w1 + h11 h m1; its derivative
+		// in u is c2 u^2 + c1 u + c0 with
+		d := r.w[i+1] - r.w[i]
+		c0 := h * r.m[i]
+		c1 := 6*d - h*(4*r.m[i]+2*r.m[i+1])
+		c2 := -6*d + 3*h*(r.m[i]+r.m[i+1])
+		deriv := func(u float64) float64 { return math.Abs(c2*u*u+c1*u+c0) / h }
+		a = math.Max(a, math.Max(deriv(0), deriv(1)))
+		if c2 != 0 {
+			if u := -c1 / (2 * c2); u > 0 && u < 1 {
+				a = math.Max(a, deriv(u))
+			}
+		}
+	}
+	return a
+}
+
+// TimeScaleS returns |Omega_0| / max |dOmega/dt|, the time the ramp's
+// steepest stretch would take to reach the cruise speed Omega_0. For a
+// sin^2 ramp of duration tau it is 2 tau / pi; a table with one steep row
+// has a time scale far below its duration, and AutoNumerics resolves it
+// (docs/model.md, Numerics).
+func (r *Tabulated) TimeScaleS() float64 {
+	a := r.MaxAccel()
+	if a == 0 {
+		return r.Duration()
+	}
+	return math.Abs(r.w[len(r.w)-1]) / a
+}

@@ -189,3 +189,89 @@ func TestNewTabulatedErrors(t *testing.T) {
 		t.Errorf("cruise after snapping the last row: got %v, want %v (tol 0)", got, 1.0)
 	}
 }
+
+// TestTabulatedMaxAccel checks MaxAccel and TimeScaleS against the
+// analytic derivative of the ramp the table samples: a sin^2 ramp
+// W sin^2(pi t / 2 tau) turns at most pi W / (2 tau) (at t = tau / 2), so
+// its time scale is 2 tau / pi; a two-row table is the straight line of
+// slope W / tau. The PCHIP of 401 rows of sin^2 is accurate to O(h^2) in
+// its slope: tolerance 1e-3 relative (measured below 1e-4).
+func TestTabulatedMaxAccel(t *testing.T) {
+	const tau, w = 150e-6, 500.0
+	n := 401
+	ts, ws := make([]float64, n), make([]float64, n)
+	for i := range n {
+		ts[i] = tau * float64(i) / float64(n-1)
+		s := math.Sin(math.Pi * ts[i] / (2 * tau))
+		ws[i] = w * s * s
+	}
+	sin2, err := NewTabulated("sin2", ts, ws, w)
+	if err != nil {
+		t.Fatal(err)
+	}
+	line, err := NewTabulated("line", []float64{0, tau}, []float64{0, w}, w)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name      string
+		r         *Tabulated
+		accel, ts float64
+		tol       float64
+	}{
+		{"sin2, 401 rows", sin2, math.Pi * w / (2 * tau), 2 * tau / math.Pi, 1e-3}, // d/dt of W sin^2(pi t / 2 tau)
+		{"two rows", line, w / tau, tau, 1e-12},                                    // a straight line
+	} {
+		if got := tc.r.MaxAccel(); math.Abs(got/tc.accel-1) > tc.tol {
+			t.Errorf("%s: MaxAccel = %.8g rad/s^2, want %.8g (rel tol %g)", tc.name, got, tc.accel, tc.tol)
+		}
+		if got := tc.r.TimeScaleS(); math.Abs(got/tc.ts-1) > tc.tol {
+			t.Errorf("%s: TimeScaleS = %.8g s, want %.8g (rel tol %g)", tc.name, got, tc.ts, tc.tol)
+		}
+	}
+}
+
+// TestAutoNumericsSteepRow checks the automatic step on a ramp table with
+// one steep row (issue 8: a table whose step was set by its duration alone
+// missed the contrast target while --check passed it): on the benchmark
+// ring the shot with automatic numerics stays within the targets of a
+// converged shot (step 0.02 us; measured error 6e-12), and the step of the
+// duration rule alone (duration / MinRampSteps, capped by the trap period)
+// errs by 6.2e-5 in contrast, above 1e-5, so that the test tells the two
+// rules apart. (With the jump at 40 us or 1-3 us wide the duration rule's
+// error reached 1.3e-4, above the target.)
+func TestAutoNumericsSteepRow(t *testing.T) {
+	c := ringConfig(t, 20, 5e-6, 20e3, 500, 1e-3, 1)
+	up, err := NewTabulated("steep", []float64{0, 100e-6, 100.5e-6, 150e-6}, []float64{0, 10, 490, 500}, 500)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Sequence, err = NewSequence(up, 1); err != nil {
+		t.Fatal(err)
+	}
+	run := func(c Config) Result {
+		s, err := NewSimulator(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return s.Run(Shot{}, nil)
+	}
+	auto := AutoNumerics(c)
+	conv := c
+	conv.Grid, conv.StepS = auto.Grid, 0.02e-6
+	want := run(conv)
+	got := run(c)
+	dc, dp := math.Abs(got.Contrast-want.Contrast), math.Abs(Wrap(got.PhaseRad-want.PhaseRad))
+	t.Logf("auto step %.3g us: contrast error %.2g, phase error %.2g rad", auto.StepS*1e6, dc, dp)
+	if dc > ContrastTarget || dp > PhaseTargetRad {
+		t.Errorf("auto numerics (step %.3g us): contrast error %.2g (target %g), phase error %.2g rad (target %g)", auto.StepS*1e6, dc, ContrastTarget, dp, PhaseTargetRad)
+	}
+	legacy := c
+	legacy.Grid, legacy.StepS = auto.Grid, math.Min(2*math.Pi/c.TrapRadS()/StepsPerPeriod, up.Duration()/MinRampSteps)
+	old := run(legacy)
+	odc := math.Abs(old.Contrast - want.Contrast)
+	t.Logf("duration rule step %.3g us: contrast error %.2g", legacy.StepS*1e6, odc)
+	if odc <= 1e-5 {
+		t.Errorf("the duration rule's step %.3g us erred by only %.2g in contrast (measured 6.2e-5): the table is not steep enough to test the rule", legacy.StepS*1e6, odc)
+	}
+}

@@ -57,8 +57,13 @@ func (o *decisionOptions) validate() error {
 }
 
 // load reads the scenario, its configuration and its noise budget.
-func (o *decisionOptions) load() (*scenario.Scenario, sim.Config, mc.Budget, error) {
-	return scenario.LoadBudget(o.scenario, o.sets)
+// The inputs outside the model's validity are warned about on stderr.
+func (o *decisionOptions) load(stderr io.Writer) (*scenario.Scenario, sim.Config, mc.Budget, error) {
+	sc, cfg, b, err := scenario.LoadBudget(o.scenario, o.sets)
+	if err == nil {
+		warnValidity(stderr, cfg)
+	}
+	return sc, cfg, b, err
 }
 
 // writeDecisionReport writes the report of a decision command: the drive

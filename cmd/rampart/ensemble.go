@@ -32,6 +32,9 @@ type ensembleOptions struct {
 	resume     string
 	shard      string
 	confidence float64
+	// scaleFactor measures each realisation's scale-factor error
+	// (mc.Ensemble.ScaleFactor); a scale-factor criterion sets it too.
+	scaleFactor bool
 	// yield is the yield spec the run is summarised with, recorded in the
 	// manifest so that merge reproduces the summary (nil: none).
 	yield *mc.Spec
@@ -47,6 +50,7 @@ func addEnsembleFlags(cmd *cobra.Command, o *ensembleOptions, defaultSamples int
 	f.StringVar(&o.resume, "resume", "", "continue the interrupted run in `DIR` (same scenario and flags)")
 	f.StringVar(&o.shard, "shard", "", "run only slice `k/n` of the ensemble (merge the slices with rampart merge)")
 	f.Float64Var(&o.confidence, "confidence", 0.95, "confidence `level` of the intervals, in (0, 1)")
+	f.BoolVar(&o.scaleFactor, "scale-factor", false, "also measure each realisation's scale-factor error K_shot/K - 1 in ppm (two more shots per realisation; on by itself for a spec with [scale_factor])")
 }
 
 func (o *ensembleOptions) validate() error {
@@ -101,6 +105,15 @@ type ensembleRun struct {
 	realiser *mc.Realiser
 	elapsed  time.Duration
 	fresh    int // realisations simulated in this invocation
+	// numerics is the estimated numerical error of the nominal shot,
+	// checked before the run (preflight).
+	numerics sim.ErrorEstimate
+}
+
+// summarise summarises the run's records (with the numerics estimate the
+// manifest records).
+func (run *ensembleRun) summarise(confidence float64, spec mc.Spec) mc.Summary {
+	return run.manifest.Summarise(run.records, confidence, spec)
 }
 
 // interruptedError reports an ensemble stopped by a signal; its exit code is
@@ -123,7 +136,7 @@ func signalContext() (context.Context, context.CancelFunc) {
 // runEnsemble runs (or resumes) the ensemble of a scenario configuration
 // cfg under budget, storing it in the options' directory if one is given.
 func runEnsemble(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, o ensembleOptions, label string) (*ensembleRun, error) {
-	ens := mc.Ensemble{Config: cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+	ens := mc.Ensemble{Config: cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactor: o.scaleFactor}
 	return runEnsembleOf(ctx, e, stderr, sc, ens, o, o.dir(), label)
 }
 
@@ -157,6 +170,12 @@ type ensembleJob struct {
 // runJob runs a job, storing it in dir if one is given (resuming the run
 // there if resume).
 func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir string, resume bool, label string) (*ensembleRun, error) {
+	// Every ensemble command passes here: its nominal shot's numerics are
+	// checked before anything is written (preflight).
+	est, err := preflight(fmt.Sprintf("scenario %q, %s ramp", sc.Name, job.realiser.Config().Sequence.Up.Name()), job.realiser.Config())
+	if err != nil {
+		return nil, err
+	}
 	hash, text, err := sc.Fingerprint()
 	if err != nil {
 		return nil, err
@@ -168,7 +187,7 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 	}
 	j := mc.Job{Realiser: job.realiser, Runner: job.runner, Records: job.records,
 		Fingerprint: hash, Scenario: text, Dir: dir, Resume: dir != "" && resume, Workers: o.workers,
-		YieldSpec: o.yield, Confidence: o.confidence}
+		YieldSpec: o.yield, Confidence: o.confidence, NumericsError: &est}
 	if o.shard != "" {
 		sh, err := mc.ParseShard(o.shard)
 		if err != nil {
@@ -208,7 +227,7 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 	}
 	bar.Finish()
 	run := &ensembleRun{manifest: res.Manifest, records: res.Records, realiser: job.realiser,
-		elapsed: e.now().Sub(t0), fresh: res.Fresh}
+		elapsed: e.now().Sub(t0), fresh: res.Fresh, numerics: est}
 	if err != nil {
 		if errors.Is(err, context.Canceled) {
 			hint := dir

@@ -149,7 +149,7 @@ func TestGoldenSagnac(t *testing.T) {
 		near(t, name+" K", cell(t, text, "Scale factor K", 0), k)
 		near(t, name+" Sagnac phase", cell(t, text, "Sagnac phase", 0), k*s.rotation)
 		// The bias lines are the bias in rad over K, in rad/s and deg/h.
-		b, hb := printed(t, cell(t, text, "Bias b = phase - Sagnac phase", 0))
+		b, hb := printed(t, cell(t, text, "Bias at zero rotation b = phase - K_shot Omega", 0))
 		for _, line := range strings.Split(text, "\n") {
 			if strings.Contains(line, "Bias as a rotation rate") && strings.Contains(line, "deg/h") {
 				nearWithin(t, name+" bias deg/h", strings.Split(line, "|")[2], b/k*degPerHPerRadS, hb/k*degPerHPerRadS)

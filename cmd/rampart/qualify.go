@@ -94,7 +94,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		return fmt.Errorf("--look %d: want 1 for a first qualification, 2, 3, ... each time the ensemble is topped up and qualified again", o.look)
 	}
 	req.Look = o.look
-	sc, cfg, budget, err := o.load()
+	sc, cfg, budget, err := o.load(stderr)
 	if err != nil {
 		return err
 	}
@@ -104,6 +104,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	}
 	ctx, stop := signalContext()
 	defer stop()
+	o.ens.scaleFactor = o.ens.scaleFactor || req.NeedsScaleFactor()
 	run, err := runEnsemble(ctx, e, stderr, sc, cfg, budget, o.ens, "qualify")
 	if err != nil {
 		return err
@@ -111,7 +112,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	if err := mc.CheckDecidable(run.records); err != nil {
 		return fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
-	sum := run.manifest.Summarise(run.records, req.Confidence, req.Yield)
+	sum := run.summarise(req.Confidence, req.Yield)
 	dir := o.ens.dir()
 	if o.ens.shard != "" {
 		if err := present.WriteResults(dir, sum, run.records, req.Yield); err != nil {
@@ -133,7 +134,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	cfg = run.realiser.Config()
 	ramp, specLine := cfg.Sequence.Up.Name()+" ramp", "Spec: "+o.spec
 	if o.report != "" {
-		if err := writeQualifyReport(e, stderr, o, sc, run, rep, req.Yield, present.SetupText(sc, cfg, ramp, budget, present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed), specLine)); err != nil {
+		if err := writeQualifyReport(e, stderr, o, sc, run, rep, req.Yield, present.SetupText(sc, cfg, ramp, budget, present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed), present.NumericsLine(&run.numerics), specLine)); err != nil {
 			return err
 		}
 	}
@@ -142,7 +143,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 			return err
 		}
 	} else {
-		present.PrintHeader(stdout, sc, cfg, ramp, budget, present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed), specLine)
+		present.PrintHeader(stdout, sc, cfg, ramp, budget, present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed), present.NumericsLine(&run.numerics), specLine)
 		if err := present.PrintQualification(stdout, rep); err != nil {
 			return err
 		}

@@ -43,6 +43,7 @@ func runRamp(stdout, stderr io.Writer, o rampOptions) error {
 	if err != nil {
 		return err
 	}
+	warnValidity(stderr, cfg)
 	if o.out != "" {
 		n := 0
 		if err := atomicfile.Write(o.out, func(w io.Writer) (err error) {

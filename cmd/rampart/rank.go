@@ -86,7 +86,7 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 	case o.metric == mc.MetricYield && !spec.Active():
 		return fmt.Errorf("--metric yield needs the spec of a good realisation: give --min-contrast X, --max-bias-rad Y or both")
 	}
-	sc, cfg, budget, err := o.load()
+	sc, cfg, budget, err := o.load(stderr)
 	if err != nil {
 		return err
 	}
@@ -123,16 +123,17 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 	}
 	rampsLine := "Ramps: " + strings.Join(ramps, ", ")
 	workLine := work.Line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(cs), o.ens.samples), o.ens.seed, o.ens.sampler, o.ens.shard)
+	numLines := present.RampNumericsLines(rep)
 	what := fmt.Sprintf("%d ramps", len(cs))
 	if o.report != "" {
-		if err := writeRankReport(e, stderr, o, sc, cs, recs, rep, spec, present.SetupText(sc, cfg, what, budget, rampsLine, workLine)); err != nil {
+		if err := writeRankReport(e, stderr, o, sc, cs, recs, rep, spec, present.SetupText(sc, cfg, what, budget, append([]string{rampsLine, workLine}, numLines...)...)); err != nil {
 			return err
 		}
 	}
 	if o.json {
 		return present.WriteJSON(stdout, rep)
 	}
-	present.PrintHeader(stdout, sc, cfg, what, budget, rampsLine, workLine)
+	present.PrintHeader(stdout, sc, cfg, what, budget, append([]string{rampsLine, workLine}, numLines...)...)
 	return present.RankingGrid(rep).RenderNoted(stdout, present.RankingNotes(rep))
 }
 
@@ -154,15 +155,28 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario
 	names := make([]string, len(cs))
 	recs := make([][]mc.Record, len(cs))
 	rep := present.RankReport{Ramps: make([]present.RampReport, len(cs))}
+	// Every contestant's numerics are checked before any ensemble runs, so
+	// that a refusal leaves no run directory behind.
+	enss := make([]mc.Ensemble, len(cs))
 	for i, c := range cs {
-		ens := mc.Ensemble{Config: c.Config, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+		enss[i] = mc.Ensemble{Config: c.Config, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactor: o.scaleFactor}
+		r, err := mc.NewRealiser(enss[i])
+		if err != nil {
+			return present.RankReport{}, nil, work, fmt.Errorf("ramp %s: %w", c.Name, err)
+		}
+		if _, err := preflight(fmt.Sprintf("ramp %s", c.Name), r.Config()); err != nil {
+			return present.RankReport{}, nil, work, err
+		}
+	}
+	for i, c := range cs {
+		ens := enss[i]
 		tag := grid.Apply(&ens)
 		run, dir, err := runPart(ctx, e, stderr, c.Scenario, ens, tag, o, c.Name, "rank "+c.Name)
 		if err != nil {
 			return present.RankReport{}, nil, work, err
 		}
 		work.Add(run.fresh, len(run.records), run.elapsed)
-		sum := run.manifest.Summarise(run.records, o.confidence, spec)
+		sum := run.summarise(o.confidence, spec)
 		if dir != "" {
 			if err := present.WriteResults(dir, sum, run.records, spec); err != nil {
 				return present.RankReport{}, nil, work, err

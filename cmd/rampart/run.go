@@ -81,6 +81,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err != nil {
 		return err
 	}
+	warnValidity(stderr, cfg)
 	ro, err := o.readout.of(sc)
 	if err != nil {
 		return err
@@ -91,7 +92,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err != nil {
 		return err
 	}
-	sum := run.manifest.Summarise(run.records, o.ens.confidence, spec)
+	sum := run.summarise(o.ens.confidence, spec)
 	if dir := o.ens.dir(); dir != "" {
 		if err := present.WriteResults(dir, sum, run.records, spec); err != nil {
 			return err
@@ -108,7 +109,8 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	}
 	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, present.Describe(sc, run.realiser.Config(), run.realiser.Config().Sequence.Up.Name()+" ramp"))
 	fmt.Fprintf(stdout, "Noise budget: %s\n", present.BudgetLine(budget))
-	fmt.Fprintf(stdout, "%s\n\n", present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed))
+	fmt.Fprintf(stdout, "%s\n", present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed))
+	fmt.Fprintf(stdout, "%s\n\n", present.NumericsLine(&run.numerics))
 	if err := present.PrintSummary(stdout, sum); err != nil {
 		return err
 	}
@@ -136,7 +138,7 @@ func writeRunReport(e env, stderr io.Writer, o runOptions, sc *scenario.Scenario
 	if err != nil {
 		return err
 	}
-	ens, err := present.EnsembleSection("Ensemble", "ensemble-", sum, run.records, spec, present.SetupText(sc, cfg, name+" ramp", budget, present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed)))
+	ens, err := present.EnsembleSection("Ensemble", "ensemble-", sum, run.records, spec, present.SetupText(sc, cfg, name+" ramp", budget, present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed), present.NumericsLine(&run.numerics)))
 	if err != nil {
 		return err
 	}

@@ -68,13 +68,16 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	if err := o.validate(); err != nil {
 		return err
 	}
+	if o.ens.scaleFactor {
+		return fmt.Errorf("--scale-factor: sensitivity apportions the contrast and the bias; measure the scale factor with run, qualify, rank or tolerance")
+	}
 	if o.base < 2 {
 		return fmt.Errorf("--base %d: want at least 2 base rows (256 is usual)", o.base)
 	}
 	if o.base > mc.MaxSamples/10 { // N (d + 2) shots with d <= 8 inputs
 		return fmt.Errorf("--base %d: at most %d base rows, so that the design's shots fit in one run", o.base, mc.MaxSamples/10)
 	}
-	sc, cfg, budget, err := o.load()
+	sc, cfg, budget, err := o.load(stderr)
 	if err != nil {
 		return err
 	}
@@ -112,6 +115,7 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	rep := present.SensitivityReport{
 		Inputs: design.Inputs(), BaseRows: o.base, Shots: design.Len(), Seed: o.ens.seed, Sampler: o.ens.sampler,
 		ScaleFactorS: run.manifest.ScaleFactorS, Indices: indices, Derivatives: mc.LocalDerivatives(r),
+		Numerics: &run.numerics,
 	}
 	if dir := o.ens.dir(); dir != "" {
 		if err := present.WriteSensitivity(dir, rep); err != nil {
@@ -131,13 +135,13 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 		}
 		cfgs, name := present.OneRamp(cfg)
 		if err := writeDecisionReport(e, stderr, o.decisionOptions, "Sensitivity of "+name+" on "+sc.Name+" to its noise sources", sc, cfgs, name,
-			present.SetupText(sc, cfg, ramp, budget, designLine), sens); err != nil {
+			present.SetupText(sc, cfg, ramp, budget, designLine, present.NumericsLine(rep.Numerics)), sens); err != nil {
 			return err
 		}
 	}
 	if o.json {
 		return present.WriteJSON(stdout, rep)
 	}
-	present.PrintHeader(stdout, sc, cfg, ramp, budget, designLine)
+	present.PrintHeader(stdout, sc, cfg, ramp, budget, designLine, present.NumericsLine(rep.Numerics))
 	return present.PrintSensitivity(stdout, rep)
 }

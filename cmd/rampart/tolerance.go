@@ -84,6 +84,15 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		ScaleFactorS: cfg.Ring.ScaleFactor(cfg.Sequence.TotalAngle()),
 		Options:      mc.ToleranceOptions{Precision: precision},
 	}
+	// The nominal shot's numerics are checked before the search starts.
+	nominal, err := mc.NewRealiser(mc.Ensemble{Config: cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler})
+	if err != nil {
+		return present.ToleranceReport{}, work, fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
+	est, err := preflight(fmt.Sprintf("scenario %q, %s ramp", sc.Name, cfg.Sequence.Up.Name()), nominal.Config())
+	if err != nil {
+		return present.ToleranceReport{}, work, err
+	}
 	grid, err := mc.SharedGrid([]sim.Config{cfg}, search.Widest())
 	if err != nil {
 		return present.ToleranceReport{}, work, fmt.Errorf("scenario %q: %w", sc.Name, err)
@@ -91,7 +100,7 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 	evaluator := func(name string) mc.Evaluator {
 		return func(ctx context.Context, b mc.Budget) ([]mc.Record, error) {
 			key := amplitudeKey(name, budget, b)
-			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.samples, Seed: o.seed, Sampler: o.sampler}
+			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactor: o.scaleFactor || req.NeedsScaleFactor()}
 			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.Apply(&ens)}
 			run, _, err := runPart(ctx, e, stderr, sc, ens, tag, o, filepath.Join(name, key), "tolerance "+name+" "+key)
 			if err != nil {
@@ -101,7 +110,7 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 			return run.records, mc.CheckDecidable(run.records)
 		}
 	}
-	rep := present.ToleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS}
+	rep := present.ToleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS, Numerics: &est}
 	for _, name := range names {
 		res, err := search.Source(ctx, evaluator(name), name)
 		if err != nil {
@@ -137,7 +146,7 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 	if err != nil {
 		return err
 	}
-	sc, cfg, budget, err := o.load()
+	sc, cfg, budget, err := o.load(stderr)
 	if err != nil {
 		return err
 	}
@@ -174,14 +183,14 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 		}
 		cfgs, name := present.OneRamp(cfg)
 		if err := writeDecisionReport(e, stderr, o.decisionOptions, "Tolerances of "+name+" on "+sc.Name+" against "+o.spec, sc, cfgs, name,
-			present.SetupText(sc, cfg, ramp, budget, workLine, specLine), tol); err != nil {
+			present.SetupText(sc, cfg, ramp, budget, workLine, present.NumericsLine(rep.Numerics), specLine), tol); err != nil {
 			return err
 		}
 	}
 	if o.json {
 		return present.WriteJSON(stdout, rep)
 	}
-	present.PrintHeader(stdout, sc, cfg, ramp, budget, workLine, specLine)
+	present.PrintHeader(stdout, sc, cfg, ramp, budget, workLine, present.NumericsLine(rep.Numerics), specLine)
 	return present.ToleranceGrid(rep).RenderNoted(stdout, present.ToleranceNotes(rep))
 }
 

@@ -55,6 +55,7 @@ var criterionLabels = map[string]string{
 	mc.CriterionBiasRad:      "|bias| p95 (rad)",
 	mc.CriterionBiasDegPerH:  "|bias| p95 (deg/h)",
 	mc.CriterionYield:        "yield",
+	mc.CriterionScaleFactor:  "|scale-factor error| p95 (ppm)",
 }
 
 // criterionFormat formats the values of a criterion in its unit.

@@ -59,10 +59,16 @@ func writeFigures(dir string, nfs []namedFigure) error {
 
 // SetupText says in a report what was simulated (the scenario's sequence
 // with ramp naming the ramp, and its noise budget) and then how, in lines
-// such as the ensemble's: what the terminal shows above a command's tables.
+// such as the ensemble's: what the terminal shows above a command's tables;
+// then a warning for each input outside the model's validity.
 func SetupText(sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget, lines ...string) string {
 	paragraphs := append([]string{Describe(sc, cfg, ramp), "Noise budget: " + BudgetLine(b)}, lines...)
-	return strings.Join(paragraphs, ".\n\n") + "."
+	text := strings.Join(paragraphs, ".\n\n") + "."
+	// Inputs outside the model's validity (sim.Config.Warnings).
+	for _, w := range cfg.Warnings() {
+		text += "\n\nWarning: " + w + "."
+	}
+	return text
 }
 
 // NamedConfig is a ramp's configuration in a report.
@@ -206,6 +212,9 @@ func EnsembleSection(heading, idPrefix string, sum mc.Summary, recs []mc.Record,
 	fb, err := figure(idPrefix+"bias", "Bias of the realisations (interferometer phase less the Sagnac phase).", b)
 	if err != nil {
 		return report.Section{}, err
+	}
+	if notes := ResolutionNotes(sum); len(notes) > 0 {
+		text = strings.TrimSpace(text + "\n\n" + strings.Join(notes, "\n\n"))
 	}
 	sec := report.Section{Heading: heading, Text: text, Figures: []report.Figure{fc, fb}}
 	for _, g := range summaryGrids(sum) {

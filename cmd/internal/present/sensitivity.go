@@ -11,6 +11,7 @@ import (
 	"rampart/cmd/internal/report"
 	"rampart/internal/atomicfile"
 	"rampart/mc"
+	"rampart/sim"
 )
 
 // SensitivityReport is what sensitivity --json prints.
@@ -23,6 +24,8 @@ type SensitivityReport struct {
 	ScaleFactorS float64         `json:"scale_factor_s"`
 	Indices      mc.SobolResult  `json:"indices"`
 	Derivatives  []mc.Derivative `json:"derivatives"`
+	// Numerics is the nominal shot's estimated numerical error.
+	Numerics *sim.ErrorEstimate `json:"numerics_error,omitempty"`
 }
 
 func PrintSensitivity(w io.Writer, rep SensitivityReport) error {

@@ -9,6 +9,7 @@ import (
 
 	"rampart/internal/atomicfile"
 	"rampart/mc"
+	"rampart/sim"
 )
 
 // WriteResults writes the summary and the histograms of an ensemble to dir.
@@ -61,7 +62,34 @@ func PrintSummary(w io.Writer, s mc.Summary) error {
 			return err
 		}
 	}
+	if notes := ResolutionNotes(s); len(notes) > 0 {
+		fmt.Fprintln(w)
+		for _, n := range notes {
+			fmt.Fprintln(w, n)
+		}
+	}
 	return nil
+}
+
+// ResolutionNotes says which of an ensemble's printed biases (the mean,
+// the median and the averaged fringe's) lie below the estimated phase error
+// of the nominal shot: their digits are discretisation error, not a
+// result (BelowResolution). None without an estimate.
+func ResolutionNotes(s mc.Summary) []string {
+	var out []string
+	for _, b := range []struct {
+		what string
+		x    float64
+	}{
+		{"the mean bias", s.BiasRad.Mean},
+		{"the median bias", s.BiasRad.P50},
+		{"the averaged-fringe bias", s.FringeBiasRad.Value},
+	} {
+		if BelowResolution(b.x, s.Numerics) {
+			out = append(out, ResolutionNote(b.what, b.x, s.Numerics))
+		}
+	}
+	return out
 }
 
 // summaryGrids returns the tables of an ensemble summary: the
@@ -106,7 +134,34 @@ func summaryGrids(s mc.Summary) []*Grid {
 		u.Append(fmt.Sprintf("Yield (%s): %d of %d", strings.Join(lim, ", "), y.Inside, s.Samples), Fixed(y.Value, 4),
 			interval(y.Lo, y.Hi, func(x float64) string { return Fixed(x, 4) })+" exact", "")
 	}
-	return []*Grid{t, u}
+	grids := []*Grid{t, u}
+	if sf := s.ScaleFactorErrorPPM; sf != nil {
+		grids = append(grids, scaleFactorGrid(*sf, *s.AbsScaleFactorErrorPPM, conf))
+	}
+	return grids
+}
+
+// scaleFactorGrid returns the distribution of the realisations'
+// scale-factor errors K_shot / K - 1 and of their magnitude, in ppm.
+func scaleFactorGrid(sf, abs mc.Distribution, conf string) *Grid {
+	f := func(x float64) string { return Sci(x, 3) }
+	g := NewGrid("Scale-factor error K_shot / K - 1 over the realisations (ppm; K_shot from shots at Omega +- h)",
+		"Statistic", "Scale-factor error (ppm)", conf, "|Scale-factor error| (ppm)", conf)
+	for _, r := range []struct {
+		name, key string
+		a, b      float64
+	}{
+		{"mean", "mean", sf.Mean, abs.Mean},
+		{"std", "std", sf.Std, abs.Std},
+		{"p01", "p01", sf.P01, abs.P01},
+		{"p05", "p05", sf.P05, abs.P05},
+		{"p50 (median)", "p50", sf.P50, abs.P50},
+		{"p95", "p95", sf.P95, abs.P95},
+		{"p99", "p99", sf.P99, abs.P99},
+	} {
+		g.Append(r.name, f(r.a), ciCell(sf, r.key, f), f(r.b), ciCell(abs, r.key, f))
+	}
+	return g
 }
 
 // AbsBiasP95DegPerH is the 95th percentile of |bias| of a summary as a
@@ -134,3 +189,24 @@ const NoReadout = "(For the projection-noise limit and the angle random walk, gi
 
 // SummaryFile is the JSON summary in an output directory.
 const SummaryFile = "summary.json"
+
+// NumericsLine says in one line what numerics a nominal shot used and its
+// estimated numerical error (sim.EstimateError): the errors bound by the
+// change on twice the grid and half the step, against the targets.
+func NumericsLine(est *sim.ErrorEstimate) string {
+	if est == nil {
+		return "Numerics: not checked"
+	}
+	return fmt.Sprintf("Numerics: grid %d, step %s us; estimated error (against grid %d, step %s us) contrast %s, phase %s rad (targets %s, %s rad)",
+		est.Grid, Sig(est.StepS*1e6, 4), est.RefinedGrid, Sig(est.RefinedStepS*1e6, 4),
+		Sci(est.ContrastError, 2), Sci(est.PhaseErrorRad, 2), Sci(est.ContrastTarget, 1), Sci(est.PhaseTargetRad, 1))
+}
+
+// RampNumericsLines is NumericsLine for each ramp of a ranking, named.
+func RampNumericsLines(rep RankReport) []string {
+	var out []string
+	for _, r := range rep.Ramps {
+		out = append(out, strings.Replace(NumericsLine(r.Summary.Numerics), "Numerics:", "Numerics of "+r.Name+":", 1))
+	}
+	return out
+}

@@ -11,6 +11,7 @@ import (
 	"rampart/cmd/internal/report"
 	"rampart/internal/atomicfile"
 	"rampart/mc"
+	"rampart/sim"
 	"rampart/stats"
 )
 
@@ -170,4 +171,6 @@ type ToleranceReport struct {
 	Sampler      string               `json:"sampler"`
 	ScaleFactorS float64              `json:"scale_factor_s"`
 	Results      []mc.ToleranceResult `json:"results"`
+	// Numerics is the nominal shot's estimated numerical error.
+	Numerics *sim.ErrorEstimate `json:"numerics_error,omitempty"`
 }

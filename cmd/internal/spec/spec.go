@@ -83,6 +83,8 @@ var keys = []key{
 		func(r *mc.Requirements, x float64) { r.AbsBiasP95MaxRad = x }},
 	{"bias.abs_p95_max_deg_per_h", 0, math.Inf(1), true, true, "the largest 95th percentile of |bias| as a rotation rate in deg/h",
 		func(r *mc.Requirements, x float64) { r.AbsBiasP95MaxDegPerH = x }},
+	{"scale_factor.abs_p95_max_ppm", 0, math.Inf(1), true, true, "the largest 95th percentile of the scale-factor error |K_shot / K - 1| in ppm",
+		func(r *mc.Requirements, x float64) { r.AbsScaleFactorP95MaxPPM = x }},
 	{"yield.min", 0, 1, true, true, "the least fraction of realisations inside the yield limits",
 		func(r *mc.Requirements, x float64) { r.YieldMin = x }},
 	{"yield.contrast_min", 0, 1, true, false, "the least contrast of a realisation inside the yield",
@@ -91,7 +93,7 @@ var keys = []key{
 		func(r *mc.Requirements, x float64) { r.Yield.MaxAbsBiasRad = x }},
 }
 
-var tables = []string{"contrast", "bias", "yield"}
+var tables = []string{"contrast", "bias", "scale_factor", "yield"}
 
 func keyNamed(name string) (key, bool) {
 	for _, k := range keys {
@@ -230,12 +232,12 @@ func (p parser) check(req mc.Requirements, given map[string]bool) error {
 		}
 		return fail(k, "%s is given without yield.min: want yield.min, the least fraction of realisations inside the yield limits, in (0, 1)", k)
 	}
-	for _, k := range []string{"contrast.mean_min", "contrast.p05_min", "bias.abs_p95_max_rad", "bias.abs_p95_max_deg_per_h", "yield.min"} {
+	for _, k := range []string{"contrast.mean_min", "contrast.p05_min", "bias.abs_p95_max_rad", "bias.abs_p95_max_deg_per_h", "scale_factor.abs_p95_max_ppm", "yield.min"} {
 		if given[k] {
 			return nil
 		}
 	}
-	return &Error{File: p.name, Err: fmt.Errorf("no criterion: give at least one of contrast.mean_min, contrast.p05_min, bias.abs_p95_max_rad, bias.abs_p95_max_deg_per_h or yield.min")}
+	return &Error{File: p.name, Err: fmt.Errorf("no criterion: give at least one of contrast.mean_min, contrast.p05_min, bias.abs_p95_max_rad, bias.abs_p95_max_deg_per_h, scale_factor.abs_p95_max_ppm or yield.min")}
 }
 
 func isTable(name string) bool {

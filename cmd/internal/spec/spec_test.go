@@ -23,6 +23,9 @@ p05_min = 0.8
 abs_p95_max_rad = 1e-3
 abs_p95_max_deg_per_h = 5   # an integer is a number too
 
+[scale_factor]
+abs_p95_max_ppm = 12.5
+
 [yield]
 min = 0.99
 contrast_min = 0.8
@@ -33,7 +36,7 @@ bias_max_rad = 2e-3
 		t.Fatal(err)
 	}
 	want := mc.Requirements{Confidence: 0.9, ContrastMeanMin: 0.9, ContrastP05Min: 0.8, AbsBiasP95MaxRad: 1e-3, AbsBiasP95MaxDegPerH: 5,
-		YieldMin: 0.99, Yield: mc.Spec{MinContrast: 0.8, MaxAbsBiasRad: 2e-3}}
+		AbsScaleFactorP95MaxPPM: 12.5, YieldMin: 0.99, Yield: mc.Spec{MinContrast: 0.8, MaxAbsBiasRad: 2e-3}}
 	if got != want {
 		t.Errorf("got %+v, want %+v", got, want)
 	}
@@ -61,7 +64,7 @@ func TestParseErrors(t *testing.T) {
 		{"unknown key", "[contrast]\np05_min = 0.9\np50_min = 0.9\n", 3, "contrast.p50_min",
 			[]string{"unknown key contrast.p50_min", "[contrast] takes mean_min, p05_min"}},
 		{"unknown top key", "contrast.p05_min = 0.9\nconfidense = 0.9\n", 2, "confidense",
-			[]string{"unknown key confidense", "confidence, [contrast], [bias], [yield]"}},
+			[]string{"unknown key confidense", "confidence, [contrast], [bias], [scale_factor], [yield]"}},
 		{"unknown table", "[phase]\nmax = 1\n", 1, "phase", []string{"unknown table [phase]"}},
 		{"unknown subtable", "[contrast.tail]\np01_min = 0.5\n", 1, "contrast.tail", []string{"unknown table [contrast.tail]: [contrast] takes mean_min, p05_min"}},
 		{"wrong type", "[contrast]\n\np05_min = \"high\"\n", 3, "contrast.p05_min",
@@ -77,7 +80,9 @@ func TestParseErrors(t *testing.T) {
 		{"yield without limits", "[yield]\nmin = 0.99\n", 2, "yield.min", []string{"needs yield.contrast_min or yield.bias_max_rad"}},
 		{"limits without yield", "[contrast]\np05_min = 0.9\n[yield]\nbias_max_rad = 1e-3\n", 4, "yield.bias_max_rad",
 			[]string{"yield.bias_max_rad is given without yield.min"}},
-		{"no criterion", "confidence = 0.9\n", 0, "", []string{"no criterion"}},
+		{"scale factor zero", "[scale_factor]\nabs_p95_max_ppm = 0\n", 2, "scale_factor.abs_p95_max_ppm", []string{"out of range", "> 0", "|K_shot / K - 1| in ppm"}},
+		{"scale factor key", "[scale_factor]\nabs_p95_max = 3\n", 2, "scale_factor.abs_p95_max", []string{"unknown key", "[scale_factor] takes abs_p95_max_ppm"}},
+		{"no criterion", "confidence = 0.9\n", 0, "", []string{"no criterion", "scale_factor.abs_p95_max_ppm"}},
 		{"empty", "", 0, "", []string{"no criterion"}},
 		{"syntax", "[contrast]\np05_min = = 0.9\n", 2, "", []string{"not valid TOML"}},
 		{"duplicate", "[contrast]\np05_min = 0.9\np05_min = 0.8\n", 3, "", []string{"not valid TOML"}},
@@ -145,6 +150,6 @@ bias_max_rad = 1e-3
 	_, err = Parse("gate.toml", []byte("[contrast]\np05_min = 90\n"))
 	fmt.Println(err)
 	// Output:
-	// {Confidence:0.95 ContrastMeanMin:0 ContrastP05Min:0.9 AbsBiasP95MaxRad:0 AbsBiasP95MaxDegPerH:0 YieldMin:0.99 Yield:{MinContrast:0 MaxAbsBiasRad:0.001} Look:0} <nil>
+	// {Confidence:0.95 ContrastMeanMin:0 ContrastP05Min:0.9 AbsBiasP95MaxRad:0 AbsBiasP95MaxDegPerH:0 AbsScaleFactorP95MaxPPM:0 YieldMin:0.99 Yield:{MinContrast:0 MaxAbsBiasRad:0.001} Look:0} <nil>
 	// spec "gate.toml" line 2: contrast.p05_min = 90 is out of range: want a number in (0, 1] for the least 5th-percentile contrast
 }

@@ -1,0 +1,63 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"reflect"
+
+	"rampart/sim"
+)
+
+// checked holds the numerics estimates this process has made, so that a
+// command running several ensembles of one configuration (tolerance: one
+// per amplitude tried) checks it once. Configurations are compared in
+// full (reflect.DeepEqual follows the ramps), so a hit is always the same
+// nominal shot.
+var checked []checkedNumerics
+
+type checkedNumerics struct {
+	cfg sim.Config
+	est sim.ErrorEstimate
+}
+
+// preflight checks the numerics of the nominal shot of cfg before an
+// ensemble of it runs: sim.EstimateError compares the shot with the same
+// shot on twice the grid and half the step (docs/model.md, Numerics). It
+// refuses, with the estimate's remedy (exit 2), when the error misses
+// sim.ContrastTarget or sim.PhaseTargetRad; what names the configuration in
+// that message (a ramp of a ranking, or the scenario).
+func preflight(what string, cfg sim.Config) (sim.ErrorEstimate, error) {
+	s, err := sim.NewSimulator(cfg)
+	if err != nil {
+		return sim.ErrorEstimate{}, fmt.Errorf("%s: %w", what, err)
+	}
+	cfg = s.Config() // with the numerics in use
+	for _, c := range checked {
+		if reflect.DeepEqual(c.cfg, cfg) {
+			return c.est, numericsRefusal(what, c.est)
+		}
+	}
+	est, err := sim.EstimateError(cfg)
+	if err != nil {
+		return est, fmt.Errorf("%s: %w", what, err)
+	}
+	checked = append(checked, checkedNumerics{cfg, est})
+	return est, numericsRefusal(what, est)
+}
+
+// numericsRefusal is the error of an estimate that misses its targets (nil if it
+// meets them).
+func numericsRefusal(what string, est sim.ErrorEstimate) error {
+	if est.Met {
+		return nil
+	}
+	return fmt.Errorf("%s: refused to run the ensemble: %s", what, est.Remedy)
+}
+
+// warnValidity writes the inputs of cfg outside the model's validity
+// (sim.Config.Warnings) to stderr, one line each.
+func warnValidity(stderr io.Writer, cfg sim.Config) {
+	for _, w := range cfg.Warnings() {
+		fmt.Fprintf(stderr, "rampart: warning: %s\n", w)
+	}
+}
