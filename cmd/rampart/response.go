@@ -35,7 +35,8 @@ type responseOptions struct {
 // defaultKernelMemoryMiB is the cap on the kernels' memory: twice the
 // estimate (sim.KernelsBytes; the Go collector may let the heap reach
 // twice the live data) must fit. 2 GiB is a tenth of this project's
-// machine and fits a sequence of about seven laps of the benchmark ring.
+// machine and fits about three laps of the benchmark ring (566 MiB at one
+// lap).
 const defaultKernelMemoryMiB = 2048
 
 // newResponseCmd returns the command; run is what it runs with the parsed
@@ -195,7 +196,7 @@ func runResponse(e env, stdout, stderr io.Writer, o responseOptions) error {
 func kernelsTooLarge(sc *scenario.Scenario, cfg sim.Config, need int64, capMiB int) error {
 	laps := sc.Motion.Laps
 	fit := math.Floor(2*laps*float64(capMiB<<20)/float64(need)) / 2
-	remedy := "no whole number of half laps fits: lower --max-hz or raise --memory-mib"
+	remedy := "even half a lap would not fit: raise --memory-mib if the machine has the memory"
 	if fit >= 0.5 {
 		remedy = fmt.Sprintf("shorten the sequence (--set motion.laps=%g should fit; the kernels' memory grows with the duration) or raise --memory-mib if the machine has the memory", fit)
 	}
