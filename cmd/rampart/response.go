@@ -124,34 +124,16 @@ func runResponse(e env, stdout, stderr io.Writer, o responseOptions) error {
 		}
 		req = &r
 	}
-	s, err := sim.NewSimulator(cfg)
-	if err != nil {
-		return fmt.Errorf("scenario %q: %w", sc.Name, err)
-	}
-	cfg = s.Config()
-	est := s.KernelsBytes(o.maxHz)
-	if need := 2 * est; need > int64(o.memoryMiB)<<20 {
-		return kernelsTooLarge(sc, cfg, need, o.memoryMiB)
-	}
-	nominal := s.Run(sim.Shot{}, nil)
-	k, err := s.Kernels(o.maxHz)
+	rep, cfg, nominal, err := computeResponse(sc, cfg, budget, req, o)
 	if err != nil {
 		return err
 	}
-	procs := budgetProcesses(k, budget)
-	pred := k.PredictProcesses(procs)
-	rep := present.NewResponseReport(sc.Name, k, nominal, procs, pred, est)
 	if o.confirm > 0 {
 		if rep.Confirm, err = confirmResponse(cfg, budget, nominal, o); err != nil {
 			return err
 		}
 		if rep.Confirm == nil {
 			fmt.Fprintln(stderr, "--confirm: the budget has no noise during the shot; nothing to confirm")
-		}
-	}
-	if req != nil {
-		if rep.Masks, err = responseMasks(k, nominal, budget, procs, *req, o); err != nil {
-			return err
 		}
 	}
 	for _, dir := range []string{o.out, o.report} {
@@ -189,6 +171,34 @@ func runResponse(e env, stdout, stderr io.Writer, o responseOptions) error {
 	}
 	present.PrintHeader(stdout, sc, cfg, ramp, budget)
 	return present.PrintResponse(stdout, rep)
+}
+
+// computeResponse computes the kernels of the scenario's nominal shot
+// (after checking their memory against the cap), the prediction for its
+// budget's noise processes and, with req, the masks.
+func computeResponse(sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req *mc.Requirements, o responseOptions) (present.ResponseReport, sim.Config, sim.Result, error) {
+	s, err := sim.NewSimulator(cfg)
+	if err != nil {
+		return present.ResponseReport{}, cfg, sim.Result{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
+	cfg = s.Config()
+	est := s.KernelsBytes(o.maxHz)
+	if need := 2 * est; need > int64(o.memoryMiB)<<20 {
+		return present.ResponseReport{}, cfg, sim.Result{}, kernelsTooLarge(sc, cfg, need, o.memoryMiB)
+	}
+	nominal := s.Run(sim.Shot{}, nil)
+	k, err := s.Kernels(o.maxHz)
+	if err != nil {
+		return present.ResponseReport{}, cfg, sim.Result{}, err
+	}
+	procs := budgetProcesses(k, budget)
+	rep := present.NewResponseReport(sc.Name, k, nominal, procs, k.PredictProcesses(procs), est)
+	if req != nil {
+		if rep.Masks, err = responseMasks(k, nominal, budget, procs, *req, o); err != nil {
+			return present.ResponseReport{}, cfg, sim.Result{}, err
+		}
+	}
+	return rep, cfg, nominal, nil
 }
 
 // kernelsTooLarge is the refusal of a sequence whose kernels would not fit
