@@ -266,7 +266,7 @@ func PrintResponse(w io.Writer, rep ResponseReport) error {
 	}
 	if rep.Masks != nil {
 		fmt.Fprintln(w)
-		return printMasks(w, rep)
+		return PrintResponseMasks(w, rep)
 	}
 	return nil
 }

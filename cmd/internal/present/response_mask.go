@@ -169,8 +169,8 @@ func maskNotes(rep ResponseReport) []string {
 	}
 }
 
-// printMasks prints the mask tables.
-func printMasks(w io.Writer, rep ResponseReport) error {
+// PrintResponseMasks prints the mask tables.
+func PrintResponseMasks(w io.Writer, rep ResponseReport) error {
 	if err := maskGrid(rep).Render(w); err != nil {
 		return err
 	}
