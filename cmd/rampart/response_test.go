@@ -36,14 +36,24 @@ func TestGoldenResponse(t *testing.T) {
 // IEEE Trans. Instrum. Meas. 57, 1141 (2008), and of Green, Uys and
 // Biercuk, New J. Phys. 15, 095004 (2013), for free evolution), to 1e-9
 // of its peak (2 pi T)^2 (the kernel is that integral's closed form summed
-// with the levels' weights, which add to 1). The same run writes --out.
+// with the levels' weights, which add to 1). The same run writes --out and
+// --report.
 func TestResponseJSON(t *testing.T) {
-	dir := t.TempDir()
-	stdout, stderr, code := execute(t, append(responseArgs, "--json", "--out", dir)...)
+	dir, rdir := t.TempDir(), t.TempDir()
+	stdout, stderr, code := execute(t, append(responseArgs, "--json", "--out", dir, "--report", rdir)...)
 	if code != 0 {
 		t.Fatalf("exit %d, stderr %q", code, stderr)
 	}
 	checkResponseOut(t, dir)
+	page, err := os.ReadFile(filepath.Join(rdir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"Noise transfer functions", `id="response-phase-common"`, `id="response-mask-phase"`, `id="drive"`, "Noise masks against spec"} {
+		if !strings.Contains(string(page), want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
 	var raw map[string]any
 	if err := json.Unmarshal([]byte(stdout), &raw); err != nil {
 		t.Fatal(err)
