@@ -300,6 +300,9 @@ func responseMasks(k *sim.Kernels, nominal sim.Result, b mc.Budget, procs []sim.
 		out.AbsBiasP95MaxRad = &crit.AbsBiasP95MaxRad
 	}
 	band := noise.Band{LowHz: 1 / k.DurationS, HighHz: k.FrequencyHz[len(k.FrequencyHz)-1]}
+	if !(band.HighHz > band.LowHz) {
+		return nil, fmt.Errorf("--max-hz %g: the kernels end at %.4g Hz, below 1/T = %.4g Hz, the lowest frequency a shot resolves; raise it for the masks", o.maxHz, band.HighHz, band.LowHz)
+	}
 	base := 10.0
 	if o.bands == "octave" {
 		base = 2
