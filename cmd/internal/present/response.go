@@ -246,7 +246,7 @@ func ResponseConfirmGrid(rep ResponseReport) *Grid {
 }
 
 // responseConfirmNote explains the Monte Carlo's statistics.
-const responseConfirmNote = "Monte Carlo: loss = C0 - mean contrast, its standard error s/sqrt(n); bias std about the nominal bias, its standard error std/sqrt(2(n-1)) (normal theory). The records are band-limited and interpolated as every ensemble draws them (their sinc^4 filter costs 0.3 % at 2 nu)."
+const responseConfirmNote = "Monte Carlo: loss = C0 - mean contrast, its standard error s/sqrt(n); bias std about the nominal bias, its standard error std/sqrt(2(n-1)) (normal theory). The records are band-limited and interpolated as every ensemble draws them (their sinc^4 filter costs 0.3 % at 2 nu), and the simulator's noise-during-cruise method is good to 2e-6 to 3e-5 in contrast (TestNoisyCruiseAccuracy): a smaller loss is not resolved by the Monte Carlo."
 
 // PrintResponse prints the kernels' summary, the prediction, the Monte
 // Carlo confirmation and the masks.
