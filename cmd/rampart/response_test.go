@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"io"
 	"math"
 	"os"
@@ -189,5 +190,76 @@ func TestResponseFlags(t *testing.T) {
 		confirm: 50, seed: 7, workers: 2, spec: "q.toml", bands: "octave", shares: []float64{0.5, 0.25, 0.25}}
 	if !reflect.DeepEqual(got, want) {
 		t.Errorf("got %+v\nwant %+v", got, want)
+	}
+}
+
+// TestGoldenResponseCheck recomputes numbers of the response golden from
+// their definitions, within the rounding of the printed digits (3
+// significant figures: 0.5 % each, so 1 % on a combination):
+//   - the phase mask in dBc/Hz is 10 log10(S/2), L(f) = S_phi(f)/2 (IEEE Std
+//     1139-2008);
+//   - the white mask is the harmonic combination of the band masks when
+//     the bands tile the white band and the same criterion binds in every
+//     one: 1/L_white = (1/n) sum_j 1/L_j for n equal shares (L_j v_j =
+//     room/n in band j, L_white sum_j v_j = room);
+//   - the total contrast loss is the sum of the channels'.
+func TestGoldenResponseCheck(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join(repoRoot, "testdata", "golden", "response-noise.txt"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := map[string][][]string{}
+	for _, line := range strings.Split(string(data), "\n") {
+		if !strings.HasPrefix(line, "| ") {
+			continue
+		}
+		var cells []string
+		for _, c := range strings.Split(strings.Trim(line, "|"), "|") {
+			cells = append(cells, strings.TrimSpace(c))
+		}
+		rows[cells[0]] = append(rows[cells[0]], cells)
+	}
+	num := func(s string) float64 {
+		t.Helper()
+		var x float64
+		if _, err := fmt.Sscan(strings.Fields(s)[0], &x); err != nil {
+			t.Fatalf("number %q: %v", s, err)
+		}
+		return x
+	}
+	phase := rows["phase"]
+	if len(phase) != 2 {
+		t.Fatalf("%d phase rows, want the white and the band mask", len(phase))
+	}
+	white, db := num(phase[0][3]), num(phase[0][4])
+	if want := 10 * math.Log10(white/2); math.Abs(db-want) > 0.05 {
+		t.Errorf("phase mask %g rad^2/Hz printed as %g dBc/Hz, want %.2f (tol 0.05 dB)", white, db, want)
+	}
+	var inv float64
+	bands := phase[1][2:]
+	for _, c := range bands {
+		if !strings.HasSuffix(c, " b") {
+			t.Fatalf("band cell %q: the check needs the bias criterion binding in every band", c)
+		}
+		inv += 1 / num(c)
+	}
+	if want := float64(len(bands)) / inv; math.Abs(white-want) > 0.01*want {
+		t.Errorf("white phase mask %g, harmonic combination of the bands %g (tol 1 %%)", white, want)
+	}
+	var loss float64
+	for _, ch := range []string{"intensity_common", "phase_common", "phase_differential"} {
+		r := rows[ch]
+		if len(r) == 0 {
+			t.Fatalf("no prediction row for %s", ch)
+		}
+		// The prediction's row ends in its Resolved cell.
+		for _, cells := range r {
+			if len(cells) == 5 && (cells[4] == "yes" || cells[4] == "no") {
+				loss += num(cells[1])
+			}
+		}
+	}
+	if total := num(rows["total"][0][1]); math.Abs(total-loss) > 0.01*loss {
+		t.Errorf("total loss %g, sum of the channels %g (tol 1 %%)", total, loss)
 	}
 }
