@@ -38,10 +38,10 @@ func TestGoldenResponse(t *testing.T) {
 // Biercuk, New J. Phys. 15, 095004 (2013), for free evolution), to 1e-9
 // of its peak (2 pi T)^2 (the kernel is that integral's closed form summed
 // with the levels' weights, which add to 1). The same run writes --out and
-// --report.
+// --report, and a 4-shot --confirm (its keys and standard errors).
 func TestResponseJSON(t *testing.T) {
 	dir, rdir := t.TempDir(), t.TempDir()
-	stdout, stderr, code := execute(t, append(responseArgs, "--json", "--out", dir, "--report", rdir)...)
+	stdout, stderr, code := execute(t, append(responseArgs, "--json", "--out", dir, "--report", rdir, "--confirm", "4")...)
 	if code != 0 {
 		t.Fatalf("exit %d, stderr %q", code, stderr)
 	}
@@ -65,6 +65,12 @@ func TestResponseJSON(t *testing.T) {
 		}
 	}
 	var rep struct {
+		Confirm *struct {
+			Samples        int     `json:"samples"`
+			ContrastLossSE float64 `json:"contrast_loss_se"`
+			BiasStdRad     float64 `json:"bias_std_rad"`
+			BiasStdSE      float64 `json:"bias_std_se"`
+		} `json:"confirm"`
 		DurationS float64 `json:"duration_s"`
 		Channels  []struct {
 			Name           string    `json:"name"`
@@ -84,6 +90,9 @@ func TestResponseJSON(t *testing.T) {
 	}
 	if err := json.Unmarshal([]byte(stdout), &rep); err != nil {
 		t.Fatal(err)
+	}
+	if c := rep.Confirm; c == nil || c.Samples != 4 || !(c.ContrastLossSE > 0) || !(c.BiasStdRad > 0) || math.Abs(c.BiasStdSE-c.BiasStdRad/math.Sqrt(6)) > 1e-12*c.BiasStdRad {
+		t.Errorf("confirm %+v: want 4 samples, positive spreads, and the bias std's s.e. std/sqrt(2 (n-1))", rep.Confirm)
 	}
 	if len(rep.Channels) != 8 {
 		t.Fatalf("%d channels, want 8", len(rep.Channels))
