@@ -374,3 +374,30 @@ func TestPredictProcesses(t *testing.T) {
 		t.Errorf("rest loss %.15g, want %.15g (tol 1e-4 relative)", rest.ContrastLoss, wantLoss)
 	}
 }
+
+// BenchmarkPredictProcesses times the prediction of a budget like the
+// noise scenario's (testdata/scenarios/noise.toml): white RIN in a band on
+// the common intensity channel and a drive phase table on the common and
+// differential phase channels, from the benchmark scenario's kernels.
+func BenchmarkPredictProcesses(b *testing.B) {
+	s, err := NewSimulator(benchConfig(b, 1))
+	if err != nil {
+		b.Fatal(err)
+	}
+	k, err := s.Kernels(0)
+	if err != nil {
+		b.Fatal(err)
+	}
+	table, err := noise.NewTable([]float64{10, 100, 1e3, 1e4, 1e5}, []float64{1e-8, 1e-9, 1e-10, 1e-11, 1e-11})
+	if err != nil {
+		b.Fatal(err)
+	}
+	lo := 1 / k.DurationS
+	ps := []Process{
+		{Name: "rin", Load: Load{IntensityCommon: 1}, PSD: noise.White{Level: noise.IntensityFromRIN(-130)}, Band: noise.Band{LowHz: lo, HighHz: 1e5}},
+		{Name: "phase", Load: PhaseLoad(0.9), PSD: table, Band: noise.Band{LowHz: lo}},
+	}
+	for b.Loop() {
+		k.PredictProcesses(ps)
+	}
+}
