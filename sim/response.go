@@ -134,7 +134,7 @@ func (k *Kernels) Channel(c Channel) *ChannelKernel {
 //	T. J. Green, H. Uys and M. J. Biercuk, "Arbitrary quantum control of
 //	qubits in the presence of universal noise", New J. Phys. 15, 095004
 //	(2013).
-//	M. E. Savard, K. M. O'Hara and J. E. Thomas, "Laser-noise-induced
+//	T. A. Savard, K. M. O'Hara and J. E. Thomas, "Laser-noise-induced
 //	heating in far-off resonance optical traps", Phys. Rev. A 56, R1095
 //	(1997).
 func (s *Simulator) Kernels(maxHz float64) (*Kernels, error) {

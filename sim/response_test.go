@@ -36,7 +36,7 @@ func bandIntegral(k *Kernels, ker []float64, lo, hi float64) float64 {
 }
 
 // TestResponseSavardRates checks the contrast kernels of noise on one arm
-// against the harmonic-trap heating rates of M. E. Savard, K. M. O'Hara
+// against the harmonic-trap heating rates of T. A. Savard, K. M. O'Hara
 // and J. E. Thomas, Phys. Rev. A 56, R1095 (1997), as the golden rule
 // gives them for the ground state (one-sided PSDs per Hz; see
 // TestHeatingHarmonicLimit):

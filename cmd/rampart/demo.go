@@ -50,8 +50,9 @@ shot of the smooth sin2 ramp, the inverse-engineered ramp and the table of an
 optimiser (optimal.csv) side by side; the three ranked under the scenario's
 noise budget on common random numbers; the winner qualified against the demo
 spec (` + demoSpec + `) on its ranking ensemble; the tolerance of every source
-of the budget for the winner; and one HTML report of it all, whose path it
-prints.`,
+of the budget for the winner; the winner's noise transfer functions and the
+intensity and drive phase noise masks of the spec; and one HTML report of it
+all, whose path it prints.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			d, err := newDemo(e, cmd.OutOrStdout())
@@ -80,12 +81,13 @@ type demo struct {
 	base   *scenario.Scenario
 
 	// filled in by the stages
-	cs      []scenario.Contestant
-	ranking present.RankReport
-	recs    [][]mc.Record
-	winner  int
-	qualify present.QualifyReport
-	tol     present.ToleranceReport
+	cs       []scenario.Contestant
+	ranking  present.RankReport
+	recs     [][]mc.Record
+	winner   int
+	qualify  present.QualifyReport
+	tol      present.ToleranceReport
+	response *present.ResponseReport
 }
 
 func newDemo(e env, out io.Writer) (*demo, error) {
@@ -99,7 +101,7 @@ func newDemo(e env, out io.Writer) (*demo, error) {
 
 // stages are the demo's steps in order.
 func (d *demo) stages() []func() error {
-	return []func() error{d.compareRamps, d.rank, d.qualifyWinner, d.tolerances, d.writeReport}
+	return []func() error{d.compareRamps, d.rank, d.qualifyWinner, d.tolerances, d.responseStage, d.writeReport}
 }
 
 // check refuses demo options that could not give an answer, before any

@@ -148,16 +148,20 @@ func (d *demo) writeReport() error {
 	if err != nil {
 		return err
 	}
+	resp, err := present.ResponseSection(*d.response)
+	if err != nil {
+		return err
+	}
 	text, err := rampart.Demo.ReadFile(demoScenario)
 	if err != nil {
 		return err
 	}
 	r := newReport(d.env, "rampart demo: which ramp, and what hardware", d.base, string(text), nil, d.opts.seed)
-	r.Sections = append(append(secs, ranked...), qual, tol)
+	r.Sections = append(append(secs, ranked...), qual, tol, resp)
 	path, err := r.Write(d.opts.report)
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(d.out, "5. The report: %s (one self-contained page; open it in a browser)\n", path)
+	fmt.Fprintf(d.out, "6. The report: %s (one self-contained page; open it in a browser)\n", path)
 	return nil
 }

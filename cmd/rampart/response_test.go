@@ -1,0 +1,274 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"reflect"
+	"strings"
+	"testing"
+)
+
+// responseArgs is the small scenario of the response tests: the noise
+// scenario (inverse ramp, RIN and a drive phase table) at half a lap,
+// against the demo's spec.
+var responseArgs = []string{"response", "--scenario", "testdata/scenarios/noise.toml", "--set", "motion.laps=0.5", "--spec", "testdata/demo/spec.toml"}
+
+// TestGoldenResponse compares the tables of response with
+// testdata/golden/response-noise.txt.
+func TestGoldenResponse(t *testing.T) {
+	stdout, stderr, code := execute(t, responseArgs...)
+	if code != 0 || stderr != "" {
+		t.Fatalf("exit %d, stderr %q", code, stderr)
+	}
+	golden(t, "response-noise.txt", stdout)
+}
+
+// TestResponseJSON checks the keys --json carries (issue 11: channels with
+// name, frequency_hz, bias_kernel, contrast_kernel; predicted with
+// contrast_loss, bias_std_rad, by_channel), that the totals are the sums
+// of the channels (losses add, variances add; tolerance 1e-12 relative),
+// and the shift channel's bias kernel against the free-evolution filter
+// function of a phase that only accumulates, |G(f)|^2 = (2 pi)^2
+// sin^2(pi f T)/(pi f)^2 for a shift in Hz (the sinc^2 of Cheinet et al.,
+// IEEE Trans. Instrum. Meas. 57, 1141 (2008), and of Green, Uys and
+// Biercuk, New J. Phys. 15, 095004 (2013), for free evolution), to 1e-9
+// of its peak (2 pi T)^2 (the kernel is that integral's closed form summed
+// with the levels' weights, which add to 1). The same run writes --out and
+// --report, and a 4-shot --confirm (its keys and standard errors).
+func TestResponseJSON(t *testing.T) {
+	dir, rdir := t.TempDir(), t.TempDir()
+	stdout, stderr, code := execute(t, append(responseArgs, "--json", "--out", dir, "--report", rdir, "--confirm", "4")...)
+	if code != 0 {
+		t.Fatalf("exit %d, stderr %q", code, stderr)
+	}
+	checkResponseOut(t, dir)
+	page, err := os.ReadFile(filepath.Join(rdir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"Noise transfer functions", `id="response-phase-common"`, `id="response-mask-phase"`, `id="drive"`, "Noise masks against spec"} {
+		if !strings.Contains(string(page), want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+	var raw map[string]any
+	if err := json.Unmarshal([]byte(stdout), &raw); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"channels", "predicted", "masks", "trap_hz", "duration_s"} {
+		if _, ok := raw[k]; !ok {
+			t.Errorf("JSON lacks %q", k)
+		}
+	}
+	var rep struct {
+		Confirm *struct {
+			Samples        int     `json:"samples"`
+			ContrastLossSE float64 `json:"contrast_loss_se"`
+			BiasStdRad     float64 `json:"bias_std_rad"`
+			BiasStdSE      float64 `json:"bias_std_se"`
+		} `json:"confirm"`
+		DurationS float64 `json:"duration_s"`
+		Channels  []struct {
+			Name           string    `json:"name"`
+			FrequencyHz    []float64 `json:"frequency_hz"`
+			BiasKernel     []float64 `json:"bias_kernel"`
+			ContrastKernel []float64 `json:"contrast_kernel"`
+		} `json:"channels"`
+		Predicted struct {
+			ContrastLoss *float64 `json:"contrast_loss"`
+			BiasStdRad   *float64 `json:"bias_std_rad"`
+			ByChannel    []struct {
+				Channel      string  `json:"channel"`
+				ContrastLoss float64 `json:"contrast_loss"`
+				BiasStdRad   float64 `json:"bias_std_rad"`
+			} `json:"by_channel"`
+		} `json:"predicted"`
+	}
+	if err := json.Unmarshal([]byte(stdout), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if c := rep.Confirm; c == nil || c.Samples != 4 || !(c.ContrastLossSE > 0) || !(c.BiasStdRad > 0) || math.Abs(c.BiasStdSE-c.BiasStdRad/math.Sqrt(6)) > 1e-12*c.BiasStdRad {
+		t.Errorf("confirm %+v: want 4 samples, positive spreads, and the bias std's s.e. std/sqrt(2 (n-1))", rep.Confirm)
+	}
+	if len(rep.Channels) != 8 {
+		t.Fatalf("%d channels, want 8", len(rep.Channels))
+	}
+	for _, c := range rep.Channels {
+		if c.Name == "" || len(c.FrequencyHz) < 2 || len(c.BiasKernel) != len(c.FrequencyHz) || len(c.ContrastKernel) != len(c.FrequencyHz) {
+			t.Errorf("channel %q: %d frequencies, %d bias and %d contrast values", c.Name, len(c.FrequencyHz), len(c.BiasKernel), len(c.ContrastKernel))
+		}
+	}
+	p := rep.Predicted
+	if p.ContrastLoss == nil || p.BiasStdRad == nil || len(p.ByChannel) != 3 {
+		t.Fatalf("predicted %+v: want contrast_loss, bias_std_rad and 3 channels (intensity_common and the two phase channels)", p)
+	}
+	var loss, v float64
+	for _, c := range p.ByChannel {
+		loss += c.ContrastLoss
+		v += c.BiasStdRad * c.BiasStdRad
+	}
+	if math.Abs(loss-*p.ContrastLoss) > 1e-12*math.Abs(loss) || math.Abs(math.Sqrt(v)-*p.BiasStdRad) > 1e-12*math.Sqrt(v) {
+		t.Errorf("totals loss %g, bias std %g; sums of the channels %g, %g (tol 1e-12 relative)", *p.ContrastLoss, *p.BiasStdRad, loss, math.Sqrt(v))
+	}
+	for _, c := range rep.Channels {
+		if c.Name != "shift_differential" {
+			continue
+		}
+		T := rep.DurationS
+		peak := math.Pow(2*math.Pi*T, 2)
+		for m, f := range c.FrequencyHz {
+			want := peak
+			if f > 0 {
+				want = math.Pow(2*math.Sin(math.Pi*f*T)/f, 2)
+			}
+			if d := math.Abs(c.BiasKernel[m] - want); d > 1e-9*peak {
+				t.Fatalf("shift kernel at %g Hz: %.10g, want %.10g (tol 1e-9 of the peak %g)", f, c.BiasKernel[m], want, peak)
+			}
+		}
+	}
+}
+
+// checkResponseOut checks the files --out wrote to dir: the kernels' CSV
+// (a row per channel and frequency), the mask's CSV and the figures.
+func checkResponseOut(t *testing.T, dir string) {
+	t.Helper()
+	for _, f := range []string{"response-kernels.csv", "response-mask.csv", "response-phase-common.svg", "response-phase-common.png", "response-mask-phase.svg"} {
+		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
+			t.Errorf("--out: %v", err)
+		}
+	}
+	data, err := os.ReadFile(filepath.Join(dir, "response-kernels.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
+	if lines[0] != "channel,unit,frequency_hz,bias_kernel,contrast_kernel" || (len(lines)-1)%8 != 0 {
+		t.Errorf("kernels CSV: header %q and %d rows, want a row per channel (8) and frequency", lines[0], len(lines)-1)
+	}
+}
+
+// TestResponseRefused checks that a sequence whose kernels would not fit
+// the memory cap is refused before anything is computed, with the remedy,
+// and the other bad options: exit 2, one line, nothing written.
+func TestResponseRefused(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "out")
+	for _, row := range []struct {
+		name string
+		args []string
+		msg  []string
+	}{
+		// 100 laps of the benchmark ring: about 72 GiB with the headroom.
+		{"100 laps", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--set", "motion.laps=100", "--out", out},
+			[]string{"100 laps", "more than --memory-mib 2048", "--set motion.laps=", "raise --memory-mib"}},
+		{"small cap", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--memory-mib", "16", "--out", out},
+			[]string{"more than --memory-mib 16", "even half a lap would not fit"}},
+		{"confirm 1", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--confirm", "1"}, []string{"--confirm 1: need 0 (none) or from 2"}},
+		{"bands", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--bands", "third"}, []string{`--bands "third": want decade or octave`}},
+		{"shares without spec", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--band-share", "0.5,0.5"}, []string{"--band-share needs --spec"}},
+	} {
+		stdout, stderr, code := execute(t, row.args...)
+		if code != 2 || stdout != "" || strings.Count(stderr, "\n") != 1 {
+			t.Errorf("%s: exit %d, stdout %q, stderr %q: want 2, nothing, one line", row.name, code, stdout, stderr)
+		}
+		for _, m := range row.msg {
+			if !strings.Contains(stderr, m) {
+				t.Errorf("%s: stderr %q lacks %q", row.name, stderr, m)
+			}
+		}
+		if entries, _ := os.ReadDir(dir); len(entries) != 0 {
+			t.Errorf("%s: left %v behind", row.name, entries)
+		}
+	}
+}
+
+// TestResponseFlags checks the parsing of response's flags apart from
+// running.
+func TestResponseFlags(t *testing.T) {
+	var got responseOptions
+	cmd := newResponseCmd(env{}, func(_ env, _, _ io.Writer, o responseOptions) error { got = o; return nil })
+	if err := parse(t, cmd, "--scenario", "s.toml", "--set", "motion.laps=2", "--json", "--out", "D", "--report", "R", "--max-hz", "5e4",
+		"--memory-mib", "512", "--confirm", "50", "--seed", "7", "--workers", "2", "--spec", "q.toml", "--bands", "octave", "--band-share", "0.5,0.25,0.25"); err != nil {
+		t.Fatal(err)
+	}
+	want := responseOptions{scenario: "s.toml", sets: []string{"motion.laps=2"}, json: true, out: "D", report: "R", maxHz: 5e4, memoryMiB: 512,
+		confirm: 50, seed: 7, workers: 2, spec: "q.toml", bands: "octave", shares: []float64{0.5, 0.25, 0.25}}
+	if !reflect.DeepEqual(got, want) {
+		t.Errorf("got %+v\nwant %+v", got, want)
+	}
+}
+
+// TestGoldenResponseCheck recomputes numbers of the response golden from
+// their definitions, within the rounding of the printed digits (3
+// significant figures: 0.5 % each, so 1 % on a combination):
+//   - the phase mask in dBc/Hz is 10 log10(S/2), L(f) = S_phi(f)/2 (IEEE Std
+//     1139-2008);
+//   - the white mask is the harmonic combination of the band masks when
+//     the bands tile the white band and the same criterion binds in every
+//     one: 1/L_white = (1/n) sum_j 1/L_j for n equal shares (L_j v_j =
+//     room/n in band j, L_white sum_j v_j = room);
+//   - the total contrast loss is the sum of the channels'.
+func TestGoldenResponseCheck(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join(repoRoot, "testdata", "golden", "response-noise.txt"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := map[string][][]string{}
+	for _, line := range strings.Split(string(data), "\n") {
+		if !strings.HasPrefix(line, "| ") {
+			continue
+		}
+		var cells []string
+		for _, c := range strings.Split(strings.Trim(line, "|"), "|") {
+			cells = append(cells, strings.TrimSpace(c))
+		}
+		rows[cells[0]] = append(rows[cells[0]], cells)
+	}
+	num := func(s string) float64 {
+		t.Helper()
+		var x float64
+		if _, err := fmt.Sscan(strings.Fields(s)[0], &x); err != nil {
+			t.Fatalf("number %q: %v", s, err)
+		}
+		return x
+	}
+	phase := rows["phase"]
+	if len(phase) != 2 {
+		t.Fatalf("%d phase rows, want the white and the band mask", len(phase))
+	}
+	white, db := num(phase[0][3]), num(phase[0][4])
+	if want := 10 * math.Log10(white/2); math.Abs(db-want) > 0.05 {
+		t.Errorf("phase mask %g rad^2/Hz printed as %g dBc/Hz, want %.2f (tol 0.05 dB)", white, db, want)
+	}
+	var inv float64
+	bands := phase[1][2:]
+	for _, c := range bands {
+		if !strings.HasSuffix(c, " b") {
+			t.Fatalf("band cell %q: the check needs the bias criterion binding in every band", c)
+		}
+		inv += 1 / num(c)
+	}
+	if want := float64(len(bands)) / inv; math.Abs(white-want) > 0.01*want {
+		t.Errorf("white phase mask %g, harmonic combination of the bands %g (tol 1 %%)", white, want)
+	}
+	var loss float64
+	for _, ch := range []string{"intensity_common", "phase_common", "phase_differential"} {
+		r := rows[ch]
+		if len(r) == 0 {
+			t.Fatalf("no prediction row for %s", ch)
+		}
+		// The prediction's row ends in its Resolved cell.
+		for _, cells := range r {
+			if len(cells) == 5 && (cells[4] == "yes" || cells[4] == "no") {
+				loss += num(cells[1])
+			}
+		}
+	}
+	if total := num(rows["total"][0][1]); math.Abs(total-loss) > 0.01*loss {
+		t.Errorf("total loss %g, sum of the channels %g (tol 1 %%)", total, loss)
+	}
+}
