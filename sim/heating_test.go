@@ -41,7 +41,7 @@ func latticeEnergy(f *field, rot, v0 float64) float64 {
 
 // TestHeatingHarmonicLimit checks the ensemble heating of the ground state
 // of a deep lattice under intensity noise and under lattice-angle noise
-// against the harmonic-trap rates of M. E. Savard, K. M. O'Hara and
+// against the harmonic-trap rates of T. A. Savard, K. M. O'Hara and
 // J. E. Thomas, Phys. Rev. A 56, R1095 (1997), with one-sided PSDs per Hz:
 //
 //	intensity: d<E>/dt = Gamma <E>,  Gamma = pi^2 nu^2 S_eps(2 nu)
