@@ -57,3 +57,22 @@ func TestDemoGolden(t *testing.T) {
 		}
 	}
 }
+
+// TestDemoDefaultsDecide checks that the demo's default options pass its own
+// check: the README's first command runs with no flags.
+func TestDemoDefaultsDecide(t *testing.T) {
+	d, err := newDemo(env{}, io.Discard)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cmd := newDemoCmd(env{})
+	if err := cmd.ParseFlags(nil); err != nil {
+		t.Fatal(err)
+	}
+	if v, err := cmd.Flags().GetInt("tolerance-samples"); err != nil || v != d.opts.toleranceSamples {
+		t.Fatalf("--tolerance-samples default %d (%v), newDemo's %d", v, err, d.opts.toleranceSamples)
+	}
+	if err := d.check(); err != nil {
+		t.Errorf("the demo's defaults are refused: %v", err)
+	}
+}
