@@ -218,13 +218,15 @@ func (d *SensitivityDesign) Indices(recs []Record, confidence float64) (SobolRes
 //	C'  = (C(+h) - C(-h)) / (2h),      C'' = (C(+h) - 2 C(0) + C(-h)) / h^2,
 //
 // and likewise for the bias b (differences wrapped to (-pi, pi]). Contrast
-// is usually at a maximum at nominal, where C' ~ 0 and C” h^2 / 2 is the
-// loss of a one-step error.
+// is usually at a maximum at nominal, where C' ~ 0 and C'' h^2 / 2 is the
+// loss of a one-step error. h and the derivatives are in the lab unit of
+// the parameter's source (Unit, the unit of its tolerance), so that C' is
+// per ns of skew and C'' per nK^2 of temperature.
 type Derivative struct {
 	Input string `json:"input"` // a Param name
-	// StepSI is h, the parameter's standard deviation in the budget, in its
-	// SI unit (relative, s or K).
-	StepSI         float64 `json:"step_si"`
+	// Step is h, the parameter's standard deviation in the budget, in Unit.
+	Step           float64 `json:"step"`
+	Unit           string  `json:"unit"`
 	Contrast       float64 `json:"dcontrast"`
 	ContrastSecond float64 `json:"d2contrast"`
 	BiasRad        float64 `json:"dbias_rad"`
@@ -233,7 +235,7 @@ type Derivative struct {
 
 // LocalDerivatives returns the derivatives of contrast and bias of a single
 // shot with respect to each active static parameter of r's budget, per unit
-// of the parameter's SI unit, at the nominal shot (every other parameter
+// of the parameter's lab unit, at the nominal shot (every other parameter
 // zero, no noise during the shot). The step is one budget standard
 // deviation: a secant over the scale the ensemble explores rather than a
 // tangent, which is what matters for a budget and is well clear of the
@@ -255,8 +257,9 @@ func LocalDerivatives(r *Realiser) []Derivative {
 			continue
 		}
 		plus, minus := shot(k, 1), shot(k, -1)
-		h := p.Sigma
-		d := Derivative{Input: p.Name, StepSI: h}
+		src, _ := InputSource(p.Name)
+		h := src.Scale * p.Sigma
+		d := Derivative{Input: p.Name, Step: h, Unit: src.Unit}
 		d.Contrast = (plus.Contrast - minus.Contrast) / (2 * h)
 		d.ContrastSecond = (plus.Contrast - 2*nominal.Contrast + minus.Contrast) / (h * h)
 		d.BiasRad = sim.Wrap(plus.BiasRad-minus.BiasRad) / (2 * h)

@@ -45,33 +45,33 @@ func TestToleranceMonotone(t *testing.T) {
 	if calls[0].DepthCommonRel != RefDepthRel {
 		t.Errorf("first amplitude: got %v, want the reference %v", calls[0].DepthCommonRel, RefDepthRel)
 	}
-	if res.Unit != "%" || res.Nominal != nil || res.Metric != CriterionContrastP05 || !res.Monotone {
-		t.Errorf("row %+v: want unit %%, no nominal, metric %s, monotone", res, CriterionContrastP05)
+	if res.Unit != Relative || res.Nominal != nil || res.Metric != CriterionContrastP05 || !res.Monotone {
+		t.Errorf("row %+v: want unit relative, no nominal, metric %s, monotone", res, CriterionContrastP05)
 	}
 	tol, ok := res.Tolerance()
 	if !ok {
 		t.Fatalf("no tolerance: %+v", res)
 	}
 	se := math.Sqrt(0.05*0.95) / (0.029819 * math.Sqrt(n))
-	want := 100 * math.Sqrt(0.1/(1000*(3.841459+1.6449*se)))
+	want := math.Sqrt(0.1 / (1000 * (3.841459 + 1.6449*se)))
 	if rel := 3*se/3.841459/2 + precision; math.Abs(tol-want) > rel*want {
-		t.Errorf("tolerance: got %v %%, want %v %% (rel tol %.3g)", tol, want, rel)
+		t.Errorf("tolerance: got %v, want %v (rel tol %.3g)", tol, want, rel)
 	}
 	for i, p := range res.Points {
 		if i > 0 && !(p.Amplitude > res.Points[i-1].Amplitude) {
 			t.Errorf("points not in increasing amplitude: %v then %v", res.Points[i-1].Amplitude, p.Amplitude)
 		}
 		if i > 0 && p.Value > res.Points[i-1].Value {
-			t.Errorf("p05 rises with amplitude at %v %%: %v after %v", p.Amplitude, p.Value, res.Points[i-1].Value)
+			t.Errorf("p05 rises with amplitude at %v: %v after %v", p.Amplitude, p.Value, res.Points[i-1].Value)
 		}
 		if p.Envelope != (Interval{Value: p.Value, Lo: p.Lo, Hi: p.Hi}) {
-			t.Errorf("monotone curve at %v %%: envelope %+v differs from the point %v [%v, %v]", p.Amplitude, p.Envelope, p.Value, p.Lo, p.Hi)
+			t.Errorf("monotone curve at %v: envelope %+v differs from the point %v [%v, %v]", p.Amplitude, p.Envelope, p.Value, p.Lo, p.Hi)
 		}
 		if p.Holds != (p.Amplitude <= tol) {
-			t.Errorf("point %v %% holds = %v with tolerance %v %%", p.Amplitude, p.Holds, tol)
+			t.Errorf("point %v holds = %v with tolerance %v", p.Amplitude, p.Holds, tol)
 		}
 	}
-	consistent(t, s, eval, tol/100, func(a float64) Budget { return Budget{DepthCommonRel: a} }, precision)
+	consistent(t, s, eval, tol, func(a float64) Budget { return Budget{DepthCommonRel: a} }, precision)
 }
 
 // consistent checks the promise of a tolerance a: the spec holds at a and
@@ -237,7 +237,7 @@ func TestToleranceEnds(t *testing.T) {
 		firstAmp float64
 	}{
 		// Capped at 30 %, below 1000 x the 1 % reference: 1, 4, 16, 30 %.
-		{"above range", Budget{}, SourcePulse, always(true), ToleranceAboveRange, "%", 30, 4, 1},
+		{"above range", Budget{}, SourcePulse, always(true), ToleranceAboveRange, Relative, 0.3, 4, 0.01},
 		// The scale of a table: 1, 4, ..., 256, then 1000.
 		{"table", Budget{Phase: table}, SourcePhase, always(true), ToleranceAboveRange, "x rms", 1000, 6, 1},
 		{"fails without", Budget{}, ParamSkew, always(false), ToleranceNone, "ns", 0, 1, 10},
@@ -389,5 +389,5 @@ func ExampleToleranceSearch() {
 	}
 	tol, _ := res.Tolerance()
 	fmt.Printf("%s: %.3g %s (%s, budget %g %s), p95 |bias| %.3g rad\n", res.Source, tol, res.Unit, res.Status, *res.Nominal, res.Unit, res.At.Value)
-	// Output: skew_s: 4.82 ns (found, budget 50 ns), p95 |bias| 0.000967 rad
+	// Output: timing.skew_ns: 4.82 ns (found, budget 50 ns), p95 |bias| 0.000967 rad
 }

@@ -133,7 +133,7 @@ func toleranceFigures(rep ToleranceReport) ([]namedFigure, error) {
 			return nil, fmt.Errorf("figure of the tolerance of %s: %w", res.Source, err)
 		}
 		caption := fmt.Sprintf("The binding criterion %s against the amplitude of %s (%s), with its one-sided bounds, the spec limit and the tolerance.", res.Metric, res.Source, res.Unit)
-		out = append(out, namedFigure{name: "tolerance-" + res.Source, caption: caption, fig: fig})
+		out = append(out, namedFigure{name: "tolerance-" + strings.ReplaceAll(res.Source, ".", "-"), caption: caption, fig: fig})
 	}
 	return out, nil
 }
