@@ -218,10 +218,10 @@ func (d *SensitivityDesign) Indices(recs []Record, confidence float64) (SobolRes
 //	C'  = (C(+h) - C(-h)) / (2h),      C'' = (C(+h) - 2 C(0) + C(-h)) / h^2,
 //
 // and likewise for the bias b (differences wrapped to (-pi, pi]). Contrast
-// is usually at a maximum at nominal, where C' ~ 0 and C'' h^2 / 2 is the
+// is usually at a maximum at nominal, where C' ~ 0 and C” h^2 / 2 is the
 // loss of a one-step error. h and the derivatives are in the lab unit of
 // the parameter's source (Unit, the unit of its tolerance), so that C' is
-// per ns of skew and C'' per nK^2 of temperature.
+// per ns of skew and C” per nK^2 of temperature.
 type Derivative struct {
 	Input string `json:"input"` // a Param name
 	// Step is h, the parameter's standard deviation in the budget, in Unit.
