@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"slices"
+	"strings"
 
 	"rampart/sim"
 	"rampart/stats"
@@ -62,7 +63,11 @@ func NewSensitivityDesign(r *Realiser, n int) (*SensitivityDesign, error) {
 		d.coord = append(d.coord, coordPhase)
 	}
 	if len(d.inputs) == 0 {
-		return nil, fmt.Errorf("sensitivity of a budget with no active noise source")
+		var keys []string
+		for _, s := range Sources {
+			keys = append(keys, s.Scenario)
+		}
+		return nil, fmt.Errorf("the noise budget has no active source, so there is no spread to apportion: set one or more of %s in the scenario or with --set (such as --set %s=10)", strings.Join(keys, ", "), mustSource(ParamSkew).Scenario)
 	}
 	base := &sensitivityBase{ds: ds, dd: len(d.inputs) - ds, n: n}
 	if ds > 0 {

@@ -43,6 +43,9 @@ func runRamp(stdout, stderr io.Writer, o rampOptions) error {
 	if err != nil {
 		return err
 	}
+	if err := checkNotInput("--out", o.out, sc.Inputs()); err != nil {
+		return err
+	}
 	if o.out != "" {
 		n := 0
 		if err := atomicfile.Write(o.out, func(w io.Writer) (err error) {

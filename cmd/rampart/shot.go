@@ -60,6 +60,9 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 	if err != nil {
 		return err
 	}
+	if err := checkNotInput("--trace", o.trace, sc.Inputs()); err != nil {
+		return err
+	}
 	ro, err := o.readout.of(sc)
 	if err != nil {
 		return err
