@@ -154,13 +154,20 @@ const (
 	RefPhaseDBcPerHz = -120
 )
 
+// DrawSigmas is how many standard deviations a static draw may reach and
+// still be physical: a scenario whose DrawSigmas-sigma draw is not (a
+// negative lattice depth) is refused. A normal draw passes 5 sigma once
+// in 1.7 million.
+const DrawSigmas = 5
+
 // The largest amplitudes a search tries, whatever its Range: beyond them a
 // static error is no longer a small perturbation of the sequence.
 const (
-	maxRelativeSigma = 0.3   // relative depth and pulse area errors
-	maxRateSigma     = 0.1   // clock and drive-frequency errors, 1e5 ppm
-	maxSkewS         = 10e-6 // a tenth of a typical ramp
-	maxTemperatureK  = 1e-6  // far above a lattice-loaded start
+	maxDepthSigma    = 1.0 / DrawSigmas // a 5-sigma draw reaches zero depth
+	maxRelativeSigma = 0.3              // pulse area errors
+	maxRateSigma     = 0.1              // clock and drive-frequency errors, 1e5 ppm
+	maxSkewS         = 10e-6            // a tenth of a typical ramp
+	maxTemperatureK  = 1e-6             // far above a lattice-loaded start
 )
 
 // relative is the SI unit of a relative error.
@@ -185,7 +192,7 @@ var Sources = []Source{
 		Unit: Relative, Scale: 1, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthCommon},
 		Sigma: func(b *Budget) *float64 { return &b.DepthCommonRel },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.DepthRel[0] += v; sh.DepthRel[1] += v },
-		Ref:   RefDepthRel, Max: maxRelativeSigma,
+		Ref:   RefDepthRel, Max: maxDepthSigma,
 		Line: "depth {} common", Reference: model + "lattice depth",
 	},
 	{
@@ -194,7 +201,7 @@ var Sources = []Source{
 		Unit: Relative, Scale: 1, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthDifferential},
 		Sigma: func(b *Budget) *float64 { return &b.DepthDifferentialRel },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.DepthRel[0] += v / 2; sh.DepthRel[1] -= v / 2 },
-		Ref:   RefDepthRel, Max: maxRelativeSigma,
+		Ref:   RefDepthRel, Max: maxDepthSigma,
 		Line: "{} differential", Reference: model + "lattice depth",
 	},
 	{

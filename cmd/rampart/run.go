@@ -111,6 +111,9 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	}
 	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, present.Describe(sc, run.realiser.Config(), run.realiser.Config().Sequence.Up.Name()+" ramp"))
 	fmt.Fprintf(stdout, "Noise budget: %s\n", present.BudgetLine(budget))
+	if note := present.ClampNote(run.realiser.Config(), budget); note != "" {
+		fmt.Fprintln(stdout, note)
+	}
 	fmt.Fprintf(stdout, "%s\n\n", present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed))
 	if err := present.PrintSummary(stdout, sum); err != nil {
 		return err

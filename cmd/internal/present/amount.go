@@ -1,6 +1,12 @@
 package present
 
-import "rampart/mc"
+import (
+	"fmt"
+	"math"
+
+	"rampart/mc"
+	"rampart/sim"
+)
 
 // Amount formats a static source's SI amplitude in its lab unit, "20 ns".
 // A relative error (the scenario's "_rel" keys, a fraction) reads as a
@@ -21,4 +27,18 @@ func Amount(s mc.Source, si float64) string {
 	default:
 		return Sig(1e9*v, 3) + " ppb"
 	}
+}
+
+// ClampNote says how often a shot's start temperature is drawn below 0 K
+// and clamped there (docs/model.md, Perturbations: the start temperature
+// T + dT is clamped at 0), when that lies within mc.DrawSigmas
+// standard deviations; "" otherwise. The probability is Phi(-T/sigma) =
+// erfc(T / (sigma sqrt 2)) / 2.
+func ClampNote(cfg sim.Config, b mc.Budget) string {
+	s, t := b.TemperatureSpreadK, cfg.TemperatureK
+	if !(s > 0) || t > mc.DrawSigmas*s {
+		return ""
+	}
+	p := math.Erfc(t/(s*math.Sqrt2)) / 2
+	return fmt.Sprintf("Temperature draws below 0 K (start %s nK, spread %s nK: probability %s per shot) are clamped at 0 K.", Sig(t*1e9, 3), Sig(s*1e9, 3), Sig(p, 2))
 }

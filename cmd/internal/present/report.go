@@ -61,7 +61,11 @@ func writeFigures(dir string, nfs []namedFigure) error {
 // with ramp naming the ramp, and its noise budget) and then how, in lines
 // such as the ensemble's: what the terminal shows above a command's tables.
 func SetupText(sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget, lines ...string) string {
-	paragraphs := append([]string{Describe(sc, cfg, ramp), "Noise budget: " + BudgetLine(b)}, lines...)
+	budget := "Noise budget: " + BudgetLine(b)
+	if note := ClampNote(cfg, b); note != "" {
+		budget += ". " + strings.TrimSuffix(note, ".")
+	}
+	paragraphs := append([]string{Describe(sc, cfg, ramp), budget}, lines...)
 	return strings.Join(paragraphs, ".\n\n") + "."
 }
 
@@ -220,6 +224,9 @@ func EnsembleSection(heading, idPrefix string, sum mc.Summary, recs []mc.Record,
 func PrintHeader(w io.Writer, sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget, lines ...string) {
 	fmt.Fprintf(w, "Scenario %s\n%s\n", sc.Name, Describe(sc, cfg, ramp))
 	fmt.Fprintf(w, "Noise budget: %s\n", BudgetLine(b))
+	if note := ClampNote(cfg, b); note != "" {
+		fmt.Fprintln(w, note)
+	}
 	for _, line := range lines {
 		fmt.Fprintln(w, line)
 	}

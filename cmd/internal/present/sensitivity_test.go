@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"rampart/mc"
+	"rampart/sim"
 )
 
 // TestFixedNoNegativeZero checks that a value rounding to zero prints
@@ -77,6 +78,25 @@ func TestAmount(t *testing.T) {
 	} {
 		if got := Amount(c.s, c.si); got != c.want {
 			t.Errorf("Amount(%s, %g) = %q, want %q", c.s.Key, c.si, got, c.want)
+		}
+	}
+}
+
+// TestClampNote checks the note on temperature draws clamped at 0 K: the
+// probability of a draw below 0 K is Phi(-T/sigma) (Phi(-4) = 3.167e-05,
+// Abramowitz & Stegun, Handbook of Mathematical Functions, table 26.1),
+// and there is no note when 0 K lies beyond 5 sigma.
+func TestClampNote(t *testing.T) {
+	for _, c := range []struct {
+		tK, sK float64
+		want   string
+	}{
+		{20e-9, 5e-9, "Temperature draws below 0 K (start 20 nK, spread 5 nK: probability 3.2e-05 per shot) are clamped at 0 K."},
+		{20e-9, 3.9e-9, ""}, // 0 K is 5.1 sigma away
+		{20e-9, 0, ""},
+	} {
+		if got := ClampNote(sim.Config{TemperatureK: c.tK}, mc.Budget{TemperatureSpreadK: c.sK}); got != c.want {
+			t.Errorf("ClampNote(T %g, sigma %g) = %q, want %q", c.tK, c.sK, got, c.want)
 		}
 	}
 }
