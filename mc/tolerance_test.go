@@ -220,6 +220,14 @@ func TestToleranceEnds(t *testing.T) {
 		}
 		return 1, 0
 	}, nil)
+	// Off: mean contrast 0.905 with sd 0.05, undecided against 0.9 with 20
+	// realisations (standard error 0.011); on: 0.5, failing.
+	undecidedOff := evaluatorOf(20, func(b Budget, z1, _ float64) (float64, float64) {
+		if b.SkewS > 0 {
+			return 0.5, 0
+		}
+		return 0.905 + 0.05*z1, 0
+	}, nil)
 	table, err := noise.NewTable([]float64{1, 1e3}, []float64{1e-10, 1e-12})
 	if err != nil {
 		t.Fatal(err)
@@ -241,6 +249,7 @@ func TestToleranceEnds(t *testing.T) {
 		// The scale of a table: 1, 4, ..., 256, then 1000.
 		{"table", Budget{Phase: table}, SourcePhase, always(true), ToleranceAboveRange, "x rms", 1000, 6, 1},
 		{"fails without", Budget{}, ParamSkew, always(false), ToleranceNone, "ns", 0, 1, 10},
+		{"undecided without", Budget{}, ParamSkew, undecidedOff, ToleranceUndecided, "ns", 0, 1, 10},
 		// 10 ns down by 4 to the bound 10 ns / 1000.
 		{"below range", Budget{}, ParamSkew, onlyOff, ToleranceBelowRange, "ns", 0, 6, 0.01},
 	} {
@@ -257,6 +266,14 @@ func TestToleranceEnds(t *testing.T) {
 			}
 			if len(res.Points) != tt.npoints || math.Abs(res.Points[0].Amplitude-tt.firstAmp) > tol*tt.firstAmp {
 				t.Errorf("got %d points from %v, want %d from %v", len(res.Points), res.Points[0].Amplitude, tt.npoints, tt.firstAmp)
+			}
+			// The evaluation with the source off is kept when the start failed.
+			searchedOff := tt.status != ToleranceAboveRange
+			if (res.Off != nil) != searchedOff || searchedOff && (res.Off.Amplitude != 0 || res.Off.Holds != (tt.status == ToleranceBelowRange) || res.Off.Value != res.Off.Criteria[0].Value) {
+				t.Errorf("off point %+v: want one at amplitude 0 holding only below range: %v", res.Off, searchedOff)
+			}
+			if extra := res.OffExtra(); (extra > 0) != (tt.status == ToleranceUndecided) {
+				t.Errorf("%d more realisations to decide the source off, want some only when undecided", extra)
 			}
 		})
 	}
