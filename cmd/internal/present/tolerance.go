@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"rampart/cmd/internal/plots"
@@ -61,8 +62,12 @@ func ToleranceGrid(rep ToleranceReport) *Grid {
 // ToleranceNotes explain the tolerance table: what a tolerance is, and
 // the statuses and marks it shows.
 func ToleranceNotes(rep ToleranceReport) []string {
+	each := "Each tolerance holds with every other source at its value in the budget."
+	if slices.ContainsFunc(rep.Results, func(r mc.ToleranceResult) bool { return r.Source == mc.SourceBudget }) {
+		each = "Each tolerance holds with every other source at its value in the budget; budget is the factor by which the whole budget may be scaled."
+	}
 	out := []string{
-		"Each tolerance holds with every other source at its value in the budget; budget is the factor by which the whole budget may be scaled.",
+		each,
 		fmt.Sprintf("The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.", Sig(rep.Results[0].Precision, 3)),
 	}
 	statuses := map[mc.ToleranceStatus]bool{}

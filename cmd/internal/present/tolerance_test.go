@@ -1,6 +1,7 @@
 package present
 
 import (
+	"encoding/json"
 	"slices"
 	"strings"
 	"testing"
@@ -70,6 +71,53 @@ func TestToleranceNotesSampling(t *testing.T) {
 		}
 		if c.not != "" && strings.Contains(notes, c.not) {
 			t.Errorf("%s: notes hold %q:\n%s", c.name, c.not, notes)
+		}
+	}
+}
+
+// TestReadoutKeysAgree checks that shot --json and the ensembles' JSON
+// (rank, qualify, run) name the read-out figures with the same keys.
+func TestReadoutKeysAgree(t *testing.T) {
+	keys := func(v any) []string {
+		b, err := json.Marshal(v)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var m map[string]any
+		if err := json.Unmarshal(b, &m); err != nil {
+			t.Fatal(err)
+		}
+		var out []string
+		for k := range m {
+			out = append(out, k)
+		}
+		slices.Sort(out)
+		return out
+	}
+	shot, ens := keys(ReadoutReport{}), keys(mc.Gyro{})
+	for _, k := range []string{"atoms", "cycle_s", "projection_noise_rad_s", "projection_noise_deg_per_h", "angle_random_walk_deg_per_sqrt_h"} {
+		if !slices.Contains(shot, k) || !slices.Contains(ens, k) {
+			t.Errorf("key %s: shot has %v, the ensembles %v; want it in both", k, shot, ens)
+		}
+	}
+}
+
+// TestToleranceNotesBudgetRow checks that the note on the budget row
+// appears only when the table has one (tolerance --joint).
+func TestToleranceNotesBudgetRow(t *testing.T) {
+	row := func(source string) mc.ToleranceResult {
+		return mc.ToleranceResult{Source: source, Status: mc.ToleranceFound, Monotone: true}
+	}
+	for _, c := range []struct {
+		results []mc.ToleranceResult
+		want    bool
+	}{
+		{[]mc.ToleranceResult{row(mc.ParamSkew)}, false},
+		{[]mc.ToleranceResult{row(mc.ParamSkew), row(mc.SourceBudget)}, true},
+	} {
+		notes := strings.Join(ToleranceNotes(ToleranceReport{Results: c.results}), "\n")
+		if got := strings.Contains(notes, "budget is the factor"); got != c.want {
+			t.Errorf("%d rows: budget note %v, want %v:\n%s", len(c.results), got, c.want, notes)
 		}
 	}
 }
