@@ -64,7 +64,7 @@ prints.`,
 	}
 	f := cmd.Flags()
 	f.IntVar(&o.samples, "samples", 200, "realisations `N` per ramp in the ranking")
-	f.IntVar(&o.toleranceSamples, "tolerance-samples", 64, "realisations `N` per amplitude in the tolerance search")
+	f.IntVar(&o.toleranceSamples, "tolerance-samples", 80, "realisations `N` per amplitude in the tolerance search")
 	f.Uint64Var(&o.seed, "seed", 1, "seed `S` of every ensemble")
 	f.IntVar(&o.workers, "workers", 0, "worker goroutines `W` (0: one per core)")
 	f.StringVar(&o.report, "report", "rampart-demo", "write the report to `DIR`/report.html")
@@ -94,7 +94,7 @@ func newDemo(e env, out io.Writer) (*demo, error) {
 		return nil, err
 	}
 	return &demo{env: e, out: out, stderr: io.Discard, base: sc,
-		opts: demoOptions{samples: 200, toleranceSamples: 64, seed: 1, report: "rampart-demo"}}, nil
+		opts: demoOptions{samples: 200, toleranceSamples: 80, seed: 1, report: "rampart-demo"}}, nil
 }
 
 // stages are the demo's steps in order.

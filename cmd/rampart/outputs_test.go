@@ -1,6 +1,8 @@
 package main
 
 import (
+	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -59,5 +61,22 @@ func TestOutputsCheckedFirst(t *testing.T) {
 	}
 	if entries, _ := os.ReadDir(unrelated); len(entries) != 1 {
 		t.Errorf("the unrelated directory now holds %d entries, want its 1", len(entries))
+	}
+}
+
+// TestDemoDefaultsPass checks that the demo's default options pass its own
+// check: rampart demo with no flags used to refuse its default of 64
+// tolerance realisations, below the 69 the demo spec needs.
+func TestDemoDefaultsPass(t *testing.T) {
+	t.Chdir(repoRoot)
+	d, err := newDemo(env{now: fakeClock()}, io.Discard)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := d.check(); err != nil {
+		t.Errorf("default demo options: %v", err)
+	}
+	if def := newDemoCmd(env{now: fakeClock()}).Flags().Lookup("tolerance-samples").DefValue; def != fmt.Sprint(d.opts.toleranceSamples) {
+		t.Errorf("--tolerance-samples defaults to %s, the demo's options to %d: want one default", def, d.opts.toleranceSamples)
 	}
 }
