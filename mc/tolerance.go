@@ -152,6 +152,27 @@ type ToleranceSearch struct {
 	// Seed seeds the bootstrap of every qualification.
 	Seed    uint64
 	Options ToleranceOptions
+	// StartTemperatureK is the ensemble's start temperature. The search
+	// takes the temperature spread (alone or with the budget) no further
+	// than it: beyond, more than one draw in six would lie below 0 K and be
+	// clamped there, and a scenario refuses such a spread. Zero (a
+	// ground-state start): no cap but the source's Max.
+	StartTemperatureK float64
+}
+
+// capTemperature lowers the largest amplitude of src, the axis of the
+// named source, so that the temperature spread stays at most the start
+// temperature.
+func (s ToleranceSearch) capTemperature(src source, name string) source {
+	t := s.StartTemperatureK
+	switch {
+	case !(t > 0):
+	case name == SourceTemperature:
+		src.max = math.Min(src.max, t)
+	case name == SourceBudget && s.Budget.TemperatureSpreadK > 0:
+		src.max = math.Min(src.max, t/s.Budget.TemperatureSpreadK)
+	}
+	return src
 }
 
 // Source searches the tolerance of the named source, one of Sources.
@@ -163,7 +184,7 @@ func (s ToleranceSearch) Source(ctx context.Context, eval Evaluator, name string
 	if err != nil {
 		return ToleranceResult{}, err
 	}
-	return s.search(ctx, eval, src)
+	return s.search(ctx, eval, s.capTemperature(src, name))
 }
 
 // Joint searches the largest factor k by which the whole budget can be
@@ -174,7 +195,7 @@ func (s ToleranceSearch) Joint(ctx context.Context, eval Evaluator) (ToleranceRe
 	if err != nil {
 		return ToleranceResult{}, err
 	}
-	return s.search(ctx, eval, src)
+	return s.search(ctx, eval, s.capTemperature(src, SourceBudget))
 }
 
 // All searches the tolerance of each of the named sources in turn.

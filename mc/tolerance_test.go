@@ -408,3 +408,31 @@ func ExampleToleranceSearch() {
 	fmt.Printf("%s: %.3g %s (%s, budget %g %s), p95 |bias| %.3g rad\n", res.Source, tol, res.Unit, res.Status, *res.Nominal, res.Unit, res.At.Value)
 	// Output: timing.skew_ns: 4.82 ns (found, budget 50 ns), p95 |bias| 0.000967 rad
 }
+
+// TestToleranceTemperatureCap checks that the temperature spread is
+// searched no further than the start temperature (where one draw in six
+// would be clamped at 0 K), alone and with the whole budget: a spec that
+// always holds ends above-range at 20 nK, and the budget of a 5 nK spread
+// at a factor 20/5 = 4 (exact).
+func TestToleranceTemperatureCap(t *testing.T) {
+	holds := evaluatorOf(20, func(Budget, float64, float64) (float64, float64) { return 1, 0 }, nil)
+	s := ToleranceSearch{Budget: Budget{TemperatureSpreadK: 5e-9}, Requirements: Requirements{ContrastMeanMin: 0.9}, Seed: 1, StartTemperatureK: 20e-9}
+	for _, c := range []struct {
+		source string
+		want   float64
+	}{{SourceTemperature, 20}, {SourceBudget, 4}} {
+		res, err := s.Source(context.Background(), holds, c.source)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, ok := res.Tolerance()
+		if res.Status != ToleranceAboveRange || !ok || math.Abs(got-c.want) > 1e-9*c.want {
+			t.Errorf("%s: status %s, tolerance %v (%v), want above-range at %v", c.source, res.Status, got, ok, c.want)
+		}
+	}
+	s.StartTemperatureK = 0 // ground-state start: the source's own cap, 1 uK
+	res, _ := s.Source(context.Background(), holds, SourceTemperature)
+	if got, _ := res.Tolerance(); math.Abs(got-1000) > 1e-9*1000 {
+		t.Errorf("no start temperature: tolerance %v nK, want the cap 1000 nK", got)
+	}
+}

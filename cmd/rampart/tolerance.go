@@ -84,6 +84,8 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		Budget: budget, Requirements: req, Seed: o.seed,
 		ScaleFactorS: cfg.Ring.ScaleFactor(cfg.Sequence.TotalAngle()),
 		Options:      mc.ToleranceOptions{Precision: precision},
+		// The spread stays at most the start temperature, as the scenario's.
+		StartTemperatureK: cfg.TemperatureK,
 	}
 	grid, err := mc.SharedGrid([]sim.Config{cfg}, search.Widest())
 	if err != nil {
