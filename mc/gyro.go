@@ -33,8 +33,8 @@ type Gyro struct {
 	CycleS       float64 `json:"cycle_s"`
 	// ShotNoiseRadS is dOmega, the projection-noise limit of one shot,
 	// ShotNoiseDegPerH the same in deg/h.
-	ShotNoiseRadS    float64 `json:"shot_noise_rad_s"`
-	ShotNoiseDegPerH float64 `json:"shot_noise_deg_per_h"`
+	ShotNoiseRadS    float64 `json:"projection_noise_rad_s"`
+	ShotNoiseDegPerH float64 `json:"projection_noise_deg_per_h"`
 	// AngleRandomWalkDegPerSqrtH is dOmega sqrt(T_c) in deg/sqrt(h).
 	AngleRandomWalkDegPerSqrtH float64 `json:"angle_random_walk_deg_per_sqrt_h"`
 }

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"slices"
+	"strings"
 
 	"rampart/sim"
 	"rampart/stats"
@@ -62,7 +63,11 @@ func NewSensitivityDesign(r *Realiser, n int) (*SensitivityDesign, error) {
 		d.coord = append(d.coord, coordPhase)
 	}
 	if len(d.inputs) == 0 {
-		return nil, fmt.Errorf("sensitivity of a budget with no active noise source")
+		var keys []string
+		for _, s := range Sources {
+			keys = append(keys, s.Scenario)
+		}
+		return nil, fmt.Errorf("the noise budget has no active source, so there is no spread to apportion: set one or more of %s in the scenario or with --set (such as --set %s=10)", strings.Join(keys, ", "), mustSource(ParamSkew).Scenario)
 	}
 	base := &sensitivityBase{ds: ds, dd: len(d.inputs) - ds, n: n}
 	if ds > 0 {
@@ -219,12 +224,14 @@ func (d *SensitivityDesign) Indices(recs []Record, confidence float64) (SobolRes
 //
 // and likewise for the bias b (differences wrapped to (-pi, pi]). Contrast
 // is usually at a maximum at nominal, where C' ~ 0 and C” h^2 / 2 is the
-// loss of a one-step error.
+// loss of a one-step error. h and the derivatives are in the lab unit of
+// the parameter's source (Unit, the unit of its tolerance), so that C' is
+// per ns of skew and C” per nK^2 of temperature.
 type Derivative struct {
 	Input string `json:"input"` // a Param name
-	// StepSI is h, the parameter's standard deviation in the budget, in its
-	// SI unit (relative, s or K).
-	StepSI         float64 `json:"step_si"`
+	// Step is h, the parameter's standard deviation in the budget, in Unit.
+	Step           float64 `json:"step"`
+	Unit           string  `json:"unit"`
 	Contrast       float64 `json:"dcontrast"`
 	ContrastSecond float64 `json:"d2contrast"`
 	BiasRad        float64 `json:"dbias_rad"`
@@ -233,7 +240,7 @@ type Derivative struct {
 
 // LocalDerivatives returns the derivatives of contrast and bias of a single
 // shot with respect to each active static parameter of r's budget, per unit
-// of the parameter's SI unit, at the nominal shot (every other parameter
+// of the parameter's lab unit, at the nominal shot (every other parameter
 // zero, no noise during the shot). The step is one budget standard
 // deviation: a secant over the scale the ensemble explores rather than a
 // tangent, which is what matters for a budget and is well clear of the
@@ -255,8 +262,9 @@ func LocalDerivatives(r *Realiser) []Derivative {
 			continue
 		}
 		plus, minus := shot(k, 1), shot(k, -1)
-		h := p.Sigma
-		d := Derivative{Input: p.Name, StepSI: h}
+		src, _ := InputSource(p.Name)
+		h := src.Scale * p.Sigma
+		d := Derivative{Input: p.Name, Step: h, Unit: src.Unit}
 		d.Contrast = (plus.Contrast - minus.Contrast) / (2 * h)
 		d.ContrastSecond = (plus.Contrast - 2*nominal.Contrast + minus.Contrast) / (h * h)
 		d.BiasRad = sim.Wrap(plus.BiasRad-minus.BiasRad) / (2 * h)

@@ -255,9 +255,34 @@ func TestLocalDerivativesPulse(t *testing.T) {
 	}
 	want := 2 * c0 * (math.Cos(math.Pi*h/2) - 1) / (h * h)
 	for _, d := range ds {
-		if d.StepSI != h || math.Abs(d.ContrastSecond-want) > 1e-9*math.Abs(want) || math.Abs(d.Contrast) > 1e-9 ||
+		if d.Step != h || d.Unit != "relative" || math.Abs(d.ContrastSecond-want) > 1e-9*math.Abs(want) || math.Abs(d.Contrast) > 1e-9 ||
 			math.Abs(d.BiasRad) > 1e-9 || math.Abs(d.BiasRadSecond) > 1e-9 {
 			t.Errorf("%s: got %+v, want step %v, C'' = %v and zero first derivative and bias (tol 1e-9)", d.Input, d, h, want)
 		}
+	}
+}
+
+// TestLocalDerivativesLabUnit checks that derivatives are per lab unit of
+// the source (per ns of skew, the unit of its tolerance), not per SI unit:
+// the step is the budget's 20 ns, and the first derivative of the bias
+// equals the central difference of two shots skewed by +-20e-9 s, divided
+// by 2 x 20 (definition; tolerance 1e-12 absolute, rounding only).
+func TestLocalDerivativesLabUnit(t *testing.T) {
+	e := testEnsemble(t, 1, false)
+	e.Budget = Budget{SkewS: 20e-9}
+	r, err := NewRealiser(e)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := r.NewWorker()
+	plus := w.RunShot(sim.Shot{SkewS: 20e-9}, Record{})
+	minus := w.RunShot(sim.Shot{SkewS: -20e-9}, Record{})
+	want := sim.Wrap(plus.BiasRad-minus.BiasRad) / (2 * 20)
+	ds := LocalDerivatives(r)
+	if len(ds) != 1 || ds[0].Input != ParamSkew || ds[0].Step != 20 || ds[0].Unit != "ns" {
+		t.Fatalf("derivatives %+v: want one, of %s, step 20 ns", ds, ParamSkew)
+	}
+	if got := ds[0].BiasRad; math.Abs(got-want) > 1e-12 || want == 0 {
+		t.Errorf("db/dskew: got %v rad/ns, want %v (tol 1e-12, nonzero)", got, want)
 	}
 }

@@ -58,7 +58,11 @@ func (k Kind) String() string {
 // describe it. The sampler's coordinates are the static rows' Inputs in
 // table order; a process has none.
 type Source struct {
-	Key     string // budget and tolerance name, "skew_s"
+	// Key is the source's one name everywhere: tables, tolerance and
+	// sensitivity results, figures, --sources and tolerance-curves.csv.
+	// It is the scenario key without "noise.", "timing.skew_ns", so that
+	// it carries the lab unit Unit in its suffix.
+	Key     string
 	Meaning string // one line, for help and tables
 
 	// Scenario is the scenario key that sets it, "noise.timing.skew_ns",
@@ -66,9 +70,10 @@ type Source struct {
 	Scenario  string
 	FileScale float64
 
-	// Unit is the lab unit of tables and reports. A static amplitude in SI
-	// times Scale is in Unit; a process amplitude is a white floor's level
-	// in Unit (Level converts a one-sided PSD level to it, FromLevel back).
+	// Unit is the lab unit of the scenario key, the tables and reports.
+	// A static amplitude in SI times Scale (1/FileScale) is in Unit; a
+	// process amplitude is a white floor's level in Unit (Level converts a
+	// one-sided PSD level to it, FromLevel back).
 	Unit  string
 	Scale float64
 	// SIUnit is the unit of a static source's SI amplitude, "s", or
@@ -109,25 +114,27 @@ type Source struct {
 	Reference string
 }
 
-// Static parameter names, in sampler order when active.
+// Static parameter names, in sampler order when active: a drawn input is
+// named after its source (the draw is in the source's unit), the two pulse
+// areas by the source's name and the pulse.
 const (
-	ParamDepthCommon       = "depth_common_rel"
-	ParamDepthDifferential = "depth_differential_rel"
-	ParamClock             = "clock_rel"
-	ParamSpeed             = "speed_rel"
-	ParamSkew              = "skew_s"
-	ParamTemperature       = "temperature_offset_k"
-	ParamPulse1            = "pulse1_area_rel"
-	ParamPulse2            = "pulse2_area_rel"
+	ParamDepthCommon       = "depth.common_rel"
+	ParamDepthDifferential = "depth.differential_rel"
+	ParamClock             = "timing.clock_ppm"
+	ParamSpeed             = "timing.speed_ppm"
+	ParamSkew              = "timing.skew_ns"
+	ParamTemperature       = "temperature.spread_nk"
+	ParamPulse1            = "pulses.area_rel.1"
+	ParamPulse2            = "pulses.area_rel.2"
 )
 
 // Tolerance sources: the static parameters by their budget names, the two
 // noise processes, and the whole budget scaled together.
 const (
-	SourceTemperature = "temperature_spread_k"
-	SourcePulse       = "pulse_area_rel"
-	SourceRIN         = "rin"
-	SourcePhase       = "phase"
+	SourceTemperature = ParamTemperature
+	SourcePulse       = "pulses.area_rel"
+	SourceRIN         = "depth.rin_db_hz"
+	SourcePhase       = "drive.phase_dbc_hz"
 	SourceBudget      = "budget"
 )
 
@@ -147,17 +154,28 @@ const (
 	RefPhaseDBcPerHz = -120
 )
 
+// DrawSigmas is how many standard deviations a static draw may reach and
+// still be physical: a scenario whose DrawSigmas-sigma draw is not (a
+// negative lattice depth) is refused. A normal draw passes 5 sigma once
+// in 1.7 million.
+const DrawSigmas = 5
+
 // The largest amplitudes a search tries, whatever its Range: beyond them a
 // static error is no longer a small perturbation of the sequence.
 const (
-	maxRelativeSigma = 0.3   // relative depth and pulse area errors
-	maxRateSigma     = 0.1   // clock and drive-frequency errors, 1e5 ppm
-	maxSkewS         = 10e-6 // a tenth of a typical ramp
-	maxTemperatureK  = 1e-6  // far above a lattice-loaded start
+	maxDepthSigma    = 1.0 / DrawSigmas // a 5-sigma draw reaches zero depth
+	maxRelativeSigma = 0.3              // pulse area errors
+	maxRateSigma     = 0.1              // clock and drive-frequency errors, 1e5 ppm
+	maxSkewS         = 10e-6            // a tenth of a typical ramp
+	maxTemperatureK  = 1e-6             // far above a lattice-loaded start
 )
 
 // relative is the SI unit of a relative error.
 const relative = "1 (relative)"
+
+// Relative is the lab unit of a relative error, the scenario key's "_rel":
+// a fraction, not a percentage.
+const Relative = "relative"
 
 // model is the section of the model document every source cites.
 const model = "docs/model.md, Perturbations: "
@@ -171,19 +189,19 @@ var Sources = []Source{
 	{
 		Key: ParamDepthCommon, Meaning: "relative depth error common to both spin states",
 		Scenario: "noise.depth.common_rel", FileScale: 1,
-		Unit: "%", Scale: 100, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthCommon},
+		Unit: Relative, Scale: 1, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthCommon},
 		Sigma: func(b *Budget) *float64 { return &b.DepthCommonRel },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.DepthRel[0] += v; sh.DepthRel[1] += v },
-		Ref:   RefDepthRel, Max: maxRelativeSigma,
+		Ref:   RefDepthRel, Max: maxDepthSigma,
 		Line: "depth {} common", Reference: model + "lattice depth",
 	},
 	{
 		Key: ParamDepthDifferential, Meaning: "relative depth difference eps_+ - eps_- between the spin states",
 		Scenario: "noise.depth.differential_rel", FileScale: 1,
-		Unit: "%", Scale: 100, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthDifferential},
+		Unit: Relative, Scale: 1, SIUnit: relative, Kind: Static, Inputs: []string{ParamDepthDifferential},
 		Sigma: func(b *Budget) *float64 { return &b.DepthDifferentialRel },
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.DepthRel[0] += v / 2; sh.DepthRel[1] -= v / 2 },
-		Ref:   RefDepthRel, Max: maxRelativeSigma,
+		Ref:   RefDepthRel, Max: maxDepthSigma,
 		Line: "{} differential", Reference: model + "lattice depth",
 	},
 	{
@@ -243,7 +261,7 @@ var Sources = []Source{
 	{
 		Key: SourcePulse, Meaning: "relative area error of each pi/2 pulse, independent",
 		Scenario: "noise.pulses.area_rel", FileScale: 1,
-		Unit: "%", Scale: 100, SIUnit: relative, Kind: Static, Inputs: []string{ParamPulse1, ParamPulse2},
+		Unit: Relative, Scale: 1, SIUnit: relative, Kind: Static, Inputs: []string{ParamPulse1, ParamPulse2},
 		Sigma: func(b *Budget) *float64 { return &b.PulseAreaRel },
 		Apply: func(sh *sim.Shot, i int, v float64) { sh.PulseAreaRel[i] = v },
 		Ref:   RefPulseAreaRel, Max: maxRelativeSigma,
@@ -287,17 +305,17 @@ func LookupSource(key string) (Source, bool) {
 	return Source{}, false
 }
 
-// InputUnit returns the SI unit of a drawn input of a static source (a
-// name of Inputs), and whether there is such an input.
-func InputUnit(input string) (string, bool) {
+// InputSource returns the static source of a drawn input (a name of
+// Inputs), and whether there is such an input.
+func InputSource(input string) (Source, bool) {
 	for _, s := range Sources {
 		for _, in := range s.Inputs {
 			if in == input {
-				return s.SIUnit, true
+				return s, true
 			}
 		}
 	}
-	return "", false
+	return Source{}, false
 }
 
 // On reports whether budget b switches the source on.

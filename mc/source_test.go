@@ -174,3 +174,37 @@ func TestSourcesInReadme(t *testing.T) {
 		}
 	}
 }
+
+// TestSourceOneNameOneUnit checks that each source has one name and one
+// lab unit everywhere: its key is its scenario key without "noise." (so
+// the unit suffix of the file is the unit of every table), a static
+// source's lab scale is the inverse of its file scale (the file's number
+// is the table's number), and the suffix names the lab unit.
+func TestSourceOneNameOneUnit(t *testing.T) {
+	suffix := map[string]string{"_rel": Relative, "_ppm": "ppm", "_ns": "ns", "_nk": "nK", "_db_hz": "dB/Hz", "_dbc_hz": "dBc/Hz"}
+	for _, s := range Sources {
+		if s.Key != strings.TrimPrefix(s.Scenario, "noise.") {
+			t.Errorf("%s: key differs from its scenario key %s", s.Key, s.Scenario)
+		}
+		if s.Kind == Static && math.Abs(s.Scale*s.FileScale-1) > 1e-12 {
+			t.Errorf("%s: lab scale %g x file scale %g = %g, want 1 (tol 1e-12)", s.Key, s.Scale, s.FileScale, s.Scale*s.FileScale)
+		}
+		found := false
+		for suf, unit := range suffix {
+			if strings.HasSuffix(s.Key, suf) {
+				found = true
+				if s.Unit != unit {
+					t.Errorf("%s: lab unit %q, want %q from its suffix", s.Key, s.Unit, unit)
+				}
+			}
+		}
+		if !found {
+			t.Errorf("%s: no unit suffix", s.Key)
+		}
+		for _, in := range s.Inputs {
+			if !strings.HasPrefix(in, s.Key) {
+				t.Errorf("%s: drawn input %s is not named after its source", s.Key, in)
+			}
+		}
+	}
+}

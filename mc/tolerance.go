@@ -59,6 +59,11 @@ const (
 	// ToleranceNone: the spec fails even with the source off (the other
 	// sources or the nominal sequence already break it).
 	ToleranceNone ToleranceStatus = "fails-without-source"
+	// ToleranceUndecided: the spec fails at the starting amplitude and is
+	// undecided with the source off: the ensemble is too small to show
+	// that it holds even then (Off says how many more realisations would
+	// decide it).
+	ToleranceUndecided ToleranceStatus = "undecided-without-source"
 )
 
 // TolerancePoint is one evaluation of a tolerance search.
@@ -95,6 +100,10 @@ type ToleranceResult struct {
 	// Points are the evaluations at positive amplitude, in increasing
 	// amplitude, for the tolerance curve.
 	Points []TolerancePoint `json:"points"`
+	// Off is the evaluation with the source off, when the search made one
+	// (the starting amplitude failed): its criteria say why the status is
+	// below-range, fails-without-source or undecided-without-source.
+	Off *TolerancePoint `json:"off,omitempty"`
 	// Monotone reports whether the binding criterion's value was monotone
 	// in the amplitude over the points (otherwise the envelope differs from
 	// it).
@@ -143,6 +152,27 @@ type ToleranceSearch struct {
 	// Seed seeds the bootstrap of every qualification.
 	Seed    uint64
 	Options ToleranceOptions
+	// StartTemperatureK is the ensemble's start temperature. The search
+	// takes the temperature spread (alone or with the budget) no further
+	// than it: beyond, more than one draw in six would lie below 0 K and be
+	// clamped there, and a scenario refuses such a spread. Zero (a
+	// ground-state start): no cap but the source's Max.
+	StartTemperatureK float64
+}
+
+// capTemperature lowers the largest amplitude of src, the axis of the
+// named source, so that the temperature spread stays at most the start
+// temperature.
+func (s ToleranceSearch) capTemperature(src source, name string) source {
+	t := s.StartTemperatureK
+	switch {
+	case !(t > 0):
+	case name == SourceTemperature:
+		src.max = math.Min(src.max, t)
+	case name == SourceBudget && s.Budget.TemperatureSpreadK > 0:
+		src.max = math.Min(src.max, t/s.Budget.TemperatureSpreadK)
+	}
+	return src
 }
 
 // Source searches the tolerance of the named source, one of Sources.
@@ -154,7 +184,7 @@ func (s ToleranceSearch) Source(ctx context.Context, eval Evaluator, name string
 	if err != nil {
 		return ToleranceResult{}, err
 	}
-	return s.search(ctx, eval, src)
+	return s.search(ctx, eval, s.capTemperature(src, name))
 }
 
 // Joint searches the largest factor k by which the whole budget can be
@@ -165,7 +195,7 @@ func (s ToleranceSearch) Joint(ctx context.Context, eval Evaluator) (ToleranceRe
 	if err != nil {
 		return ToleranceResult{}, err
 	}
-	return s.search(ctx, eval, src)
+	return s.search(ctx, eval, s.capTemperature(src, SourceBudget))
 }
 
 // All searches the tolerance of each of the named sources in turn.
@@ -213,6 +243,7 @@ func (s ToleranceSearch) search(ctx context.Context, eval Evaluator, src source)
 		res.Nominal = &v
 	}
 	var points []TolerancePoint
+	var offVerdict Verdict
 	evaluate := func(a float64) (bool, error) {
 		if err := ctx.Err(); err != nil {
 			return false, err
@@ -225,8 +256,11 @@ func (s ToleranceSearch) search(ctx context.Context, eval Evaluator, src source)
 			return false, fmt.Errorf("tolerance of %s at %g %s: the evaluator returned no records", src.name, src.display(a), src.unit)
 		}
 		q := Qualify(recs, s.Requirements, s.ScaleFactorS, s.Seed)
+		p := TolerancePoint{Amplitude: a, Holds: q.Verdict == Pass, Criteria: q.Criteria}
 		if a > 0 {
-			points = append(points, TolerancePoint{Amplitude: a, Holds: q.Verdict == Pass, Criteria: q.Criteria})
+			points = append(points, p)
+		} else {
+			offVerdict, res.Off = q.Verdict, &p
 		}
 		return q.Verdict == Pass, nil
 	}
@@ -266,6 +300,9 @@ func (s ToleranceSearch) search(ctx context.Context, eval Evaluator, src source)
 		}
 		if !off {
 			res.Status = ToleranceNone
+			if offVerdict == Undecided {
+				res.Status = ToleranceUndecided
+			}
 			break
 		}
 		for hi = a; lo == 0; {
@@ -347,6 +384,27 @@ func (res *ToleranceResult) finish(points []TolerancePoint, lo float64, display 
 		res.At = &p
 	}
 	res.Points = points
+	if off := res.Off; off != nil {
+		c := off.Criteria[binding]
+		off.Value, off.Lo, off.Hi = c.Value, c.Lo, c.Hi
+		off.Envelope = Interval{Value: c.Value, Lo: c.Lo, Hi: c.Hi}
+	}
+}
+
+// OffExtra is how many more realisations per ensemble would decide the
+// undecided criteria of the evaluation with the source off (the largest
+// Criterion.Extra among them), 0 if none says.
+func (t ToleranceResult) OffExtra() int {
+	if t.Off == nil {
+		return 0
+	}
+	n := 0
+	for _, c := range t.Off.Criteria {
+		if c.Verdict == Undecided && c.Extra > n {
+			n = c.Extra
+		}
+	}
+	return n
 }
 
 // boundMargin is how far the confidence bound that decides a criterion

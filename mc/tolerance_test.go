@@ -45,33 +45,33 @@ func TestToleranceMonotone(t *testing.T) {
 	if calls[0].DepthCommonRel != RefDepthRel {
 		t.Errorf("first amplitude: got %v, want the reference %v", calls[0].DepthCommonRel, RefDepthRel)
 	}
-	if res.Unit != "%" || res.Nominal != nil || res.Metric != CriterionContrastP05 || !res.Monotone {
-		t.Errorf("row %+v: want unit %%, no nominal, metric %s, monotone", res, CriterionContrastP05)
+	if res.Unit != Relative || res.Nominal != nil || res.Metric != CriterionContrastP05 || !res.Monotone {
+		t.Errorf("row %+v: want unit relative, no nominal, metric %s, monotone", res, CriterionContrastP05)
 	}
 	tol, ok := res.Tolerance()
 	if !ok {
 		t.Fatalf("no tolerance: %+v", res)
 	}
 	se := math.Sqrt(0.05*0.95) / (0.029819 * math.Sqrt(n))
-	want := 100 * math.Sqrt(0.1/(1000*(3.841459+1.6449*se)))
+	want := math.Sqrt(0.1 / (1000 * (3.841459 + 1.6449*se)))
 	if rel := 3*se/3.841459/2 + precision; math.Abs(tol-want) > rel*want {
-		t.Errorf("tolerance: got %v %%, want %v %% (rel tol %.3g)", tol, want, rel)
+		t.Errorf("tolerance: got %v, want %v (rel tol %.3g)", tol, want, rel)
 	}
 	for i, p := range res.Points {
 		if i > 0 && !(p.Amplitude > res.Points[i-1].Amplitude) {
 			t.Errorf("points not in increasing amplitude: %v then %v", res.Points[i-1].Amplitude, p.Amplitude)
 		}
 		if i > 0 && p.Value > res.Points[i-1].Value {
-			t.Errorf("p05 rises with amplitude at %v %%: %v after %v", p.Amplitude, p.Value, res.Points[i-1].Value)
+			t.Errorf("p05 rises with amplitude at %v: %v after %v", p.Amplitude, p.Value, res.Points[i-1].Value)
 		}
 		if p.Envelope != (Interval{Value: p.Value, Lo: p.Lo, Hi: p.Hi}) {
-			t.Errorf("monotone curve at %v %%: envelope %+v differs from the point %v [%v, %v]", p.Amplitude, p.Envelope, p.Value, p.Lo, p.Hi)
+			t.Errorf("monotone curve at %v: envelope %+v differs from the point %v [%v, %v]", p.Amplitude, p.Envelope, p.Value, p.Lo, p.Hi)
 		}
 		if p.Holds != (p.Amplitude <= tol) {
-			t.Errorf("point %v %% holds = %v with tolerance %v %%", p.Amplitude, p.Holds, tol)
+			t.Errorf("point %v holds = %v with tolerance %v", p.Amplitude, p.Holds, tol)
 		}
 	}
-	consistent(t, s, eval, tol/100, func(a float64) Budget { return Budget{DepthCommonRel: a} }, precision)
+	consistent(t, s, eval, tol, func(a float64) Budget { return Budget{DepthCommonRel: a} }, precision)
 }
 
 // consistent checks the promise of a tolerance a: the spec holds at a and
@@ -220,6 +220,14 @@ func TestToleranceEnds(t *testing.T) {
 		}
 		return 1, 0
 	}, nil)
+	// Off: mean contrast 0.905 with sd 0.05, undecided against 0.9 with 20
+	// realisations (standard error 0.011); on: 0.5, failing.
+	undecidedOff := evaluatorOf(20, func(b Budget, z1, _ float64) (float64, float64) {
+		if b.SkewS > 0 {
+			return 0.5, 0
+		}
+		return 0.905 + 0.05*z1, 0
+	}, nil)
 	table, err := noise.NewTable([]float64{1, 1e3}, []float64{1e-10, 1e-12})
 	if err != nil {
 		t.Fatal(err)
@@ -237,10 +245,11 @@ func TestToleranceEnds(t *testing.T) {
 		firstAmp float64
 	}{
 		// Capped at 30 %, below 1000 x the 1 % reference: 1, 4, 16, 30 %.
-		{"above range", Budget{}, SourcePulse, always(true), ToleranceAboveRange, "%", 30, 4, 1},
+		{"above range", Budget{}, SourcePulse, always(true), ToleranceAboveRange, Relative, 0.3, 4, 0.01},
 		// The scale of a table: 1, 4, ..., 256, then 1000.
 		{"table", Budget{Phase: table}, SourcePhase, always(true), ToleranceAboveRange, "x rms", 1000, 6, 1},
 		{"fails without", Budget{}, ParamSkew, always(false), ToleranceNone, "ns", 0, 1, 10},
+		{"undecided without", Budget{}, ParamSkew, undecidedOff, ToleranceUndecided, "ns", 0, 1, 10},
 		// 10 ns down by 4 to the bound 10 ns / 1000.
 		{"below range", Budget{}, ParamSkew, onlyOff, ToleranceBelowRange, "ns", 0, 6, 0.01},
 	} {
@@ -257,6 +266,14 @@ func TestToleranceEnds(t *testing.T) {
 			}
 			if len(res.Points) != tt.npoints || math.Abs(res.Points[0].Amplitude-tt.firstAmp) > tol*tt.firstAmp {
 				t.Errorf("got %d points from %v, want %d from %v", len(res.Points), res.Points[0].Amplitude, tt.npoints, tt.firstAmp)
+			}
+			// The evaluation with the source off is kept when the start failed.
+			searchedOff := tt.status != ToleranceAboveRange
+			if (res.Off != nil) != searchedOff || searchedOff && (res.Off.Amplitude != 0 || res.Off.Holds != (tt.status == ToleranceBelowRange) || res.Off.Value != res.Off.Criteria[0].Value) {
+				t.Errorf("off point %+v: want one at amplitude 0 holding only below range: %v", res.Off, searchedOff)
+			}
+			if extra := res.OffExtra(); (extra > 0) != (tt.status == ToleranceUndecided) {
+				t.Errorf("%d more realisations to decide the source off, want some only when undecided", extra)
 			}
 		})
 	}
@@ -389,5 +406,33 @@ func ExampleToleranceSearch() {
 	}
 	tol, _ := res.Tolerance()
 	fmt.Printf("%s: %.3g %s (%s, budget %g %s), p95 |bias| %.3g rad\n", res.Source, tol, res.Unit, res.Status, *res.Nominal, res.Unit, res.At.Value)
-	// Output: skew_s: 4.82 ns (found, budget 50 ns), p95 |bias| 0.000967 rad
+	// Output: timing.skew_ns: 4.82 ns (found, budget 50 ns), p95 |bias| 0.000967 rad
+}
+
+// TestToleranceTemperatureCap checks that the temperature spread is
+// searched no further than the start temperature (where one draw in six
+// would be clamped at 0 K), alone and with the whole budget: a spec that
+// always holds ends above-range at 20 nK, and the budget of a 5 nK spread
+// at a factor 20/5 = 4 (exact).
+func TestToleranceTemperatureCap(t *testing.T) {
+	holds := evaluatorOf(20, func(Budget, float64, float64) (float64, float64) { return 1, 0 }, nil)
+	s := ToleranceSearch{Budget: Budget{TemperatureSpreadK: 5e-9}, Requirements: Requirements{ContrastMeanMin: 0.9}, Seed: 1, StartTemperatureK: 20e-9}
+	for _, c := range []struct {
+		source string
+		want   float64
+	}{{SourceTemperature, 20}, {SourceBudget, 4}} {
+		res, err := s.Source(context.Background(), holds, c.source)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, ok := res.Tolerance()
+		if res.Status != ToleranceAboveRange || !ok || math.Abs(got-c.want) > 1e-9*c.want {
+			t.Errorf("%s: status %s, tolerance %v (%v), want above-range at %v", c.source, res.Status, got, ok, c.want)
+		}
+	}
+	s.StartTemperatureK = 0 // ground-state start: the source's own cap, 1 uK
+	res, _ := s.Source(context.Background(), holds, SourceTemperature)
+	if got, _ := res.Tolerance(); math.Abs(got-1000) > 1e-9*1000 {
+		t.Errorf("no start temperature: tolerance %v nK, want the cap 1000 nK", got)
+	}
 }

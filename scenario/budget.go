@@ -50,7 +50,30 @@ func (sc *Scenario) Budget() (mc.Budget, error) {
 	if err := b.Validate(); err != nil {
 		return mc.Budget{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
+	if err := sc.checkDraws(b); err != nil {
+		return mc.Budget{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
 	return b, nil
+}
+
+// checkDraws refuses amplitudes whose mc.DrawSigmas-sigma draws are
+// unphysical: a negative lattice depth, 1 + eps_common - |eps_diff|/2 < 0
+// (docs/model.md, Perturbations), and a temperature spread above the start
+// temperature, which would clamp more than one draw in six at 0 K. Smaller
+// spreads can still draw below 0 K (beyond T/sigma standard deviations);
+// those draws are clamped at 0 K, as the header of an ensemble says.
+func (sc *Scenario) checkDraws(b mc.Budget) error {
+	if worst := mc.DrawSigmas * (b.DepthCommonRel + b.DepthDifferentialRel/2); worst >= 1 {
+		return fmt.Errorf("noise.depth.common_rel = %g with differential_rel = %g: a %d-sigma draw makes a lattice depth negative (1 - %.3g < 0); want common_rel + differential_rel/2 below %g",
+			b.DepthCommonRel, b.DepthDifferentialRel, mc.DrawSigmas, worst, 1.0/mc.DrawSigmas)
+	}
+	if t, spread := sc.Start.TemperatureNK, sc.Noise.Temperature.SpreadNK; spread > 0 && t == 0 {
+		return fmt.Errorf("noise.temperature.spread_nk = %g with a ground-state start (start.temperature_nk = 0): half the draws would be below 0 K; set start.temperature_nk to the mean temperature, at least the spread", spread)
+	} else if spread > t {
+		return fmt.Errorf("noise.temperature.spread_nk = %g is above the start temperature start.temperature_nk = %g: more than one draw in six would be below 0 K and clamped there; want a spread of at most %g nK",
+			spread, t, t)
+	}
+	return nil
 }
 
 // LoadBudget reads the scenario file at path with its overrides and

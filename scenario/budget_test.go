@@ -18,21 +18,21 @@ func TestBudgetReadsEverySource(t *testing.T) {
 		if s.Kind != mc.Static {
 			continue
 		}
-		var sc Scenario
+		sc := Scenario{Start: Start{TemperatureNK: 1}} // a spread below the start temperature
 		f, ok := keyByName[s.Scenario].field(&sc).(*float64)
 		if !ok {
 			t.Fatalf("%s: scenario key %q is not a number", s.Key, s.Scenario)
 		}
-		*f = 0.5
+		*f = 0.05
 		b, err := sc.Budget()
 		if err != nil {
 			t.Fatal(err)
 		}
-		if got, want := *s.Sigma(&b), 0.5*s.FileScale; got != want {
-			t.Errorf("%s: %s = 0.5 gives sigma %g, want %g", s.Key, s.Scenario, got, want)
+		if got, want := *s.Sigma(&b), 0.05*s.FileScale; got != want {
+			t.Errorf("%s: %s = 0.05 gives sigma %g, want %g", s.Key, s.Scenario, got, want)
 		}
 		if len(b.Params()) != len(s.Inputs) {
-			t.Errorf("%s: %s = 0.5 switches on %d inputs, want %d", s.Key, s.Scenario, len(b.Params()), len(s.Inputs))
+			t.Errorf("%s: %s = 0.05 switches on %d inputs, want %d", s.Key, s.Scenario, len(b.Params()), len(s.Inputs))
 		}
 	}
 }
@@ -68,5 +68,37 @@ func TestSourceKeysFromTable(t *testing.T) {
 	}
 	if !strings.Contains(k.want(), "tilt of the ring plane") {
 		t.Errorf("message %q does not name the source", k.want())
+	}
+}
+
+// TestBudgetRefusesUnphysicalDraws checks that amplitudes whose 5-sigma
+// draw is unphysical are refused with what would be accepted: a depth
+// error whose draw makes 1 + eps_common - eps_diff/2 negative, a
+// temperature spread above the start temperature or with a ground-state
+// start; the largest accepted amplitudes pass.
+func TestBudgetRefusesUnphysicalDraws(t *testing.T) {
+	for _, c := range []struct {
+		name                 string
+		common, diff, tempNK float64
+		spreadNK             float64
+		msg                  string // "" accepted
+	}{
+		{"depth common at 0.5", 0.5, 0, 0, 0, "noise.depth.common_rel = 0.5 with differential_rel = 0: a 5-sigma draw makes a lattice depth negative (1 - 2.5 < 0); want common_rel + differential_rel/2 below 0.2"},
+		{"depth common and differential", 0.15, 0.1, 0, 0, "a 5-sigma draw makes a lattice depth negative (1 - 1 < 0)"},
+		{"depth just below", 0.199, 0, 0, 0, ""},
+		{"spread above the start", 0, 0, 20, 25, "noise.temperature.spread_nk = 25 is above the start temperature start.temperature_nk = 20"},
+		{"spread at a ground-state start", 0, 0, 0, 5, "with a ground-state start (start.temperature_nk = 0)"},
+		{"spread at the start", 0, 0, 20, 20, ""},
+	} {
+		sc := Scenario{Name: "s.toml", Start: Start{TemperatureNK: c.tempNK}}
+		sc.Noise.Depth.CommonRel, sc.Noise.Depth.DifferentialRel = c.common, c.diff
+		sc.Noise.Temperature.SpreadNK = c.spreadNK
+		_, err := sc.Budget()
+		switch {
+		case c.msg == "" && err != nil:
+			t.Errorf("%s: got %v, want no error", c.name, err)
+		case c.msg != "" && (err == nil || !strings.Contains(err.Error(), c.msg)):
+			t.Errorf("%s: got %v, want %q", c.name, err, c.msg)
+		}
 	}
 }

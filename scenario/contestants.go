@@ -118,9 +118,14 @@ func RampVariant(base *Scenario, baseCfg sim.Config, spec string) (*Scenario, si
 	}
 	sc := *base
 	sc.Ramp = r
-	cfg, err := sc.Config()
-	if err != nil {
-		return nil, sim.Config{}, err
+	cfg, kerr := sc.config()
+	if kerr != nil {
+		if strings.HasPrefix(kerr.key, "ramp.") {
+			// The ramp came from spec, not from the scenario file: the
+			// caller names the flag.
+			return nil, sim.Config{}, kerr.err
+		}
+		return nil, sim.Config{}, &Error{File: sc.Name, Key: kerr.key, Err: kerr.err}
 	}
 	return &sc, cfg, nil
 }

@@ -98,8 +98,8 @@ func ParseRamp(r io.Reader, name string, sites int, cruiseRadS float64) (*sim.Ta
 		switch {
 		case longField(fields) > 0:
 			err = fmt.Errorf("field %d is %d bytes long: want a number or a column name", longField(fields), len(fields[longField(fields)-1]))
-		case len(fields) == 1 && strings.Contains(text, ";"):
-			err = fmt.Errorf("the columns are separated by semicolons: rampart reads comma-separated values (%s,%s); export the table with commas", timeColumn, omegaColumn)
+		case strings.Contains(text, ";"):
+			err = fmt.Errorf("the columns are separated by semicolons: rampart reads comma-separated values with decimal points (%s,%s as 1.5e-4,250.5); export the table with commas between columns and points in numbers", timeColumn, omegaColumn)
 		case p.speedColumn == "":
 			err = p.header(fields)
 		case len(p.t) == MaxRampRows:
@@ -168,7 +168,11 @@ func (p *rampParser) header(fields []string) error {
 
 func (p *rampParser) row(fields []string) error {
 	if len(fields) != 2 {
-		return fmt.Errorf("%d fields, want 2 (%s, %s)", len(fields), p.columns()[0], p.columns()[1])
+		err := fmt.Errorf("%s, want 2 (%s, %s)", count(len(fields), "field"), p.columns()[0], p.columns()[1])
+		if len(fields) > 2 && decimalCommas(fields) {
+			err = fmt.Errorf("%w: the numbers seem to have decimal commas; write them with decimal points (0.5, not 0,5)", err)
+		}
+		return err
 	}
 	tText, sText := fields[p.timeIndex], fields[1-p.timeIndex]
 	t, err := finite(timeColumn, tText)
@@ -214,7 +218,7 @@ func (p *rampParser) finish() (*sim.Tabulated, error) {
 			timeColumn, omegaColumn, driveColumn)}
 	}
 	if len(p.t) < 2 {
-		return nil, &RampError{File: p.name, Err: fmt.Errorf("%d data rows, want at least 2: the start (t = 0 at rest) and the end at the cruise speed", len(p.t))}
+		return nil, &RampError{File: p.name, Err: fmt.Errorf("%s, want at least 2: the start (t = 0 at rest) and the end at the cruise speed", count(len(p.t), "data row"))}
 	}
 	last := p.omega[len(p.omega)-1]
 	if d := math.Abs(last-p.cruise) / p.cruise; d > sim.CruiseTolerance {
@@ -264,4 +268,24 @@ func finite(column, s string) (float64, error) {
 		return 0, fmt.Errorf("%s = %s: want a finite number", column, s)
 	}
 	return x, nil
+}
+
+// count says how many of a thing: "1 field", "3 fields".
+func count(n int, thing string) string {
+	if n == 1 {
+		return "1 " + thing
+	}
+	return fmt.Sprintf("%d %ss", n, thing)
+}
+
+// decimalCommas reports whether a row split at commas looks like numbers
+// written with decimal commas: every field digits only, as "0,5,250,25"
+// splits.
+func decimalCommas(fields []string) bool {
+	for _, f := range fields {
+		if f == "" || strings.Trim(f, "0123456789") != "" {
+			return false
+		}
+	}
+	return true
 }

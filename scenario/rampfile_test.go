@@ -26,6 +26,9 @@ func TestParseRampBad(t *testing.T) {
 		{"two speed columns", "omega_rad_s,drive_hz\n", 1, "the header names omega_rad_s and drive_hz: want the columns t_s and one of omega_rad_s, drive_hz"},
 		{"time twice", "t_s,t_s\n", 1, "the header names t_s twice"},
 		{"wrong field count", "t_s,omega_rad_s\n0,0\n1e-4,250,1\n", 3, "3 fields, want 2 (t_s, omega_rad_s)"},
+		{"one field", "t_s,omega_rad_s\n0,0\n1e-4\n", 3, "1 field, want 2 (t_s, omega_rad_s)"},
+		{"decimal commas", "t_s,omega_rad_s\n0,0\n0,0001,250,5\n", 3, "4 fields, want 2 (t_s, omega_rad_s): the numbers seem to have decimal commas; write them with decimal points (0.5, not 0,5)"},
+		{"semicolons with decimal commas", "t_s;omega_rad_s\n0;0\n0,0001;250,5\n", 1, "the columns are separated by semicolons: rampart reads comma-separated values with decimal points"},
 		{"empty field", "t_s,omega_rad_s\n0,0\n1e-4,\n", 3, "omega_rad_s is empty: want a number"},
 		{"not a number", "t_s,omega_rad_s\n0,0\n1e-4,fast\n", 3, `omega_rad_s = "fast" is not a number`},
 		{"NaN", "t_s,omega_rad_s\n0,0\nNaN,500\n", 3, "t_s = NaN: want a finite number"},
@@ -35,7 +38,7 @@ func TestParseRampBad(t *testing.T) {
 		{"does not start at rest", "t_s,omega_rad_s\n0,3\n1e-4,500\n", 2, "the first row has omega_rad_s = 3: the ramp must start at rest (0)"},
 		{"time goes back", "t_s,omega_rad_s\n0,0\n1.3e-4,400\n1.2e-4,500\n", 4, "time 1.2e-4 s is not after the previous row (1.3e-4 s)"},
 		{"time repeats", "t_s,omega_rad_s\n0,0\n1e-4,400\n1e-4,500\n", 4, "time 1e-4 s is not after the previous row (1e-4 s)"},
-		{"one row", "t_s,omega_rad_s\n0,0\n", 0, "1 data rows, want at least 2"},
+		{"one row", "t_s,omega_rad_s\n0,0\n", 0, "1 data row, want at least 2"},
 		{"ends below cruise", "t_s,omega_rad_s\n0,0\n# end\n1e-4,499.9\n\n", 4, "the ramp ends at omega_rad_s = 499.9 but the cruise speed (motion.cruise_rad_s) is 500 rad/s: the last row must match it within a relative 1e-06"},
 		{"drive ends below cruise", "t_s,drive_hz\n0,0\n1e-4,1591\n", 3, "the ramp ends at drive_hz = 1591 (499.827391 rad/s on 20 sites) but the cruise speed (motion.cruise_rad_s) is 500 rad/s, drive_hz = 1591.54943"},
 	} {

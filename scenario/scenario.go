@@ -310,3 +310,18 @@ func (s *Scenario) rampUp() (sim.Ramp, *keyError) {
 	}
 	return r, nil
 }
+
+// Inputs returns the paths of the files the scenario reads: the scenario
+// file and, when given, its ramp table and phase-noise table (as they are
+// read: relative to the scenario file, or to the working directory when
+// set on the command line). A command refuses to write an output over one
+// of them.
+func (s *Scenario) Inputs() []string {
+	out := []string{s.Name}
+	for _, p := range []string{s.Ramp.File, s.Noise.Drive.PhaseTable} {
+		if p != "" {
+			out = append(out, p)
+		}
+	}
+	return out
+}

@@ -36,6 +36,11 @@ func TestBadInput(t *testing.T) {
 		{"unknown flag", []string{"shot", "--scenario", "testdata/scenarios/benchmark.toml", "--seed", "3"}, "unknown flag: --seed"},
 		{"stray argument", []string{"demo", "now"}, `unknown command "now" for "rampart demo"`},
 		{"unknown command", []string{"shoot"}, `unknown command "shoot" for "rampart"`},
+		{"float for an integer flag", []string{"run", "--scenario", "testdata/scenarios/ensemble.toml", "--samples", "1e5"}, "--samples 1e5: want a whole number, such as 100000"},
+		{"negative seed", []string{"run", "--scenario", "testdata/scenarios/ensemble.toml", "--seed", "-3"}, "--seed -3: want a non-negative whole number"},
+		{"word for a number", []string{"run", "--scenario", "testdata/scenarios/ensemble.toml", "--confidence", "high"}, "--confidence high: want a number, such as 0.95"},
+		{"merge of nothing", []string{"merge"}, "merge: no shard directories given: name them, as in rampart merge --out all shard-1 shard-2"},
+		{"resume of nothing", []string{"run", "--scenario", "testdata/scenarios/ensemble.toml", "--resume", filepath.Join(dir, "nosuch")}, "nosuch: no such directory, so nothing to resume"},
 	} {
 		stdout, stderr, code := execute(t, row.args...)
 		if code != 2 {

@@ -53,7 +53,7 @@ func (o *decisionOptions) validate() error {
 	case o.ens.shard != "" && o.report != "":
 		return fmt.Errorf("--report %s with --shard %s: a shard decides nothing to report; give --report when the merged set runs with --resume", o.report, o.ens.shard)
 	}
-	return nil
+	return checkReportDir(o.report)
 }
 
 // load reads the scenario, its configuration and its noise budget.

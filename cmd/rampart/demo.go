@@ -114,6 +114,9 @@ func (d *demo) check() error {
 	case o.workers < 0:
 		return fmt.Errorf("--workers %d: need 0 (one per core) or more", o.workers)
 	}
+	if err := checkReportDir(o.report); err != nil {
+		return err
+	}
 	req, err := d.requirements()
 	if err != nil {
 		return err

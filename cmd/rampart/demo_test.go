@@ -46,7 +46,7 @@ func TestDemoGolden(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, id := range []string{"drive", "dynamics-offset-up", "ranking", "rank-sin2-contrast", "rank-optimal-bias", "tolerance-skew_s", "tolerance-depth_common_rel", "response-phase-common", "response-mask-phase"} {
+	for _, id := range []string{"drive", "dynamics-offset-up", "ranking", "rank-sin2-contrast", "rank-optimal-bias", "tolerance-timing-skew_ns", "tolerance-depth-common_rel", "response-phase-common", "response-mask-phase"} {
 		if !strings.Contains(string(page), `id="`+id+`"`) {
 			t.Errorf("demo report lacks figure %q", id)
 		}

@@ -65,6 +65,9 @@ func (d *demo) rank() error {
 	w := d.out
 	fmt.Fprintf(w, "2. The three ramps under the noise budget, ranked by the 5th-percentile contrast\n")
 	fmt.Fprintf(w, "Noise budget: %s\n", present.BudgetLine(budget))
+	if note := present.ClampNote(d.cs[0].Config, budget); note != "" {
+		fmt.Fprintln(w, note)
+	}
 	fmt.Fprintf(w, "%s\n", work.Line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(d.cs), o.samples), o.seed, o.sampler, o.shard))
 	for _, line := range present.RampNumericsLines(rep) {
 		fmt.Fprintln(w, line)

@@ -68,6 +68,9 @@ func (o *ensembleOptions) validate() error {
 	case o.out != "" && o.resume != "" && filepath.Clean(o.out) != filepath.Clean(o.resume):
 		return fmt.Errorf("--out %s and --resume %s name different directories; give one", o.out, o.resume)
 	}
+	if err := o.checkOutputs(); err != nil {
+		return err
+	}
 	for _, s := range mc.Samplers {
 		if o.sampler == s {
 			return nil

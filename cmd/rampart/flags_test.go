@@ -92,11 +92,11 @@ func TestFlagsParse(t *testing.T) {
 	t.Run("tolerance", func(t *testing.T) {
 		var got toleranceOptions
 		cmd := newToleranceCmd(e, func(_ env, _, _ io.Writer, o toleranceOptions, _ bool) error { got = o; return nil })
-		if err := parse(t, cmd, "--scenario", "s.toml", "--spec", "q.toml", "--sources", "skew_s,rin", "--joint", "--precision", "0.1"); err != nil {
+		if err := parse(t, cmd, "--scenario", "s.toml", "--spec", "q.toml", "--sources", "timing.skew_ns,depth.rin_db_hz", "--joint", "--precision", "0.1"); err != nil {
 			t.Fatal(err)
 		}
 		want := toleranceOptions{decisionOptions: decisionOptions{scenario: "s.toml", ens: defaultEnsemble(200)},
-			spec: "q.toml", sources: "skew_s,rin", joint: true, precision: 0.1}
+			spec: "q.toml", sources: "timing.skew_ns,depth.rin_db_hz", joint: true, precision: 0.1}
 		if !reflect.DeepEqual(got, want) {
 			t.Errorf("got %+v\nwant %+v", got, want)
 		}

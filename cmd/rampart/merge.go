@@ -37,7 +37,12 @@ manifest, and the shards must share the build, scenario, numerics, seed, sample
 count and sampler. The yield spec and confidence the shards were run with are
 taken from their manifests; --min-contrast, --max-bias-rad and --confidence
 replace them.`,
-		Args: cobra.MinimumNArgs(1),
+		Args: func(_ *cobra.Command, dirs []string) error {
+			if len(dirs) == 0 {
+				return fmt.Errorf("merge: no shard directories given: name them, as in rampart merge --out all shard-1 shard-2")
+			}
+			return nil
+		},
 		RunE: func(cmd *cobra.Command, dirs []string) error {
 			f := cmd.Flags()
 			o.specGiven = f.Changed("min-contrast") || f.Changed("max-bias-rad")

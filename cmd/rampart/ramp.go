@@ -44,6 +44,9 @@ func runRamp(stdout, stderr io.Writer, o rampOptions) error {
 		return err
 	}
 	warnValidity(stderr, cfg)
+	if err := checkNotInput("--out", o.out, sc.Inputs()); err != nil {
+		return err
+	}
 	if o.out != "" {
 		n := 0
 		if err := atomicfile.Write(o.out, func(w io.Writer) (err error) {

@@ -188,7 +188,7 @@ func TestRankBadInput(t *testing.T) {
 		{"no name", rank("--ramp", "sin2", "--ramp", "b=minjerk"), "--ramp sin2: want NAME=SPEC"},
 		{"unknown shape", rank("--ramp", "a=cos2", "--ramp", "b=sin2"), `--ramp a=cos2: ramp "cos2": want sin2, minjerk, inverse, inverse:DESIGN_KHZ or file:PATH`},
 		{"bad design depth", rank("--ramp", "a=inverse:-3", "--ramp", "b=sin2"), `design depth "-3": want a depth V0/h in kHz > 0`},
-		{"missing ramp file", rank("--ramp", "a=file:nowhere.csv", "--ramp", "b=sin2"), `--ramp a=file:nowhere.csv: scenario "` + ensembleScenario + `": ramp file "nowhere.csv"`},
+		{"missing ramp file", rank("--ramp", "a=file:nowhere.csv", "--ramp", "b=sin2"), `--ramp a=file:nowhere.csv: ramp file "nowhere.csv": cannot read the file`},
 		{"bad name", rank("--ramp", "a/b=sin2", "--ramp", "c=minjerk"), `ramp name "a/b": want letters, digits`},
 		{"taken name", rank("--ramp", "a=sin2", "--ramp", "a=minjerk"), `the name "a" is taken by --ramp a=sin2`},
 		{"unknown metric", rank("--ramp", "a=sin2", "--ramp", "b=minjerk", "--metric", "p10"), `--metric "p10": want one of p05, mean, yield, bias-spread`},

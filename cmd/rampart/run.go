@@ -70,6 +70,9 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err := o.ens.validate(); err != nil {
 		return err
 	}
+	if err := checkReportDir(o.report); err != nil {
+		return err
+	}
 	spec, err := o.spec()
 	if err != nil {
 		return err
@@ -109,6 +112,9 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	}
 	fmt.Fprintf(stdout, "Scenario %s\n%s\n", sc.Name, present.Describe(sc, run.realiser.Config(), run.realiser.Config().Sequence.Up.Name()+" ramp"))
 	fmt.Fprintf(stdout, "Noise budget: %s\n", present.BudgetLine(budget))
+	if note := present.ClampNote(run.realiser.Config(), budget); note != "" {
+		fmt.Fprintln(stdout, note)
+	}
 	fmt.Fprintf(stdout, "%s\n", present.EnsembleLine(run.manifest, len(run.records), run.fresh, run.elapsed))
 	fmt.Fprintf(stdout, "%s\n\n", present.NumericsLine(&run.numerics))
 	if err := present.PrintSummary(stdout, sum); err != nil {

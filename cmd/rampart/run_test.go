@@ -90,7 +90,7 @@ func TestRunBadInput(t *testing.T) {
 		{"bad shard", []string{"run", "--scenario", ensembleScenario, "--shard", "4/3", "--out", out}, `shard "4/3" is not k/n with 1 <= k <= n`},
 		{"bad confidence", []string{"run", "--scenario", ensembleScenario, "--confidence", "95", "--out", out}, "--confidence 95: want a level in (0, 1)"},
 		{"bad spec", []string{"run", "--scenario", ensembleScenario, "--min-contrast", "2", "--out", out}, "--min-contrast 2: want a contrast in [0, 1]"},
-		{"resume nothing", []string{"run", "--scenario", ensembleScenario, "--resume", out}, "is not an ensemble directory"},
+		{"resume nothing", []string{"run", "--scenario", ensembleScenario, "--resume", out}, "no such directory, so nothing to resume; give --out "},
 		{"merge nothing", []string{"merge", out}, "is not an ensemble directory"},
 	} {
 		_, stderr, code := execute(t, row.args...)

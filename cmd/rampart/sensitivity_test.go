@@ -97,7 +97,7 @@ func TestSensitivityBadInput(t *testing.T) {
 	expectRefused(t, out, []refusal{
 		{"samples", append(sensitivityArgs, "--samples", "100", "--out", out), "--samples does not apply to sensitivity"},
 		{"base", []string{"sensitivity", "--scenario", ensembleScenario, "--base", "1", "--out", out}, "--base 1: want at least 2 base rows"},
-		{"no source", []string{"sensitivity", "--scenario", "testdata/scenarios/benchmark.toml", "--base", "4", "--out", out}, "sensitivity of a budget with no active noise source"},
+		{"no source", []string{"sensitivity", "--scenario", "testdata/scenarios/benchmark.toml", "--base", "4", "--out", out}, "no active source, so there is no spread to apportion: set one or more of noise.depth.common_rel"},
 		{"shard without a directory", append(sensitivityArgs, "--shard", "1/2"), "--shard 1/2 needs --out DIR"},
 	})
 }

@@ -67,6 +67,9 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 		return err
 	}
 	warnValidity(stderr, cfg)
+	if err := checkNotInput("--trace", o.trace, sc.Inputs()); err != nil {
+		return err
+	}
 	ro, err := o.readout.of(sc)
 	if err != nil {
 		return err

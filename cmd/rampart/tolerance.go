@@ -46,7 +46,8 @@ apparatus. --joint adds the factor by which the whole budget may be scaled.
 
 The table gives each source's unit, its value in the budget, the tolerance,
 how the search ended (found; above-range: the spec holds up to the largest
-amplitude searched, a lower bound; below-range; fails-without-source), the
+amplitude searched, a lower bound; below-range; fails-without-source;
+undecided-without-source: more samples would decide the source off), the
 binding criterion and its value at the tolerance with its one-sided bounds.
 --out DIR writes the tolerance curves (tolerance-curves.csv and a figure per
 source) and keeps each ensemble in DIR/SOURCE/AMPLITUDE; --resume DIR reuses
@@ -83,6 +84,8 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		Budget: budget, Requirements: req, Seed: o.seed,
 		ScaleFactorS: cfg.Ring.ScaleFactor(cfg.Sequence.TotalAngle()),
 		Options:      mc.ToleranceOptions{Precision: precision},
+		// The spread stays at most the start temperature, as the scenario's.
+		StartTemperatureK: cfg.TemperatureK,
 	}
 	// The nominal shot's numerics are checked before the search starts.
 	nominal, err := mc.NewRealiser(mc.Ensemble{Config: cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler})

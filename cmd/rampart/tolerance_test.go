@@ -18,7 +18,7 @@ import (
 // limit of 1e-4 rad near 15 ns.
 func skewArgs(spec string) []string {
 	return []string{"tolerance", "--scenario", ensembleScenario, "--set", "noise.depth.differential_rel=0",
-		"--spec", spec, "--sources", "skew_s", "--samples", "80", "--seed", "2"}
+		"--spec", spec, "--sources", "timing.skew_ns", "--samples", "80", "--seed", "2"}
 }
 
 const skewSpec = "[bias]\nabs_p95_max_rad = 1e-4\n"
@@ -56,8 +56,8 @@ func TestToleranceSkew(t *testing.T) {
 		t.Fatalf("%d results, want 1", len(rep.Results))
 	}
 	res := rep.Results[0]
-	if res.Source != "skew_s" || res.Unit != "ns" || res.Status != "found" || res.At == nil || res.Metric != "bias.abs_p95_max_rad" {
-		t.Fatalf("result %s in %s: status %s, at %v, metric %s; want skew_s in ns found by bias.abs_p95_max_rad", res.Source, res.Unit, res.Status, res.At, res.Metric)
+	if res.Source != "timing.skew_ns" || res.Unit != "ns" || res.Status != "found" || res.At == nil || res.Metric != "bias.abs_p95_max_rad" {
+		t.Fatalf("result %s in %s: status %s, at %v, metric %s; want timing.skew_ns in ns found by bias.abs_p95_max_rad", res.Source, res.Unit, res.Status, res.At, res.Metric)
 	}
 	tol := res.At.Amplitude
 	// Monotone verdicts: every amplitude that holds lies below every one
@@ -103,8 +103,8 @@ func TestToleranceSkew(t *testing.T) {
 	if len(rows)-1 != len(res.Points) {
 		t.Errorf("%d curve rows for %d points", len(rows)-1, len(res.Points))
 	}
-	for _, f := range []string{"tolerance-skew_s.svg", "tolerance-skew_s.png", filepath.Join("skew_s", "off", "realisations.csv"),
-		filepath.Join("skew_s", amplitudeDir(tol), "realisations.csv")} {
+	for _, f := range []string{"tolerance-timing-skew_ns.svg", "tolerance-timing-skew_ns.png", filepath.Join("timing.skew_ns", "off", "realisations.csv"),
+		filepath.Join("timing.skew_ns", amplitudeDir(tol), "realisations.csv")} {
 		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
 			t.Error(err)
 		}
@@ -129,7 +129,7 @@ func TestToleranceReport(t *testing.T) {
 	if _, stderr, code := execute(t, append(args, "--report", report)...); code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	readReport(t, report, "rampart "+strings.Join(args, " ")+" --report", append(driveFigures, "tolerance-skew_s", "tolerance-budget"), 8,
+	readReport(t, report, "rampart "+strings.Join(args, " ")+" --report", append(driveFigures, "tolerance-timing-skew_ns", "tolerance-budget"), 8,
 		"The tolerance of each noise source against spec")
 }
 
@@ -140,7 +140,7 @@ func TestToleranceBadInput(t *testing.T) {
 	spec := writeSpec(t, dir, "skew.toml", skewSpec)
 	expectRefused(t, out, []refusal{
 		{"shard", append(skewArgs(spec), "--shard", "1/2", "--out", out), "--shard 1/2: a tolerance search cannot be sharded"},
-		{"unknown source", append(skewArgs(spec), "--sources", "skew_s,laser", "--out", out), `--sources: unknown noise source "laser"`},
+		{"unknown source", append(skewArgs(spec), "--sources", "timing.skew_ns,laser", "--out", out), `--sources: unknown noise source "laser"`},
 		{"budget as a source", append(skewArgs(spec), "--sources", "budget", "--out", out), "(--joint searches the whole budget)"},
 		{"precision", append(skewArgs(spec), "--precision", "0", "--out", out), "--precision 0: want a relative precision in [0.001, 1]"},
 		{"resume nothing", append(skewArgs(spec), "--resume", out), "--resume " + out + ": no such directory"},

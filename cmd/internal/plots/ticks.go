@@ -2,7 +2,6 @@ package plots
 
 import (
 	"math"
-	"slices"
 	"strconv"
 	"strings"
 
@@ -15,19 +14,74 @@ import (
 type ticker struct{ log bool }
 
 func (t ticker) Ticks(min, max float64) []plot.Tick {
-	var ts []plot.Tick
 	if t.log {
-		// LogTicks runs out to whole decades; ticks outside the axis are
-		// not drawn but would widen the labels' precision and space.
-		ts = slices.DeleteFunc(plot.LogTicks{}.Ticks(min, max), func(t plot.Tick) bool {
-			return t.Value < min*(1-1e-9) || t.Value > max*(1+1e-9)
-		})
-		labelInnerDecade(ts)
-	} else {
-		ts = linearTicks(min, max)
+		if ts := logTicks(min, max); len(ts) >= 2 {
+			relabel(ts, true)
+			return ts
+		}
+		// A log axis shorter than the step from one mantissa to the next
+		// (2e-8 to 2.9e-8) is read on linear ticks.
 	}
-	relabel(ts, t.log)
+	ts := linearTicks(min, max)
+	relabel(ts, false)
 	return ts
+}
+
+// logTicks returns the ticks of a log axis on [min, max]: every m 10^k
+// (m = 1, ..., 9) inside it, once each, labelled at the powers of ten.
+// gonum/plot's LogTicks runs out to whole decades, gives a range inside
+// one decade a single tick outside it, and repeats each power of ten.
+// With one power of ten inside, the ticks at 1, 2 and 5 times a power of
+// ten are labelled as well; with none (or failing two labels), every tick.
+func logTicks(min, max float64) []plot.Tick {
+	if !(min > 0) || !(max > min) {
+		return nil
+	}
+	var ts []plot.Tick
+	for k := int(math.Floor(math.Log10(min))); k <= int(math.Ceil(math.Log10(max))); k++ {
+		for m := 1; m <= 9; m++ {
+			// Parsed, so that 3e-8 is the float64 nearest 3e-8.
+			v, _ := strconv.ParseFloat(strconv.Itoa(m)+"e"+strconv.Itoa(k), 64)
+			if v < min*(1-1e-9) || v > max*(1+1e-9) {
+				continue
+			}
+			t := plot.Tick{Value: v}
+			if m == 1 {
+				t.Label = "x" // replaced by relabel
+			}
+			ts = append(ts, t)
+		}
+	}
+	marks := []func(m float64) bool{
+		func(m float64) bool { return m == 1 || m == 2 || m == 5 },
+		func(float64) bool { return true },
+	}
+	if labelled(ts) == 0 {
+		marks = marks[1:] // inside one decade: at most nine labels
+	}
+	for _, marks := range marks {
+		if labelled(ts) >= 2 {
+			break
+		}
+		for i := range ts {
+			m := ts[i].Value / math.Pow(10, math.Floor(math.Log10(ts[i].Value)+1e-9))
+			if marks(math.Round(m)) {
+				ts[i].Label = "x"
+			}
+		}
+	}
+	return ts
+}
+
+// labelled counts the labelled ticks.
+func labelled(ts []plot.Tick) int {
+	n := 0
+	for _, t := range ts {
+		if t.Label != "" {
+			n++
+		}
+	}
+	return n
 }
 
 // linearTicks returns three to seven labelled ticks on [min, max] at multiples
@@ -58,23 +112,6 @@ func linearTicks(min, max float64) []plot.Tick {
 		ts = append(ts, t)
 	}
 	return ts
-}
-
-// labelInnerDecade labels every tick of a log axis whose range holds fewer
-// than two powers of ten, which would otherwise show one label or none.
-func labelInnerDecade(ts []plot.Tick) {
-	n := 0
-	for _, t := range ts {
-		if t.Label != "" {
-			n++
-		}
-	}
-	if n >= 2 {
-		return
-	}
-	for i := range ts {
-		ts[i].Label = "x" // replaced by relabel
-	}
 }
 
 // relabel rewrites the labels of the labelled ticks in ts. Fixed notation is

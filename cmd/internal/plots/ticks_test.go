@@ -8,7 +8,12 @@ import (
 func labels(t *testing.T, tk ticker, min, max float64) []string {
 	t.Helper()
 	var out []string
+	seen := map[float64]bool{}
 	for _, tick := range tk.Ticks(min, max) {
+		if seen[tick.Value] {
+			t.Errorf("[%v, %v]: tick %v repeats", min, max, tick.Value)
+		}
+		seen[tick.Value] = true
 		if tick.Label != "" {
 			if tick.Value < min || tick.Value > max {
 				t.Errorf("[%v, %v]: labelled tick %v lies outside the range", min, max, tick.Value)
@@ -38,6 +43,13 @@ func TestTickLabels(t *testing.T) {
 		{"log decades", ticker{log: true}, 1e-3, 10, []string{"0.001", "0.01", "0.1", "1", "10"}},
 		{"log small", ticker{log: true}, 1e-9, 1e-7, []string{"1e−9", "1e−8", "1e−7"}},
 		{"log within a decade", ticker{log: true}, 2, 8, []string{"2", "3", "4", "5", "6", "7", "8"}},
+		// The tolerance curves of the demo (a differential depth of 2e-8 to
+		// 3.2e-8, a temperature spread of 5 to 80 nK): gonum/plot's LogTicks
+		// gave the first no tick inside and repeated 10 in the second.
+		{"log inside one mantissa step", ticker{log: true}, 2e-8, 3.2e-8, []string{"2e−8", "3e−8"}},
+		{"log between two mantissas", ticker{log: true}, 2.05e-8, 2.9e-8, []string{"2.2e−8", "2.4e−8", "2.6e−8", "2.8e−8"}},
+		{"log across one power of ten", ticker{log: true}, 5, 80, []string{"5", "10", "20", "50"}},
+		{"log from one", ticker{log: true}, 1, 80, []string{"1", "10"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			if got := labels(t, tc.tk, tc.min, tc.max); !slices.Equal(got, tc.want) {

@@ -57,19 +57,19 @@ func RankingGrid(rep RankReport) *Grid {
 		byName[rr.Name] = rr
 		withGyro = withGyro || rr.Gyro != nil
 	}
-	header := []string{"Place and ramp", metricLabels[r.Metric], conf, "Diff to best", conf, "Diff to next", "Resolved", "Mean contrast", "|bias| p95 (rad)", "|bias| p95 (deg/h)"}
+	header := []string{"Place and ramp", metricLabels[r.Metric], conf, "Diff to best", conf, "Diff to next", conf, "Resolved", "Mean contrast", "|bias| p95 (rad)", "|bias| p95 (deg/h)"}
 	if withGyro {
 		header = append(header, "ARW (deg/sqrt(h))")
 	}
 	t := NewGrid(fmt.Sprintf("Ramps ranked by %s, best first", strings.ToLower(metricLabels[r.Metric])), header...)
 	for _, p := range r.Ranking {
 		rr := byName[p.Name]
-		next := ""
-		if p.DiffToNext != nil {
-			next = Sci(p.DiffToNext.Value, 2)
+		next, nextCI := "", ""
+		if d := p.DiffToNext; d != nil {
+			next, nextCI = f(d.Value), interval(d.Lo, d.Hi, f)
 		}
 		row := []string{fmt.Sprintf("%d. %s", p.Place, p.Name), f(p.Value), interval(p.Lo, p.Hi, f),
-			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), next, YesNo(p.Resolved),
+			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), next, nextCI, YesNo(p.Resolved),
 			Fixed(rr.ContrastMean, 5), Sci(rr.AbsBiasP95Rad, 3), Sci(rr.AbsBiasP95DegPerH, 3)}
 		if withGyro {
 			arw := ""

@@ -62,7 +62,11 @@ func writeFigures(dir string, nfs []namedFigure) error {
 // such as the ensemble's: what the terminal shows above a command's tables;
 // then a warning for each input outside the model's validity.
 func SetupText(sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget, lines ...string) string {
-	paragraphs := append([]string{Describe(sc, cfg, ramp), "Noise budget: " + BudgetLine(b)}, lines...)
+	budget := "Noise budget: " + BudgetLine(b)
+	if note := ClampNote(cfg, b); note != "" {
+		budget += ". " + strings.TrimSuffix(note, ".")
+	}
+	paragraphs := append([]string{Describe(sc, cfg, ramp), budget}, lines...)
 	text := strings.Join(paragraphs, ".\n\n") + "."
 	// Inputs outside the model's validity (sim.Config.Warnings).
 	for _, w := range cfg.Warnings() {
@@ -229,6 +233,9 @@ func EnsembleSection(heading, idPrefix string, sum mc.Summary, recs []mc.Record,
 func PrintHeader(w io.Writer, sc *scenario.Scenario, cfg sim.Config, ramp string, b mc.Budget, lines ...string) {
 	fmt.Fprintf(w, "Scenario %s\n%s\n", sc.Name, Describe(sc, cfg, ramp))
 	fmt.Fprintf(w, "Noise budget: %s\n", BudgetLine(b))
+	if note := ClampNote(cfg, b); note != "" {
+		fmt.Fprintln(w, note)
+	}
 	for _, line := range lines {
 		fmt.Fprintln(w, line)
 	}

@@ -42,39 +42,65 @@ func PrintSensitivity(w io.Writer, rep SensitivityReport) error {
 	return d.Render(w)
 }
 
-// sobolGrid returns the table of the Sobol' indices, a row per input.
+// sobolGrid returns the table of the Sobol' indices, a row per input. An
+// index is a share of a variance, in [0, 1]: estimates and bounds are shown
+// clipped to it, an estimate that sampling error put outside it is marked
+// "*", and an interval wholly outside it "!" (the JSON keeps the raw
+// values).
 func sobolGrid(rep SensitivityReport) *Grid {
 	conf := Sig(100*rep.Indices.Confidence, 3) + " % interval"
-	f := func(x float64) string { return Fixed(x, 3) }
 	t := NewGrid(fmt.Sprintf("Sobol' indices of contrast and bias, %d shots", rep.Shots), "Input", "Contrast S1", conf, "Contrast ST", conf, "Bias S1", conf, "Bias ST", conf)
 	for _, in := range rep.Indices.Inputs {
 		row := []string{in.Name}
 		for _, i := range []mc.Interval{in.ContrastFirst, in.ContrastTotal, in.BiasFirst, in.BiasTotal} {
-			row = append(row, f(i.Value), interval(i.Lo, i.Hi, f))
+			row = append(row, indexCell(i.Value), indexInterval(i.Lo, i.Hi))
 		}
 		t.Append(row...)
 	}
 	return t
 }
 
+// indexCell formats a Sobol' index clipped to [0, 1], marked "*" if the
+// estimate lay outside by more than the printed rounding.
+func indexCell(v float64) string {
+	s := Fixed(clip01(v), 3)
+	if s != Fixed(v, 3) {
+		s += "*"
+	}
+	return s
+}
+
+// indexInterval formats an interval of a Sobol' index clipped to [0, 1],
+// marked "!" if it excludes [0, 1] altogether.
+func indexInterval(lo, hi float64) string {
+	s := interval(clip01(lo), clip01(hi), func(x float64) string { return Fixed(x, 3) })
+	if hi < 0 || lo > 1 {
+		s += "!"
+	}
+	return s
+}
+
+func clip01(x float64) float64 { return math.Min(1, math.Max(0, x)) }
+
 // sobolNote explains the indices and gives the spread they apportion.
 func sobolNote(rep SensitivityReport) string {
 	biasStd := math.Sqrt(rep.Indices.BiasVariance)
-	return fmt.Sprintf("S1: the share of the variance an input causes alone; ST: with all its interactions (ST >= S1; 1 - sum S1 is the share of interactions). Spread over the design: contrast std %s, bias std %s rad (%s deg/h). Bootstrap intervals over the %d rows; small negative values are sampling error about zero.",
+	return fmt.Sprintf("S1: the share of the variance an input causes alone; ST: with all its interactions (ST >= S1; 1 - sum S1 is the share of interactions). Spread over the design: contrast std %s, bias std %s rad (%s deg/h). Bootstrap intervals over the %d rows. Indices lie in [0, 1] and are shown clipped to it: * marks an estimate that sampling error put outside (the JSON keeps it), ! an interval wholly outside, which more base rows (--base) would resolve.",
 		Sci(math.Sqrt(rep.Indices.ContrastVariance), 3), Sci(biasStd, 3), Sci(mc.BiasDegPerH(biasStd, rep.ScaleFactorS), 3), rep.BaseRows)
 }
 
 // derivativeGrid returns the table of local derivatives, nil without a
-// static error in the budget.
+// static error in the budget. Steps and derivatives are per the lab unit
+// of each input's source, the unit of its tolerance.
 func derivativeGrid(rep SensitivityReport) *Grid {
 	if len(rep.Derivatives) == 0 {
 		return nil
 	}
-	t := NewGrid(strings.TrimSuffix(derivativesLead, ":"), "Input", "Step h", "Unit", "dC/dx", "d2C/dx2", "Contrast change C'' h^2/2",
+	t := NewGrid(strings.TrimSuffix(derivativesLead, ":"), "Input", "Step h", "Unit", "dC/dx (per unit)", "d2C/dx2 (per unit^2)", "Contrast change C'' h^2/2",
 		"db/dx (rad per unit)", "Bias shift b' h (rad)", "Bias shift b' h (deg/h)")
 	for _, d := range rep.Derivatives {
-		shift := d.BiasRad * d.StepSI
-		t.Append(d.Input, Sig(d.StepSI, 4), siUnit(d.Input), Sci(d.Contrast, 3), Sci(d.ContrastSecond, 3), Sci(d.ContrastSecond*d.StepSI*d.StepSI/2, 3),
+		shift := d.BiasRad * d.Step
+		t.Append(d.Input, Sig(d.Step, 4), d.Unit, Sci(d.Contrast, 3), Sci(d.ContrastSecond, 3), Sci(d.ContrastSecond*d.Step*d.Step/2, 3),
 			Sci(d.BiasRad, 3), Sci(shift, 3), Sci(mc.BiasDegPerH(shift, rep.ScaleFactorS), 3))
 	}
 	return t
@@ -99,12 +125,6 @@ func SensitivitySection(rep SensitivityReport) (report.Section, error) {
 		sec.Text += "\n\n" + noDerivatives
 	}
 	return sec, nil
-}
-
-// siUnit is the SI unit of a static parameter, from the table of sources.
-func siUnit(param string) string {
-	u, _ := mc.InputUnit(param)
-	return u
 }
 
 // WriteSensitivity writes the indices and their bar charts to dir.
@@ -138,7 +158,7 @@ func sensitivityFigures(rep SensitivityReport) ([]namedFigure, error) {
 				b *plots.BarSeries
 				i mc.Interval
 			}{{&first, output.first(in)}, {&total, output.total(in)}} {
-				s.b.Values, s.b.Lo, s.b.Hi = append(s.b.Values, s.i.Value), append(s.b.Lo, s.i.Lo), append(s.b.Hi, s.i.Hi)
+				s.b.Values, s.b.Lo, s.b.Hi = append(s.b.Values, clip01(s.i.Value)), append(s.b.Lo, clip01(s.i.Lo)), append(s.b.Hi, clip01(s.i.Hi))
 			}
 		}
 		fig, err := plots.Bars(rep.Inputs, []plots.BarSeries{first, total}, plots.BarsOptions{
@@ -149,7 +169,7 @@ func sensitivityFigures(rep SensitivityReport) ([]namedFigure, error) {
 		if err != nil {
 			return nil, fmt.Errorf("bar chart of the %s indices: %w", output.label, err)
 		}
-		caption := fmt.Sprintf("First-order and total Sobol' indices of the %s for each input, with their %s %% bootstrap intervals.", output.label, Sig(100*rep.Indices.Confidence, 3))
+		caption := fmt.Sprintf("First-order and total Sobol' indices of the %s for each input, with their %s %% bootstrap intervals, clipped to [0, 1].", output.label, Sig(100*rep.Indices.Confidence, 3))
 		out = append(out, namedFigure{name: "sensitivity-" + output.name, caption: caption, fig: fig})
 	}
 	return out, nil

@@ -270,8 +270,8 @@ func (rep *ShotReport) Print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	t.Append("Ground band after ramp-up, arm s = +1", Fixed(rep.GroundBand[0], 5), "")
 	t.Append("Ground band after ramp-up, arm s = -1", Fixed(rep.GroundBand[1], 5), "")
 	if ro := rep.Readout; ro != nil {
-		t.Append(fmt.Sprintf("Projection noise per shot, %s atoms", Sig(ro.Atoms, 6)), Sci(ro.ProjectionRadS, 3), "rad/s")
-		t.Append(fmt.Sprintf("Projection noise per shot, %s atoms", Sig(ro.Atoms, 6)), Sci(ro.ProjectionDegPerH, 3), "deg/h")
+		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms", Sig(ro.Atoms, 6)), Sci(ro.ProjectionRadS, 3), "rad/s")
+		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms", Sig(ro.Atoms, 6)), Sci(ro.ProjectionDegPerH, 3), "deg/h")
 		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", Sig(ro.CycleS, 6)), Sci(ro.ARWDegPerSqrtH, 3), "deg/sqrt(h)")
 	}
 	t.Append("Momentum grid", strconv.Itoa(rep.Grid), "states")

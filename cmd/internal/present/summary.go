@@ -29,7 +29,7 @@ func BudgetLine(b mc.Budget) string {
 		}
 		line := s.Line
 		if s.Kind == mc.Static {
-			line = strings.ReplaceAll(line, "{}", Sig(s.Scale**s.Sigma(&b), 3)+" "+s.Unit)
+			line = strings.ReplaceAll(line, "{}", Amount(s, *s.Sigma(&b)))
 		}
 		parts = append(parts, strings.ReplaceAll(line, "{correlation}", Sig(b.PhaseCorrelation, 3)))
 	}

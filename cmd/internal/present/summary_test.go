@@ -16,7 +16,7 @@ func TestBudgetLine(t *testing.T) {
 		TemperatureSpreadK: 5e-9, PulseAreaRel: 0.01,
 		RIN: noise.White{Level: 1e-12}, Phase: noise.White{Level: 1e-12}, PhaseCorrelation: 0.5,
 	}
-	want := "depth 1 % common, 0.0002 % differential, intensity noise, drive phase noise (correlation 0.5), " +
+	want := "depth 1 % common, 2 ppm differential, intensity noise, drive phase noise (correlation 0.5), " +
 		"clock 1 ppm, speed 3 ppm, skew 20 ns, temperature spread 5 nK, pulse area 1 % (standard deviations)"
 	if got := BudgetLine(b); got != want {
 		t.Errorf("budget line\n got %q\nwant %q", got, want)

@@ -3,6 +3,7 @@ package present
 import (
 	"io"
 	"strconv"
+	"strings"
 
 	"github.com/olekukonko/tablewriter"
 	"github.com/olekukonko/tablewriter/renderer"
@@ -38,7 +39,15 @@ func Sig(x float64, n int) string { return strconv.FormatFloat(x, 'g', n, 64) }
 func Sci(x float64, n int) string { return strconv.FormatFloat(x, 'e', n-1, 64) }
 
 // Fixed formats x with n digits after the decimal point.
-func Fixed(x float64, n int) string { return strconv.FormatFloat(x, 'f', n, 64) }
+//
+// A value that rounds to zero prints without a sign: never "-0.000".
+func Fixed(x float64, n int) string {
+	s := strconv.FormatFloat(x, 'f', n, 64)
+	if strings.HasPrefix(s, "-") && strings.Trim(s, "-0.") == "" {
+		return s[1:]
+	}
+	return s
+}
 
 func YesNo(b bool) string {
 	if b {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"rampart/cmd/internal/plots"
@@ -23,6 +24,7 @@ var toleranceStatusNotes = map[mc.ToleranceStatus]string{
 	mc.ToleranceAboveRange: "above-range: the spec holds up to the largest amplitude searched, so the tolerance shown is a lower bound.",
 	mc.ToleranceBelowRange: "below-range: the spec holds with the source off but fails at the smallest amplitude searched (1/1000 of the start).",
 	mc.ToleranceNone:       "fails-without-source: the spec fails even with the source off; the other sources or the sequence itself break it.",
+	mc.ToleranceUndecided:  "undecided-without-source: the spec fails at the start and is undecided even with the source off: the ensembles are too small to show it holds; run with more --samples",
 }
 
 // ToleranceGrid returns the tolerance table: a row per source searched.
@@ -61,8 +63,12 @@ func ToleranceGrid(rep ToleranceReport) *Grid {
 // ToleranceNotes explain the tolerance table: what a tolerance is, and
 // the statuses and marks it shows.
 func ToleranceNotes(rep ToleranceReport) []string {
+	each := "Each tolerance holds with every other source at its value in the budget."
+	if slices.ContainsFunc(rep.Results, func(r mc.ToleranceResult) bool { return r.Source == mc.SourceBudget }) {
+		each = "Each tolerance holds with every other source at its value in the budget; budget is the factor by which the whole budget may be scaled."
+	}
 	out := []string{
-		"Each tolerance holds with every other source at its value in the budget; budget is the factor by which the whole budget may be scaled.",
+		each,
 		fmt.Sprintf("The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.", Sig(rep.Results[0].Precision, 3)),
 	}
 	statuses := map[mc.ToleranceStatus]bool{}
@@ -71,15 +77,60 @@ func ToleranceNotes(rep ToleranceReport) []string {
 		statuses[res.Status] = true
 		monotone = monotone && res.Monotone
 	}
-	for _, s := range []mc.ToleranceStatus{mc.ToleranceAboveRange, mc.ToleranceBelowRange, mc.ToleranceNone} {
+	for _, s := range []mc.ToleranceStatus{mc.ToleranceAboveRange, mc.ToleranceBelowRange, mc.ToleranceNone, mc.ToleranceUndecided} {
 		if statuses[s] {
-			out = append(out, toleranceStatusNotes[s])
+			out = append(out, toleranceStatusNotes[s]+undecidedMore(rep, s))
 		}
+	}
+	if note := yieldBySampling(rep); note != "" {
+		out = append(out, note)
 	}
 	if !monotone {
 		out = append(out, "* The criterion's value was not monotone in the amplitude over the ensembles tried (sampling noise); the curves carry its monotone envelope.")
 	}
 	return out
+}
+
+// undecidedMore completes the note of undecided-without-source with how
+// many more realisations per ensemble would decide the source off.
+func undecidedMore(rep ToleranceReport, s mc.ToleranceStatus) string {
+	if s != mc.ToleranceUndecided {
+		return ""
+	}
+	n := 0
+	for _, res := range rep.Results {
+		if res.Status == s {
+			n = max(n, res.OffExtra())
+		}
+	}
+	if n == 0 {
+		return "."
+	}
+	return fmt.Sprintf(" (about %d more per ensemble would decide it).", n)
+}
+
+// yieldBySampling warns when every tolerance found is bound by the yield
+// at n of n: each is the amplitude at which the first of the n
+// realisations leaves the yield's window, and the bound that n of n
+// allows (the Clopper-Pearson bound alpha^(1/n)) sits just above the
+// limit, so the tolerances are set by the ensemble's size rather than by
+// the physics.
+func yieldBySampling(rep ToleranceReport) string {
+	found := 0
+	for _, res := range rep.Results {
+		if res.At == nil {
+			continue
+		}
+		c, ok := res.Binding(*res.At)
+		if !ok || c.Name != mc.CriterionYield || c.Value != 1 {
+			return ""
+		}
+		found++
+	}
+	if found == 0 {
+		return ""
+	}
+	return fmt.Sprintf("Warning: every tolerance is bound by the yield at %d of %d realisations: one realisation leaving the yield's window fails the bound, so the tolerances are set by the ensemble size, not by the physics; run with more --samples.", rep.Samples, rep.Samples)
 }
 
 // ToleranceSection takes what tolerance --json prints and shows the
@@ -133,20 +184,22 @@ func toleranceFigures(rep ToleranceReport) ([]namedFigure, error) {
 		if err != nil {
 			return nil, fmt.Errorf("figure of the tolerance of %s: %w", res.Source, err)
 		}
-		caption := fmt.Sprintf("The binding criterion %s against the amplitude of %s (%s), with its one-sided bounds, the spec limit and the tolerance.", res.Metric, res.Source, res.Unit)
-		out = append(out, namedFigure{name: "tolerance-" + res.Source, caption: caption, fig: fig})
+		caption := fmt.Sprintf("The binding criterion %s against the amplitude of %s (%s): its monotone envelope (the running worst value from the lowest amplitude up) with its one-sided bounds, the spec limit and the tolerance.", res.Metric, res.Source, res.Unit)
+		if !res.Monotone {
+			caption += " The estimates at each amplitude, not monotone over the ensembles tried (sampling noise), are drawn beside it."
+		}
+		out = append(out, namedFigure{name: "tolerance-" + strings.ReplaceAll(res.Source, ".", "-"), caption: caption, fig: fig})
 	}
 	return out, nil
 }
 
-// toleranceFigure plots the binding criterion of one search against the
-// amplitude, with its one-sided bounds, the limit and the tolerance.
+// toleranceFigure plots the monotone envelope of the binding criterion of
+// one search against the amplitude (the running worst value from the
+// lowest amplitude up, which the tolerance rests on), with its one-sided
+// bounds, the limit and the tolerance; when sampling noise made the
+// estimates themselves non-monotone, they are drawn too.
 func toleranceFigure(res mc.ToleranceResult, confidence float64) (*plots.Figure, error) {
-	var x, y, lo, hi []float64
-	for _, p := range res.Points {
-		x, y = append(x, p.Amplitude), append(y, p.Value)
-		lo, hi = append(lo, p.Lo), append(hi, p.Hi)
-	}
+	x, y, raw, lo, hi := toleranceCurve(res)
 	c, _ := res.Binding(res.Points[0])
 	opts := plots.LinesOptions{
 		Title:  fmt.Sprintf("Tolerance of %s: %s", res.Source, res.Status),
@@ -159,7 +212,21 @@ func toleranceFigure(res mc.ToleranceResult, confidence float64) (*plots.Figure,
 	if a, ok := res.Tolerance(); ok {
 		opts.VLines = []plots.Marker{{Label: "tolerance " + Sig(a, 3) + " " + res.Unit, Value: a}}
 	}
-	return plots.Lines([]plots.Series{{Name: criterionLabels[res.Metric], X: x, Y: y}}, opts)
+	series := []plots.Series{{Name: criterionLabels[res.Metric] + " (monotone envelope)", X: x, Y: y}}
+	if !res.Monotone {
+		series = append(series, plots.Series{Name: "estimate at each amplitude", X: x, Y: raw})
+	}
+	return plots.Lines(series, opts)
+}
+
+// toleranceCurve returns what a tolerance figure draws: the amplitudes,
+// the envelope's value, the raw estimates, and the envelope's bounds.
+func toleranceCurve(res mc.ToleranceResult) (x, envelope, raw, lo, hi []float64) {
+	for _, p := range res.Points {
+		x, envelope, raw = append(x, p.Amplitude), append(envelope, p.Envelope.Value), append(raw, p.Value)
+		lo, hi = append(lo, p.Envelope.Lo), append(hi, p.Envelope.Hi)
+	}
+	return x, envelope, raw, lo, hi
 }
 
 // ToleranceReport is what tolerance --json prints.
