@@ -50,6 +50,6 @@ func newRoot(e env) *cobra.Command {
 	root.SetVersionTemplate("{{.Version}}")
 	root.AddCommand(newShotCmd(e, runShot), newRampCmd(e, runRamp), newRunCmd(e, runRun), newMergeCmd(e, runMerge),
 		newRankCmd(e, runRank), newQualifyCmd(e, runQualify), newToleranceCmd(e, runTolerance),
-		newSensitivityCmd(e, runSensitivity), newDemoCmd(e), newScanCmd(e, runScan), newEdgeCmd(e, runEdge))
+		newSensitivityCmd(e, runSensitivity), newDemoCmd(e), newScanCmd(e, runScan), newEdgeCmd(e, runEdge), newRobustCmd(e, runRobust))
 	return root
 }
