@@ -148,9 +148,16 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 		}
 	} else {
 		rep.Samples, rep.Seed, rep.Confidence = o.ens.samples, o.ens.seed, o.ens.confidence
+		// One noise grid for every point, as rank has for its ramps, so
+		// that the noise processes are drawn alike at every point too.
+		grid, err := mc.SharedGrid(cfgs, budgets[0])
+		if err != nil {
+			return fmt.Errorf("scenario %q: %w", rep.Scenario, err)
+		}
 		for i, p := range pts {
 			ens := mc.Ensemble{Config: cfgs[i], Budget: budgets[i], Samples: o.ens.samples, Seed: o.ens.seed, Sampler: o.ens.sampler}
-			run, _, err := runPart(ctx, e, stderr, scs[i], ens, nil, o.ens, fmt.Sprintf("point-%03d", i), "scan "+strings.Join(p.Sets, " "))
+			tag := grid.Apply(&ens)
+			run, _, err := runPart(ctx, e, stderr, scs[i], ens, tag, o.ens, fmt.Sprintf("point-%03d", i), "scan "+strings.Join(p.Sets, " "))
 			if err != nil {
 				return err
 			}
