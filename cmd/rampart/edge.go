@@ -17,7 +17,7 @@ import (
 	"rampart/scenario"
 )
 
-// EdgeFile holds the search's result in its output directory.
+// edgeFile holds the search's result in its output directory.
 const edgeFile = "edge.json"
 
 type edgeOptions struct {
