@@ -36,4 +36,5 @@ require (
 	github.com/spf13/pflag v1.0.9
 	golang.org/x/sys v0.50.0 // indirect
 	golang.org/x/text v0.28.0 // indirect
+	golang.org/x/tools v0.36.0 // indirect
 )

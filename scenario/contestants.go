@@ -130,6 +130,18 @@ func RampVariant(base *Scenario, baseCfg sim.Config, spec string) (*Scenario, si
 	return &sc, cfg, nil
 }
 
+// designedShapes returns the names of the registered shapes with a design
+// depth.
+func designedShapes() []string {
+	var out []string
+	for _, s := range sim.Shapes {
+		if s.Designed {
+			out = append(out, s.Name)
+		}
+	}
+	return out
+}
+
 // designed reports whether kind is a registered shape with a design depth.
 func designed(kind string) bool {
 	s, err := sim.LookupShape(kind)

@@ -220,8 +220,8 @@ func (d *decoder) check() error {
 	if s.Ramp.Shape != "file" && s.Ramp.File != "" {
 		return d.fail("ramp.file", fmt.Errorf(`ramp.file is given but ramp.shape = %q: set shape = "file" to use the table, or leave file out`, s.Ramp.Shape))
 	}
-	if s.Ramp.Shape != "inverse" && s.Ramp.DesignDepthKHz != 0 {
-		return d.fail("ramp.design_depth_khz", fmt.Errorf(`ramp.design_depth_khz applies to shape "inverse" only, not %q: leave it out or set it to 0`, s.Ramp.Shape))
+	if !designed(s.Ramp.Shape) && s.Ramp.DesignDepthKHz != 0 {
+		return d.fail("ramp.design_depth_khz", fmt.Errorf(`ramp.design_depth_khz applies to shapes designed for a depth (%s) only, not %q: leave it out or set it to 0`, strings.Join(designedShapes(), ", "), s.Ramp.Shape))
 	}
 	if g, m := s.Numerics.Grid, 2*s.Ring.Sites; g%m != 0 {
 		such := fmt.Sprint(m)

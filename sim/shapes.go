@@ -39,6 +39,8 @@ var Shapes = []Shape{
 		}},
 	{Name: "inverse", Meaning: "inverse-engineered for the harmonic trap at the design depth", Designed: true,
 		New: func(r Ring, d, w, depthHz float64) (Ramp, error) { return NewInverse(r, d, w, depthHz) }},
+	{Name: "inverse-gap", Meaning: "inverse-engineered for the lattice's band gap at quasi-momentum 0 at the design depth", Designed: true,
+		New: func(r Ring, d, w, depthHz float64) (Ramp, error) { return NewInverseGap(r, d, w, depthHz) }},
 }
 
 // ShapeNames returns the names of Shapes, in registry order.

@@ -186,7 +186,7 @@ func TestRankBadInput(t *testing.T) {
 	expectRefused(t, out, []refusal{
 		{"one ramp", rank("--ramp", "a=sin2"), "1 ramp to rank: give at least two"},
 		{"no name", rank("--ramp", "sin2", "--ramp", "b=minjerk"), "--ramp sin2: want NAME=SPEC"},
-		{"unknown shape", rank("--ramp", "a=cos2", "--ramp", "b=sin2"), `--ramp a=cos2: ramp "cos2": want sin2, minjerk, inverse, inverse:DESIGN_KHZ or file:PATH`},
+		{"unknown shape", rank("--ramp", "a=cos2", "--ramp", "b=sin2"), `--ramp a=cos2: ramp "cos2": want sin2, minjerk, inverse, inverse:DESIGN_KHZ, inverse-gap, inverse-gap:DESIGN_KHZ or file:PATH`},
 		{"bad design depth", rank("--ramp", "a=inverse:-3", "--ramp", "b=sin2"), `design depth "-3": want a depth V0/h in kHz > 0`},
 		{"missing ramp file", rank("--ramp", "a=file:nowhere.csv", "--ramp", "b=sin2"), `--ramp a=file:nowhere.csv: ramp file "nowhere.csv": cannot read the file`},
 		{"bad name", rank("--ramp", "a/b=sin2", "--ramp", "c=minjerk"), `ramp name "a/b": want letters, digits`},

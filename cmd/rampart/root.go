@@ -55,7 +55,8 @@ func newRoot(e env) *cobra.Command {
 	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return flagError(err) })
 	root.AddCommand(newShotCmd(e, runShot), newRampCmd(e, runRamp), newRunCmd(e, runRun), newMergeCmd(e, runMerge),
 		newRankCmd(e, runRank), newQualifyCmd(e, runQualify), newToleranceCmd(e, runTolerance),
-		newSensitivityCmd(e, runSensitivity), newResponseCmd(e, runResponse), newDemoCmd(e))
+		newSensitivityCmd(e, runSensitivity), newResponseCmd(e, runResponse), newScanCmd(e, runScan), newEdgeCmd(e, runEdge),
+		newRobustCmd(e, runRobust), newDemoCmd(e))
 	return root
 }
 

@@ -41,6 +41,8 @@ func PrintDrive(w io.Writer, sc *scenario.Scenario, cfg sim.Config) error {
 // shapeName describes a ramp-up for the summary.
 func shapeName(r sim.Ramp) string {
 	switch r := r.(type) {
+	case sim.InverseGap:
+		return fmt.Sprintf("inverse-engineered for the band gap %s kHz at %s kHz", Sig(r.GapHz/1e3, 4), Sig(r.DesignDepth/1e3, 6))
 	case sim.Inverse:
 		return fmt.Sprintf("inverse-engineered for %s kHz (trap %s kHz)", Sig(r.DesignDepth/1e3, 6), Sig(r.TrapRadS/(2*math.Pi)/1e3, 4))
 	case *sim.Tabulated:

@@ -1,0 +1,147 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// scanJSON is the part of a scan's JSON the tests read.
+type scanJSON struct {
+	Keys   []string
+	Points []struct {
+		Values  []float64
+		Nominal *struct {
+			Contrast float64 `json:"contrast"`
+			PhaseRad float64 `json:"phase_rad"`
+		}
+		Ensemble *struct {
+			ContrastP05 struct {
+				Value float64
+				CI    *[2]float64
+			} `json:"contrast_p05"`
+			AbsBiasP95 struct{ Value float64 } `json:"abs_bias_p95_rad"`
+		}
+	}
+}
+
+func readScan(t *testing.T, stdout string) scanJSON {
+	t.Helper()
+	var s scanJSON
+	if err := json.Unmarshal([]byte(stdout), &s); err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+// TestScanNominal checks a noise-free scan of the ramp time against rampart
+// shot at each value (the same shot by another command), and the files of
+// --out: a CSV row per point and both figures.
+func TestScanNominal(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "scan")
+	stdout, stderr, code := execute(t, "scan", "--scenario", ensembleScenario, "--vary", "ramp.duration_us=100:200:3", "--json", "--out", out)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	s := readScan(t, stdout)
+	if len(s.Points) != 3 || s.Keys[0] != "ramp.duration_us" {
+		t.Fatalf("%d points of %v, want 3 of ramp.duration_us", len(s.Points), s.Keys)
+	}
+	for _, p := range s.Points {
+		v := strconv.FormatFloat(p.Values[0], 'g', -1, 64)
+		shot, stderr, code := execute(t, "shot", "--scenario", ensembleScenario, "--set", "ramp.duration_us="+v, "--json")
+		if code != 0 {
+			t.Fatalf("shot at %s: exit %d: %s", v, code, stderr)
+		}
+		var r struct {
+			Contrast float64 `json:"contrast"`
+		}
+		if err := json.Unmarshal([]byte(shot), &r); err != nil {
+			t.Fatal(err)
+		}
+		if p.Nominal == nil || p.Nominal.Contrast != r.Contrast {
+			t.Errorf("t_r %s us: scan contrast %v, shot %v: want the same", v, p.Nominal, r.Contrast)
+		}
+	}
+	csv, err := os.ReadFile(filepath.Join(out, "scan.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if lines := strings.Split(strings.TrimSpace(string(csv)), "\n"); len(lines) != 4 || !strings.HasPrefix(lines[0], "ramp.duration_us,contrast,phase_rad") {
+		t.Errorf("scan.csv: %d lines, header %q", len(lines), lines[0])
+	}
+	for _, f := range []string{"scan.json", "scan-contrast.svg", "scan-contrast.png", "scan-bias.svg"} {
+		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
+			t.Error(err)
+		}
+	}
+}
+
+// TestScanEnsembleCommonRandomNumbers scans a key that the shot ignores
+// (the readout's atom number): with common random numbers every point draws
+// the same realisations, so every point's figures must agree exactly; and
+// a point's 5th-percentile contrast is the one rampart run reports with the
+// same seed.
+func TestScanEnsembleCommonRandomNumbers(t *testing.T) {
+	dir := t.TempDir()
+	spec := writeSpec(t, dir, "spec.toml", "[contrast]\np05_min = 0.9\n")
+	out := filepath.Join(dir, "scan")
+	args := []string{"scan", "--scenario", ensembleScenario, "--set", "readout.cycle_s=1", "--vary", "readout.atoms=100,1000", "--ensemble", "--samples", "80", "--seed", "4", "--spec", spec, "--json", "--out", out}
+	stdout, stderr, code := execute(t, args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	s := readScan(t, stdout)
+	a, b := s.Points[0].Ensemble, s.Points[1].Ensemble
+	if a == nil || b == nil || a.ContrastP05.Value != b.ContrastP05.Value || a.AbsBiasP95.Value != b.AbsBiasP95.Value {
+		t.Fatalf("points %+v and %+v: want identical figures on common random numbers", a, b)
+	}
+	if a.ContrastP05.CI == nil {
+		t.Errorf("80 realisations: no p05 interval, want one (72 suffice at 95 %%, Wilks 1941)")
+	}
+	run, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--samples", "80", "--seed", "4", "--json")
+	if code != 0 {
+		t.Fatalf("run: exit %d: %s", code, stderr)
+	}
+	var sum struct {
+		Contrast struct{ P05 float64 }
+	}
+	if err := json.Unmarshal([]byte(run), &sum); err != nil {
+		t.Fatal(err)
+	}
+	if sum.Contrast.P05 != a.ContrastP05.Value {
+		t.Errorf("scan p05 %v, run p05 %v: want the same", a.ContrastP05.Value, sum.Contrast.P05)
+	}
+	// --resume continues from the stored runs and gives the same figures.
+	args[len(args)-2] = "--resume"
+	again, stderr, code := execute(t, args...)
+	if code != 0 || again != stdout {
+		t.Errorf("resume: exit %d (%s), output changed: %v", code, stderr, again != stdout)
+	}
+}
+
+func TestScanBadInput(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "out")
+	for _, tc := range []struct {
+		args []string
+		msg  string
+	}{
+		{[]string{"--vary", "ramp.duration_us=1:2"}, "want FROM:TO:N"},
+		{[]string{"--vary", "ramp.nope_us=1,2"}, "scan point ramp.nope_us=1"},
+		{[]string{"--vary", "ramp.duration_us=-5,100"}, "scan point ramp.duration_us=-5"},
+		{[]string{"--vary", "a=1,2", "--vary", "b=1,2", "--vary", "c=1,2"}, "scan one or two keys"},
+		{[]string{"--vary", "ramp.duration_us=100,200", "--resume", out}, "only an --ensemble scan"},
+	} {
+		_, stderr, code := execute(t, append([]string{"scan", "--scenario", ensembleScenario, "--out", out}, tc.args...)...)
+		if code != 2 || !strings.Contains(stderr, tc.msg) || strings.Count(strings.TrimSpace(stderr), "\n") != 0 {
+			t.Errorf("%v: exit %d, stderr %q; want 2 and one line containing %q", tc.args, code, stderr, tc.msg)
+		}
+		if _, err := os.Stat(out); err == nil {
+			t.Errorf("%v: %s was created", tc.args, out)
+		}
+	}
+}

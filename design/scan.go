@@ -1,0 +1,126 @@
+package design
+
+import (
+	"context"
+	"runtime"
+	"sync"
+
+	"rampart/mc"
+	"rampart/sim"
+)
+
+// Nominal is the noise-free shot at one point of a scan (sim.Result) with
+// the drive's peak speed.
+type Nominal struct {
+	Contrast float64 `json:"contrast"`
+	PhaseRad float64 `json:"phase_rad"`
+	BiasRad  float64 `json:"bias_rad"`
+	// Ground is each arm's ground-band population after the ramp-up.
+	Ground [2]float64 `json:"ground_after_ramp_up"`
+	// PeakSpeedRadS is the largest |Omega| of the ramp-up (sim.PeakSpeed),
+	// above the cruise speed for a ramp that overshoots; Reverses reports a
+	// ramp whose speed changes sign.
+	PeakSpeedRadS float64 `json:"peak_speed_rad_s"`
+	Reverses      bool    `json:"reverses,omitempty"`
+}
+
+// NominalOf returns the scan figures of one noise-free shot of cfg.
+func NominalOf(cfg sim.Config) (Nominal, error) {
+	s, err := sim.NewSimulator(cfg)
+	if err != nil {
+		return Nominal{}, err
+	}
+	r := s.Run(sim.Shot{}, nil)
+	peak, rev := sim.PeakSpeed(cfg.Sequence.Up)
+	return Nominal{Contrast: r.Contrast, PhaseRad: r.PhaseRad, BiasRad: r.BiasRad,
+		Ground: r.GroundAfterRampUp, PeakSpeedRadS: peak, Reverses: rev}, nil
+}
+
+// ScanNominal runs the noise-free shot of every configuration on workers
+// goroutines (all cores if workers < 1) and returns the results in the
+// order of cfgs; done, if not nil, is called after each shot (from any
+// goroutine, one call at a time). The points are independent, so the
+// result does not depend on workers. On an error, or the cancellation of
+// ctx, it returns the first error met.
+func ScanNominal(ctx context.Context, cfgs []sim.Config, workers int, done func()) ([]Nominal, error) {
+	if workers < 1 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	out := make([]Nominal, len(cfgs))
+	errs := make([]error, len(cfgs))
+	next := make(chan int)
+	var wg sync.WaitGroup
+	var mu sync.Mutex
+	for range min(workers, len(cfgs)) {
+		wg.Go(func() {
+			for i := range next {
+				out[i], errs[i] = NominalOf(cfgs[i])
+				if done != nil {
+					mu.Lock()
+					done()
+					mu.Unlock()
+				}
+			}
+		})
+	}
+feed:
+	for i := range cfgs {
+		select {
+		case next <- i:
+		case <-ctx.Done():
+			break feed
+		}
+	}
+	close(next)
+	wg.Wait()
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
+		}
+	}
+	return out, nil
+}
+
+// Bounded is an ensemble statistic with its two-sided confidence interval
+// at the summary's confidence; CI is nil when no interval exists at this
+// ensemble size, and NoBoundBelow then gives the size that would have one.
+type Bounded struct {
+	Value        float64     `json:"value"`
+	CI           *[2]float64 `json:"ci,omitempty"`
+	NoBoundBelow int         `json:"no_bound_below,omitempty"`
+}
+
+// Metrics are the ensemble figures of one point of a scan, taken from its
+// summary (mc.Summarise): the 5th-percentile contrast and the 95th
+// percentile of |bias| with their exact distribution-free order-statistic
+// intervals (stats.QuantileInterval), the mean contrast with its
+// bootstrap-t interval, and the yield inside the spec with its
+// Clopper-Pearson interval (nil without a spec).
+type Metrics struct {
+	Samples      int             `json:"samples"`
+	Confidence   float64         `json:"confidence"`
+	ContrastMean Bounded         `json:"contrast_mean"`
+	ContrastP05  Bounded         `json:"contrast_p05"`
+	AbsBiasP95   Bounded         `json:"abs_bias_p95_rad"`
+	Yield        *mc.YieldResult `json:"yield,omitempty"`
+}
+
+// MetricsOf returns the scan figures of an ensemble summary.
+func MetricsOf(s mc.Summary) Metrics {
+	return Metrics{Samples: s.Samples, Confidence: s.Confidence,
+		ContrastMean: bounded(s.Contrast, "mean", s.Contrast.Mean),
+		ContrastP05:  bounded(s.Contrast, "p05", s.Contrast.P05),
+		AbsBiasP95:   bounded(s.AbsBiasRad, "p95", s.AbsBiasRad.P95),
+		Yield:        s.Yield}
+}
+
+func bounded(d mc.Distribution, key string, v float64) Bounded {
+	b := Bounded{Value: v, NoBoundBelow: d.NoBoundBelow[key]}
+	if ci, ok := d.CI[key]; ok {
+		b.CI = &ci
+	}
+	return b
+}
