@@ -201,7 +201,13 @@ func (w *Worker) ShotAt(index int, z []float64, noise [2]int) (sim.Shot, Record)
 		panic("mc: ShotAt needs StaticDim normal variates")
 	}
 	rec := Record{Index: index, Inputs: make([]float64, len(r.params))}
-	var sh sim.Shot
+	sh := r.ens.Budget.Apparatus
+	if sh.Scattering.RateS != [2]float64{} {
+		// Each realisation is one atom: it scatters or not (docs/model.md,
+		// Perturbations, photon scattering), from its own stream.
+		sh.Scattering.Cloud = false
+		sh.Scattering.Uniform = Substream(r.ens.Seed, index, "scattering").Float64()
+	}
 	k, active := 0, 0
 	for _, src := range Sources {
 		if src.Kind != Static {

@@ -240,7 +240,11 @@ type Derivative struct {
 // simulation's rounding.
 func LocalDerivatives(r *Realiser) []Derivative {
 	w := r.NewWorker()
-	nominal := w.RunShot(sim.Shot{}, Record{})
+	// The apparatus's settings stay; its photon scattering enters as the
+	// mean of a cloud, so that the derivatives are those of smooth functions.
+	base := r.Ensemble().Budget.Apparatus
+	base.Scattering.Cloud = true
+	nominal := w.RunShot(base, Record{})
 	var out []Derivative
 	z := make([]float64, StaticDim)
 	shot := func(k int, x float64) Record {
@@ -248,6 +252,7 @@ func LocalDerivatives(r *Realiser) []Derivative {
 		sh, rec := w.ShotAt(0, z, [2]int{})
 		z[k] = 0
 		sh.DepthNoise, sh.Jitter = [2]*sim.Series{}, [2]*sim.Series{}
+		sh.Scattering.Cloud = true
 		return w.RunShot(sh, rec)
 	}
 	for k, p := range r.Ensemble().Budget.allParams() {

@@ -15,7 +15,8 @@ import (
 // Budget returns the Monte Carlo noise budget of the scenario's [noise.*]
 // tables, converted from file units to SI: every static row of mc.Sources
 // reads its key (mc.Source.Scenario) scaled by its FileScale; the noise
-// processes read their level, band or table.
+// processes read their level, band or table. Its Apparatus is the
+// scenario's (Scenario.Apparatus).
 func (sc *Scenario) Budget() (mc.Budget, error) {
 	n := sc.Noise
 	b := mc.Budget{PhaseCorrelation: n.Drive.Correlation}
@@ -47,6 +48,11 @@ func (sc *Scenario) Budget() (mc.Budget, error) {
 	case n.Drive.PhaseDBcPerHz != 0:
 		b.Phase = noise.White{Level: noise.PhaseFromDBc(n.Drive.PhaseDBcPerHz)}
 	}
+	app, err := sc.Apparatus()
+	if err != nil {
+		return mc.Budget{}, err
+	}
+	b.Apparatus = app
 	if err := b.Validate(); err != nil {
 		return mc.Budget{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}

@@ -245,7 +245,7 @@ func (d *decoder) check() error {
 		}
 		return d.fail(given, fmt.Errorf("%s needs %s too: give both for gyroscope figures, or neither", given, other))
 	}
-	return nil
+	return d.checkApparatus()
 }
 
 // fail attaches err to the key whose value caused it: its line in the file,
