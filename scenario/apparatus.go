@@ -121,12 +121,16 @@ func (d *decoder) checkApparatus() error {
 			return d.fail("lattice.wavelength_nm", err)
 		}
 	}
-	if r := s.Ring; (r.HarmonicOrder > 0) != given("ring.harmonic_rel") || (given("ring.harmonic_phase_deg") && r.HarmonicOrder == 0) {
-		k := "ring.harmonic_order"
-		if r.HarmonicOrder > 0 {
-			k = "ring.harmonic_rel"
+	// A harmonic is on when its order and amplitude are both non-zero; a
+	// zero order or amplitude (say from --set) switches it off, but a key
+	// without its partner is a mistake.
+	if r := s.Ring; r.HarmonicOrder > 0 && !given("ring.harmonic_rel") {
+		return d.fail("ring.harmonic_order", fmt.Errorf("ring.harmonic_order = %d needs ring.harmonic_rel, the harmonic's relative amplitude (ring.harmonic_phase_deg is optional)", r.HarmonicOrder))
+	}
+	for _, k := range []string{"ring.harmonic_rel", "ring.harmonic_phase_deg"} {
+		if given(k) && !given("ring.harmonic_order") {
+			return d.fail(k, fmt.Errorf("%s needs ring.harmonic_order, the harmonic's order k > 0", k))
 		}
-		return d.fail(k, fmt.Errorf("a depth harmonic needs both ring.harmonic_order (> 0) and ring.harmonic_rel (ring.harmonic_phase_deg is optional)"))
 	}
 	return nil
 }

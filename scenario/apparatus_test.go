@@ -122,8 +122,8 @@ func TestApparatusBad(t *testing.T) {
 		{[]string{"lattice.wavelength_nm=780.5"}, "lattice.wavelength_nm", "within 1 nm of the D2 line"},
 		{[]string{"lattice.wavelength_nm=785", "lattice.scattering_plus_per_s=1"}, "lattice.scattering_plus_per_s", "both given"},
 		{[]string{"ring.tilt_mrad=11"}, "ring.tilt_mrad", "from -10 to 10"},
-		{[]string{"ring.harmonic_order=2"}, "ring.harmonic_rel", "needs both"},
-		{[]string{"ring.harmonic_rel=1e-3"}, "ring.harmonic_order", "needs both"},
+		{[]string{"ring.harmonic_order=2"}, "ring.harmonic_order", "needs ring.harmonic_rel"},
+		{[]string{"ring.harmonic_rel=1e-3"}, "ring.harmonic_rel", "needs ring.harmonic_order"},
 		{[]string{"ring.harmonic_order=2", "ring.harmonic_rel=0.02"}, "ring.harmonic_rel", "from -0.01 to 0.01"},
 		{[]string{"noise.ring.tilt_mrad=-1"}, "noise.ring.tilt_mrad", ">= 0"},
 	} {
