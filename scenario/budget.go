@@ -30,8 +30,21 @@ func (sc *Scenario) Budget() (mc.Budget, error) {
 		}
 		*s.Sigma(&b) = v * s.FileScale
 	}
-	if n.Depth.RINDBPerHz != 0 {
+	switch {
+	case n.Depth.RINTable != "":
+		data, err := sc.ReadFile(n.Depth.RINTable)
+		if err != nil {
+			return mc.Budget{}, fmt.Errorf("scenario %q: noise.depth.rin_table: %w", sc.Name, err)
+		}
+		t, err := noise.ParseRIN(bytes.NewReader(data), n.Depth.RINTable)
+		if err != nil {
+			return mc.Budget{}, fmt.Errorf("scenario %q: noise.depth.rin_table: %w", sc.Name, err)
+		}
+		b.RIN = t
+	case n.Depth.RINDBPerHz != 0:
 		b.RIN = noise.White{Level: noise.IntensityFromRIN(n.Depth.RINDBPerHz)}
+	}
+	if b.RIN != nil {
 		b.RINBand = noise.Band{LowHz: n.Depth.RINBandHz[0], HighHz: n.Depth.RINBandHz[1]}
 	}
 	switch {
@@ -81,7 +94,7 @@ func (sc *Scenario) Fingerprint() (hash, text string, err error) {
 	c := *sc
 	c.Name = ""
 	files := map[string]string{}
-	for _, p := range []*string{&c.Ramp.File, &c.Noise.Drive.PhaseTable} {
+	for _, p := range []*string{&c.Ramp.File, &c.Noise.Drive.PhaseTable, &c.Noise.Depth.RINTable} {
 		if *p == "" {
 			continue
 		}

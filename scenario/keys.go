@@ -147,6 +147,8 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Noise.Depth.DifferentialRel }},
 	{name: "noise.depth.rin_db_hz", kind: number, bound: levelOrOff("dB/Hz"), meaning: "the white relative intensity noise in dB/Hz",
 		field: func(s *Scenario) any { return &s.Noise.Depth.RINDBPerHz }},
+	{name: "noise.depth.rin_table", kind: file, meaning: "the intensity-noise table, a CSV file of f_hz,rin_db_hz relative to the scenario file",
+		field: func(s *Scenario) any { return &s.Noise.Depth.RINTable }},
 	{name: "noise.depth.rin_band_hz", kind: band, meaning: "the band of the intensity noise in Hz",
 		field: func(s *Scenario) any { return &s.Noise.Depth.RINBandHz }},
 	{name: "noise.drive.phase_dbc_hz", kind: number, bound: levelOrOff("dBc/Hz"), meaning: "the white single-sideband phase noise of each arm's drive in dBc/Hz",

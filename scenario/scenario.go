@@ -136,6 +136,9 @@ type DepthNoise struct {
 	// RINBandHz is the [low, high] band of the intensity noise in Hz.
 	// The zero value means the band the time grid resolves.
 	RINBandHz [2]float64
+	// RINTable is a CSV table of f_hz, rin_db_hz used instead of a white
+	// level, joined to the scenario's directory like Ramp.File.
+	RINTable string `json:",omitempty"`
 }
 
 // DriveNoise is the [noise.drive] table.
@@ -200,7 +203,8 @@ func readError(err error) error {
 	return err
 }
 
-// ReadFile reads a file the scenario refers to (Ramp.File, Noise.Drive.PhaseTable)
+// ReadFile reads a file the scenario refers to (Ramp.File, Noise.Drive.PhaseTable,
+// Noise.Depth.RINTable)
 // from where the scenario was loaded. Only a regular file of at most
 // boundedread.TableCap bytes is read (see package boundedread).
 func (s *Scenario) ReadFile(name string) ([]byte, error) {
