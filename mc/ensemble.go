@@ -40,6 +40,7 @@ type Realiser struct {
 	noiseStep float64
 	rin       *noise.Synthesizer
 	phase     *noise.Synthesizer
+	field     *noise.Synthesizer
 }
 
 // NewRealiser validates the ensemble and prepares its simulator, design and
@@ -126,6 +127,11 @@ func (r *Realiser) prepareNoise() error {
 			return fmt.Errorf("drive phase noise: %w", err)
 		}
 	}
+	if b.FieldNoise != nil {
+		if r.field, err = noise.NewSynthesizer(b.FieldNoise, n, r.noiseStep, noise.Band{HighHz: top}); err != nil {
+			return fmt.Errorf("field noise: %w", err)
+		}
+	}
 	return nil
 }
 
@@ -163,6 +169,7 @@ type Worker struct {
 	bufRIN []float64
 	bufA   []float64
 	bufB   []float64
+	field  *noise.Synthesizer
 }
 
 // NewWorker returns scratch space for one goroutine.
@@ -176,6 +183,9 @@ func (r *Realiser) NewWorker() *Worker {
 		w.phase = r.phase.Clone()
 		w.bufA = make([]float64, r.phase.Len())
 		w.bufB = make([]float64, r.phase.Len())
+	}
+	if r.field != nil {
+		w.field = r.field.Clone()
 	}
 	return w
 }
@@ -240,6 +250,12 @@ func (w *Worker) ShotAt(index int, z []float64, noise [2]int) (sim.Shot, Record)
 		phaseRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: a}, {StepS: r.noiseStep, Values: b}})
 		rec.PhaseRms = [2]float64{rms(w.bufA), rms(w.bufB)}
 	}
+	if w.field != nil {
+		// One record of the field, in G; its rms is not a column of the
+		// records. Realisation noise[0]'s stream, as the intensity noise.
+		x := w.field.Synthesize(make([]float64, w.field.Len()), Substream(r.ens.Seed, noise[0], "noise/field"))
+		fieldRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: x}})
+	}
 	return sh, rec
 }
 
@@ -259,7 +275,7 @@ func (w *Worker) RunShot(sh sim.Shot, rec Record) Record {
 }
 
 // The noise processes' rows, whose records a Worker synthesises.
-var rinRow, phaseRow = mustSource(SourceRIN), mustSource(SourcePhase)
+var rinRow, phaseRow, fieldRow = mustSource(SourceRIN), mustSource(SourcePhase), mustSource(SourceFieldNoise)
 
 func mustSource(key string) Source {
 	s, ok := LookupSource(key)

@@ -251,7 +251,7 @@ func LocalDerivatives(r *Realiser) []Derivative {
 		z[k] = x
 		sh, rec := w.ShotAt(0, z, [2]int{})
 		z[k] = 0
-		sh.DepthNoise, sh.Jitter = [2]*sim.Series{}, [2]*sim.Series{}
+		sh.DepthNoise, sh.Jitter, sh.Field.Noise = [2]*sim.Series{}, [2]*sim.Series{}, nil
 		sh.Scattering.Cloud = true
 		return w.RunShot(sh, rec)
 	}

@@ -36,6 +36,10 @@ type Budget struct {
 	// PhaseCorrelation is the correlation coefficient of the two arms'
 	// drive phase noise, in [-1, 1].
 	PhaseCorrelation float64
+	// FieldNoise is the one-sided PSD of the magnetic field's offset from
+	// the bias during the shot, in G^2/Hz (nil: none); it acts through the
+	// spin pair's Zeeman shift (Apparatus.Field.Zeeman).
+	FieldNoise noise.PSD
 
 	// Apparatus is the shot every realisation starts from: the settings of
 	// the apparatus that are not drawn (the spin pair's Zeeman
@@ -144,6 +148,7 @@ const (
 	SourcePulse       = "pulse_area_rel"
 	SourceRIN         = "rin"
 	SourcePhase       = "phase"
+	SourceFieldNoise  = "field_noise"
 	SourceBudget      = "budget"
 )
 
@@ -161,6 +166,10 @@ const (
 	RefPulseAreaRel  = 1e-2
 	RefRINDBPerHz    = -120
 	RefPhaseDBcPerHz = -120
+	// A white field noise of 1e-4 uG^2/Hz (-40 dB re 1 uG^2/Hz, 10 nG per
+	// root hertz): a quiet magnetically shielded apparatus (common
+	// practice, from memory).
+	RefFieldNoiseDB = -40
 	// A magnetically shielded apparatus holds its field to about 1 uG shot
 	// to shot, a ring's radius is calibrated to about 100 ppm, and a
 	// levelled table holds its tilt to about 0.1 mrad (common practice,
@@ -234,6 +243,15 @@ var Sources = []Source{
 		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.Jitter = arms },
 		Ref:        RefPhaseDBcPerHz, Max: math.Inf(1),
 		Line: "drive phase noise (correlation {correlation})", Reference: model + "drive phase noise",
+	},
+	{
+		Key: SourceFieldNoise, Meaning: "magnetic field noise during the shot, through the spin pair's Zeeman shift",
+		Scenario: "noise.field.noise_ug2_hz",
+		Unit:     "dB(uG^2/Hz)", Level: FieldNoiseDB, FromLevel: FieldNoiseFromDB, Kind: Process,
+		PSD:        func(b *Budget) *noise.PSD { return &b.FieldNoise },
+		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.Field.Noise = arms[0] },
+		Ref:        RefFieldNoiseDB, Max: math.Inf(1),
+		Line: "field noise", Reference: model + "magnetic field",
 	},
 	{
 		Key: ParamClock, Meaning: "waveform time-base error kappa: the profile plays (1+kappa) faster",
@@ -400,3 +418,11 @@ func (b Budget) validApparatus() error {
 	}
 	return nil
 }
+
+// FieldNoiseDB converts a one-sided field PSD in G^2/Hz to the level
+// 10 log10(S / (1 uG^2/Hz)) of tables and scenario files; FieldNoiseFromDB
+// is its inverse.
+func FieldNoiseDB(g2PerHz float64) float64 { return 10 * math.Log10(g2PerHz/1e-12) }
+
+// FieldNoiseFromDB converts a level in dB re 1 uG^2/Hz to G^2/Hz.
+func FieldNoiseFromDB(db float64) float64 { return 1e-12 * math.Pow(10, db/10) }

@@ -106,7 +106,7 @@ type Summary struct {
 	// scattered a photon). They are in Contrast (as 0), in the fringe
 	// (as z = 0) and outside every yield spec, but not in the bias
 	// distributions, whose Samples-less-Lost shots are those with a phase.
-	Lost        int          `json:"lost_shots"`
+	Lost        int          `json:"lost_shots,omitempty"`
 	Contrast    Distribution `json:"contrast"`
 	BiasRad     Distribution `json:"bias_rad"`
 	AbsBiasRad  Distribution `json:"abs_bias_rad"`

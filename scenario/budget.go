@@ -66,6 +66,9 @@ func (sc *Scenario) Budget() (mc.Budget, error) {
 		return mc.Budget{}, err
 	}
 	b.Apparatus = app
+	if n.FieldUG2PerHz > 0 {
+		b.FieldNoise = noise.White{Level: n.FieldUG2PerHz * 1e-12} // uG^2 -> G^2
+	}
 	if err := b.Validate(); err != nil {
 		return mc.Budget{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}

@@ -167,6 +167,8 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Noise.Temperature.SpreadNK }},
 	{name: "noise.pulses.area_rel", kind: number, bound: relSigma, meaning: "the sigma of the relative area error of each pi/2 pulse",
 		field: func(s *Scenario) any { return &s.Noise.Pulses.AreaRel }},
+	{name: "noise.field.noise_ug2_hz", kind: number, bound: zeroOrAbove("off"), meaning: "the white one-sided PSD of the magnetic field during the shot in uG^2/Hz",
+		field: func(s *Scenario) any { return &s.Noise.FieldUG2PerHz }},
 	{name: "readout.atoms", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the atoms detected per shot",
 		field: func(s *Scenario) any { return &s.Readout.Atoms }},
 	{name: "readout.cycle_s", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the cycle time of one shot in s",

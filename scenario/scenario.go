@@ -126,6 +126,9 @@ type Noise struct {
 	Timing      TimingNoise
 	Temperature TemperatureNoise
 	Pulses      PulseNoise
+	// FieldUG2PerHz is the white one-sided PSD of the magnetic field during
+	// the shot, uG^2/Hz ([noise.field] noise_ug2_hz; 0: none).
+	FieldUG2PerHz float64 `json:",omitempty"`
 }
 
 // DepthNoise is the [noise.depth] table.
