@@ -24,6 +24,7 @@ type Budget struct {
 	FieldOffsetG         float64 // shot-to-shot offset of the magnetic field from the bias, in gauss (the unit of sim.Zeeman)
 	RadiusRel            float64 // relative error r of the ring radius: the true radius is R (1 + r)
 	TiltRad              float64 // shot-to-shot change of the ring's tilt, rad, towards the azimuth of its lowest point
+	RotationRadS         float64 // shot-to-shot rotation-rate noise of the platform, rad/s
 
 	// Noise during the shot.
 	// RIN is the one-sided PSD of the relative intensity noise eps(t) in
@@ -139,6 +140,7 @@ const (
 	ParamFieldOffset       = "field_offset_g"
 	ParamRadius            = "radius_rel"
 	ParamTilt              = "tilt_rad"
+	ParamRotation          = "rotation_rad_s"
 )
 
 // Tolerance sources: the static parameters by their budget names, the two
@@ -177,6 +179,9 @@ const (
 	RefFieldOffsetG = 1e-6
 	RefRadiusRel    = 1e-4
 	RefTiltRad      = 1e-4
+	// A platform held to 1e-7 rad/s (about the Earth's rate over 700)
+	// from shot to shot: a quiet laboratory floor (from memory).
+	RefRotationRadS = 1e-7
 )
 
 // The largest amplitudes a search tries, whatever its Range: beyond them a
@@ -193,6 +198,9 @@ const (
 	// Six of 1.5 mrad stay within the 10 mrad where the first-order
 	// treatment of the tilt is tested (sim.RingPotential.Validate).
 	maxTiltRad = 1.5e-3
+	// 1 rad/s: far beyond any platform a Sagnac sensor sits on, still far
+	// below a cruise speed.
+	maxRotationRadS = 1
 )
 
 // relative is the SI unit of a relative error.
@@ -324,6 +332,15 @@ var Sources = []Source{
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.Potential.TiltRad += v },
 		Ref:   RefTiltRad, Max: maxTiltRad,
 		Line: "tilt {}", Reference: model + "gravity and an imperfect ring",
+	},
+	{
+		Key: ParamRotation, Meaning: "shot-to-shot rotation-rate noise of the platform about the ring's axis",
+		Scenario: "noise.platform.rotation_urad_s", FileScale: 1e-6,
+		Unit: "urad/s", Scale: 1e6, SIUnit: "rad/s", Kind: Static, Inputs: []string{ParamRotation},
+		Sigma: func(b *Budget) *float64 { return &b.RotationRadS },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.RotationOffsetRadS += v },
+		Ref:   RefRotationRadS, Max: maxRotationRadS,
+		Line: "rotation {}", Reference: model + "platform rotation",
 	},
 }
 

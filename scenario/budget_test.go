@@ -40,17 +40,28 @@ func TestBudgetReadsEverySource(t *testing.T) {
 // TestSourceKeysFromTable checks that a static row of mc.Sources whose
 // scenario key the schema lacks gets a key made from the row, stored in
 // Scenario.SourceNoise and read back by Number (and so by Budget): a new
-// source needs no change to this package. Of the rows of today, the
-// apparatus's (field offset, radius, tilt) have made keys.
+// source needs no change to this package (the apparatus's rows, field
+// offset, radius, tilt and rotation, have made keys): each made key is a
+// static row's, with the row's meaning.
 func TestSourceKeysFromTable(t *testing.T) {
-	var names []string
+	nMade := 0
 	for _, k := range keys {
-		if k.source {
-			names = append(names, k.name)
+		if !k.source {
+			continue
+		}
+		nMade++
+		found := false
+		for _, s := range mc.Sources {
+			if s.Kind == mc.Static && s.Scenario == k.name && strings.Contains(k.meaning, s.Meaning) {
+				found = true
+			}
+		}
+		if !found {
+			t.Errorf("made key %s is not a static row's of mc.Sources", k.name)
 		}
 	}
-	if want := "noise.field.offset_ug noise.ring.radius_ppm noise.ring.tilt_mrad"; strings.Join(names, " ") != want {
-		t.Errorf("made keys %v for the sources of today, want %s", names, want)
+	if nMade == 0 {
+		t.Errorf("no made keys: the apparatus's rows have none written by hand")
 	}
 	saved := mc.Sources
 	defer func() { mc.Sources = saved }()
