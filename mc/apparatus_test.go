@@ -331,3 +331,33 @@ func TestEnsembleFieldNoise(t *testing.T) {
 		t.Errorf("phase variance %g rad^2, want %g (relative tolerance %.2f)", got, want, tol)
 	}
 }
+
+// TestSensitivityApparatus: in a sensitivity design, field noise is an
+// input of its own (its record follows the design's stream coordinate, so
+// that rows A and B differ), and photon scattering enters as the cloud's
+// mean, since no input of the design explains a per-atom draw.
+func TestSensitivityApparatus(t *testing.T) {
+	b := Budget{FieldNoise: noise.White{Level: 1e-14}, FieldOffsetG: 1e-6}
+	b.Apparatus.Field.Zeeman.LinearHzPerG = 1e4
+	b.Apparatus.Scattering = sim.Scattering{RateS: [2]float64{500, 500}}
+	r, _ := apparatusEnsemble(t, b, 4)
+	d, err := NewSensitivityDesign(r, 4)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if in := d.Inputs(); len(in) != 2 || in[1] != SourceFieldNoise {
+		t.Fatalf("inputs %v, want [%s %s]", in, ParamFieldOffset, SourceFieldNoise)
+	}
+	w := r.NewWorker()
+	first := map[float64]bool{}
+	for j := range d.Len() {
+		sh, _ := d.Shot(w, j)
+		if !sh.Scattering.Cloud {
+			t.Errorf("design point %d: scattering drawn per atom, want the cloud mean", j)
+		}
+		first[sh.Field.Noise.Values[1]] = true
+	}
+	if len(first) < 2*4 {
+		t.Errorf("%d distinct field records over the design, want at least one per row of A and B (8)", len(first))
+	}
+}

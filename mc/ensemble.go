@@ -196,16 +196,17 @@ func (w *Worker) Shot(i int) (sim.Shot, Record) {
 	if w.r.design != nil {
 		w.r.design.Point(i, w.point)
 	}
-	return w.ShotAt(i, w.point, [2]int{i, i})
+	return w.ShotAt(i, w.point, [3]int{i, i, i})
 }
 
 // ShotAt returns the perturbation of a shot whose static parameters are
 // the standard normal variates z (length StaticDim, coordinate k for the
 // k-th parameter of the budget whether active or not) and whose intensity
 // and drive phase noise records are those of realisations noise[0] and
-// noise[1]. Designs that recombine inputs (Sobol' indices) use it; Shot(i)
-// is ShotAt(i, point i of the design, {i, i}).
-func (w *Worker) ShotAt(index int, z []float64, noise [2]int) (sim.Shot, Record) {
+// noise[1], and the field noise record that of noise[2]. Designs that
+// recombine inputs (Sobol' indices) use it; Shot(i) is ShotAt(i, point i
+// of the design, {i, i, i}).
+func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record) {
 	r := w.r
 	if len(z) != StaticDim {
 		panic("mc: ShotAt needs StaticDim normal variates")
@@ -252,8 +253,8 @@ func (w *Worker) ShotAt(index int, z []float64, noise [2]int) (sim.Shot, Record)
 	}
 	if w.field != nil {
 		// One record of the field, in G; its rms is not a column of the
-		// records. Realisation noise[0]'s stream, as the intensity noise.
-		x := w.field.Synthesize(make([]float64, w.field.Len()), Substream(r.ens.Seed, noise[0], "noise/field"))
+		// records.
+		x := w.field.Synthesize(make([]float64, w.field.Len()), Substream(r.ens.Seed, noise[2], "noise/field"))
 		fieldRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: x}})
 	}
 	return sh, rec
