@@ -115,7 +115,7 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Ring.HarmonicPhaseDeg }},
 	{name: "lattice.depth_khz", kind: number, bound: positive, required: true, meaning: "the lattice depth V0/h in kHz",
 		field: func(s *Scenario) any { return &s.Lattice.DepthKHz }},
-	{name: "lattice.wavelength_nm", kind: number, bound: positive, meaning: "the vacuum wavelength of the lattice light in nm, for photon scattering of rubidium-87",
+	{name: "lattice.wavelength_nm", kind: number, bound: zeroOrAbove("no scattering"), meaning: "the vacuum wavelength of the lattice light in nm, for photon scattering of rubidium-87",
 		field: func(s *Scenario) any { return &s.Lattice.WavelengthNM }},
 	{name: "lattice.scattering_plus_per_s", kind: number, bound: nonNegative, meaning: "the photon scattering rate of the arm s = +1 at the lattice depth in 1/s",
 		field: func(s *Scenario) any { return &s.Lattice.ScatteringPlusPerS }},
