@@ -65,7 +65,7 @@ func (b Budget) Validate() error {
 	if !(b.PhaseCorrelation >= -1 && b.PhaseCorrelation <= 1) {
 		return fmt.Errorf("drive phase correlation %g is outside [-1, 1]", b.PhaseCorrelation)
 	}
-	return nil
+	return b.validApparatus()
 }
 
 // Scaled returns the budget with every source's amplitude multiplied by k

@@ -46,6 +46,7 @@ type Realiser struct {
 	noiseStep float64
 	rin       *noise.Synthesizer
 	phase     *noise.Synthesizer
+	field     *noise.Synthesizer
 }
 
 // NewRealiser validates the ensemble and prepares its simulator, design and
@@ -145,6 +146,11 @@ func (r *Realiser) prepareNoise() error {
 			return fmt.Errorf("drive phase noise: %w", err)
 		}
 	}
+	if b.FieldNoise != nil {
+		if r.field, err = noise.NewSynthesizer(b.FieldNoise, n, r.noiseStep, noise.Band{HighHz: top}); err != nil {
+			return fmt.Errorf("field noise: %w", err)
+		}
+	}
 	return nil
 }
 
@@ -182,6 +188,7 @@ type Worker struct {
 	bufRIN []float64
 	bufA   []float64
 	bufB   []float64
+	field  *noise.Synthesizer
 }
 
 // NewWorker returns scratch space for one goroutine.
@@ -196,6 +203,9 @@ func (r *Realiser) NewWorker() *Worker {
 		w.bufA = make([]float64, r.phase.Len())
 		w.bufB = make([]float64, r.phase.Len())
 	}
+	if r.field != nil {
+		w.field = r.field.Clone()
+	}
 	return w
 }
 
@@ -205,22 +215,29 @@ func (w *Worker) Shot(i int) (sim.Shot, Record) {
 	if w.r.design != nil {
 		w.r.design.Point(i, w.point)
 	}
-	return w.ShotAt(i, w.point, [2]int{i, i})
+	return w.ShotAt(i, w.point, [3]int{i, i, i})
 }
 
 // ShotAt returns the perturbation of a shot whose static parameters are
 // the standard normal variates z (length StaticDim, coordinate k for the
 // k-th parameter of the budget whether active or not) and whose intensity
 // and drive phase noise records are those of realisations noise[0] and
-// noise[1]. Designs that recombine inputs (Sobol' indices) use it; Shot(i)
-// is ShotAt(i, point i of the design, {i, i}).
-func (w *Worker) ShotAt(index int, z []float64, noise [2]int) (sim.Shot, Record) {
+// noise[1], and the field noise record that of noise[2]. Designs that
+// recombine inputs (Sobol' indices) use it; Shot(i) is ShotAt(i, point i
+// of the design, {i, i, i}).
+func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record) {
 	r := w.r
 	if len(z) != StaticDim {
 		panic("mc: ShotAt needs StaticDim normal variates")
 	}
 	rec := Record{Index: index, Inputs: make([]float64, len(r.params))}
-	var sh sim.Shot
+	sh := r.ens.Budget.Apparatus
+	if sh.Scattering.RateS != [2]float64{} {
+		// Each realisation is one atom: it scatters or not (docs/model.md,
+		// Perturbations, photon scattering), from its own stream.
+		sh.Scattering.Cloud = false
+		sh.Scattering.Uniform = Substream(r.ens.Seed, index, "scattering").Float64()
+	}
 	k, active := 0, 0
 	for _, src := range Sources {
 		if src.Kind != Static {
@@ -253,6 +270,12 @@ func (w *Worker) ShotAt(index int, z []float64, noise [2]int) (sim.Shot, Record)
 		phaseRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: a}, {StepS: r.noiseStep, Values: b}})
 		rec.PhaseRms = [2]float64{rms(w.bufA), rms(w.bufB)}
 	}
+	if w.field != nil {
+		// One record of the field, in G; its rms is not a column of the
+		// records.
+		x := w.field.Synthesize(make([]float64, w.field.Len()), Substream(r.ens.Seed, noise[2], "noise/field"))
+		fieldRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: x}})
+	}
 	return sh, rec
 }
 
@@ -279,7 +302,7 @@ func (w *Worker) RunShot(sh sim.Shot, rec Record) Record {
 }
 
 // The noise processes' rows, whose records a Worker synthesises.
-var rinRow, phaseRow = mustSource(SourceRIN), mustSource(SourcePhase)
+var rinRow, phaseRow, fieldRow = mustSource(SourceRIN), mustSource(SourcePhase), mustSource(SourceFieldNoise)
 
 func mustSource(key string) Source {
 	s, ok := LookupSource(key)

@@ -72,16 +72,27 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 	ordered := slices.Clone(recs)
 	slices.SortFunc(ordered, func(a, b Record) int { return a.Index - b.Index })
 	n := len(ordered)
-	contrast, abs := make([]float64, n), make([]float64, n)
+	contrast, abs := make([]float64, n), make([]float64, 0, n)
 	for i, r := range ordered {
 		if math.IsNaN(r.Contrast) || math.IsNaN(r.BiasRad) {
 			panic(fmt.Sprintf("mc: Qualify: realisation %d has a NaN output", r.Index))
 		}
-		contrast[i], abs[i] = r.Contrast, math.Abs(r.BiasRad)
+		contrast[i] = r.Contrast
+		// A lost shot (its atom scattered) has no bias: it counts in the
+		// contrast and the yield, and the |bias| quantile is over the
+		// shots with a fringe (docs/model.md, Perturbations).
+		if !r.Lost() {
+			abs = append(abs, math.Abs(r.BiasRad))
+		}
+	}
+	if len(abs) == 0 {
+		abs = []float64{math.Pi} // no fringe at all: the worst bias stands in
 	}
 	alpha := 1 - req.confidence()
 	look := req.look()
 	t := qualifyTests{n: n, alpha: stats.LookAlpha(alpha, look), next: stats.LookAlpha(alpha, look+1)}
+	tb := t // the bias criteria, over the shots with a fringe
+	tb.n = len(abs)
 	q := Qualification{Samples: n, Confidence: req.confidence(), Look: look, LookConfidence: 1 - t.alpha}
 
 	var sortedContrast, sortedAbs []float64
@@ -102,11 +113,11 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 		q.Criteria = append(q.Criteria, t.quantile(Criterion{Name: CriterionContrastP05, AtLeast: true, Limit: l}, sortedContrast, 0.05, [2]float64{0, 1}, 1))
 	}
 	if l := req.AbsBiasP95MaxRad; l > 0 {
-		q.Criteria = append(q.Criteria, t.quantile(Criterion{Name: CriterionBiasRad, Unit: "rad", Limit: l}, sortedAbs, 0.95, [2]float64{0, math.Pi}, 1))
+		q.Criteria = append(q.Criteria, tb.quantile(Criterion{Name: CriterionBiasRad, Unit: "rad", Limit: l}, sortedAbs, 0.95, [2]float64{0, math.Pi}, 1))
 	}
 	if l := req.AbsBiasP95MaxDegPerH; l > 0 {
 		k := sim.RadPerSToDegPerH(1 / scaleFactorS)
-		q.Criteria = append(q.Criteria, t.quantile(Criterion{Name: CriterionBiasDegPerH, Unit: "deg/h", Limit: l}, sortedAbs, 0.95, [2]float64{0, math.Pi}, k))
+		q.Criteria = append(q.Criteria, tb.quantile(Criterion{Name: CriterionBiasDegPerH, Unit: "deg/h", Limit: l}, sortedAbs, 0.95, [2]float64{0, math.Pi}, k))
 	}
 	if l := req.AbsScaleFactorP95MaxPPM; l > 0 {
 		sf, _ := ScaleFactorErrors(ordered)

@@ -140,6 +140,14 @@ func Rank(names []string, recs [][]Record, metric string, spec Spec, confidence 
 		}
 		xs[r] = x
 	}
+	if metric == MetricBiasSpread {
+		// A lost shot (its atom scattered) has no bias: the |bias| spread
+		// is over the realisations with a fringe in every ramp, so that
+		// the ramps stay paired (docs/model.md, Perturbations).
+		if xs = withFringe(sorted, xs); len(xs[0]) == 0 {
+			return Ranking{}, fmt.Errorf("no realisation has a fringe in every ramp (every atom scattered a photon in some ramp): the bias spread is undefined; rank by contrast or yield")
+		}
+	}
 	higher := metric != MetricBiasSpread
 	var cmp comparison
 	switch metric {
@@ -234,4 +242,23 @@ func pairRecords(names []string, recs [][]Record) ([][]Record, error) {
 		}
 	}
 	return out, nil
+}
+
+// withFringe returns xs without the realisations that are lost
+// (Record.Lost) in any ramp.
+func withFringe(sorted [][]Record, xs [][]float64) [][]float64 {
+	out := make([][]float64, len(xs))
+	for i := range sorted[0] {
+		lost := false
+		for _, rs := range sorted {
+			lost = lost || rs[i].Lost()
+		}
+		if lost {
+			continue
+		}
+		for r := range xs {
+			out[r] = append(out[r], xs[r][i])
+		}
+	}
+	return out
 }

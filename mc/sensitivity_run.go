@@ -28,12 +28,13 @@ type SensitivityDesign struct {
 	r        *Realiser
 	saltelli *SaltelliDesign
 	inputs   []string
-	coord    []int // each input's coordinate of the static design, or coordRIN, coordPhase
+	coord    []int // each input's coordinate of the static design, or coordRIN, coordPhase, coordField
 }
 
 const (
 	coordRIN   = -1
 	coordPhase = -2
+	coordField = -3
 )
 
 // NewSensitivityDesign returns the design of n base rows for the ensemble of
@@ -61,6 +62,10 @@ func NewSensitivityDesign(r *Realiser, n int) (*SensitivityDesign, error) {
 	if e.Budget.Phase != nil {
 		d.inputs = append(d.inputs, SourcePhase)
 		d.coord = append(d.coord, coordPhase)
+	}
+	if e.Budget.FieldNoise != nil {
+		d.inputs = append(d.inputs, SourceFieldNoise)
+		d.coord = append(d.coord, coordField)
 	}
 	if len(d.inputs) == 0 {
 		var keys []string
@@ -112,7 +117,7 @@ func (b *sensitivityBase) Point(i int, dst []float64) {
 }
 
 // Inputs returns the names of the inputs: static parameter names (Param
-// names) and SourceRIN, SourcePhase for the noise processes.
+// names) and SourceRIN, SourcePhase, SourceFieldNoise for the noise processes.
 func (d *SensitivityDesign) Inputs() []string { return d.inputs }
 
 // BaseLen returns n, the number of base rows.
@@ -130,18 +135,25 @@ func (d *SensitivityDesign) Shot(w *Worker, j int) (sim.Shot, Record) {
 	x := make([]float64, d.saltelli.Dim())
 	d.saltelli.Point(j, x)
 	z := make([]float64, StaticDim)
-	var streams [2]int
+	var streams [3]int
 	for k, c := range d.coord {
 		switch c {
 		case coordRIN:
 			streams[0] = int(x[k])
 		case coordPhase:
 			streams[1] = int(x[k])
+		case coordField:
+			streams[2] = int(x[k])
 		default:
 			z[c] = x[k]
 		}
 	}
-	return w.ShotAt(j, z, streams)
+	sh, rec := w.ShotAt(j, z, streams)
+	// Photon scattering is no input of the design: its per-atom draw would
+	// add variance that no input explains, so a design point stands for the
+	// mean of a cloud (docs/model.md, Perturbations, photon scattering).
+	sh.Scattering.Cloud = true
+	return sh, rec
 }
 
 // Run runs the design points [from, to) on workers goroutines (all cores
@@ -247,14 +259,19 @@ type Derivative struct {
 // simulation's rounding.
 func LocalDerivatives(r *Realiser) []Derivative {
 	w := r.NewWorker()
-	nominal := w.RunShot(sim.Shot{}, Record{})
+	// The apparatus's settings stay; its photon scattering enters as the
+	// mean of a cloud, so that the derivatives are those of smooth functions.
+	base := r.Ensemble().Budget.Apparatus
+	base.Scattering.Cloud = true
+	nominal := w.RunShot(base, Record{})
 	var out []Derivative
 	z := make([]float64, StaticDim)
 	shot := func(k int, x float64) Record {
 		z[k] = x
-		sh, rec := w.ShotAt(0, z, [2]int{})
+		sh, rec := w.ShotAt(0, z, [3]int{})
 		z[k] = 0
-		sh.DepthNoise, sh.Jitter = [2]*sim.Series{}, [2]*sim.Series{}
+		sh.DepthNoise, sh.Jitter, sh.Field.Noise = [2]*sim.Series{}, [2]*sim.Series{}, nil
+		sh.Scattering.Cloud = true
 		return w.RunShot(sh, rec)
 	}
 	for k, p := range r.Ensemble().Budget.allParams() {

@@ -1,6 +1,7 @@
 package mc
 
 import (
+	"fmt"
 	"math"
 
 	"rampart/noise"
@@ -20,6 +21,10 @@ type Budget struct {
 	SkewS                float64 // delay of the s = -1 arm's drive after the s = +1 arm's
 	TemperatureSpreadK   float64 // shot-to-shot spread of the start temperature (clamped at 0 K)
 	PulseAreaRel         float64 // relative area error of each pi/2 pulse, independent
+	FieldOffsetG         float64 // shot-to-shot offset of the magnetic field from the bias, in gauss (the unit of sim.Zeeman)
+	RadiusRel            float64 // relative error r of the ring radius: the true radius is R (1 + r)
+	TiltRad              float64 // shot-to-shot change of the ring's tilt, rad, towards the azimuth of its lowest point
+	RotationRadS         float64 // shot-to-shot rotation-rate noise of the platform, rad/s
 
 	// Noise during the shot.
 	// RIN is the one-sided PSD of the relative intensity noise eps(t) in
@@ -32,6 +37,19 @@ type Budget struct {
 	// PhaseCorrelation is the correlation coefficient of the two arms'
 	// drive phase noise, in [-1, 1].
 	PhaseCorrelation float64
+	// FieldNoise is the one-sided PSD of the magnetic field's offset from
+	// the bias during the shot, in G^2/Hz (nil: none); it acts through the
+	// spin pair's Zeeman shift (Apparatus.Field.Zeeman).
+	FieldNoise noise.PSD
+
+	// Apparatus is the shot every realisation starts from: the settings of
+	// the apparatus that are not drawn (the spin pair's Zeeman
+	// coefficients and a static field offset, the arms' photon scattering
+	// rates, a radius error, the ring's tilt and depth harmonics; see
+	// sim/apparatus.go and sim/ringpotential.go). The static rows add their
+	// draws to it; Scaled leaves it alone. Its scattering is drawn per
+	// realisation (Worker.ShotAt), whatever its Cloud says.
+	Apparatus sim.Shot
 }
 
 // Kind is how a perturbation source enters a shot.
@@ -126,6 +144,10 @@ const (
 	ParamTemperature       = "temperature.spread_nk"
 	ParamPulse1            = "pulses.area_rel.1"
 	ParamPulse2            = "pulses.area_rel.2"
+	ParamFieldOffset       = "field.offset_ug"
+	ParamRadius            = "ring.radius_ppm"
+	ParamTilt              = "ring.tilt_mrad"
+	ParamRotation          = "platform.rotation_urad_s"
 )
 
 // Tolerance sources: the static parameters by their budget names, the two
@@ -135,6 +157,7 @@ const (
 	SourcePulse       = "pulses.area_rel"
 	SourceRIN         = "depth.rin_db_hz"
 	SourcePhase       = "drive.phase_dbc_hz"
+	SourceFieldNoise  = "field.noise_ug2_hz"
 	SourceBudget      = "budget"
 )
 
@@ -152,6 +175,19 @@ const (
 	RefPulseAreaRel  = 1e-2
 	RefRINDBPerHz    = -120
 	RefPhaseDBcPerHz = -120
+	// A white field noise of 1e-4 uG^2/Hz (10 nG per root hertz): a quiet
+	// magnetically shielded apparatus (common practice, from memory).
+	RefFieldNoiseUG2Hz = 1e-4
+	// A magnetically shielded apparatus holds its field to about 1 uG shot
+	// to shot, a ring's radius is calibrated to about 100 ppm, and a
+	// levelled table holds its tilt to about 0.1 mrad (common practice,
+	// from memory).
+	RefFieldOffsetG = 1e-6
+	RefRadiusRel    = 1e-4
+	RefTiltRad      = 1e-4
+	// A platform held to 1e-7 rad/s (about the Earth's rate over 700)
+	// from shot to shot: a quiet laboratory floor (from memory).
+	RefRotationRadS = 1e-7
 )
 
 // DrawSigmas is how many standard deviations a static draw may reach and
@@ -168,6 +204,16 @@ const (
 	maxRateSigma     = 0.1              // clock and drive-frequency errors, 1e5 ppm
 	maxSkewS         = 10e-6            // a tenth of a typical ramp
 	maxTemperatureK  = 1e-6             // far above a lattice-loaded start
+	// 1 mG: the linear Zeeman coefficient of a stretched pair turns it into
+	// 2 kHz, and the quadratic term about its bias still holds.
+	maxFieldOffsetG = 1e-3
+	maxRadiusRel    = 0.1 // six of them stay far from a vanishing ring (r > -1)
+	// Six of 1.5 mrad stay within the 10 mrad where the first-order
+	// treatment of the tilt is tested (sim.RingPotential.Validate).
+	maxTiltRad = 1.5e-3
+	// 1 rad/s: far beyond any platform a Sagnac sensor sits on, still far
+	// below a cruise speed.
+	maxRotationRadS = 1
 )
 
 // relative is the SI unit of a relative error.
@@ -181,7 +227,8 @@ const Relative = "relative"
 const model = "docs/model.md, Perturbations: "
 
 // Sources is the table of perturbation sources, grouped by what they
-// perturb (depth, drive, timing, temperature, pulses). The static rows'
+// perturb (depth, drive, timing, temperature, pulses; then the apparatus:
+// magnetic field, ring radius, ring tilt). The static rows'
 // order is the order of the sampler's coordinates: a new static source goes
 // last among them (after the pulses), so that earlier coordinates, and the
 // draws of every existing budget, stay.
@@ -221,6 +268,15 @@ var Sources = []Source{
 		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.Jitter = arms },
 		Ref:        RefPhaseDBcPerHz, Max: math.Inf(1),
 		Line: "drive phase noise (correlation {correlation})", Reference: model + "drive phase noise",
+	},
+	{
+		Key: SourceFieldNoise, Meaning: "magnetic field noise during the shot, through the spin pair's Zeeman shift",
+		Scenario: "noise.field.noise_ug2_hz",
+		Unit:     "uG^2/Hz", Level: FieldNoiseUG2Hz, FromLevel: FieldNoiseFromUG2Hz, Kind: Process,
+		PSD:        func(b *Budget) *noise.PSD { return &b.FieldNoise },
+		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.Field.Noise = arms[0] },
+		Ref:        RefFieldNoiseUG2Hz, Max: math.Inf(1),
+		Line: "field noise", Reference: model + "magnetic field",
 	},
 	{
 		Key: ParamClock, Meaning: "waveform time-base error kappa: the profile plays (1+kappa) faster",
@@ -266,6 +322,42 @@ var Sources = []Source{
 		Apply: func(sh *sim.Shot, i int, v float64) { sh.PulseAreaRel[i] = v },
 		Ref:   RefPulseAreaRel, Max: maxRelativeSigma,
 		Line: "pulse area {}", Reference: model + "pulses",
+	},
+	{
+		Key: ParamFieldOffset, Meaning: "shot-to-shot offset of the magnetic field from the bias, through the spin pair's Zeeman coefficients",
+		Scenario: "noise.field.offset_ug", FileScale: 1e-6,
+		Unit: "uG", Scale: 1e6, SIUnit: "G", Kind: Static, Inputs: []string{ParamFieldOffset},
+		Sigma: func(b *Budget) *float64 { return &b.FieldOffsetG },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.Field.OffsetG += v },
+		Ref:   RefFieldOffsetG, Max: maxFieldOffsetG,
+		Line: "field offset {}", Reference: model + "magnetic field",
+	},
+	{
+		Key: ParamRadius, Meaning: "relative error of the ring radius against its calibration: a scale-factor error 2r + r^2",
+		Scenario: "noise.ring.radius_ppm", FileScale: 1e-6,
+		Unit: "ppm", Scale: 1e6, SIUnit: relative, Kind: Static, Inputs: []string{ParamRadius},
+		Sigma: func(b *Budget) *float64 { return &b.RadiusRel },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.RadiusRel += v },
+		Ref:   RefRadiusRel, Max: maxRadiusRel,
+		Line: "radius {}", Reference: model + "radius calibration",
+	},
+	{
+		Key: ParamTilt, Meaning: "shot-to-shot change of the ring's tilt from horizontal, towards the azimuth of its lowest point",
+		Scenario: "noise.ring.tilt_mrad", FileScale: 1e-3,
+		Unit: "mrad", Scale: 1e3, SIUnit: "rad", Kind: Static, Inputs: []string{ParamTilt},
+		Sigma: func(b *Budget) *float64 { return &b.TiltRad },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.Potential.TiltRad += v },
+		Ref:   RefTiltRad, Max: maxTiltRad,
+		Line: "tilt {}", Reference: model + "gravity and an imperfect ring",
+	},
+	{
+		Key: ParamRotation, Meaning: "shot-to-shot rotation-rate noise of the platform about the ring's axis",
+		Scenario: "noise.platform.rotation_urad_s", FileScale: 1e-6,
+		Unit: "urad/s", Scale: 1e6, SIUnit: "rad/s", Kind: Static, Inputs: []string{ParamRotation},
+		Sigma: func(b *Budget) *float64 { return &b.RotationRadS },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.RotationOffsetRadS += v },
+		Ref:   RefRotationRadS, Max: maxRotationRadS,
+		Line: "rotation {}", Reference: model + "platform rotation",
 	},
 }
 
@@ -337,3 +429,33 @@ func ActiveSources(b Budget) []string {
 	}
 	return out
 }
+
+// validApparatus checks the settings every realisation starts from.
+func (b Budget) validApparatus() error {
+	a := b.Apparatus
+	if err := a.Field.Validate(); err != nil {
+		return fmt.Errorf("apparatus: %w", err)
+	}
+	sc := a.Scattering
+	sc.Uniform = 0 // drawn per realisation
+	if err := sc.Validate(); err != nil {
+		return fmt.Errorf("apparatus: %w", err)
+	}
+	if err := sim.ValidateRadiusRel(a.RadiusRel); err != nil {
+		return fmt.Errorf("apparatus: %w", err)
+	}
+	if err := a.Potential.Validate(); err != nil {
+		return fmt.Errorf("apparatus: %w", err)
+	}
+	if a.Field.Noise != nil || a.Jitter != [2]*sim.Series{} || a.DepthNoise != [2]*sim.Series{} {
+		return fmt.Errorf("apparatus: a noise record in the starting shot (records come from the budget's processes)")
+	}
+	return nil
+}
+
+// FieldNoiseUG2Hz converts a field-noise PSD level in G^2/Hz to the lab
+// unit uG^2/Hz.
+func FieldNoiseUG2Hz(g2PerHz float64) float64 { return g2PerHz * 1e12 }
+
+// FieldNoiseFromUG2Hz converts a level in uG^2/Hz to G^2/Hz.
+func FieldNoiseFromUG2Hz(ug2PerHz float64) float64 { return ug2PerHz * 1e-12 }

@@ -71,8 +71,8 @@ func TestSourcesComplete(t *testing.T) {
 			if s.PSD == nil || s.ApplyNoise == nil || s.Level == nil || s.FromLevel == nil {
 				missing("its PSD field, level conversions and how a shot applies its records")
 			}
-			if !(s.Ref < 0) {
-				t.Errorf("row %d (%q): reference level %g, want a level below the carrier (< 0)", i, s.Key, s.Ref)
+			if s.FromLevel != nil && !(s.FromLevel(s.Ref) > 0) || math.IsInf(s.Ref, 0) || math.IsNaN(s.Ref) {
+				t.Errorf("row %d (%q): reference level %g %s is not a finite level of a positive PSD", i, s.Key, s.Ref, s.Unit)
 			}
 		default:
 			missing("a kind")
@@ -181,7 +181,8 @@ func TestSourcesInReadme(t *testing.T) {
 // source's lab scale is the inverse of its file scale (the file's number
 // is the table's number), and the suffix names the lab unit.
 func TestSourceOneNameOneUnit(t *testing.T) {
-	suffix := map[string]string{"_rel": Relative, "_ppm": "ppm", "_ns": "ns", "_nk": "nK", "_db_hz": "dB/Hz", "_dbc_hz": "dBc/Hz"}
+	suffix := map[string]string{"_rel": Relative, "_ppm": "ppm", "_ns": "ns", "_nk": "nK", "_db_hz": "dB/Hz", "_dbc_hz": "dBc/Hz",
+		"_ug": "uG", "_mrad": "mrad", "_urad_s": "urad/s", "_ug2_hz": "uG^2/Hz"}
 	for _, s := range Sources {
 		if s.Key != strings.TrimPrefix(s.Scenario, "noise.") {
 			t.Errorf("%s: key differs from its scenario key %s", s.Key, s.Scenario)

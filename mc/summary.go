@@ -21,8 +21,12 @@ type Spec struct {
 // Active reports whether the spec has a limit.
 func (s Spec) Active() bool { return s.MinContrast > 0 || s.MaxAbsBiasRad > 0 }
 
-// Inside reports whether a record meets the spec.
+// Inside reports whether a record meets the spec. A lost shot (Lost)
+// meets no active spec: it has no fringe to read.
 func (s Spec) Inside(r Record) bool {
+	if r.Lost() && s.Active() {
+		return false
+	}
 	if s.MinContrast > 0 && !(r.Contrast >= s.MinContrast) {
 		return false
 	}
@@ -31,6 +35,14 @@ func (s Spec) Inside(r Record) bool {
 	}
 	return true
 }
+
+// Lost reports whether the shot has no fringe at all, z = 0 and contrast
+// 0 exactly: its atom scattered a photon from the lattice light
+// (sim.Scattering; no other perturbation makes z vanish exactly). Its
+// phase, hence its bias, is undefined: statistics count it as lost
+// contrast and yield, and leave it out of the bias (docs/model.md,
+// Perturbations, photon scattering).
+func (r Record) Lost() bool { return r.Z == 0 && r.Contrast == 0 }
 
 // Distribution summarises one output over the realisations, with a
 // two-sided interval at the summary's confidence on every entry (CI): the
@@ -54,7 +66,9 @@ type Distribution struct {
 // CircularBias summarises the bias as the angle it is (stats.CircularStats:
 // mean direction, mean resultant length, circular standard deviation) and
 // counts the inverted shots, whose fringe cannot be read: |bias| > pi/2 (the
-// fringe is upside down) or contrast below ContrastFloor.
+// fringe is upside down) or contrast below ContrastFloor. Both are over
+// the shots with a fringe; the lost ones (Record.Lost) are in
+// Summary.Lost.
 type CircularBias struct {
 	stats.Circular
 	Inverted      int     `json:"inverted_shots"`
@@ -87,11 +101,16 @@ type Summary struct {
 	Samples    int     `json:"samples"`
 	Confidence float64 `json:"confidence"`
 	// ScaleFactorS is the Sagnac scale factor K of the nominal sequence.
-	ScaleFactorS float64      `json:"scale_factor_s"`
-	Contrast     Distribution `json:"contrast"`
-	BiasRad      Distribution `json:"bias_rad"`
-	AbsBiasRad   Distribution `json:"abs_bias_rad"`
-	BiasDegPerH  Distribution `json:"bias_deg_per_h"`
+	ScaleFactorS float64 `json:"scale_factor_s"`
+	// Lost counts the shots without a fringe (Record.Lost: the atom
+	// scattered a photon). They are in Contrast (as 0), in the fringe
+	// (as z = 0) and outside every yield spec, but not in the bias
+	// distributions, whose Samples-less-Lost shots are those with a phase.
+	Lost        int          `json:"lost_shots,omitempty"`
+	Contrast    Distribution `json:"contrast"`
+	BiasRad     Distribution `json:"bias_rad"`
+	AbsBiasRad  Distribution `json:"abs_bias_rad"`
+	BiasDegPerH Distribution `json:"bias_deg_per_h"`
 	// FringeContrast is |mean z|, the contrast of a fringe built from many
 	// shots; FringeBiasRad its phase less the Sagnac phase.
 	FringeContrast Interval     `json:"fringe_contrast"`
@@ -124,21 +143,31 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 	sorted := slices.Clone(recs)
 	slices.SortFunc(sorted, func(a, b Record) int { return a.Index - b.Index })
 	c := make([]float64, n)
-	bias := make([]float64, n)
-	abs := make([]float64, n)
+	var bias, abs, cFringe []float64
 	z := make([]complex128, n)
+	lost := 0
 	for i, r := range sorted {
-		c[i], bias[i], abs[i], z[i] = r.Contrast, r.BiasRad, math.Abs(r.BiasRad), r.Z
+		c[i], z[i] = r.Contrast, r.Z
+		if r.Lost() {
+			lost++
+			continue
+		}
+		bias, abs, cFringe = append(bias, r.BiasRad), append(abs, math.Abs(r.BiasRad)), append(cFringe, r.Contrast)
 	}
 	rng := Substream(seed, 0, "summary")
-	s := Summary{Samples: n, Confidence: confidence, ScaleFactorS: scaleFactorS}
+	s := Summary{Samples: n, Confidence: confidence, ScaleFactorS: scaleFactorS, Lost: lost}
 	s.Contrast = distribution(c, rng, confidence, [2]float64{0, 1})
-	s.BiasRad = distribution(bias, rng, confidence, [2]float64{-math.Pi, math.Pi})
-	s.AbsBiasRad = distribution(abs, rng, confidence, [2]float64{0, math.Pi})
-	s.BiasDegPerH = s.BiasRad.scaled(sim.RadPerSToDegPerH(1 / scaleFactorS))
-	s.BiasCircular = CircularBias{Circular: stats.CircularStats(bias), ContrastFloor: UsableContrastFloor}
+	s.BiasCircular = CircularBias{ContrastFloor: UsableContrastFloor}
+	if len(bias) > 0 {
+		// With no fringe at all the bias distributions stay zero: Lost
+		// equals Samples.
+		s.BiasRad = distribution(bias, rng, confidence, [2]float64{-math.Pi, math.Pi})
+		s.AbsBiasRad = distribution(abs, rng, confidence, [2]float64{0, math.Pi})
+		s.BiasDegPerH = s.BiasRad.scaled(sim.RadPerSToDegPerH(1 / scaleFactorS))
+		s.BiasCircular.Circular = stats.CircularStats(bias)
+	}
 	for i := range bias {
-		if math.Abs(bias[i]) > math.Pi/2 || c[i] < UsableContrastFloor {
+		if math.Abs(bias[i]) > math.Pi/2 || cFringe[i] < UsableContrastFloor {
 			s.BiasCircular.Inverted++
 		}
 	}

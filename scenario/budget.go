@@ -15,7 +15,8 @@ import (
 // Budget returns the Monte Carlo noise budget of the scenario's [noise.*]
 // tables, converted from file units to SI: every static row of mc.Sources
 // reads its key (mc.Source.Scenario) scaled by its FileScale; the noise
-// processes read their level, band or table.
+// processes read their level, band or table. Its Apparatus is the
+// scenario's (Scenario.Apparatus).
 func (sc *Scenario) Budget() (mc.Budget, error) {
 	n := sc.Noise
 	b := mc.Budget{PhaseCorrelation: n.Drive.Correlation}
@@ -29,8 +30,21 @@ func (sc *Scenario) Budget() (mc.Budget, error) {
 		}
 		*s.Sigma(&b) = v * s.FileScale
 	}
-	if n.Depth.RINDBPerHz != 0 {
+	switch {
+	case n.Depth.RINTable != "":
+		data, err := sc.ReadFile(n.Depth.RINTable)
+		if err != nil {
+			return mc.Budget{}, fmt.Errorf("scenario %q: noise.depth.rin_table: %w", sc.Name, err)
+		}
+		t, err := noise.ParseRIN(bytes.NewReader(data), n.Depth.RINTable)
+		if err != nil {
+			return mc.Budget{}, fmt.Errorf("scenario %q: noise.depth.rin_table: %w", sc.Name, err)
+		}
+		b.RIN = t
+	case n.Depth.RINDBPerHz != 0:
 		b.RIN = noise.White{Level: noise.IntensityFromRIN(n.Depth.RINDBPerHz)}
+	}
+	if b.RIN != nil {
 		b.RINBand = noise.Band{LowHz: n.Depth.RINBandHz[0], HighHz: n.Depth.RINBandHz[1]}
 	}
 	switch {
@@ -46,6 +60,14 @@ func (sc *Scenario) Budget() (mc.Budget, error) {
 		b.Phase = t
 	case n.Drive.PhaseDBcPerHz != 0:
 		b.Phase = noise.White{Level: noise.PhaseFromDBc(n.Drive.PhaseDBcPerHz)}
+	}
+	app, err := sc.Apparatus()
+	if err != nil {
+		return mc.Budget{}, err
+	}
+	b.Apparatus = app
+	if n.FieldUG2PerHz > 0 {
+		b.FieldNoise = noise.White{Level: n.FieldUG2PerHz * 1e-12} // uG^2 -> G^2
 	}
 	if err := b.Validate(); err != nil {
 		return mc.Budget{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
@@ -98,7 +120,7 @@ func (sc *Scenario) Fingerprint() (hash, text string, err error) {
 	c := *sc
 	c.Name = ""
 	files := map[string]string{}
-	for _, p := range []*string{&c.Ramp.File, &c.Noise.Drive.PhaseTable} {
+	for _, p := range []*string{&c.Ramp.File, &c.Noise.Drive.PhaseTable, &c.Noise.Depth.RINTable} {
 		if *p == "" {
 			continue
 		}

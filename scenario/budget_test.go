@@ -19,11 +19,11 @@ func TestBudgetReadsEverySource(t *testing.T) {
 			continue
 		}
 		sc := Scenario{Start: Start{TemperatureNK: 1}} // a spread below the start temperature
-		f, ok := keyByName[s.Scenario].field(&sc).(*float64)
-		if !ok {
+		k := keyByName[s.Scenario]
+		if k.kind != number {
 			t.Fatalf("%s: scenario key %q is not a number", s.Key, s.Scenario)
 		}
-		*f = 0.05
+		k.set(&sc, 0.05)
 		b, err := sc.Budget()
 		if err != nil {
 			t.Fatal(err)
@@ -40,16 +40,33 @@ func TestBudgetReadsEverySource(t *testing.T) {
 // TestSourceKeysFromTable checks that a static row of mc.Sources whose
 // scenario key the schema lacks gets a key made from the row, stored in
 // Scenario.SourceNoise and read back by Number (and so by Budget): a new
-// source needs no change to this package. The rows of today all have
-// hand-written keys, so none is made.
+// source needs no change to this package (the apparatus's rows, field
+// offset, radius, tilt and rotation, have made keys): each made key is a
+// static row's, with the row's meaning.
 func TestSourceKeysFromTable(t *testing.T) {
-	if got := sourceKeys(); len(got) != 0 {
-		t.Errorf("made keys %v for the sources of today, want none", got)
+	nMade := 0
+	for _, k := range keys {
+		if !k.source {
+			continue
+		}
+		nMade++
+		found := false
+		for _, s := range mc.Sources {
+			if s.Kind == mc.Static && s.Scenario == k.name && strings.Contains(k.meaning, s.Meaning) {
+				found = true
+			}
+		}
+		if !found {
+			t.Errorf("made key %s is not a static row's of mc.Sources", k.name)
+		}
+	}
+	if nMade == 0 {
+		t.Errorf("no made keys: the apparatus's rows have none written by hand")
 	}
 	saved := mc.Sources
 	defer func() { mc.Sources = saved }()
 	mc.Sources = append(append([]mc.Source(nil), saved...), mc.Source{
-		Key: "tilt_rad", Meaning: "tilt of the ring plane", Scenario: "noise.tilt.sigma_urad", FileScale: 1e-6, Kind: mc.Static,
+		Key: "roll_rad", Meaning: "tilt of the ring plane", Scenario: "noise.tilt.sigma_urad", FileScale: 1e-6, Kind: mc.Static,
 	})
 	made := sourceKeys()
 	if len(made) != 1 || made[0].name != "noise.tilt.sigma_urad" || made[0].kind != number || !made[0].source {

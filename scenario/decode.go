@@ -230,6 +230,14 @@ func (d *decoder) check() error {
 		}
 		return d.fail("numerics.grid", fmt.Errorf("numerics.grid = %d is not a multiple of 2*sites = %d: want 0 (automatic) or a multiple such as %s", g, m, such))
 	}
+	if s.Noise.Depth.RINDBPerHz != 0 && s.Noise.Depth.RINTable != "" {
+		return d.fail("noise.depth.rin_table", fmt.Errorf("noise.depth.rin_table and noise.depth.rin_db_hz are both given: the table replaces the white level, so give one of them"))
+	}
+	if p := s.Noise.Depth.RINTable; p != "" {
+		if _, err := s.ReadFile(p); err != nil {
+			return d.fail("noise.depth.rin_table", fmt.Errorf("intensity-noise table %q: %w", boundedread.Excerpt(p, maxPath), readError(err)))
+		}
+	}
 	if s.Noise.Drive.PhaseDBcPerHz != 0 && s.Noise.Drive.PhaseTable != "" {
 		return d.fail("noise.drive.phase_table", fmt.Errorf("noise.drive.phase_table and noise.drive.phase_dbc_hz are both given: the table replaces the white floor, so give one of them"))
 	}
@@ -245,7 +253,7 @@ func (d *decoder) check() error {
 		}
 		return d.fail(given, fmt.Errorf("%s needs %s too: give both for gyroscope figures, or neither", given, other))
 	}
-	return nil
+	return d.checkApparatus()
 }
 
 // fail attaches err to the key whose value caused it: its line in the file,

@@ -51,6 +51,11 @@ var (
 	sitesBound = bound{func(x float64) bool { return x >= 1 && x <= maxSites }, fmt.Sprintf("from 1 to %d", maxSites)}
 	lapsBound  = bound{func(x float64) bool { return x > 0 && x <= maxLaps }, "> 0 and at most 1e6"}
 	gridBound  = bound{func(x float64) bool { return x >= 0 && x <= sim.MaxGrid }, fmt.Sprintf("from 0 (automatic) to %d", sim.MaxGrid)}
+	// The ring potential is applied at first order, tested to a tilt of
+	// 10 mrad and harmonics of 1e-2 (sim.RingPotential.Validate).
+	tiltBound     = bound{func(x float64) bool { return math.Abs(x) <= 10 }, "from -10 to 10"}
+	harmonicBound = bound{func(x float64) bool { return math.Abs(x) <= 0.01 }, "from -0.01 to 0.01"}
+	radiusError   = bound{func(x float64) bool { return x > -1e6 }, "> -1e6"}
 )
 
 // zeroOrAbove accepts x >= 0, zero meaning what zero says.
@@ -82,12 +87,40 @@ var shapes = append(sim.ShapeNames(), "file")
 var keys = []*key{
 	{name: "atom.mass_u", kind: number, bound: positive, meaning: "the atom mass in u",
 		field: func(s *Scenario) any { return &s.Atom.MassU }},
+	{name: "atom.spin_pair", kind: text, choices: presetKeys(), meaning: "the spin pair of the arms, a rubidium-87 preset with its F = 2 state in the arm s = +1",
+		field: func(s *Scenario) any { return &s.Atom.SpinPair }},
+	{name: "atom.bias_field_g", kind: number, bound: nonNegative, meaning: "the bias field in G at which the spin pair's Zeeman coefficients are taken",
+		field: func(s *Scenario) any { return &s.Atom.BiasFieldG }},
+	{name: "atom.zeeman_linear_hz_g", kind: number, bound: anyFinite, meaning: "the linear differential Zeeman coefficient of the arm s = +1 against the arm s = -1 in Hz/G",
+		field: func(s *Scenario) any { return &s.Atom.ZeemanLinearHzPerG }},
+	{name: "atom.zeeman_quadratic_hz_g2", kind: number, bound: anyFinite, meaning: "the quadratic differential Zeeman coefficient in Hz/G^2",
+		field: func(s *Scenario) any { return &s.Atom.ZeemanQuadraticHzPerG2 }},
+	{name: "atom.field_offset_ug", kind: number, bound: anyFinite, meaning: "a static offset of the field from the bias during the shot in uG",
+		field: func(s *Scenario) any { return &s.Atom.FieldOffsetUG }},
 	{name: "ring.radius_um", kind: number, bound: positive, required: true, meaning: "the ring radius in um",
 		field: func(s *Scenario) any { return &s.Ring.RadiusUM }},
 	{name: "ring.sites", kind: integer, bound: sitesBound, required: true, meaning: "the number of lattice sites",
 		field: func(s *Scenario) any { return &s.Ring.Sites }},
+	{name: "ring.radius_error_ppm", kind: number, bound: radiusError, meaning: "the error of the true radius against the calibrated radius_um in ppm",
+		field: func(s *Scenario) any { return &s.Ring.RadiusErrorPPM }},
+	{name: "ring.tilt_mrad", kind: number, bound: tiltBound, meaning: "the ring's tilt from horizontal in mrad",
+		field: func(s *Scenario) any { return &s.Ring.TiltMrad }},
+	{name: "ring.low_deg", kind: number, bound: anyFinite, meaning: "the azimuth of the ring's lowest point from the start site in degrees",
+		field: func(s *Scenario) any { return &s.Ring.LowDeg }},
+	{name: "ring.harmonic_order", kind: integer, bound: zeroOrAbove("none"), meaning: "the order k of an angular harmonic of the lattice depth around the ring",
+		field: func(s *Scenario) any { return &s.Ring.HarmonicOrder }},
+	{name: "ring.harmonic_rel", kind: number, bound: harmonicBound, meaning: "the relative amplitude of that depth harmonic",
+		field: func(s *Scenario) any { return &s.Ring.HarmonicRel }},
+	{name: "ring.harmonic_phase_deg", kind: number, bound: anyFinite, meaning: "the phase of that depth harmonic in degrees",
+		field: func(s *Scenario) any { return &s.Ring.HarmonicPhaseDeg }},
 	{name: "lattice.depth_khz", kind: number, bound: positive, required: true, meaning: "the lattice depth V0/h in kHz",
 		field: func(s *Scenario) any { return &s.Lattice.DepthKHz }},
+	{name: "lattice.wavelength_nm", kind: number, bound: zeroOrAbove("no scattering"), meaning: "the vacuum wavelength of the lattice light in nm, for photon scattering of rubidium-87",
+		field: func(s *Scenario) any { return &s.Lattice.WavelengthNM }},
+	{name: "lattice.scattering_plus_per_s", kind: number, bound: nonNegative, meaning: "the photon scattering rate of the arm s = +1 at the lattice depth in 1/s",
+		field: func(s *Scenario) any { return &s.Lattice.ScatteringPlusPerS }},
+	{name: "lattice.scattering_minus_per_s", kind: number, bound: nonNegative, meaning: "the photon scattering rate of the arm s = -1 at the lattice depth in 1/s",
+		field: func(s *Scenario) any { return &s.Lattice.ScatteringMinusPerS }},
 	{name: "motion.cruise_rad_s", kind: number, bound: positive, required: true, meaning: "each arm's cruise speed in rad/s",
 		field: func(s *Scenario) any { return &s.Motion.CruiseRadS }},
 	{name: "motion.laps", kind: number, bound: lapsBound, required: true, meaning: "each arm's one-way angle in turns, with 2*laps a whole number",
@@ -114,6 +147,8 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Noise.Depth.DifferentialRel }},
 	{name: "noise.depth.rin_db_hz", kind: number, bound: levelOrOff("dB/Hz"), meaning: "the white relative intensity noise in dB/Hz",
 		field: func(s *Scenario) any { return &s.Noise.Depth.RINDBPerHz }},
+	{name: "noise.depth.rin_table", kind: file, meaning: "the intensity-noise table, a CSV file of f_hz,rin_db_hz relative to the scenario file",
+		field: func(s *Scenario) any { return &s.Noise.Depth.RINTable }},
 	{name: "noise.depth.rin_band_hz", kind: band, meaning: "the band of the intensity noise in Hz",
 		field: func(s *Scenario) any { return &s.Noise.Depth.RINBandHz }},
 	{name: "noise.drive.phase_dbc_hz", kind: number, bound: levelOrOff("dBc/Hz"), meaning: "the white single-sideband phase noise of each arm's drive in dBc/Hz",
@@ -132,6 +167,8 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Noise.Temperature.SpreadNK }},
 	{name: "noise.pulses.area_rel", kind: number, bound: relSigma, meaning: "the sigma of the relative area error of each pi/2 pulse",
 		field: func(s *Scenario) any { return &s.Noise.Pulses.AreaRel }},
+	{name: "noise.field.noise_ug2_hz", kind: number, bound: zeroOrAbove("off"), meaning: "the white one-sided PSD of the magnetic field during the shot in uG^2/Hz",
+		field: func(s *Scenario) any { return &s.Noise.FieldUG2PerHz }},
 	{name: "readout.atoms", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the atoms detected per shot",
 		field: func(s *Scenario) any { return &s.Readout.Atoms }},
 	{name: "readout.cycle_s", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the cycle time of one shot in s",

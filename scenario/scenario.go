@@ -41,17 +41,47 @@ type Scenario struct {
 // Atom is the [atom] table.
 type Atom struct {
 	MassU float64 // atom mass in u (default: rubidium-87, sim.Rb87MassU)
+
+	// The spin pair of the two arms, for the magnetic field (see
+	// apparatus.go): a preset of atom.Presets (the F = 2 state in the arm
+	// s = +1) at the bias field BiasFieldG, or the differential Zeeman
+	// coefficients given directly. FieldOffsetUG is a static offset of
+	// the field from the bias during the shot, uG.
+	SpinPair               string  `json:",omitempty"`
+	BiasFieldG             float64 `json:",omitempty"`
+	ZeemanLinearHzPerG     float64 `json:",omitempty"`
+	ZeemanQuadraticHzPerG2 float64 `json:",omitempty"`
+	FieldOffsetUG          float64 `json:",omitempty"`
 }
 
 // Ring is the [ring] table.
 type Ring struct {
 	RadiusUM float64 // ring radius R in um
 	Sites    int     // number of lattice sites N
+
+	// The imperfect ring (see apparatus.go): the radius's error against
+	// its calibration in ppm, the tilt from horizontal in mrad with the
+	// azimuth of the lowest point from the start site in degrees, and one
+	// angular harmonic of the lattice depth (order, relative amplitude,
+	// phase in degrees).
+	RadiusErrorPPM   float64 `json:",omitempty"`
+	TiltMrad         float64 `json:",omitempty"`
+	LowDeg           float64 `json:",omitempty"`
+	HarmonicOrder    int     `json:",omitempty"`
+	HarmonicRel      float64 `json:",omitempty"`
+	HarmonicPhaseDeg float64 `json:",omitempty"`
 }
 
 // Lattice is the [lattice] table.
 type Lattice struct {
 	DepthKHz float64 // lattice depth V0/h in kHz
+
+	// Photon scattering (see apparatus.go): the vacuum wavelength of the
+	// lattice light in nm (rubidium-87), or each arm's rate at the nominal
+	// depth in 1/s.
+	WavelengthNM        float64 `json:",omitempty"`
+	ScatteringPlusPerS  float64 `json:",omitempty"`
+	ScatteringMinusPerS float64 `json:",omitempty"`
 }
 
 // Motion is the [motion] table.
@@ -96,6 +126,9 @@ type Noise struct {
 	Timing      TimingNoise
 	Temperature TemperatureNoise
 	Pulses      PulseNoise
+	// FieldUG2PerHz is the white one-sided PSD of the magnetic field during
+	// the shot, uG^2/Hz ([noise.field] noise_ug2_hz; 0: none).
+	FieldUG2PerHz float64 `json:",omitempty"`
 }
 
 // DepthNoise is the [noise.depth] table.
@@ -106,6 +139,9 @@ type DepthNoise struct {
 	// RINBandHz is the [low, high] band of the intensity noise in Hz.
 	// The zero value means the band the time grid resolves.
 	RINBandHz [2]float64
+	// RINTable is a CSV table of f_hz, rin_db_hz used instead of a white
+	// level, joined to the scenario's directory like Ramp.File.
+	RINTable string `json:",omitempty"`
 }
 
 // DriveNoise is the [noise.drive] table.
@@ -170,7 +206,8 @@ func readError(err error) error {
 	return err
 }
 
-// ReadFile reads a file the scenario refers to (Ramp.File, Noise.Drive.PhaseTable)
+// ReadFile reads a file the scenario refers to (Ramp.File, Noise.Drive.PhaseTable,
+// Noise.Depth.RINTable)
 // from where the scenario was loaded. Only a regular file of at most
 // boundedread.TableCap bytes is read (see package boundedread).
 func (s *Scenario) ReadFile(name string) ([]byte, error) {

@@ -140,7 +140,9 @@ func (s *Simulator) apparatus(sh Shot, drives [2]Drive, end float64) complex128 
 		f *= complex(k, 0)
 	}
 	if sh.RadiusRel != 0 {
-		f *= cis(radiusPhase(s.cfg, sh.RadiusRel))
+		c := s.cfg
+		c.RotationRadS += sh.RotationOffsetRadS
+		f *= cis(radiusPhase(c, sh.RadiusRel))
 	}
 	return f
 }

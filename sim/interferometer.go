@@ -78,6 +78,12 @@ type Shot struct {
 	// Potential is a static potential around the ring in the apparatus frame
 	// (tilt, depth harmonics), applied at first order (sim/ringpotential.go).
 	Potential RingPotential
+	// RotationOffsetRadS is the platform's rotation rate in this shot less
+	// the nominal Config.RotationRadS: the arms move in a frame turning at
+	// Omega_bg + dOmega, while the Sagnac phase a result is compared with is
+	// the nominal K Omega_bg, so the bias moves by K dOmega
+	// (docs/model.md, Perturbations, platform rotation).
+	RotationOffsetRadS float64
 }
 
 // Level is the contribution of one of the site's levels to a thermal start.
@@ -170,7 +176,7 @@ func (s *Simulator) drives(sh Shot) [2]Drive {
 			Rate:         1 + sh.ClockRel,
 			Scale:        1 + sh.SpeedRel,
 			DelayS:       delay[a],
-			RotationRadS: s.cfg.RotationRadS,
+			RotationRadS: s.cfg.RotationRadS + sh.RotationOffsetRadS,
 			DepthRel:     sh.DepthRel[a],
 			Jitter:       sh.Jitter[a],
 			DepthNoise:   sh.DepthNoise[a],
@@ -187,7 +193,8 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	v0 := 2 * math.Pi * cfg.DepthHz
 	rot := cfg.Ring.rotationalRate()
 	gStart := 1 + (sh.DepthRel[0]+sh.DepthRel[1])/2
-	es0 := lowestBands(b, rot, cfg.RotationRadS, gStart*v0, s.lev)
+	omega := cfg.RotationRadS + sh.RotationOffsetRadS // the shot's true rotation
+	es0 := lowestBands(b, rot, omega, gStart*v0, s.lev)
 	means := bandMeans(es0)
 	temp := math.Max(0, cfg.TemperatureK+sh.TemperatureOffsetK)
 	lev := min(s.lev, thermalLevels(means, temp))
@@ -230,7 +237,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 			}
 			return p.stretch(f, d, w, t0, t1, noiseStep, es)
 		}
-		rest = stretch(cfg.RotationRadS, 0, tm[0], rest)
+		rest = stretch(omega, 0, tm[0], rest)
 		p.observe(obs, a, tm[0], f, d, rest)
 		p.splitStepsObserved(f, d, tm[0], tm[1], s.steps(tm[1]-tm[0]), obs, a)
 		cruise := diagonaliseFor(p, d.cruiseSpeed(), 1+d.DepthRel)
@@ -244,7 +251,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 			p.stretchObserved(f, d, d.cruiseSpeed(), tm[1], tm[2], noiseStep, cruise, obs, a)
 		}
 		p.splitStepsObserved(f, d, tm[2], tm[3], s.steps(tm[3]-tm[2]), obs, a)
-		stretch(cfg.RotationRadS, tm[3], end, rest)
+		stretch(omega, tm[3], end, rest)
 		if end > tm[3] {
 			p.observe(obs, a, end, f, d, rest)
 		}

@@ -243,3 +243,36 @@ func noiseShot(t *testing.T, s *Simulator, rin, phase float64, band noise.Band, 
 	}
 	return sh
 }
+
+// TestRotationOffset: a shot whose platform turns at Omega_bg + dOmega is
+// compared with the nominal Sagnac phase K Omega_bg, so its bias is
+// K dOmega, K = 2 m R^2 phi(T) / hbar (docs/model.md, Interferometer and
+// signs; Perturbations, platform rotation), computed here from its
+// definition. The change of the bias follows K dOmega to 1.3e-10
+// relative on this adiabatic sequence (measured); the tolerance is 1e-9
+// (a margin of 8, so a 10x regression fails). A zero offset leaves the
+// shot as it was, bit for bit.
+func TestRotationOffset(t *testing.T) {
+	c := slowConfig(t, 1e-3)
+	s, err := NewSimulator(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	nominal := s.Run(Shot{}, nil)
+	if again := s.Run(Shot{RotationOffsetRadS: 0}, nil); again.Z != nominal.Z {
+		t.Fatalf("a zero rotation offset changes z: %v, nominal %v", again.Z, nominal.Z)
+	}
+	K := 2 * c.Ring.MassKg * c.Ring.RadiusM * c.Ring.RadiusM * (2 * math.Pi) / Hbar
+	for _, dw := range []float64{0.05, -0.2} {
+		r := s.Run(Shot{RotationOffsetRadS: dw}, nil)
+		want := K * dw
+		got := Wrap(r.BiasRad - nominal.BiasRad)
+		t.Logf("dOmega %g rad/s: relative error %.2g", dw, got/want-1)
+		if math.Abs(got-want) > 1e-9*math.Abs(want) {
+			t.Errorf("dOmega %g rad/s: bias moves by %.9g rad, want K dOmega = %.9g", dw, got, want)
+		}
+		if r.SagnacRad != nominal.SagnacRad {
+			t.Errorf("dOmega %g rad/s: the Sagnac phase compared with moved", dw)
+		}
+	}
+}

@@ -95,7 +95,11 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 	if err != nil {
 		return err
 	}
-	_, g, err := s.Gyro(sim.Shot{})
+	base, err := sc.Apparatus()
+	if err != nil {
+		return err
+	}
+	_, g, err := s.Gyro(base)
 	if err != nil {
 		return err
 	}
@@ -137,7 +141,11 @@ func simulate(e env, sc *scenario.Scenario, cfg sim.Config, obs sim.Observer) (p
 	if err != nil {
 		return present.ShotRun{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
+	base, err := sc.Apparatus()
+	if err != nil {
+		return present.ShotRun{}, err
+	}
 	start := e.now()
-	r := s.Run(sim.Shot{}, obs)
+	r := s.Run(base, obs)
 	return present.ShotRun{Config: s.Config(), Result: r, Elapsed: e.now().Sub(start)}, nil
 }

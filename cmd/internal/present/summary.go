@@ -122,6 +122,10 @@ func summaryGrids(s mc.Summary) []*Grid {
 	cb := s.BiasCircular
 	u.Append("Bias as an angle: mean direction (circular std)", b3(cb.MeanDirection), "("+b3(cb.StdDev)+")", "rad")
 	u.Append("Inverted shots: |bias| > pi/2 or contrast < "+Sig(cb.ContrastFloor, 3), strconv.Itoa(cb.Inverted), "", "")
+	if s.Lost > 0 {
+		// docs/model.md, Perturbations, photon scattering.
+		u.Append("Lost shots: the atom scattered a photon (z = 0, no bias; outside the yield)", strconv.Itoa(s.Lost), "", "")
+	}
 	u.Append("Scale factor K", Sig(s.ScaleFactorS, 6), "", "s (rad per rad/s)")
 	if y := s.Yield; y != nil {
 		var lim []string
