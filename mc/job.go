@@ -107,6 +107,12 @@ func (m Manifest) Summarise(recs []Record, confidence float64, spec Spec) Summar
 	return Summarise(recs, m.Seed, m.SagnacRad, m.ScaleFactorS, confidence, spec)
 }
 
+// SummariseOutcomes summarises the outputs of the run m describes
+// (SummariseOutcomes), in the memory of their columns.
+func (m Manifest) SummariseOutcomes(o *Outcomes, confidence float64, spec Spec) Summary {
+	return SummariseOutcomes(o, m.Seed, m.SagnacRad, m.ScaleFactorS, confidence, spec)
+}
+
 func (j Job) records() int {
 	if j.Records > 0 {
 		return j.Records

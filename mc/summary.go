@@ -22,11 +22,14 @@ type Spec struct {
 func (s Spec) Active() bool { return s.MinContrast > 0 || s.MaxAbsBiasRad > 0 }
 
 // Inside reports whether a record meets the spec.
-func (s Spec) Inside(r Record) bool {
-	if s.MinContrast > 0 && !(r.Contrast >= s.MinContrast) {
+func (s Spec) Inside(r Record) bool { return s.inside(r.Contrast, r.BiasRad) }
+
+// inside reports whether a contrast and a bias meet the spec.
+func (s Spec) inside(contrast, biasRad float64) bool {
+	if s.MinContrast > 0 && !(contrast >= s.MinContrast) {
 		return false
 	}
-	if s.MaxAbsBiasRad > 0 && !(math.Abs(r.BiasRad) <= s.MaxAbsBiasRad) {
+	if s.MaxAbsBiasRad > 0 && !(math.Abs(biasRad) <= s.MaxAbsBiasRad) {
 		return false
 	}
 	return true
@@ -104,29 +107,38 @@ type Summary struct {
 const BootstrapResamples = 500
 
 // Summarise computes the summary of records (in any order) of an ensemble
+// with the given seed (SummariseOutcomes of their outputs).
+func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence float64, spec Spec) Summary {
+	return SummariseOutcomes(OutcomesOf(recs), seed, sagnacRad, scaleFactorS, confidence, spec)
+}
+
+// SummariseOutcomes computes the summary of the outputs o of an ensemble
 // with the given seed. sagnacRad and scaleFactorS are those of the nominal
 // sequence. The bootstrap draws from Substream(seed, 0, "summary"), so a
 // summary is reproducible from its records. The quantile intervals are
 // computed on each output sorted once; they need no random draws.
-func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence float64, spec Spec) Summary {
-	n := len(recs)
+//
+// It works on the columns alone: besides them it holds one sorted copy of
+// a column and the |bias| column at a time (16 bytes a realisation), so
+// its memory is bounded by the columns' (see Outcomes). Its time is that
+// of the bootstraps, BootstrapResamples draws of every realisation for
+// each interval that is not an order statistic (seven of them).
+func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confidence float64, spec Spec) Summary {
+	n := o.Len()
 	if n == 0 {
 		panic("mc: Summarise of no records")
 	}
-	sorted := slices.Clone(recs)
-	slices.SortFunc(sorted, func(a, b Record) int { return a.Index - b.Index })
-	c := make([]float64, n)
-	bias := make([]float64, n)
-	abs := make([]float64, n)
-	z := make([]complex128, n)
-	for i, r := range sorted {
-		c[i], bias[i], abs[i], z[i] = r.Contrast, r.BiasRad, math.Abs(r.BiasRad), r.Z
-	}
+	c, bias := o.Contrast, o.BiasRad
 	rng := Substream(seed, 0, "summary")
 	s := Summary{Samples: n, Confidence: confidence, ScaleFactorS: scaleFactorS}
 	s.Contrast = distribution(c, rng, confidence, [2]float64{0, 1})
 	s.BiasRad = distribution(bias, rng, confidence, [2]float64{-math.Pi, math.Pi})
+	abs := make([]float64, n)
+	for i, b := range bias {
+		abs[i] = math.Abs(b)
+	}
 	s.AbsBiasRad = distribution(abs, rng, confidence, [2]float64{0, math.Pi})
+	abs = nil
 	s.BiasDegPerH = s.BiasRad.scaled(sim.RadPerSToDegPerH(1 / scaleFactorS))
 	s.BiasCircular = CircularBias{Circular: stats.CircularStats(bias), ContrastFloor: UsableContrastFloor}
 	for i := range bias {
@@ -134,38 +146,11 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 			s.BiasCircular.Inverted++
 		}
 	}
-
-	fringe := func(idx []int) (float64, float64) {
-		var m complex128
-		for _, i := range idx {
-			m += z[i]
-		}
-		m /= complex(float64(len(idx)), 0)
-		return cmplx.Abs(m), sim.Wrap(cmplx.Phase(m) - sagnacRad)
-	}
-	all := make([]int, n)
-	for i := range all {
-		all[i] = i
-	}
-	fc, fb := fringe(all)
-	repC := make([]float64, BootstrapResamples)
-	repB := make([]float64, BootstrapResamples)
-	idx := make([]int, n)
-	for b := range BootstrapResamples {
-		for i := range idx {
-			idx[i] = rng.IntN(n)
-		}
-		repC[b], repB[b] = fringe(idx)
-	}
-	lo, hi := stats.PercentileInterval(repC, confidence)
-	s.FringeContrast = Interval{fc, lo, hi}
-	lo, hi = stats.PercentileInterval(repB, confidence)
-	s.FringeBiasRad = Interval{fb, lo, hi}
-
+	s.FringeContrast, s.FringeBiasRad = fringeIntervals(o.ZRe, o.ZIm, sagnacRad, rng, confidence)
 	if spec.Active() {
 		k := 0
-		for _, r := range sorted {
-			if spec.Inside(r) {
+		for i := range c {
+			if spec.inside(c[i], bias[i]) {
 				k++
 			}
 		}
@@ -173,6 +158,38 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 		s.Yield = &YieldResult{Interval: Interval{e.Value, e.Lo, e.Hi}, Inside: k, Spec: spec}
 	}
 	return s
+}
+
+// fringeIntervals returns the contrast |mean z| and the bias arg(mean z) -
+// sagnacRad of the averaged fringe, with percentile-bootstrap intervals.
+func fringeIntervals(re, im []float64, sagnacRad float64, rng *rand.Rand, confidence float64) (contrast, bias Interval) {
+	n := len(re)
+	fringe := func(idx []int) (float64, float64) {
+		var m complex128
+		for _, i := range idx {
+			m += complex(re[i], im[i])
+		}
+		m /= complex(float64(len(idx)), 0)
+		return cmplx.Abs(m), sim.Wrap(cmplx.Phase(m) - sagnacRad)
+	}
+	idx := make([]int, n)
+	for i := range idx {
+		idx[i] = i
+	}
+	fc, fb := fringe(idx)
+	repC := make([]float64, BootstrapResamples)
+	repB := make([]float64, BootstrapResamples)
+	for b := range BootstrapResamples {
+		for i := range idx {
+			idx[i] = rng.IntN(n)
+		}
+		repC[b], repB[b] = fringe(idx)
+	}
+	lo, hi := stats.PercentileInterval(repC, confidence)
+	contrast = Interval{fc, lo, hi}
+	lo, hi = stats.PercentileInterval(repB, confidence)
+	bias = Interval{fb, lo, hi}
+	return contrast, bias
 }
 
 // quantileKeys are the quantiles of a Distribution, by CI key.
