@@ -77,7 +77,10 @@ func Create(dir string, m Manifest) (_ *Store, err error) {
 }
 
 // Resume reopens the run in dir, which must be of the ensemble m describes
-// and written by this build, and returns the records already done. It
+// and written by this build, and returns the records already done. A run
+// of the random sampler, unsharded, may be topped up: m may ask for more
+// samples than the run holds (its manifest is then rewritten, unsealed,
+// before any row is added). The looks recorded (Manifest.Looks) are kept. It
 // takes the directory's lock first. A torn last row (from a kill during a
 // write) is dropped and will be run again; any other row that does not
 // verify (checksum, order, physical range) is refused naming its line.
@@ -100,15 +103,28 @@ func Resume(dir string, m Manifest) (_ *Store, _ []Record, err error) {
 	if err != nil {
 		return nil, nil, err
 	}
+	grown := m.Samples != old.Samples
+	if grown {
+		if err := canTopUp(old, m); err != nil {
+			return nil, nil, fmt.Errorf("cannot resume %s: it holds %v", dir, err)
+		}
+		old.Samples = m.Samples
+	}
 	if err := m.sameEnsemble(old); err != nil {
 		return nil, nil, fmt.Errorf("cannot resume %s: it holds %v", dir, err)
 	}
+	m.Looks = old.Looks
 	if (old.Shard == nil) != (m.Shard == nil) || (old.Shard != nil && *old.Shard != *m.Shard) {
 		return nil, nil, fmt.Errorf("cannot resume %s: it holds a different shard", dir)
 	}
 	path := filepath.Join(dir, RealisationsFile)
 	if err := os.Truncate(path, valid); err != nil {
 		return nil, nil, err
+	}
+	if grown { // unsealed before a row is added, so that an interrupted top-up resumes
+		if err := writeJSON(filepath.Join(dir, ManifestFile), m); err != nil {
+			return nil, nil, err
+		}
 	}
 	f, err := os.OpenFile(path, os.O_WRONLY|os.O_APPEND, 0o644)
 	if err != nil {
@@ -169,6 +185,26 @@ func fileSHA256(path string) (string, error) {
 func Read(dir string) (Manifest, []Record, error) {
 	m, recs, _, err := read(dir)
 	return m, recs, err
+}
+
+// RecordLook records in the manifest of the run in dir that it was
+// qualified at look (Manifest.Looks becomes look if that is more), under
+// the directory's lock.
+func RecordLook(dir string, look int) error {
+	unlock, err := LockDir(dir)
+	if err != nil {
+		return err
+	}
+	defer unlock()
+	m, err := ReadManifest(dir)
+	if err != nil {
+		return err
+	}
+	if look <= m.Looks {
+		return nil
+	}
+	m.Looks = look
+	return writeJSON(filepath.Join(dir, ManifestFile), m)
 }
 
 // ReadManifest reads and checks the manifest of an ensemble directory.
