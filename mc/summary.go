@@ -118,9 +118,10 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 // summary is reproducible from its records. The quantile intervals are
 // computed on each output sorted once; they need no random draws.
 //
-// It works on the columns alone: besides them it holds one sorted copy of
-// a column and the |bias| column at a time (16 bytes a realisation), so
-// its memory is bounded by the columns' (see Outcomes). Its time is that
+// It works on the columns alone: besides them it holds a scratch column
+// (a sorted copy, then each bootstrap resample) and the |bias| column (16
+// bytes a realisation), so its memory is bounded by the columns' (see
+// Outcomes). Its time is that
 // of the bootstraps, BootstrapResamples draws of every realisation for
 // each interval that is not an order statistic (seven of them).
 func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confidence float64, spec Spec) Summary {
@@ -131,14 +132,15 @@ func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confid
 	c, bias := o.Contrast, o.BiasRad
 	rng := Substream(seed, 0, "summary")
 	s := Summary{Samples: n, Confidence: confidence, ScaleFactorS: scaleFactorS}
-	s.Contrast = distribution(c, rng, confidence, [2]float64{0, 1})
-	s.BiasRad = distribution(bias, rng, confidence, [2]float64{-math.Pi, math.Pi})
+	buf := make([]float64, n) // scratch of every distribution
+	s.Contrast = distribution(c, buf, rng, confidence, [2]float64{0, 1})
+	s.BiasRad = distribution(bias, buf, rng, confidence, [2]float64{-math.Pi, math.Pi})
 	abs := make([]float64, n)
 	for i, b := range bias {
 		abs[i] = math.Abs(b)
 	}
-	s.AbsBiasRad = distribution(abs, rng, confidence, [2]float64{0, math.Pi})
-	abs = nil
+	s.AbsBiasRad = distribution(abs, buf, rng, confidence, [2]float64{0, math.Pi})
+	abs, buf = nil, nil
 	s.BiasDegPerH = s.BiasRad.scaled(sim.RadPerSToDegPerH(1 / scaleFactorS))
 	s.BiasCircular = CircularBias{Circular: stats.CircularStats(bias), ContrastFloor: UsableContrastFloor}
 	for i := range bias {
@@ -164,26 +166,25 @@ func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confid
 // sagnacRad of the averaged fringe, with percentile-bootstrap intervals.
 func fringeIntervals(re, im []float64, sagnacRad float64, rng *rand.Rand, confidence float64) (contrast, bias Interval) {
 	n := len(re)
-	fringe := func(idx []int) (float64, float64) {
+	// fringe averages z over the realisations in order (draw nil) or over
+	// n drawn with draw, summing as it draws.
+	fringe := func(draw func(int) int) (float64, float64) {
 		var m complex128
-		for _, i := range idx {
+		for k := range n {
+			i := k
+			if draw != nil {
+				i = draw(n)
+			}
 			m += complex(re[i], im[i])
 		}
-		m /= complex(float64(len(idx)), 0)
+		m /= complex(float64(n), 0)
 		return cmplx.Abs(m), sim.Wrap(cmplx.Phase(m) - sagnacRad)
 	}
-	idx := make([]int, n)
-	for i := range idx {
-		idx[i] = i
-	}
-	fc, fb := fringe(idx)
+	fc, fb := fringe(nil)
 	repC := make([]float64, BootstrapResamples)
 	repB := make([]float64, BootstrapResamples)
 	for b := range BootstrapResamples {
-		for i := range idx {
-			idx[i] = rng.IntN(n)
-		}
-		repC[b], repB[b] = fringe(idx)
+		repC[b], repB[b] = fringe(rng.IntN)
 	}
 	lo, hi := stats.PercentileInterval(repC, confidence)
 	contrast = Interval{fc, lo, hi}
@@ -200,9 +201,13 @@ var quantileKeys = []struct {
 
 // distribution computes the entries of a Distribution and their intervals.
 // support is the range of the output, to which the mean's interval is
-// clamped where a tied resample made the bootstrap-t infinite.
-func distribution(x []float64, rng *rand.Rand, confidence float64, support [2]float64) Distribution {
-	sorted := slices.Sorted(slices.Values(x))
+// clamped where a tied resample made the bootstrap-t infinite. buf, of
+// len(x), is scratch: it holds the sorted copy of x for the quantiles, then
+// each resample of the standard deviation's bootstrap.
+func distribution(x, buf []float64, rng *rand.Rand, confidence float64, support [2]float64) Distribution {
+	sorted := buf[:len(x)]
+	copy(sorted, x)
+	slices.Sort(sorted)
 	m, sd := meanStd(x)
 	d := Distribution{Mean: m, Std: sd, CI: map[string][2]float64{}}
 	for _, q := range quantileKeys {
@@ -235,20 +240,35 @@ func distribution(x []float64, rng *rand.Rand, confidence float64, support [2]fl
 	}
 	lo, hi := stats.MeanBootstrapT(x, BootstrapResamples, rng).Interval(confidence)
 	d.CI["mean"] = [2]float64{max(lo, support[0]), min(hi, support[1])}
-	reps := stats.BootstrapReplicates(len(x), BootstrapResamples, rng, func(idx []int) float64 {
-		var s, s2 float64
-		for _, i := range idx {
-			s += x[i]
-		}
-		mean := s / float64(len(idx))
-		for _, i := range idx {
-			s2 += (x[i] - mean) * (x[i] - mean)
-		}
-		return math.Sqrt(s2 / float64(len(idx)-1))
-	})
-	lo, hi = stats.PercentileInterval(reps, confidence)
+	lo, hi = stats.PercentileInterval(stdReplicates(x, buf, rng), confidence)
 	d.CI["std"] = [2]float64{lo, hi}
 	return d
+}
+
+// stdReplicates returns BootstrapResamples percentile-bootstrap replicates
+// of the sample standard deviation of x: each draws len(x) indices with
+// rng.IntN, in the order stats.BootstrapReplicates draws them (so the
+// replicates are the same), gathering the values into buf, which keeps the
+// two passes over a resample sequential in memory.
+func stdReplicates(x, buf []float64, rng *rand.Rand) []float64 {
+	n := len(x)
+	res := buf[:n]
+	reps := make([]float64, BootstrapResamples)
+	for b := range reps {
+		for k := range res {
+			res[k] = x[rng.IntN(n)]
+		}
+		var s, s2 float64
+		for _, v := range res {
+			s += v
+		}
+		mean := s / float64(n)
+		for _, v := range res {
+			s2 += (v - mean) * (v - mean)
+		}
+		reps[b] = math.Sqrt(s2 / float64(n-1))
+	}
+	return reps
 }
 
 // meanStd returns the mean and the sample standard deviation (zero for a
