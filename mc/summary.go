@@ -121,9 +121,11 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 // It works on the columns alone: besides them it holds a scratch column
 // (a sorted copy, then each bootstrap resample) and the |bias| column (16
 // bytes a realisation), so its memory is bounded by the columns' (see
-// Outcomes). Its time is that
-// of the bootstraps, BootstrapResamples draws of every realisation for
-// each interval that is not an order statistic (seven of them).
+// Outcomes). Its time is that of the bootstraps: BootstrapResamples draws
+// of every realisation for each interval that is not an order statistic
+// or Clopper-Pearson (seven of them). A new distribution takes its column
+// from Outcomes and the shared scratch column, after the others, so that
+// their draws stay as they are.
 func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confidence float64, spec Spec) Summary {
 	n := o.Len()
 	if n == 0 {
@@ -140,7 +142,6 @@ func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confid
 		abs[i] = math.Abs(b)
 	}
 	s.AbsBiasRad = distribution(abs, buf, rng, confidence, [2]float64{0, math.Pi})
-	abs, buf = nil, nil
 	s.BiasDegPerH = s.BiasRad.scaled(sim.RadPerSToDegPerH(1 / scaleFactorS))
 	s.BiasCircular = CircularBias{Circular: stats.CircularStats(bias), ContrastFloor: UsableContrastFloor}
 	for i := range bias {
