@@ -134,13 +134,15 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	q := mc.Qualify(run.records, req, run.manifest.ScaleFactorS, run.manifest.Seed)
 	rep := present.QualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.Gyro(sum)}
 	if dir != "" {
+		// The look is counted before the verdict is written or shown, so
+		// that no verdict is seen whose look the directory does not count.
+		if err := mc.RecordLook(dir, q.Look); err != nil {
+			return err
+		}
 		if err := present.WriteResults(dir, sum, run.records, req.Yield); err != nil {
 			return err
 		}
 		if err := atomicfile.Write(filepath.Join(dir, present.QualificationFile), func(w io.Writer) error { return present.WriteJSON(w, rep) }); err != nil {
-			return err
-		}
-		if err := mc.RecordLook(dir, q.Look); err != nil {
 			return err
 		}
 		fmt.Fprintf(stderr, "wrote %d realisations, %s and %s to %s (look %d recorded)\n", len(run.records), present.SummaryFile, present.QualificationFile, dir, q.Look)
