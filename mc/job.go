@@ -113,7 +113,13 @@ func (j Job) Manifest() Manifest {
 // Summarise summarises records of the run m describes: their seed, Sagnac
 // phase and scale factor come from the manifest (Summarise).
 func (m Manifest) Summarise(recs []Record, confidence float64, spec Spec) Summary {
-	s := Summarise(recs, m.Seed, m.SagnacRad, m.ScaleFactorS, confidence, spec)
+	return m.SummariseOutcomes(OutcomesOf(recs), confidence, spec)
+}
+
+// SummariseOutcomes summarises the outputs of the run m describes
+// (SummariseOutcomes), in the memory of their columns.
+func (m Manifest) SummariseOutcomes(o *Outcomes, confidence float64, spec Spec) Summary {
+	s := SummariseOutcomes(o, m.Seed, m.SagnacRad, m.ScaleFactorS, confidence, spec)
 	s.Numerics = m.NumericsError
 	return s
 }

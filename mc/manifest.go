@@ -17,11 +17,14 @@ import (
 // digest of the records; directories of format 1 are refused.
 const ManifestFormat = "rampart-ensemble/2"
 
-// MaxSamples bounds the realisations of an ensemble. The summaries hold
-// every record in memory (about 200 bytes each), so 10^8 is already tens
-// of GB; the bound also keeps every index product within int64 (see
-// Shard.Range).
-const MaxSamples = 100_000_000
+// MaxSamples bounds the realisations of an ensemble. Merge and summaries
+// stream the records and keep only the output columns (Outcomes, 32 bytes
+// a realisation, 48 while a summary runs), so 10^9 realisations need about
+// 48 GB, a large cluster node; an ensemble that size is run in shards (a
+// command that runs an ensemble in one process still keeps its records,
+// about 200 bytes each). Shard ranges are computed in 128 bits (see
+// Shard.Range), so no index product overflows at any size.
+const MaxSamples = 1_000_000_000
 
 // Shard is slice Index (1-based) of Count of an ensemble: the contiguous
 // realisations [from, to) given by Range.
@@ -114,6 +117,45 @@ type Manifest struct {
 	// RecordsSHA256 is the SHA-256 of the whole records file, set when the
 	// run is complete.
 	RecordsSHA256 string `json:"records_sha256,omitempty"`
+	// Looks is the number of qualifications taken on the ensemble so far
+	// (the last look number, RecordLook), kept as the run is topped up, so
+	// that the next qualification spends the next look's share of the
+	// confidence (NextLook, stats.LookAlpha). Like the yield spec it
+	// changes no record.
+	Looks int `json:"looks,omitempty"`
+}
+
+// NextLook returns the look number of a qualification of the run m
+// describes: given, if it is not zero, else the one after the looks
+// recorded. A given look below the recorded count is refused: it would
+// spend again a share of the confidence already spent, and the sequence of
+// verdicts would no longer hold its level. Repeating the last look (given
+// equal to Looks) is accepted.
+func (m Manifest) NextLook(given int) (int, error) {
+	if given == 0 {
+		return m.Looks + 1, nil
+	}
+	if given < m.Looks {
+		return 0, fmt.Errorf("--look %d: this ensemble was already qualified %d times; give --look %d (or leave --look out), since a look number spent again would break the confidence of the sequence", given, m.Looks, m.Looks+1)
+	}
+	return given, nil
+}
+
+// canTopUp returns an error unless the run old may be topped up to the
+// samples of m: an unsharded run of the random sampler, whose realisation i
+// depends only on the seed and i (docs/model.md, Statistics), grown. A
+// Latin hypercube or Sobol' design depends on its size: more points are
+// another design.
+func canTopUp(old, m Manifest) error {
+	switch {
+	case m.Samples < old.Samples:
+		return fmt.Errorf("%d samples, not %d (an ensemble grows, it does not shrink)", old.Samples, m.Samples)
+	case old.Shard != nil || m.Shard != nil:
+		return fmt.Errorf("%d samples, not %d: a shard is not topped up (merge the shards, then top up the merged run)", old.Samples, m.Samples)
+	case old.Sampler != "random":
+		return fmt.Errorf("%d samples of a %s design, not %d: its points depend on its size, so only a random-sampler ensemble is topped up", old.Samples, old.Sampler, m.Samples)
+	}
+	return nil
 }
 
 // Range returns the realisations the manifest's run covers.

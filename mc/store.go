@@ -11,7 +11,6 @@ import (
 	"io"
 	"os"
 	"path/filepath"
-	"slices"
 	"strings"
 	"syscall"
 
@@ -78,7 +77,10 @@ func Create(dir string, m Manifest) (_ *Store, err error) {
 }
 
 // Resume reopens the run in dir, which must be of the ensemble m describes
-// and written by this build, and returns the records already done. It
+// and written by this build, and returns the records already done. A run
+// of the random sampler, unsharded, may be topped up: m may ask for more
+// samples than the run holds (its manifest is then rewritten, unsealed,
+// before any row is added). The looks recorded (Manifest.Looks) are kept. It
 // takes the directory's lock first. A torn last row (from a kill during a
 // write) is dropped and will be run again; any other row that does not
 // verify (checksum, order, physical range) is refused naming its line.
@@ -101,15 +103,28 @@ func Resume(dir string, m Manifest) (_ *Store, _ []Record, err error) {
 	if err != nil {
 		return nil, nil, err
 	}
+	grown := m.Samples != old.Samples
+	if grown {
+		if err := canTopUp(old, m); err != nil {
+			return nil, nil, fmt.Errorf("cannot resume %s: it holds %v", dir, err)
+		}
+		old.Samples = m.Samples
+	}
 	if err := m.sameEnsemble(old); err != nil {
 		return nil, nil, fmt.Errorf("cannot resume %s: it holds %v", dir, err)
 	}
+	m.Looks = old.Looks
 	if (old.Shard == nil) != (m.Shard == nil) || (old.Shard != nil && *old.Shard != *m.Shard) {
 		return nil, nil, fmt.Errorf("cannot resume %s: it holds a different shard", dir)
 	}
 	path := filepath.Join(dir, RealisationsFile)
 	if err := os.Truncate(path, valid); err != nil {
 		return nil, nil, err
+	}
+	if grown { // unsealed before a row is added, so that an interrupted top-up resumes
+		if err := writeJSON(filepath.Join(dir, ManifestFile), m); err != nil {
+			return nil, nil, err
+		}
 	}
 	f, err := os.OpenFile(path, os.O_WRONLY|os.O_APPEND, 0o644)
 	if err != nil {
@@ -172,6 +187,26 @@ func Read(dir string) (Manifest, []Record, error) {
 	return m, recs, err
 }
 
+// RecordLook records in the manifest of the run in dir that it was
+// qualified at look (Manifest.Looks becomes look if that is more), under
+// the directory's lock.
+func RecordLook(dir string, look int) error {
+	unlock, err := LockDir(dir)
+	if err != nil {
+		return err
+	}
+	defer unlock()
+	m, err := ReadManifest(dir)
+	if err != nil {
+		return err
+	}
+	if look <= m.Looks {
+		return nil
+	}
+	m.Looks = look
+	return writeJSON(filepath.Join(dir, ManifestFile), m)
+}
+
 // ReadManifest reads and checks the manifest of an ensemble directory.
 func ReadManifest(dir string) (Manifest, error) {
 	var m Manifest
@@ -196,42 +231,78 @@ func read(dir string) (Manifest, []Record, int64, error) {
 	if err != nil {
 		return m, nil, 0, err
 	}
-	path := filepath.Join(dir, RealisationsFile)
-	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	f, path, err := openRecords(dir)
 	if err != nil {
-		return m, nil, 0, fmt.Errorf("%s: %w", dir, err)
+		return m, nil, 0, err
 	}
 	defer f.Close()
-	if fi, err := f.Stat(); err != nil || !fi.Mode().IsRegular() {
-		return m, nil, 0, fmt.Errorf("%s is not a regular file", path)
-	}
 	recs, valid, err := ReadRecords(f, path, m)
 	return m, recs, valid, err
 }
 
+// openRecords opens the records file of the run in dir for reading,
+// refusing anything but a regular file (a FIFO would block the reader). It
+// returns the file and its path.
+func openRecords(dir string) (*os.File, string, error) {
+	path := filepath.Join(dir, RealisationsFile)
+	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	if err != nil {
+		return nil, path, fmt.Errorf("%s: %w", dir, err)
+	}
+	if fi, err := f.Stat(); err != nil || !fi.Mode().IsRegular() {
+		f.Close()
+		return nil, path, fmt.Errorf("%s is not a regular file", path)
+	}
+	return f, path, nil
+}
+
 // ReadRecords reads a records file of the run m describes from r; name
-// labels errors. Each row must carry a valid checksum, be in index order
-// within the run's range and hold physical values (Record.check); the first
-// row that does not is refused naming its line. A torn last row without
-// its newline is dropped. It returns the records and the byte length of the
-// verified prefix.
+// labels errors. It verifies every row as ScanRecords does and returns the
+// records and the byte length of the verified prefix. It holds every
+// record (about 200 bytes each with its inputs): readers of large runs use
+// ScanRecords.
+func ReadRecords(r io.Reader, name string, m Manifest) ([]Record, int64, error) {
+	var recs []Record
+	_, valid, err := ScanRecords(r, name, m, func(rec Record, _ string) error {
+		recs = append(recs, rec)
+		return nil
+	})
+	if err != nil {
+		return nil, 0, err
+	}
+	return recs, valid, nil
+}
+
+// ScanRecords reads a records file of the run m describes from r, row by
+// row, and calls fn with each verified record and its row (the text with
+// its newline); name labels errors. It holds one row at a time, so a file
+// of any length is read in bounded memory.
+//
+// Each row must carry a valid checksum, be in index order within the run's
+// range and hold physical values (Record.check); the first row that does
+// not is refused naming its line. A torn last row without its newline is
+// dropped. It returns the number of rows and the byte length of the
+// verified prefix. An error of fn stops the scan and is returned as it is.
 //
 // If m carries a digest (a sealed run) the file must hold every row and match
-// the digest: a sealed file that lost its tail is refused, not resumed.
-func ReadRecords(r io.Reader, name string, m Manifest) ([]Record, int64, error) {
+// the digest: a sealed file that lost its tail is refused, not resumed. The
+// digest is known only at the end, so fn has seen every row of a file that
+// then fails it: a caller that writes what fn is given must discard it on
+// an error (as Merged.WriteRun does).
+func ScanRecords(r io.Reader, name string, m Manifest, fn func(rec Record, row string) error) (int, int64, error) {
 	if err := m.validate(); err != nil {
-		return nil, 0, fmt.Errorf("%s: %w", name, err)
+		return 0, 0, fmt.Errorf("%s: %w", name, err)
 	}
 	h := sha256.New()
 	br := bufio.NewReaderSize(io.TeeReader(r, h), maxRowBytes)
 	header, err := readRow(br)
 	if err != nil || strings.TrimSuffix(header, "\n") != strings.Join(m.Columns, ",") {
-		return nil, 0, fmt.Errorf("%s: header does not match the manifest's columns", name)
+		return 0, 0, fmt.Errorf("%s: header does not match the manifest's columns", name)
 	}
 	valid := int64(len(header))
 	nIn, rin, phase := m.layout()
 	from, to := m.Range()
-	var recs []Record
+	n := 0
 	torn := false
 	for line := 2; ; line++ {
 		s, err := readRow(br)
@@ -240,24 +311,27 @@ func ReadRecords(r io.Reader, name string, m Manifest) ([]Record, int64, error) 
 			break
 		}
 		if err != nil {
-			return nil, 0, fmt.Errorf("%s line %d: %v", name, line, err)
+			return 0, 0, fmt.Errorf("%s line %d: %v", name, line, err)
 		}
 		rec, perr := parseRecord(s, nIn, rin, phase)
 		if perr != nil {
-			return nil, 0, fmt.Errorf("%s line %d: %v", name, line, perr)
+			return 0, 0, fmt.Errorf("%s line %d: %v", name, line, perr)
 		}
-		if want := from + len(recs); rec.Index != want || rec.Index >= to {
-			return nil, 0, fmt.Errorf("%s line %d: realisation %d out of order (want %d, range [%d, %d))", name, line, rec.Index, want, from, to)
+		if want := from + n; rec.Index != want || rec.Index >= to {
+			return 0, 0, fmt.Errorf("%s line %d: realisation %d out of order (want %d, range [%d, %d))", name, line, rec.Index, want, from, to)
 		}
-		recs = append(recs, rec)
+		if err := fn(rec, s); err != nil {
+			return 0, 0, err
+		}
+		n++
 		valid += int64(len(s))
 	}
 	if m.RecordsSHA256 != "" { // sealed: complete, and byte for byte as sealed
-		if got := hex.EncodeToString(h.Sum(nil)); torn || len(recs) != to-from || got != m.RecordsSHA256 {
-			return nil, 0, fmt.Errorf("%s does not match the digest in its manifest (SHA-256 %s, manifest %s): the file changed after the run finished", name, got, excerpt(m.RecordsSHA256))
+		if got := hex.EncodeToString(h.Sum(nil)); torn || n != to-from || got != m.RecordsSHA256 {
+			return 0, 0, fmt.Errorf("%s does not match the digest in its manifest (SHA-256 %s, manifest %s): the file changed after the run finished", name, got, excerpt(m.RecordsSHA256))
 		}
 	}
-	return recs, valid, nil
+	return n, valid, nil
 }
 
 // readRow reads one line of at most maxRowBytes, with its newline. At the
@@ -272,92 +346,6 @@ func readRow(br *bufio.Reader) (string, error) {
 		return "", errors.New("row holds a NUL byte")
 	}
 	return s, err
-}
-
-// Merge combines the directories of the shards of one ensemble (in any
-// order) and returns the manifest and records of the whole ensemble, as one
-// unsharded run would have them. Every shard must be complete and sealed
-// (its records matching the digest in its manifest), not being written,
-// and of the same build, numerics and yield spec; every realisation must be
-// present once.
-func Merge(dirs []string) (Manifest, []Record, error) {
-	if len(dirs) == 0 {
-		return Manifest{}, nil, errors.New("no directories to merge")
-	}
-	var first Manifest
-	var all []Record
-	for i, d := range dirs {
-		if err := checkNotWriting(d); err != nil {
-			return Manifest{}, nil, err
-		}
-		m, recs, err := Read(d)
-		if err != nil {
-			return Manifest{}, nil, err
-		}
-		if i == 0 {
-			first = m
-		} else if err := first.sameEnsemble(m); err != nil {
-			return Manifest{}, nil, fmt.Errorf("%s is not a shard of the ensemble in %s: it has %v", d, dirs[0], err)
-		} else if !sameSummary(first, m) {
-			return Manifest{}, nil, fmt.Errorf("%s was summarised with another yield spec or confidence than %s: give --min-contrast, --max-bias-rad and --confidence to merge them", d, dirs[0])
-		}
-		if from, to := m.Range(); len(recs) != to-from {
-			return Manifest{}, nil, fmt.Errorf("%s is incomplete: %d of %d realisations (resume it first)", d, len(recs), to-from)
-		}
-		if m.RecordsSHA256 == "" {
-			return Manifest{}, nil, fmt.Errorf("%s holds every realisation but was not sealed with the digest of its records (the run stopped before it closed): resume it once to seal it", d)
-		}
-		all = append(all, recs...)
-	}
-	slices.SortFunc(all, func(a, b Record) int { return a.Index - b.Index })
-	for i, r := range all {
-		if r.Index != i {
-			if i > 0 && all[i-1].Index == r.Index {
-				return Manifest{}, nil, fmt.Errorf("realisation %d appears in more than one shard", r.Index)
-			}
-			return Manifest{}, nil, fmt.Errorf("realisation %d is in none of the shards", i)
-		}
-	}
-	if len(all) != first.Samples {
-		return Manifest{}, nil, fmt.Errorf("the shards hold %d of %d realisations", len(all), first.Samples)
-	}
-	first.Shard = nil
-	first.RecordsSHA256 = ""
-	return first, all, nil
-}
-
-func sameSummary(a, b Manifest) bool {
-	return a.Confidence == b.Confidence && (a.YieldSpec == nil) == (b.YieldSpec == nil) &&
-		(a.YieldSpec == nil || *a.YieldSpec == *b.YieldSpec)
-}
-
-// WriteRun writes a whole run (manifest and records) to dir under its lock,
-// each file whole or not at all (the records first, then the manifest
-// with their digest). The manifest keeps the build that wrote the records.
-func WriteRun(dir string, m Manifest, recs []Record) error {
-	unlock, err := LockDir(dir)
-	if err != nil {
-		return err
-	}
-	defer unlock()
-	if _, err := os.Lstat(filepath.Join(dir, RealisationsFile)); err == nil {
-		return fmt.Errorf("%s already holds a run; choose another directory", dir)
-	}
-	_, rin, phase := m.layout()
-	var b strings.Builder
-	b.WriteString(strings.Join(m.Columns, ",") + "\n")
-	for _, r := range recs {
-		b.WriteString(r.format(rin, phase))
-	}
-	data := []byte(b.String())
-	if err := atomicfile.WriteFile(filepath.Join(dir, RealisationsFile), data); err != nil {
-		return err
-	}
-	if from, to := m.Range(); len(recs) == to-from {
-		sum := sha256.Sum256(data)
-		m.RecordsSHA256 = hex.EncodeToString(sum[:])
-	}
-	return writeJSON(filepath.Join(dir, ManifestFile), m)
 }
 
 func writeJSON(path string, v any) error {

@@ -23,14 +23,18 @@ func (s Spec) Active() bool { return s.MinContrast > 0 || s.MaxAbsBiasRad > 0 }
 
 // Inside reports whether a record meets the spec. A lost shot (Lost)
 // meets no active spec: it has no fringe to read.
-func (s Spec) Inside(r Record) bool {
-	if r.Lost() && s.Active() {
+func (s Spec) Inside(r Record) bool { return s.inside(r.Contrast, r.BiasRad, r.Lost()) }
+
+// inside reports whether a contrast and a bias meet the spec, lost telling
+// a shot without a fringe.
+func (s Spec) inside(contrast, biasRad float64, lost bool) bool {
+	if lost && s.Active() {
 		return false
 	}
-	if s.MinContrast > 0 && !(r.Contrast >= s.MinContrast) {
+	if s.MinContrast > 0 && !(contrast >= s.MinContrast) {
 		return false
 	}
-	if s.MaxAbsBiasRad > 0 && !(math.Abs(r.BiasRad) <= s.MaxAbsBiasRad) {
+	if s.MaxAbsBiasRad > 0 && !(math.Abs(biasRad) <= s.MaxAbsBiasRad) {
 		return false
 	}
 	return true
@@ -43,6 +47,9 @@ func (s Spec) Inside(r Record) bool {
 // contrast and yield, and leave it out of the bias (docs/model.md,
 // Perturbations, photon scattering).
 func (r Record) Lost() bool { return r.Z == 0 && r.Contrast == 0 }
+
+// lost is Record.Lost for the columns of realisation i.
+func (o *Outcomes) lost(i int) bool { return o.ZRe[i] == 0 && o.ZIm[i] == 0 && o.Contrast[i] == 0 }
 
 // Distribution summarises one output over the realisations, with a
 // two-sided interval at the summary's confidence on every entry (CI): the
@@ -131,38 +138,50 @@ type Summary struct {
 const BootstrapResamples = 500
 
 // Summarise computes the summary of records (in any order) of an ensemble
+// with the given seed (SummariseOutcomes of their outputs).
+func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence float64, spec Spec) Summary {
+	return SummariseOutcomes(OutcomesOf(recs), seed, sagnacRad, scaleFactorS, confidence, spec)
+}
+
+// SummariseOutcomes computes the summary of the outputs o of an ensemble
 // with the given seed. sagnacRad and scaleFactorS are those of the nominal
 // sequence. The bootstrap draws from Substream(seed, 0, "summary"), so a
 // summary is reproducible from its records. The quantile intervals are
 // computed on each output sorted once; they need no random draws.
-func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence float64, spec Spec) Summary {
-	n := len(recs)
+//
+// It works on the columns alone: besides them it holds a scratch column
+// (a sorted copy, then each bootstrap resample) and the |bias| column (16
+// bytes a realisation), so its memory is bounded by the columns' (see
+// Outcomes). Its time is that of the bootstraps: BootstrapResamples draws
+// of every realisation for each interval that is not an order statistic
+// or Clopper-Pearson (seven of them). A new distribution takes its column
+// from Outcomes and the shared scratch column, after the others, so that
+// their draws stay as they are.
+func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confidence float64, spec Spec) Summary {
+	n := o.Len()
 	if n == 0 {
 		panic("mc: Summarise of no records")
 	}
-	sorted := slices.Clone(recs)
-	slices.SortFunc(sorted, func(a, b Record) int { return a.Index - b.Index })
-	c := make([]float64, n)
-	var bias, abs, cFringe []float64
-	z := make([]complex128, n)
+	c := o.Contrast
+	var bias, abs, cFringe []float64 // over the shots with a fringe
 	lost := 0
-	for i, r := range sorted {
-		c[i], z[i] = r.Contrast, r.Z
-		if r.Lost() {
+	for i := range c {
+		if o.lost(i) {
 			lost++
 			continue
 		}
-		bias, abs, cFringe = append(bias, r.BiasRad), append(abs, math.Abs(r.BiasRad)), append(cFringe, r.Contrast)
+		bias, abs, cFringe = append(bias, o.BiasRad[i]), append(abs, math.Abs(o.BiasRad[i])), append(cFringe, c[i])
 	}
 	rng := Substream(seed, 0, "summary")
 	s := Summary{Samples: n, Confidence: confidence, ScaleFactorS: scaleFactorS, Lost: lost}
-	s.Contrast = distribution(c, rng, confidence, [2]float64{0, 1})
+	buf := make([]float64, n) // scratch of every distribution
+	s.Contrast = distribution(c, buf, rng, confidence, [2]float64{0, 1})
 	s.BiasCircular = CircularBias{ContrastFloor: UsableContrastFloor}
 	if len(bias) > 0 {
 		// With no fringe at all the bias distributions stay zero: Lost
 		// equals Samples.
-		s.BiasRad = distribution(bias, rng, confidence, [2]float64{-math.Pi, math.Pi})
-		s.AbsBiasRad = distribution(abs, rng, confidence, [2]float64{0, math.Pi})
+		s.BiasRad = distribution(bias, buf, rng, confidence, [2]float64{-math.Pi, math.Pi})
+		s.AbsBiasRad = distribution(abs, buf, rng, confidence, [2]float64{0, math.Pi})
 		s.BiasDegPerH = s.BiasRad.scaled(sim.RadPerSToDegPerH(1 / scaleFactorS))
 		s.BiasCircular.Circular = stats.CircularStats(bias)
 	}
@@ -171,69 +190,60 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 			s.BiasCircular.Inverted++
 		}
 	}
-
-	fringe := func(idx []int) (float64, float64) {
-		var m complex128
-		for _, i := range idx {
-			m += z[i]
-		}
-		m /= complex(float64(len(idx)), 0)
-		return cmplx.Abs(m), sim.Wrap(cmplx.Phase(m) - sagnacRad)
-	}
-	all := make([]int, n)
-	for i := range all {
-		all[i] = i
-	}
-	fc, fb := fringe(all)
-	repC := make([]float64, BootstrapResamples)
-	repB := make([]float64, BootstrapResamples)
-	idx := make([]int, n)
-	for b := range BootstrapResamples {
-		for i := range idx {
-			idx[i] = rng.IntN(n)
-		}
-		repC[b], repB[b] = fringe(idx)
-	}
-	lo, hi := stats.PercentileInterval(repC, confidence)
-	s.FringeContrast = Interval{fc, lo, hi}
-	lo, hi = stats.PercentileInterval(repB, confidence)
-	s.FringeBiasRad = Interval{fb, lo, hi}
-
+	s.FringeContrast, s.FringeBiasRad = fringeIntervals(o.ZRe, o.ZIm, sagnacRad, rng, confidence)
 	if spec.Active() {
 		k := 0
-		for _, r := range sorted {
-			if spec.Inside(r) {
+		for i := range c {
+			if spec.inside(c[i], o.BiasRad[i], o.lost(i)) {
 				k++
 			}
 		}
 		e := stats.ClopperPearson(k, n, confidence)
 		s.Yield = &YieldResult{Interval: Interval{e.Value, e.Lo, e.Hi}, Inside: k, Spec: spec}
 	}
-	if sf, ok := ScaleFactorErrors(sorted); ok {
+	if sf := o.ScaleFactorPPM; sf != nil && len(sf) == n {
 		// Its own stream, so that the other entries do not depend on it.
 		rng := Substream(seed, 0, "summary/scale_factor")
 		abs := make([]float64, n)
 		for i, x := range sf {
 			abs[i] = math.Abs(x)
 		}
-		d := distribution(sf, rng, confidence, [2]float64{-math.MaxFloat64, math.MaxFloat64})
-		a := distribution(abs, rng, confidence, [2]float64{0, math.MaxFloat64})
+		d := distribution(sf, buf, rng, confidence, [2]float64{-math.MaxFloat64, math.MaxFloat64})
+		a := distribution(abs, buf, rng, confidence, [2]float64{0, math.MaxFloat64})
 		s.ScaleFactorErrorPPM, s.AbsScaleFactorErrorPPM = &d, &a
 	}
 	return s
 }
 
-// ScaleFactorErrors returns the records' scale-factor errors in ppm, in
-// their order, and whether every record has one.
-func ScaleFactorErrors(recs []Record) ([]float64, bool) {
-	x := make([]float64, len(recs))
-	for i, r := range recs {
-		if !r.HasScaleFactor {
-			return nil, false
+// fringeIntervals returns the contrast |mean z| and the bias arg(mean z) -
+// sagnacRad of the averaged fringe, with percentile-bootstrap intervals.
+func fringeIntervals(re, im []float64, sagnacRad float64, rng *rand.Rand, confidence float64) (contrast, bias Interval) {
+	n := len(re)
+	// fringe averages z over the realisations in order (draw nil) or over
+	// n drawn with draw, summing as it draws.
+	fringe := func(draw func(int) int) (float64, float64) {
+		var m complex128
+		for k := range n {
+			i := k
+			if draw != nil {
+				i = draw(n)
+			}
+			m += complex(re[i], im[i])
 		}
-		x[i] = r.ScaleFactorErrorPPM
+		m /= complex(float64(n), 0)
+		return cmplx.Abs(m), sim.Wrap(cmplx.Phase(m) - sagnacRad)
 	}
-	return x, len(recs) > 0
+	fc, fb := fringe(nil)
+	repC := make([]float64, BootstrapResamples)
+	repB := make([]float64, BootstrapResamples)
+	for b := range BootstrapResamples {
+		repC[b], repB[b] = fringe(rng.IntN)
+	}
+	lo, hi := stats.PercentileInterval(repC, confidence)
+	contrast = Interval{fc, lo, hi}
+	lo, hi = stats.PercentileInterval(repB, confidence)
+	bias = Interval{fb, lo, hi}
+	return contrast, bias
 }
 
 // quantileKeys are the quantiles of a Distribution, by CI key.
@@ -244,9 +254,13 @@ var quantileKeys = []struct {
 
 // distribution computes the entries of a Distribution and their intervals.
 // support is the range of the output, to which the mean's interval is
-// clamped where a tied resample made the bootstrap-t infinite.
-func distribution(x []float64, rng *rand.Rand, confidence float64, support [2]float64) Distribution {
-	sorted := slices.Sorted(slices.Values(x))
+// clamped where a tied resample made the bootstrap-t infinite. buf, of
+// len(x), is scratch: it holds the sorted copy of x for the quantiles, then
+// each resample of the standard deviation's bootstrap.
+func distribution(x, buf []float64, rng *rand.Rand, confidence float64, support [2]float64) Distribution {
+	sorted := buf[:len(x)]
+	copy(sorted, x)
+	slices.Sort(sorted)
 	m, sd := meanStd(x)
 	d := Distribution{Mean: m, Std: sd, CI: map[string][2]float64{}}
 	for _, q := range quantileKeys {
@@ -279,20 +293,35 @@ func distribution(x []float64, rng *rand.Rand, confidence float64, support [2]fl
 	}
 	lo, hi := stats.MeanBootstrapT(x, BootstrapResamples, rng).Interval(confidence)
 	d.CI["mean"] = [2]float64{max(lo, support[0]), min(hi, support[1])}
-	reps := stats.BootstrapReplicates(len(x), BootstrapResamples, rng, func(idx []int) float64 {
-		var s, s2 float64
-		for _, i := range idx {
-			s += x[i]
-		}
-		mean := s / float64(len(idx))
-		for _, i := range idx {
-			s2 += (x[i] - mean) * (x[i] - mean)
-		}
-		return math.Sqrt(s2 / float64(len(idx)-1))
-	})
-	lo, hi = stats.PercentileInterval(reps, confidence)
+	lo, hi = stats.PercentileInterval(stdReplicates(x, buf, rng), confidence)
 	d.CI["std"] = [2]float64{lo, hi}
 	return d
+}
+
+// stdReplicates returns BootstrapResamples percentile-bootstrap replicates
+// of the sample standard deviation of x: each draws len(x) indices with
+// rng.IntN, in the order stats.BootstrapReplicates draws them (so the
+// replicates are the same), gathering the values into buf, which keeps the
+// two passes over a resample sequential in memory.
+func stdReplicates(x, buf []float64, rng *rand.Rand) []float64 {
+	n := len(x)
+	res := buf[:n]
+	reps := make([]float64, BootstrapResamples)
+	for b := range reps {
+		for k := range res {
+			res[k] = x[rng.IntN(n)]
+		}
+		var s, s2 float64
+		for _, v := range res {
+			s += v
+		}
+		mean := s / float64(n)
+		for _, v := range res {
+			s2 += (v - mean) * (v - mean)
+		}
+		reps[b] = math.Sqrt(s2 / float64(n-1))
+	}
+	return reps
 }
 
 // meanStd returns the mean and the sample standard deviation (zero for a
@@ -313,4 +342,17 @@ func (d Distribution) scaled(k float64) Distribution {
 		e.CI[key] = [2]float64{k * v[0], k * v[1]}
 	}
 	return e
+}
+
+// ScaleFactorErrors returns the records' scale-factor errors in ppm, in
+// their order, and whether every record has one.
+func ScaleFactorErrors(recs []Record) ([]float64, bool) {
+	x := make([]float64, len(recs))
+	for i, r := range recs {
+		if !r.HasScaleFactor {
+			return nil, false
+		}
+		x[i] = r.ScaleFactorErrorPPM
+	}
+	return x, len(recs) > 0
 }

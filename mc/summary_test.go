@@ -72,3 +72,29 @@ func TestSummaryCircularBias(t *testing.T) {
 		t.Errorf("inverted %d (floor %v), want 5 (floor %v)", cb.Inverted, cb.ContrastFloor, UsableContrastFloor)
 	}
 }
+
+// TestStdReplicatesAsBootstrapReplicates: the standard deviation's
+// replicates gathered into a scratch column are those of
+// stats.BootstrapReplicates on the same draws, bit for bit (the summary's
+// outputs, and so the goldens, depend on it).
+func TestStdReplicatesAsBootstrapReplicates(t *testing.T) {
+	x := make([]float64, 257)
+	for i := range x {
+		x[i] = benchRecord(i).BiasRad
+	}
+	got := stdReplicates(x, make([]float64, len(x)), Substream(1, 0, "test"))
+	want := stats.BootstrapReplicates(len(x), BootstrapResamples, Substream(1, 0, "test"), func(idx []int) float64 {
+		var s, s2 float64
+		for _, i := range idx {
+			s += x[i]
+		}
+		mean := s / float64(len(idx))
+		for _, i := range idx {
+			s2 += (x[i] - mean) * (x[i] - mean)
+		}
+		return math.Sqrt(s2 / float64(len(idx)-1))
+	})
+	if !slices.Equal(got, want) {
+		t.Errorf("replicates differ from stats.BootstrapReplicates: first %v, want %v", got[:3], want[:3])
+	}
+}

@@ -58,7 +58,7 @@ func (o *ensembleOptions) validate() error {
 	case o.samples < 1:
 		return fmt.Errorf("--samples %d: need at least 1 realisation", o.samples)
 	case o.samples > mc.MaxSamples:
-		return fmt.Errorf("--samples %d: at most %d realisations (the summaries hold every record in memory)", o.samples, mc.MaxSamples)
+		return fmt.Errorf("--samples %d: at most %d realisations (the most a run directory holds; merge and summaries keep 32 bytes a realisation, a run in one process about 200: run large ensembles in shards)", o.samples, mc.MaxSamples)
 	case o.workers < 0:
 		return fmt.Errorf("--workers %d: need 0 (one per core) or more", o.workers)
 	case !(o.confidence > 0 && o.confidence < 1):

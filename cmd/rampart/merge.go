@@ -67,10 +67,11 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	if err != nil {
 		return err
 	}
-	m, recs, err := mc.Merge(dirs)
+	g, err := mc.OpenShards(dirs)
 	if err != nil {
 		return err
 	}
+	m := &g.Manifest
 	if !o.specGiven && m.YieldSpec != nil {
 		spec = *m.YieldSpec
 	}
@@ -82,24 +83,31 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	if spec.Active() {
 		m.YieldSpec = &spec
 	}
-	sum := m.Summarise(recs, o.confidence, spec)
+	// The rows stream from the shards (to --out, verified on the way);
+	// only the output columns of the summary are kept.
+	out := mc.NewOutcomes(m.Samples)
 	if o.out != "" {
 		unlock, err := mc.LockDir(o.out) // held for the records, summary and figures
 		if err != nil {
 			return err
 		}
 		defer unlock()
-		if err := mc.WriteRun(o.out, m, recs); err != nil {
+		if err := g.WriteRun(o.out, out.Add); err != nil {
 			return err
 		}
-		if err := present.WriteResults(o.out, sum, recs, spec); err != nil {
+	} else if err := g.Scan(func(r mc.Record, _ string) error { out.Add(r); return nil }); err != nil {
+		return err
+	}
+	sum := m.SummariseOutcomes(out, o.confidence, spec)
+	if o.out != "" {
+		if err := present.WriteOutcomeResults(o.out, sum, out, spec); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "merged %d shards, %d realisations, into %s\n", len(dirs), len(recs), o.out)
+		fmt.Fprintf(stderr, "merged %d shards, %d realisations, into %s\n", len(dirs), out.Len(), o.out)
 	}
 	if o.json {
 		return present.WriteJSON(stdout, sum)
 	}
-	fmt.Fprintf(stdout, "Merged %d shards: %d realisations, seed %d, %s sampler\n\n", len(dirs), len(recs), m.Seed, m.Sampler)
+	fmt.Fprintf(stdout, "Merged %d shards: %d realisations, seed %d, %s sampler\n\n", len(dirs), out.Len(), m.Seed, m.Sampler)
 	return present.PrintSummary(stdout, sum)
 }

@@ -17,9 +17,12 @@ import (
 
 type qualifyOptions struct {
 	decisionOptions
-	spec    string
-	look    int
-	readout readoutOptions
+	spec string
+	look int
+	// lookGiven: --look was given; otherwise the look is the one after
+	// those recorded in the --resume directory's manifest.
+	lookGiven bool
+	readout   readoutOptions
 }
 
 // newQualifyCmd returns the command; run is what it runs with the parsed
@@ -41,14 +44,18 @@ decide it. The exit code gates lab automation: 0 pass, 1 fail, 3 undecided,
 2 bad input.
 
 --out DIR keeps the ensemble as rampart run does, with the verdict in
-qualification.json; --resume DIR continues it. --look K numbers this
-qualification in a sequence on one ensemble that is topped up and qualified
-again (1 the first time): each look spends its share of the confidence, so
-the sequence keeps the stated confidence.
+qualification.json; --resume DIR continues it, and with a larger --samples
+tops it up (random sampler). Each qualification on one ensemble is a look
+that spends its share of the confidence, so that a sequence of them, topped
+up in between, keeps the stated confidence: the directory's manifest counts
+the looks taken and the next qualification there takes the next look.
+--look K sets the look number (1 the first time) for an ensemble kept
+elsewhere; one below the recorded count is refused.
 --shard k/n runs slice k into DIR and prints how to merge the slices and
 qualify the merged ensemble.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
+			o.lookGiven = cmd.Flags().Changed("look")
 			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
 		},
 	}
@@ -57,7 +64,7 @@ qualify the merged ensemble.`,
 	addReadoutFlags(cmd, &o.readout)
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
-	f.IntVar(&o.look, "look", 1, "number `K` of this qualification of a topped-up ensemble (1 the first time)")
+	f.IntVar(&o.look, "look", 1, "number `K` of this qualification of a topped-up ensemble (default: 1, or the next after those recorded in the --resume directory)")
 	cmd.MarkFlagRequired("spec")
 	return cmd
 }
@@ -93,7 +100,9 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	if o.look < 1 {
 		return fmt.Errorf("--look %d: want 1 for a first qualification, 2, 3, ... each time the ensemble is topped up and qualified again", o.look)
 	}
-	req.Look = o.look
+	if _, err := o.lookAt(); err != nil { // refused before anything runs
+		return err
+	}
 	sc, cfg, budget, err := o.load(stderr)
 	if err != nil {
 		return err
@@ -112,6 +121,9 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	if err := mc.CheckDecidable(run.records); err != nil {
 		return fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
+	if req.Look, err = o.lookAt(); err != nil { // again, under the directory's lock
+		return err
+	}
 	sum := run.summarise(req.Confidence, req.Yield)
 	dir := o.ens.dir()
 	if o.ens.shard != "" {
@@ -123,13 +135,18 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	q := mc.Qualify(run.records, req, run.manifest.ScaleFactorS, run.manifest.Seed)
 	rep := present.QualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.Gyro(sum)}
 	if dir != "" {
+		// The look is counted before the verdict is written or shown, so
+		// that no verdict is seen whose look the directory does not count.
+		if err := mc.RecordLook(dir, q.Look); err != nil {
+			return err
+		}
 		if err := present.WriteResults(dir, sum, run.records, req.Yield); err != nil {
 			return err
 		}
 		if err := atomicfile.Write(filepath.Join(dir, present.QualificationFile), func(w io.Writer) error { return present.WriteJSON(w, rep) }); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %d realisations, %s and %s to %s\n", len(run.records), present.SummaryFile, present.QualificationFile, dir)
+		fmt.Fprintf(stderr, "wrote %d realisations, %s and %s to %s (look %d recorded)\n", len(run.records), present.SummaryFile, present.QualificationFile, dir, q.Look)
 	}
 	cfg = run.realiser.Config()
 	ramp, specLine := cfg.Sequence.Up.Name()+" ramp", "Spec: "+o.spec
@@ -152,6 +169,25 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		return nil
 	}
 	return &exitError{code: q.ExitCode(), err: fmt.Errorf("%s against spec %q: %s", q.Verdict, o.spec, strings.Join(present.Deciding(q), "; "))}
+}
+
+// lookAt returns the look number of this qualification: --look if given,
+// else the one after the looks recorded in the manifest of the --resume
+// directory (1 for a new ensemble). A --look below the recorded count is
+// refused (mc.Manifest.NextLook).
+func (o qualifyOptions) lookAt() (int, error) {
+	given := 0
+	if o.lookGiven {
+		given = o.look
+	}
+	if o.ens.resume == "" || o.ens.shard != "" || !mc.HasRun(o.ens.resume) {
+		return max(given, 1), nil
+	}
+	m, err := mc.ReadManifest(o.ens.resume)
+	if err != nil {
+		return 0, err
+	}
+	return m.NextLook(given)
 }
 
 // writeQualifyReport writes the report of a qualification: the drive and

@@ -21,8 +21,8 @@ func TestHugeCounts(t *testing.T) {
 		args []string
 		want string
 	}{
-		{"2^62 samples, shard 3/4", []string{"--samples", "4611686018427387904", "--shard", "3/4", "--out", out}, "--samples 4611686018427387904: at most 100000000 realisations"},
-		{"2^63-1 samples, shard 2/2", []string{"--samples", "9223372036854775807", "--shard", "2/2", "--out", out}, "at most 100000000 realisations"},
+		{"2^62 samples, shard 3/4", []string{"--samples", "4611686018427387904", "--shard", "3/4", "--out", out}, "--samples 4611686018427387904: at most 1000000000 realisations"},
+		{"2^63-1 samples, shard 2/2", []string{"--samples", "9223372036854775807", "--shard", "2/2", "--out", out}, "at most 1000000000 realisations"},
 		{"shard beyond int", []string{"--shard", "1/99999999999999999999", "--out", out}, `shard "1/99999999999999999999" is not k/n`},
 		{"shard without --out", []string{"--shard", "1/2"}, "--shard 1/2 needs --out DIR"},
 		{"sites", []string{"--set", "ring.sites=9223372036854775807"}, "ring.sites = 9223372036854775807 is out of range: want an integer from 1 to 4096"},

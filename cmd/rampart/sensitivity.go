@@ -64,6 +64,11 @@ type sensitivityTag struct {
 	Inputs   []string `json:"sensitivity_inputs"`
 }
 
+// maxSensitivityBase bounds --base: N (d + 2) shots with d <= 8 inputs make
+// at most 10^8 shots, whose records (about 200 bytes each) the indices
+// hold in memory.
+const maxSensitivityBase = 10_000_000
+
 func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error {
 	if err := o.validate(); err != nil {
 		return err
@@ -74,8 +79,8 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	if o.base < 2 {
 		return fmt.Errorf("--base %d: want at least 2 base rows (256 is usual)", o.base)
 	}
-	if o.base > mc.MaxSamples/10 { // N (d + 2) shots with d <= 8 inputs
-		return fmt.Errorf("--base %d: at most %d base rows, so that the design's shots fit in one run", o.base, mc.MaxSamples/10)
+	if o.base > maxSensitivityBase {
+		return fmt.Errorf("--base %d: at most %d base rows, so that the design's shots fit in one run", o.base, maxSensitivityBase)
 	}
 	sc, cfg, budget, err := o.load(stderr)
 	if err != nil {

@@ -10,11 +10,12 @@ import (
 // ensembleFigures returns the contrast and bias histograms of an ensemble,
 // marking the 5th percentile of the contrast and the spec's limits.
 func ensembleFigures(sum mc.Summary, recs []mc.Record, spec mc.Spec) (contrast, bias *plots.Figure, err error) {
-	c := make([]float64, len(recs))
-	b := make([]float64, len(recs))
-	for i, r := range recs {
-		c[i], b[i] = r.Contrast, r.BiasRad
-	}
+	o := mc.OutcomesOf(recs)
+	return outcomeFigures(sum, o.Contrast, o.BiasRad, spec)
+}
+
+// outcomeFigures is ensembleFigures from the contrast and bias columns.
+func outcomeFigures(sum mc.Summary, c, b []float64, spec mc.Spec) (contrast, bias *plots.Figure, err error) {
 	cm := []plots.Marker{{Label: "5th percentile " + Fixed(sum.Contrast.P05, 4), Value: sum.Contrast.P05}}
 	if spec.MinContrast > 0 {
 		cm = append(cm, plots.Marker{Label: "spec: contrast ≥ " + Sig(spec.MinContrast, 6), Value: spec.MinContrast})
@@ -26,7 +27,7 @@ func ensembleFigures(sum mc.Summary, recs []mc.Record, spec mc.Spec) (contrast, 
 			{Label: "spec: bias ≤ " + Sig(spec.MaxAbsBiasRad, 6) + " rad", Value: spec.MaxAbsBiasRad},
 		}
 	}
-	n := Sig(float64(len(recs)), 6) + " realisations"
+	n := Sig(float64(len(c)), 6) + " realisations"
 	contrast, err = plots.Histogram(c, plots.HistogramOptions{Title: "Contrast of the shots, " + n, XLabel: "contrast |z|", Markers: cm})
 	if err != nil {
 		return nil, nil, err
@@ -40,8 +41,8 @@ func ensembleFigures(sum mc.Summary, recs []mc.Record, spec mc.Spec) (contrast, 
 
 // writeHistograms writes the contrast and bias histograms of an ensemble
 // to dir as PNG and SVG.
-func writeHistograms(dir string, sum mc.Summary, recs []mc.Record, spec mc.Spec) error {
-	c, b, err := ensembleFigures(sum, recs, spec)
+func writeHistograms(dir string, sum mc.Summary, o *mc.Outcomes, spec mc.Spec) error {
+	c, b, err := outcomeFigures(sum, o.Contrast, o.BiasRad, spec)
 	if err != nil {
 		return err
 	}

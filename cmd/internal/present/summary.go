@@ -14,10 +14,16 @@ import (
 
 // WriteResults writes the summary and the histograms of an ensemble to dir.
 func WriteResults(dir string, sum mc.Summary, recs []mc.Record, spec mc.Spec) error {
+	return WriteOutcomeResults(dir, sum, mc.OutcomesOf(recs), spec)
+}
+
+// WriteOutcomeResults is WriteResults from the ensemble's output columns
+// (mc.Outcomes), for ensembles read in bounded memory.
+func WriteOutcomeResults(dir string, sum mc.Summary, o *mc.Outcomes, spec mc.Spec) error {
 	if err := atomicfile.Write(filepath.Join(dir, SummaryFile), func(w io.Writer) error { return WriteJSON(w, sum) }); err != nil {
 		return err
 	}
-	return writeHistograms(dir, sum, recs, spec)
+	return writeHistograms(dir, sum, o, spec)
 }
 
 // BudgetLine lists the active noise sources of a budget.
