@@ -14,6 +14,7 @@ import (
 	"rampart/noise"
 	"rampart/scenario"
 	"rampart/sim"
+	"rampart/stats"
 )
 
 type responseOptions struct {
@@ -191,7 +192,7 @@ func computeResponse(sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, re
 	if err != nil {
 		return present.ResponseReport{}, cfg, sim.Result{}, err
 	}
-	procs := budgetProcesses(k, budget)
+	procs := budget.Processes(k.DurationS)
 	rep := present.NewResponseReport(sc.Name, k, nominal, procs, k.PredictProcesses(procs), est)
 	if req != nil {
 		if rep.Masks, err = responseMasks(k, nominal, budget, procs, *req, o); err != nil {
@@ -212,24 +213,6 @@ func kernelsTooLarge(sc *scenario.Scenario, cfg sim.Config, need int64, capMiB i
 	}
 	return fmt.Errorf("scenario %q: the kernels of this %.3g s sequence (%g laps) would need about %d MiB (twice the estimate, for the collector's headroom), more than --memory-mib %d: %s",
 		sc.Name, cfg.Sequence.Duration(), laps, need>>20, capMiB, remedy)
-}
-
-// budgetProcesses are the budget's noise processes on the kernels'
-// channels, in the bands the Monte Carlo draws them (from 1/T, the lowest
-// frequency a record of the shot's length holds, to the kernels' band
-// unless the budget gives a band).
-func budgetProcesses(k *sim.Kernels, b mc.Budget) []sim.Process {
-	lo := 1 / k.DurationS
-	var ps []sim.Process
-	if b.RIN != nil {
-		band := b.RINBand
-		band.LowHz = math.Max(band.LowHz, lo)
-		ps = append(ps, sim.Process{Name: "rin", Load: sim.Load{sim.IntensityCommon: 1}, PSD: b.RIN, Band: band})
-	}
-	if b.Phase != nil {
-		ps = append(ps, sim.Process{Name: "phase", Load: sim.PhaseLoad(b.PhaseCorrelation), PSD: b.Phase, Band: noise.Band{LowHz: lo}})
-	}
-	return ps
 }
 
 // confirmResponse runs the Monte Carlo of the budget's noise processes
@@ -254,24 +237,9 @@ func confirmResponse(cfg sim.Config, b mc.Budget, nominal sim.Result, o response
 		return nil, err
 	}
 	n := float64(len(contrast))
-	mean := func(x []float64) float64 {
-		var m float64
-		for _, v := range x {
-			m += v
-		}
-		return m / n
-	}
-	sd := func(x []float64) float64 {
-		m := mean(x)
-		var q float64
-		for _, v := range x {
-			q += (v - m) * (v - m)
-		}
-		return math.Sqrt(q / (n - 1))
-	}
-	std := sd(bias)
+	std := stats.StdDev(bias)
 	return &present.ResponseConfirm{Samples: o.confirm, Seed: o.seed,
-		ContrastLoss: nominal.Contrast - mean(contrast), ContrastLossSE: sd(contrast) / math.Sqrt(n),
+		ContrastLoss: nominal.Contrast - stats.Mean(contrast), ContrastLossSE: stats.StdDev(contrast) / math.Sqrt(n),
 		BiasStdRad: std, BiasStdSE: std / math.Sqrt(2*(n-1))}, nil
 }
 
