@@ -149,9 +149,12 @@ func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end flo
 	// so it enters the phase at first order.
 	omega2 := trap * trap
 	const dh = 1e-7 // s, central difference of the smooth commanded speed
+	commanded := func(t float64) float64 {
+		return d.Sign*d.scale()*d.Seq.Angle(d.rate()*(t-d.DelayS)) + d.RotationRadS*t
+	}
 	angle := func(t float64) float64 {
 		acc := (d.Speed(t+dh) - d.Speed(t-dh)) / (2 * dh)
-		return d.Sign*d.scale()*d.Seq.Angle(d.rate()*(t-d.DelayS)) + d.RotationRadS*t - acc/omega2
+		return commanded(t) - acc/omega2
 	}
 	var total float64
 	for _, tt := range ts {
@@ -176,7 +179,11 @@ func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end flo
 		quad(tm[0], tm[1], vmax)
 		if w := d.cruiseSpeed(); tm[2] > tm[1] {
 			span := tm[2] - tm[1]
-			e := cis(k * angle(tm[1]))
+			// No lag on the cruise (a'' = 0): the central difference
+			// at tm[1] would straddle the ramp's end and shift the whole
+			// cruise by jerk*dh/omega^2, breaking the arms' symmetry (it
+			// left 3.9e-7 rad on a whole lap of 150 us inverse ramps).
+			e := cis(k * commanded(tm[1]))
 			if x := k * w * span; math.Abs(x) > 1e-6 {
 				in += e * (cis(x) - 1) / complex(0, k*w)
 			} else {
