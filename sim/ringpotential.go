@@ -27,7 +27,11 @@ const StandardGravity = 9.80665
 // split-step integration with U in the Hamiltonian
 // (sim/ringpotential_test.go): 4e-5 relative on adiabatic and 9e-5 on
 // strongly non-adiabatic ramps; the contrast is left unchanged (the full
-// integration moves it by below 1e-8 at these amplitudes).
+// integration moves it by below 1e-8 at these amplitudes). It misses the
+// whole-lap bias of packets that fast ramps leave excited (ExcitedBiasRad
+// gives its scale): on a whole lap of symmetric ramps it cancels exactly,
+// and the full integration does not (1.2e-5 rad at 0.5 mrad on the demo's
+// ring with 150 us sin2 ramps).
 type RingPotential struct {
 	TiltRad   float64
 	LowRad    float64
@@ -149,9 +153,12 @@ func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end flo
 	// so it enters the phase at first order.
 	omega2 := trap * trap
 	const dh = 1e-7 // s, central difference of the smooth commanded speed
+	commanded := func(t float64) float64 {
+		return d.Sign*d.scale()*d.Seq.Angle(d.rate()*(t-d.DelayS)) + d.RotationRadS*t
+	}
 	angle := func(t float64) float64 {
 		acc := (d.Speed(t+dh) - d.Speed(t-dh)) / (2 * dh)
-		return d.Sign*d.scale()*d.Seq.Angle(d.rate()*(t-d.DelayS)) + d.RotationRadS*t - acc/omega2
+		return commanded(t) - acc/omega2
 	}
 	var total float64
 	for _, tt := range ts {
@@ -176,7 +183,11 @@ func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end flo
 		quad(tm[0], tm[1], vmax)
 		if w := d.cruiseSpeed(); tm[2] > tm[1] {
 			span := tm[2] - tm[1]
-			e := cis(k * angle(tm[1]))
+			// No lag on the cruise (a'' = 0): the central difference
+			// at tm[1] would straddle the ramp's end and shift the whole
+			// cruise by jerk*dh/omega^2, breaking the arms' symmetry (it
+			// left 3.9e-7 rad on a whole lap of 150 us inverse ramps).
+			e := cis(k * commanded(tm[1]))
 			if x := k * w * span; math.Abs(x) > 1e-6 {
 				in += e * (cis(x) - 1) / complex(0, k*w)
 			} else {
@@ -213,3 +224,34 @@ var (
 	gl8x = [8]float64{-0.9602898564975363, -0.7966664774136267, -0.5255324099163290, -0.1834346424956498, 0.1834346424956498, 0.5255324099163290, 0.7966664774136267, 0.9602898564975363}
 	gl8w = [8]float64{0.1012285362903763, 0.2223810344533745, 0.3137066458778873, 0.3626837833783620, 0.3626837833783620, 0.3137066458778873, 0.2223810344533745, 0.1012285362903763}
 )
+
+// ExcitedBiasRad returns the scale of the bias that the first order
+// misses when the ramps leave the packet excited (docs/model.md,
+// Perturbations). That bias is physical, linear in the tilt and odd in the
+// lowest point's azimuth. The first order follows the adiabatic path, so
+// on a whole lap of symmetric ramps it cancels exactly, but a packet left
+// sloshing in its site with angular amplitude
+//
+//	eps = 2 x0 sqrt(1 - P0),  x0 = sqrt(hbar / (2 I omega)),
+//
+// (x0 the site's zero-point angle, P0 = ground, the ground-band population
+// after the ramp-up, Result.GroundAfterRampUp) samples the odd part of the
+// gravity term differently on the two arms. The scale is
+//
+//	2 * 2 pi GravityHz |sin(LowRad)| eps / omega,
+//
+// the odd force on an oscillation of amplitude eps over a time 1/omega, for
+// each of the two arms. Against the full-grid integration on one lap of
+// the 20-site, 5 um, 20 kHz ring at 500 rad/s (sim/ringpotential_test.go)
+// the true bias was 0.39 to 0.54 of it for sin2 and inverse ramps of 150
+// and 300 us (P0 from 0.923 to 0.9996), and about 0.5 to 0.65 at 600 us
+// (P0 above 0.99998). It is a scale, not a proven bound. Depth harmonics
+// are not included: their excited-packet bias was not measured.
+func (p RingPotential) ExcitedBiasRad(r Ring, trapRadS, ground float64) float64 {
+	if p.TiltRad == 0 || !(trapRadS > 0) {
+		return 0
+	}
+	x0 := math.Sqrt(r.rotationalRate() / trapRadS)
+	eps := 2 * x0 * math.Sqrt(math.Max(0, 1-ground))
+	return 2 * 2 * math.Pi * math.Abs(p.GravityHz(r)*math.Sin(p.LowRad)) * eps / trapRadS
+}
