@@ -175,10 +175,12 @@ type ensembleJob struct {
 func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, job ensembleJob, o ensembleOptions, dir string, resume bool, label string) (*ensembleRun, error) {
 	// Every ensemble command passes here: its nominal shot's numerics are
 	// checked before anything is written (preflight).
-	est, err := preflight(fmt.Sprintf("scenario %q, %s ramp", sc.Name, job.realiser.Config().Sequence.Up.Name()), job.realiser.Config())
+	what := fmt.Sprintf("scenario %q, %s ramp", sc.Name, job.realiser.Config().Sequence.Up.Name())
+	est, err := preflight(what, job.realiser.Config())
 	if err != nil {
 		return nil, err
 	}
+	warnFirstOrder(stderr, what, job.realiser.Config(), job.realiser.Ensemble().Budget.Apparatus)
 	hash, text, err := sc.Fingerprint()
 	if err != nil {
 		return nil, err
