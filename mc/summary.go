@@ -253,6 +253,12 @@ func fringeIntervals(re, im []float64, sagnacRad float64, rng *rand.Rand, confid
 	if n >= AsymptoticMin {
 		return fringeDelta(re, im, sagnacRad, confidence)
 	}
+	return fringeBootstrap(re, im, sagnacRad, rng, confidence)
+}
+
+// fringeBootstrap is fringeIntervals by the percentile bootstrap, at any n.
+func fringeBootstrap(re, im []float64, sagnacRad float64, rng *rand.Rand, confidence float64) (contrast, bias Interval) {
+	n := len(re)
 	// fringe averages z over the realisations in order (draw nil) or over
 	// n drawn with draw, summing as it draws.
 	fringe := func(draw func(int) int) (float64, float64) {
