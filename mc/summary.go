@@ -173,8 +173,9 @@ func Summarise(recs []Record, seed uint64, sagnacRad, scaleFactorS, confidence f
 // computed on each output sorted once; they need no random draws.
 //
 // It works on the columns alone: besides them it holds a scratch column
-// (a sorted copy, then each bootstrap resample) and the |bias| column (16
-// bytes a realisation), so its memory is bounded by the columns' (see
+// (a sorted copy, then each bootstrap resample) and the bias, |bias| and
+// contrast of the shots with a fringe (32 bytes a realisation, allocated
+// once), so its memory is bounded by the columns' (see
 // Outcomes). Its time is that of the bootstraps: BootstrapResamples draws
 // of every realisation for each interval that is not an order statistic
 // or Clopper-Pearson (seven of them), below AsymptoticMin realisations;
@@ -189,7 +190,9 @@ func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confid
 		panic("mc: Summarise of no records")
 	}
 	c := o.Contrast
-	var bias, abs, cFringe []float64 // over the shots with a fringe
+	// Over the shots with a fringe; sized for all of them at once, so that
+	// growing them leaves no garbage.
+	bias, abs, cFringe := make([]float64, 0, n), make([]float64, 0, n), make([]float64, 0, n)
 	lost := 0
 	for i := range c {
 		if o.lost(i) {
