@@ -104,7 +104,11 @@ func summaryGrids(s mc.Summary) []*Grid {
 	conf := fmt.Sprintf("%s %% interval", Sig(100*s.Confidence, 3))
 	c5 := func(x float64) string { return Fixed(x, 5) }
 	b3 := func(x float64) string { return Sci(x, 3) }
-	t := NewGrid("Distributions over the realisations, with intervals: mean bootstrap-t, std percentile bootstrap, quantiles exact order statistics",
+	title := "Distributions over the realisations, with intervals: mean bootstrap-t, std percentile bootstrap, quantiles exact order statistics"
+	if s.IntervalMethod != "" {
+		title = "Distributions over the realisations, with intervals: mean skewness-corrected t, std delta method (closed forms, n >= " + strconv.Itoa(mc.AsymptoticMin) + "), quantiles exact order statistics"
+	}
+	t := NewGrid(title,
 		"Statistic", "Contrast", conf, "Bias (rad)", conf, "Bias (deg/h)")
 	rows := []struct {
 		name, key string
