@@ -45,7 +45,7 @@ type BootstrapT struct {
 }
 
 // MeanBootstrapT draws resamples bootstrap resamples of x with rng (indices
-// by Lemire's multiply-shift, as [MeanBCa]) and prepares the bootstrap-t
+// by Lemire's multiply-shift, as the other bootstraps) and prepares the bootstrap-t
 // bounds of its mean. It panics if x has fewer than two values or a NaN,
 // resamples < 1 or rng is nil.
 func MeanBootstrapT(x []float64, resamples int, rng *rand.Rand) *BootstrapT {
