@@ -153,8 +153,12 @@ func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end flo
 	// so it enters the phase at first order.
 	omega2 := trap * trap
 	const dh = 1e-7 // s, central difference of the smooth commanded speed
+	// The potential is fixed in the apparatus frame, which turns with the
+	// background rotation: what it sees is the lattice's angle relative to
+	// the apparatus, the drive's angle less Omega_bg t (docs/model.md,
+	// Interferometer and signs). The acceleration is the same in both.
 	commanded := func(t float64) float64 {
-		return d.Sign*d.scale()*d.Seq.Angle(d.rate()*(t-d.DelayS)) + d.RotationRadS*t
+		return d.Sign * d.scale() * d.Seq.Angle(d.rate()*(t-d.DelayS))
 	}
 	angle := func(t float64) float64 {
 		acc := (d.Speed(t+dh) - d.Speed(t-dh)) / (2 * dh)
@@ -178,10 +182,10 @@ func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end flo
 				}
 			}
 		}
-		vmax := math.Abs(d.scale()*d.rate()*d.Seq.CruiseSpeed()) + math.Abs(d.RotationRadS)
-		quad(0, tm[0], math.Abs(d.RotationRadS))
+		vmax := math.Abs(d.scale() * d.rate() * d.Seq.CruiseSpeed())
+		quad(0, tm[0], 0)
 		quad(tm[0], tm[1], vmax)
-		if w := d.cruiseSpeed(); tm[2] > tm[1] {
+		if w := d.cruiseSpeed() - d.RotationRadS; tm[2] > tm[1] {
 			span := tm[2] - tm[1]
 			// No lag on the cruise (a'' = 0): the central difference
 			// at tm[1] would straddle the ramp's end and shift the whole
@@ -195,7 +199,7 @@ func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end flo
 			}
 		}
 		quad(tm[2], tm[3], vmax)
-		quad(tm[3], end, math.Abs(d.RotationRadS))
+		quad(tm[3], end, 0)
 		total += real(tt.a * in)
 	}
 	return -total
