@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"testing"
-
-	"gonum.org/v1/gonum/dsp/fourier"
 )
 
 // plainWithPotential is PlainSplitStep (inertial frame, FFT Strang steps
@@ -13,60 +11,10 @@ import (
 // lattice factor as a diagonal in angle space: the exact reference the
 // first-order treatment is tested against. Lowest level, no pulse factor.
 func plainWithPotential(s *Simulator, sh Shot, p RingPotential, stepS float64) complex128 {
-	cfg, b := s.cfg, s.basis
-	m := b.Size()
-	v0 := 2 * math.Pi * cfg.DepthHz
-	rot := cfg.Ring.rotationalRate()
-	gStart := 1 + (sh.DepthRel[0]+sh.DepthRel[1])/2
-	es0 := diagonalise(b, rot, cfg.RotationRadS, gStart*v0)
-	trap := 2 * math.Pi * cfg.Ring.TrapHz(cfg.DepthHz*gStart)
-	start := wannier(b, cfg.Ring, es0, 0, trap)
-
-	drives := s.drives(sh)
-	end := math.Max(drives[0].times()[3], drives[1].times()[3])
-	n := int(math.Ceil(end/stepS - 1e-9))
-	dt := end / float64(n)
-	fft := fourier.NewCmplxFFT(m)
-	kin := make([]complex128, m)
-	for i := range m {
-		l := float64(i)
-		if i >= m/2 {
-			l -= float64(m)
-		}
-		kin[i] = cis(-rot * l * l * dt / 2)
-	}
-	var out [2][]complex128
-	for a, d := range drives {
-		psi := make([]complex128, m)
-		for i, amp := range start.Amp {
-			psi[(b.LMin()+i+m)%m] = amp
-		}
-		x := make([]complex128, m)
-		for step := range n {
-			t := (float64(step) + 0.5) * dt
-			for i := range psi {
-				psi[i] *= kin[i]
-			}
-			fft.Sequence(x, psi)
-			aa, g := d.Angle(t), d.Depth(t)
-			for j := range x {
-				th := 2 * math.Pi * float64(j) / float64(m)
-				c := math.Cos(float64(b.Sites) * (th - aa) / 2)
-				u := p.potentialRadS(cfg.Ring, v0, g, aa, th)
-				x[j] *= cis((g*v0*c*c - u) * dt)
-			}
-			fft.Coefficients(psi, x)
-			for i := range psi {
-				psi[i] *= kin[i] / complex(float64(m), 0)
-			}
-		}
-		out[a] = psi
-	}
-	var z complex128
-	for i := range out[0] {
-		z += complexConj(out[1][i]) * out[0][i]
-	}
-	return z
+	v0 := 2 * math.Pi * s.cfg.DepthHz
+	return s.plainSplitStep(sh, stepS, func(a, g, theta float64) float64 {
+		return p.potentialRadS(s.cfg.Ring, v0, g, a, theta)
+	})
 }
 
 // potentialConfig is slowConfig's ring and a sin2 ramp of rampS s (2 ms:

@@ -16,6 +16,14 @@ import (
 // oracle and as the baseline the fast propagator is measured against. It
 // returns z = <psi_-(T)|psi_+(T)> for the lowest level, before pulse factors.
 func (s *Simulator) PlainSplitStep(sh Shot, stepS float64) complex128 {
+	return s.plainSplitStep(sh, stepS, nil)
+}
+
+// plainSplitStep is PlainSplitStep with, if u is not nil, a potential
+// u(a, g, theta) in rad/s added to the lattice factor as a diagonal in
+// angle space (a the lattice's angle, g its relative depth): the exact
+// reference the ring potential's first-order treatment is tested against.
+func (s *Simulator) plainSplitStep(sh Shot, stepS float64, u func(a, g, theta float64) float64) complex128 {
 	cfg, b := s.cfg, s.basis
 	m := b.Size()
 	v0 := 2 * math.Pi * cfg.DepthHz
@@ -56,7 +64,11 @@ func (s *Simulator) PlainSplitStep(sh Shot, stepS float64) complex128 {
 			for j := range x {
 				th := 2 * math.Pi * float64(j) / float64(m)
 				c := math.Cos(float64(b.Sites) * (th - aa) / 2)
-				x[j] *= cis(g * v0 * c * c * dt)
+				w := g * v0 * c * c
+				if u != nil {
+					w -= u(aa, g, th)
+				}
+				x[j] *= cis(w * dt)
 			}
 			fft.Coefficients(psi, x)
 			for i := range psi {
