@@ -142,6 +142,9 @@ func (j Job) Execute(ctx context.Context) (*JobResult, error) {
 	if j.Shard != nil && j.Shard.Count > m.Samples {
 		return nil, fmt.Errorf("shard %d/%d: more shards than the %d realisations", j.Shard.Index, j.Shard.Count, m.Samples)
 	}
+	if from, to := m.Range(); to-from > MaxInProcess {
+		return nil, fmt.Errorf("%d realisations in one process, more than the %d it holds in memory (about 200 bytes each): run it in slices with --shard k/n and combine them with rampart merge, which streams", to-from, MaxInProcess)
+	}
 	res := &JobResult{Manifest: m}
 	emit := func(rec Record) error { res.Records = append(res.Records, rec); return nil }
 	if j.Dir != "" {

@@ -1,8 +1,10 @@
 package mc
 
 import (
+	"context"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 )
 
@@ -34,5 +36,33 @@ func TestJobWithin(t *testing.T) {
 	}
 	if HasRun(filepath.Join(top, "b")) || !HasRun(done) {
 		t.Errorf("HasRun: b %v, a %v; want false, true", HasRun(filepath.Join(top, "b")), HasRun(done))
+	}
+}
+
+// TestJobInProcessBound checks that a run refuses, before anything is
+// written, more realisations in one process than MaxInProcess (its records
+// stay in memory), and names the remedy: shards merged by the streaming
+// merge. A shard of the same ensemble that fits is accepted up to there.
+func TestJobInProcessBound(t *testing.T) {
+	e := sfEnsemble(t, Budget{}, 4*MaxInProcess)
+	e.ScaleFactor = false
+	r, err := NewRealiser(e)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	_, err = Job{Realiser: r, Dir: dir}.Execute(context.Background())
+	if err == nil || !strings.Contains(err.Error(), "--shard k/n") {
+		t.Fatalf("%d realisations in one process: err %v, want the shard remedy", 4*MaxInProcess, err)
+	}
+	if HasRun(dir) {
+		t.Errorf("a refused job left a manifest in %s", dir)
+	}
+	// A quarter fits: cancelled at once, so it stops before simulating.
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	_, err = Job{Realiser: r, Shard: &Shard{Index: 1, Count: 4}}.Execute(ctx)
+	if err != nil && strings.Contains(err.Error(), "in one process") {
+		t.Errorf("a shard of %d realisations was refused: %v", MaxInProcess, err)
 	}
 }

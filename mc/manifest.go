@@ -26,6 +26,12 @@ const ManifestFormat = "rampart-ensemble/2"
 // Shard.Range), so no index product overflows at any size.
 const MaxSamples = 1_000_000_000
 
+// MaxInProcess bounds the realisations one process runs: a run keeps its
+// records in memory (about 200 bytes each with their inputs; 2 GB at the
+// bound) for its summary and decisions, while merge streams them. Larger
+// ensembles run as shards.
+const MaxInProcess = 10_000_000
+
 // Shard is slice Index (1-based) of Count of an ensemble: the contiguous
 // realisations [from, to) given by Range.
 type Shard struct {

@@ -57,7 +57,15 @@ func RankingGrid(rep RankReport) *Grid {
 		byName[rr.Name] = rr
 		withGyro = withGyro || rr.Gyro != nil
 	}
-	header := []string{"Place and ramp", metricLabels[r.Metric], conf, "Diff to best", conf, "Diff to next", conf, "Resolved", "Mean contrast", "|bias| p95 (rad)", "|bias| p95 (deg/h)"}
+	// The context columns, less the one the ranking's metric already is.
+	context := []string{"Mean contrast", "|bias| p95 (rad)", "|bias| p95 (deg/h)"}
+	keep := []bool{r.Metric != mc.MetricMean, r.Metric != mc.MetricBiasSpread, true}
+	header := []string{"Place and ramp", metricLabels[r.Metric], conf, "Diff to best", conf, "Diff to next", conf, "Resolved"}
+	for i, c := range context {
+		if keep[i] {
+			header = append(header, c)
+		}
+	}
 	if withGyro {
 		header = append(header, "ARW (deg/sqrt(h))")
 	}
@@ -69,8 +77,12 @@ func RankingGrid(rep RankReport) *Grid {
 			next, nextCI = f(d.Value), interval(d.Lo, d.Hi, f)
 		}
 		row := []string{fmt.Sprintf("%d. %s", p.Place, p.Name), f(p.Value), interval(p.Lo, p.Hi, f),
-			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), next, nextCI, YesNo(p.Resolved),
-			Fixed(rr.ContrastMean, 5), Sci(rr.AbsBiasP95Rad, 3), Sci(rr.AbsBiasP95DegPerH, 3)}
+			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), next, nextCI, YesNo(p.Resolved)}
+		for i, c := range []string{Fixed(rr.ContrastMean, 5), Sci(rr.AbsBiasP95Rad, 3), Sci(rr.AbsBiasP95DegPerH, 3)} {
+			if keep[i] {
+				row = append(row, c)
+			}
+		}
 		if withGyro {
 			arw := ""
 			if rr.Gyro != nil {
