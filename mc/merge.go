@@ -70,16 +70,16 @@ func OpenShards(dirs []string) (*Merged, error) {
 		fb, _ := b.m.Range()
 		return fa - fb
 	})
-	next := 0
+	next, prev := 0, ""
 	for _, s := range shards {
 		from, to := s.m.Range()
 		switch {
 		case from > next:
-			return nil, fmt.Errorf("realisation %d is in none of the shards", next)
+			return nil, fmt.Errorf("realisation %d is in none of the shards (the next, %s, starts at %d)", next, s.dir, from)
 		case from < next:
-			return nil, fmt.Errorf("realisation %d appears in more than one shard", from)
+			return nil, fmt.Errorf("realisation %d appears in more than one shard: %s and %s both hold it", from, prev, s.dir)
 		}
-		next = to
+		next, prev = to, s.dir
 	}
 	first := shards[0].m
 	if next != first.Samples {

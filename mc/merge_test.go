@@ -70,9 +70,9 @@ func TestMergeTiling(t *testing.T) {
 		dirs []string
 		want string
 	}{
-		{"gap", []string{dirs[0], dirs[2]}, "realisation 3 is in none of the shards"},
+		{"gap", []string{dirs[0], dirs[2]}, "realisation 3 is in none of the shards (the next, " + dirs[2] + ", starts at 6)"},
 		{"tail missing", []string{dirs[0], dirs[1]}, "realisation 6 is in none of the shards"},
-		{"twice", []string{dirs[0], dirs[1], dirs[1], dirs[2]}, "realisation 3 appears in more than one shard"},
+		{"twice", []string{dirs[0], dirs[1], dirs[1], dirs[2]}, "realisation 3 appears in more than one shard: " + dirs[1] + " and " + dirs[1] + " both hold it"},
 	} {
 		if _, err := OpenShards(c.dirs); err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%s: got %v, want %q", c.name, err, c.want)
