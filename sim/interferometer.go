@@ -125,6 +125,13 @@ type Simulator struct {
 	splitStep float64
 }
 
+// MaxRampSteps bounds the split steps of a shot's two ramps: at about a
+// microsecond of CPU per step and block at the usual grids, 10^6 steps is
+// already seconds a shot; a step that needs more comes from a ramp table
+// with a near-discontinuity, which the automatic step resolves
+// (Tabulated.TimeScaleS) rather than skips.
+const MaxRampSteps = 1_000_000
+
 // NewSimulator validates cfg, fixes the numerics and returns a simulator.
 func NewSimulator(cfg Config) (*Simulator, error) {
 	if err := cfg.Validate(); err != nil {
@@ -137,6 +144,13 @@ func NewSimulator(cfg Config) (*Simulator, error) {
 	}
 	if step == 0 {
 		step = auto.StepS
+	}
+	if n := 2 * cfg.Sequence.Up.Duration() / step; n > MaxRampSteps {
+		why := "numerics.step_us"
+		if cfg.StepS == 0 {
+			why = "the ramp's steepest stretch (a tabulated ramp: smooth its steepest rows, or set numerics.step_us)"
+		}
+		return nil, fmt.Errorf("the ramps would take %.3g split steps of %.3g s, more than the %g rampart runs in a shot: the step is set by %s", n, step, float64(MaxRampSteps), why)
 	}
 	if grid > MaxGrid {
 		return nil, fmt.Errorf("the momentum grid would need %d states, more than the %d rampart handles (memory and time grow as grid^2 / sites): lower the cruise speed, the temperature or numerics.grid", grid, MaxGrid)

@@ -2,6 +2,7 @@ package sim
 
 import (
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -202,5 +203,24 @@ func TestCruiseGrid(t *testing.T) {
 		if d := math.Abs(Wrap(old.PhaseRad - want.PhaseRad)); d <= PhaseTargetRad {
 			t.Errorf("%d sites, %g laps: the legacy grid %d meets the phase target (error %.2g rad): the test cannot tell the rules apart", tc.sites, tc.laps, legacy.Grid, d)
 		}
+	}
+}
+
+// TestNearStepTableRefused: a ramp table whose speed jumps by half the
+// cruise speed within 1e-12 s would need about 10^9 split steps at the
+// automatic step, which resolves its steepest stretch; the simulator
+// refuses it at once, naming the cause, instead of running for hours.
+func TestNearStepTableRefused(t *testing.T) {
+	c := benchConfig(t, 1)
+	up, err := NewTabulated("steep.csv", []float64{0, 1e-12, 150e-6}, []float64{0, 250, 500}, 500)
+	if err != nil {
+		t.Skipf("the table is refused by its reader already: %v", err)
+	}
+	if c.Sequence, err = NewSequence(up, 1); err != nil {
+		t.Fatal(err)
+	}
+	_, err = NewSimulator(c)
+	if err == nil || !strings.Contains(err.Error(), "steepest stretch") {
+		t.Errorf("err %v, want the refusal naming the ramp's steepest stretch", err)
 	}
 }
