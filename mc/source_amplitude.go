@@ -2,6 +2,7 @@ package mc
 
 import (
 	"math"
+	"strconv"
 
 	"rampart/noise"
 )
@@ -26,7 +27,7 @@ func SourceAmplitude(name string, nominal, b Budget) (float64, bool) {
 // amplitude is the source's amplitude in b in its Unit.
 func (s Source) amplitude(nominal, b Budget) (float64, bool) {
 	if s.Kind == Static {
-		v := s.Scale * *s.Sigma(&b)
+		v := s.labValue(*s.Sigma(&b))
 		return v, v > 0
 	}
 	return psdAmplitude(*s.PSD(&nominal), *s.PSD(&b), s.Level)
@@ -72,4 +73,20 @@ func psdScale(q, p noise.PSD) float64 {
 		return 0
 	}
 	return math.Sqrt(p.Density(1) / q.Density(1))
+}
+
+// labValue converts a static amplitude in SI to the source's lab unit for
+// display (round12).
+func (s Source) labValue(si float64) float64 { return round12(s.Scale * si) }
+
+// round12 rounds v to 12 significant digits: a file's number goes to SI
+// through FileScale and comes back through Scale, and the round trip
+// should not show as 99.99999999999999 uG for a budget's 100 uG. Only
+// displayed values are rounded; searches keep the exact amplitudes.
+func round12(v float64) float64 {
+	if v == 0 || math.IsInf(v, 0) || math.IsNaN(v) {
+		return v
+	}
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 12, 64), 64)
+	return r
 }

@@ -209,3 +209,19 @@ func TestSourceOneNameOneUnit(t *testing.T) {
 		}
 	}
 }
+
+// TestLabValueRoundTrip: a budget's amplitude read from the scenario file
+// (times FileScale to SI) and shown in the lab unit (times Scale) comes
+// back as the file's number, not as 99.99999999999999 for 100 uG.
+func TestLabValueRoundTrip(t *testing.T) {
+	for _, s := range Sources {
+		if s.Kind != Static {
+			continue
+		}
+		for _, file := range []float64{100, 0.3, 5, 2e-8, 0.05} {
+			if got := s.labValue(file * s.FileScale); got != file {
+				t.Errorf("%s: %g in the file shows as %v", s.Key, file, got)
+			}
+		}
+	}
+}

@@ -239,7 +239,7 @@ func (s ToleranceSearch) search(ctx context.Context, eval Evaluator, src source)
 	}
 	res := ToleranceResult{Source: src.name, Unit: src.unit, Precision: o.Precision}
 	if src.nominal > 0 {
-		v := src.display(src.nominal)
+		v := round12(src.display(src.nominal))
 		res.Nominal = &v
 	}
 	var points []TolerancePoint
