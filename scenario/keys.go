@@ -173,6 +173,8 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Readout.Atoms }},
 	{name: "readout.cycle_s", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the cycle time of one shot in s",
 		field: func(s *Scenario) any { return &s.Readout.CycleS }},
+	{name: "readout.detection_atoms", kind: number, bound: zeroOrAbove("projection noise alone"), meaning: "the detection noise, atoms rms on the measured difference of the two ports",
+		field: func(s *Scenario) any { return &s.Readout.DetectionAtoms }},
 }
 
 var (

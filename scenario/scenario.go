@@ -175,6 +175,9 @@ type PulseNoise struct {
 type Readout struct {
 	Atoms  float64 // atoms detected per shot
 	CycleS float64 // cycle time of one shot, s
+	// DetectionAtoms is the detection noise, atoms rms on the measured
+	// difference N_1 - N_2 (0: projection noise alone; needs Atoms).
+	DetectionAtoms float64
 }
 
 // Load reads the scenario file at path from the operating system and applies
