@@ -386,7 +386,7 @@ var Sources = []Source{
 			b.Mains.addMains(sh, b.MainsG, b.Mains.Phase(z), stepS, n)
 		},
 		Ref: RefMainsG, Max: maxMainsG,
-		Line: "mains line {}", Reference: model + "magnetic field",
+		Line: "mains line {} amplitude", Reference: model + "magnetic field",
 	},
 }
 
