@@ -47,6 +47,10 @@ type Realiser struct {
 	rin       *noise.Synthesizer
 	phase     *noise.Synthesizer
 	field     *noise.Synthesizer
+	// The grid of the waveforms (the mains line): that of the noise
+	// records.
+	waveStep float64
+	waveN    int
 }
 
 // NewRealiser validates the ensemble and prepares its simulator, design and
@@ -108,6 +112,9 @@ func NewRealiser(e Ensemble) (*Realiser, error) {
 			return nil, err
 		}
 	}
+	if e.Budget.MainsG > 0 {
+		r.waveStep, r.waveN = r.noiseGrid()
+	}
 	return r, nil
 }
 
@@ -115,19 +122,12 @@ func NewRealiser(e Ensemble) (*Realiser, error) {
 // (which resolves the trap motion) over the longest shot the static draws
 // can make, six standard deviations out.
 func (r *Realiser) prepareNoise() error {
-	cfg, b := r.ens.Config, r.ens.Budget
+	b := r.ens.Budget
 	// Four samples per split step: the propagator interpolates the records
 	// linearly, which filters their PSD by sinc^4(pi f dt); at a quarter
 	// step that costs 0.3 % at twice the trap frequency.
-	r.noiseStep = cfg.StepS / NoiseSamplesPerStep
-	if r.ens.NoiseStepS > 0 {
-		r.noiseStep = r.ens.NoiseStepS
-	}
-	long := NoiseDuration(cfg, b)
-	if r.ens.NoiseDurationS > 0 {
-		long = r.ens.NoiseDurationS
-	}
-	n := int(math.Ceil(long/r.noiseStep)) + 2
+	var n int
+	r.noiseStep, n = r.noiseGrid()
 	// The default band is what the simulation's split step resolves; the
 	// records are sampled finer only to keep interpolation from filtering it.
 	top := r.sim.NoiseBandHz()
@@ -152,6 +152,20 @@ func (r *Realiser) prepareNoise() error {
 		}
 	}
 	return nil
+}
+
+// noiseGrid returns the step and length of the noise records.
+func (r *Realiser) noiseGrid() (float64, int) {
+	cfg, b := r.ens.Config, r.ens.Budget
+	step := cfg.StepS / NoiseSamplesPerStep
+	if r.ens.NoiseStepS > 0 {
+		step = r.ens.NoiseStepS
+	}
+	long := NoiseDuration(cfg, b)
+	if r.ens.NoiseDurationS > 0 {
+		long = r.ens.NoiseDurationS
+	}
+	return step, int(math.Ceil(long/step)) + 2
 }
 
 // NoiseDuration returns the length of the noise records an ensemble of cfg
@@ -238,6 +252,11 @@ func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record)
 		sh.Scattering.Cloud = false
 		sh.Scattering.Uniform = Substream(r.ens.Seed, index, "scattering").Float64()
 	}
+	type wave struct {
+		src Source
+		z   float64
+	}
+	var waves []wave
 	k, active := 0, 0
 	for _, src := range Sources {
 		if src.Kind != Static {
@@ -249,7 +268,11 @@ func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record)
 				v := sigma * z[k]
 				rec.Inputs[active] = v
 				active++
-				src.Apply(&sh, i, v)
+				if src.Waveform != nil {
+					waves = append(waves, wave{src, z[k]})
+				} else {
+					src.Apply(&sh, i, v)
+				}
 			}
 			k++
 		}
@@ -275,6 +298,9 @@ func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record)
 		// records.
 		x := w.field.Synthesize(make([]float64, w.field.Len()), Substream(r.ens.Seed, noise[2], "noise/field"))
 		fieldRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: x}})
+	}
+	for _, wv := range waves {
+		wv.src.Waveform(&sh, &r.ens.Budget, wv.z, r.waveStep, r.waveN)
 	}
 	return sh, rec
 }

@@ -4,6 +4,10 @@ package mc
 type Readout struct {
 	Atoms  float64 // atoms detected per shot N_at
 	CycleS float64 // cycle time T_c of one shot, s
+	// DetectionAtoms is the detection noise sigma_d, atoms rms on the
+	// measured difference N_1 - N_2 (0: projection noise alone;
+	// PhaseSigmaRad).
+	DetectionAtoms float64
 }
 
 // Gyro returns the gyroscope figures of an ensemble summary (Summary.Gyro),

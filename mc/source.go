@@ -25,6 +25,11 @@ type Budget struct {
 	RadiusRel            float64 // relative error r of the ring radius: the true radius is R (1 + r)
 	TiltRad              float64 // shot-to-shot change of the ring's tilt, rad, towards the azimuth of its lowest point
 	RotationRadS         float64 // shot-to-shot rotation-rate noise of the platform, rad/s
+	// MainsG is the amplitude of the mains field line's fundamental, G (an
+	// amplitude, not a standard deviation: its draw is the line's phase);
+	// Mains its frequency, harmonics and phase.
+	MainsG float64
+	Mains  Mains
 
 	// Noise during the shot.
 	// RIN is the one-sided PSD of the relative intensity noise eps(t) in
@@ -111,6 +116,12 @@ type Source struct {
 	// Apply writes the value v of drawn input i of a static source into
 	// the shot.
 	Apply func(sh *sim.Shot, i int, v float64)
+	// Waveform, set instead of Apply for a static source whose draw is the
+	// phase of a waveform (the mains line), writes the waveform under
+	// budget b for the standard normal variate z into the shot's field
+	// record on the grid of n samples of stepS from the shot's start,
+	// after the noise processes' records.
+	Waveform func(sh *sim.Shot, b *Budget, z, stepS float64, n int)
 
 	// PSD points at the process's PSD in a budget (nil: off).
 	PSD func(b *Budget) *noise.PSD
@@ -148,6 +159,7 @@ const (
 	ParamRadius            = "ring.radius_ppm"
 	ParamTilt              = "ring.tilt_mrad"
 	ParamRotation          = "platform.rotation_urad_s"
+	ParamMains             = "field.mains_ug"
 )
 
 // Tolerance sources: the static parameters by their budget names, the two
@@ -188,6 +200,10 @@ const (
 	// A platform held to 1e-7 rad/s (about the Earth's rate over 700)
 	// from shot to shot: a quiet laboratory floor (from memory).
 	RefRotationRadS = 1e-7
+	// A mains line of 1 uG at the atoms: a shielded apparatus (common
+	// practice, from memory; unshielded laboratories see 10 to 100 times
+	// more).
+	RefMainsG = 1e-6
 )
 
 // DrawSigmas is how many standard deviations a static draw may reach and
@@ -214,6 +230,8 @@ const (
 	// 1 rad/s: far beyond any platform a Sagnac sensor sits on, still far
 	// below a cruise speed.
 	maxRotationRadS = 1
+	// 1 mG, as the field offset.
+	maxMainsG = 1e-3
 )
 
 // relative is the SI unit of a relative error.
@@ -359,6 +377,17 @@ var Sources = []Source{
 		Ref:   RefRotationRadS, Max: maxRotationRadS,
 		Line: "rotation {}", Reference: model + "platform rotation",
 	},
+	{
+		Key: ParamMains, Meaning: "amplitude of the mains field line's fundamental (random or fixed phase per shot, harmonics locked to it), through the spin pair's Zeeman coefficients",
+		Scenario: "noise.field.mains_ug", FileScale: 1e-6,
+		Unit: "uG", Scale: 1e6, SIUnit: "G", Kind: Static, Inputs: []string{ParamMains},
+		Sigma: func(b *Budget) *float64 { return &b.MainsG },
+		Waveform: func(sh *sim.Shot, b *Budget, z, stepS float64, n int) {
+			b.Mains.addMains(sh, b.MainsG, b.Mains.Phase(z), stepS, n)
+		},
+		Ref: RefMainsG, Max: maxMainsG,
+		Line: "mains line {} amplitude", Reference: model + "magnetic field",
+	},
 }
 
 // StaticDim is the dimension of the static parameters' design: one
@@ -446,6 +475,9 @@ func (b Budget) validApparatus() error {
 	}
 	if err := a.Potential.Validate(); err != nil {
 		return fmt.Errorf("apparatus: %w", err)
+	}
+	if err := b.Mains.Validate(); err != nil {
+		return err
 	}
 	if a.Field.Noise != nil || a.Jitter != [2]*sim.Series{} || a.DepthNoise != [2]*sim.Series{} {
 		return fmt.Errorf("apparatus: a noise record in the starting shot (records come from the budget's processes)")

@@ -58,7 +58,7 @@ func TestSourcesComplete(t *testing.T) {
 				seen["input "+in] = true
 			}
 			dim += len(s.Inputs)
-			if s.Sigma == nil || s.Apply == nil {
+			if s.Sigma == nil || (s.Apply == nil) == (s.Waveform == nil) {
 				missing("its budget field and how a shot applies it")
 			}
 			if !(s.Ref > 0 && s.Ref < s.Max) {
@@ -105,7 +105,13 @@ func TestSourcesApply(t *testing.T) {
 		}
 		for i := range s.Inputs {
 			var sh sim.Shot
-			s.Apply(&sh, i, 1e-3)
+			if s.Waveform != nil {
+				var b Budget
+				*s.Sigma(&b) = 1e-3
+				s.Waveform(&sh, &b, 0.3, 1e-3, 10)
+			} else {
+				s.Apply(&sh, i, 1e-3)
+			}
 			if reflect.DeepEqual(sh, sim.Shot{}) {
 				t.Errorf("%s input %d: Apply left the shot unchanged", s.Key, i)
 			}

@@ -137,6 +137,10 @@ type Summary struct {
 	// distribution of at least AsymptoticMin values, and the fringe, then
 	// has closed-form intervals for its mean and standard deviation.
 	IntervalMethod string `json:"interval_method,omitempty"`
+	// Measured is the signal a read-out measures, with projection and
+	// detection noise (Readout.Measure); nil without a read-out. The
+	// entries above are the true, simulated signal.
+	Measured *Measured `json:"measured,omitempty"`
 }
 
 // BootstrapResamples is the number of bootstrap resamples of a summary.

@@ -101,6 +101,8 @@ func (d *decoder) checkApparatus() error {
 		offset := "atom.field_offset_ug"
 		if v, _ := s.Number("noise.field.offset_ug"); v > 0 {
 			offset = "noise.field.offset_ug"
+		} else if v, _ := s.Number("noise.field.mains_ug"); v > 0 {
+			offset = "noise.field.mains_ug"
 		} else if s.Noise.FieldUG2PerHz > 0 {
 			offset = "noise.field.noise_ug2_hz"
 		} else if s.Atom.FieldOffsetUG == 0 {

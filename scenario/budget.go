@@ -69,6 +69,11 @@ func (sc *Scenario) Budget() (mc.Budget, error) {
 	if n.FieldUG2PerHz > 0 {
 		b.FieldNoise = noise.White{Level: n.FieldUG2PerHz * 1e-12} // uG^2 -> G^2
 	}
+	mains, err := sc.mains(b.MainsG)
+	if err != nil {
+		return mc.Budget{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
+	}
+	b.Mains = mains
 	if err := b.Validate(); err != nil {
 		return mc.Budget{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
@@ -149,4 +154,19 @@ func WithTag(hash, text string, tag any) (string, string, error) {
 	}
 	sum := sha256.Sum256([]byte(hash + "\n" + string(b)))
 	return hex.EncodeToString(sum[:]), text + "\n" + string(b), nil
+}
+
+// mains returns the shape of the mains line of fundamental amplitude a
+// (G): its harmonics relative to the fundamental, so that a tolerance
+// search scales them with it.
+func (sc *Scenario) mains(a float64) (mc.Mains, error) {
+	m := sc.Noise.Mains
+	out := mc.Mains{Hz: m.Hz, FixedPhase: m.Phase == "fixed", PhaseRad: m.PhaseRad}
+	if m.H2UG > 0 || m.H3UG > 0 {
+		if a == 0 {
+			return mc.Mains{}, fmt.Errorf("noise.field.mains_h2_ug = %g, mains_h3_ug = %g: harmonics need the fundamental noise.field.mains_ug > 0", m.H2UG, m.H3UG)
+		}
+		out.HarmonicsRel = []float64{m.H2UG * 1e-6 / a, m.H3UG * 1e-6 / a}
+	}
+	return out, nil
 }

@@ -253,6 +253,9 @@ func (d *decoder) check() error {
 		}
 		return d.fail(given, fmt.Errorf("%s needs %s too: give both for gyroscope figures, or neither", given, other))
 	}
+	if s.Readout.DetectionAtoms > 0 && s.Readout.Atoms == 0 {
+		return d.fail("readout.detection_atoms", fmt.Errorf("readout.detection_atoms needs readout.atoms and readout.cycle_s: the detection noise is that of a read-out"))
+	}
 	return d.checkApparatus()
 }
 

@@ -169,10 +169,23 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Noise.Pulses.AreaRel }},
 	{name: "noise.field.noise_ug2_hz", kind: number, bound: zeroOrAbove("off"), meaning: "the white one-sided PSD of the magnetic field during the shot in uG^2/Hz",
 		field: func(s *Scenario) any { return &s.Noise.FieldUG2PerHz }},
+	{name: "noise.field.mains_ug", kind: number, bound: zeroOrAbove("off"), meaning: "in uG, the " + sourceMeaning(mc.ParamMains), source: true},
+	{name: "noise.field.mains_hz", kind: number, bound: zeroOrAbove("50 Hz"), meaning: "the mains frequency in Hz",
+		field: func(s *Scenario) any { return &s.Noise.Mains.Hz }},
+	{name: "noise.field.mains_h2_ug", kind: number, bound: zeroOrAbove("none"), meaning: "the amplitude of the mains line's second harmonic in uG",
+		field: func(s *Scenario) any { return &s.Noise.Mains.H2UG }},
+	{name: "noise.field.mains_h3_ug", kind: number, bound: zeroOrAbove("none"), meaning: "the amplitude of the mains line's third harmonic in uG",
+		field: func(s *Scenario) any { return &s.Noise.Mains.H3UG }},
+	{name: "noise.field.mains_phase", kind: text, choices: []string{"random", "fixed"}, meaning: "the mains line's phase at the shot's start: random (uniform) or fixed (mains_phase_rad)",
+		field: func(s *Scenario) any { return &s.Noise.Mains.Phase }},
+	{name: "noise.field.mains_phase_rad", kind: number, bound: anyFinite, meaning: "the fixed phase of the mains line at the shot's start in rad",
+		field: func(s *Scenario) any { return &s.Noise.Mains.PhaseRad }},
 	{name: "readout.atoms", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the atoms detected per shot",
 		field: func(s *Scenario) any { return &s.Readout.Atoms }},
 	{name: "readout.cycle_s", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the cycle time of one shot in s",
 		field: func(s *Scenario) any { return &s.Readout.CycleS }},
+	{name: "readout.detection_atoms", kind: number, bound: zeroOrAbove("projection noise alone"), meaning: "the detection noise, atoms rms on the measured difference of the two ports",
+		field: func(s *Scenario) any { return &s.Readout.DetectionAtoms }},
 }
 
 var (
@@ -356,4 +369,13 @@ func (s *Scenario) Number(name string) (float64, bool) {
 		return s.SourceNoise[name], true
 	}
 	return *k.field(s).(*float64), true
+}
+
+// sourceMeaning returns the meaning of the row of mc.Sources with the key.
+func sourceMeaning(key string) string {
+	s, ok := mc.LookupSource(key)
+	if !ok {
+		panic("scenario: no source " + key)
+	}
+	return s.Meaning
 }

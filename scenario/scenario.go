@@ -129,6 +129,18 @@ type Noise struct {
 	// FieldUG2PerHz is the white one-sided PSD of the magnetic field during
 	// the shot, uG^2/Hz ([noise.field] noise_ug2_hz; 0: none).
 	FieldUG2PerHz float64 `json:",omitempty"`
+	// Mains is the shape of the mains field line ([noise.field] mains_*;
+	// its fundamental's amplitude mains_ug is the row mc.ParamMains).
+	Mains MainsNoise `json:",omitempty"`
+}
+
+// MainsNoise is the mains line's keys of [noise.field] besides mains_ug.
+type MainsNoise struct {
+	Hz       float64 `json:",omitempty"` // line frequency, Hz (0: 50)
+	H2UG     float64 `json:",omitempty"` // amplitude of the second harmonic, uG
+	H3UG     float64 `json:",omitempty"` // amplitude of the third harmonic, uG
+	Phase    string  `json:",omitempty"` // "random" (default) or "fixed"
+	PhaseRad float64 `json:",omitempty"` // the phase of a fixed line at the shot's start, rad
 }
 
 // DepthNoise is the [noise.depth] table.
@@ -175,6 +187,9 @@ type PulseNoise struct {
 type Readout struct {
 	Atoms  float64 // atoms detected per shot
 	CycleS float64 // cycle time of one shot, s
+	// DetectionAtoms is the detection noise, atoms rms on the measured
+	// difference N_1 - N_2 (0: projection noise alone; needs Atoms).
+	DetectionAtoms float64
 }
 
 // Load reads the scenario file at path from the operating system and applies

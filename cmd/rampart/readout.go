@@ -31,7 +31,7 @@ func (o readoutOptions) of(sc *scenario.Scenario) (mc.Readout, error) {
 	case !(o.cycleS >= 0) || math.IsInf(o.cycleS, 0):
 		return mc.Readout{}, fmt.Errorf("--cycle-s %g: want a positive cycle time in s", o.cycleS)
 	}
-	r := mc.Readout{Atoms: sc.Readout.Atoms, CycleS: sc.Readout.CycleS}
+	r := mc.Readout{Atoms: sc.Readout.Atoms, CycleS: sc.Readout.CycleS, DetectionAtoms: sc.Readout.DetectionAtoms}
 	if o.atoms > 0 {
 		r.Atoms = o.atoms
 	}

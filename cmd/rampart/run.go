@@ -96,6 +96,9 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 		return err
 	}
 	sum := run.summarise(o.ens.confidence, spec)
+	// The measured signal, with the read-out's projection and detection
+	// noise (docs/model.md, Gyroscope figures); nil without a read-out.
+	sum.Measured = ro.Measure(mc.OutcomesOf(run.records), run.manifest.Seed, o.ens.confidence, spec)
 	if dir := o.ens.dir(); dir != "" {
 		if err := present.WriteResults(dir, sum, run.records, spec); err != nil {
 			return err

@@ -152,6 +152,9 @@ func summaryGrids(s mc.Summary) []*Grid {
 	if sf := s.ScaleFactorErrorPPM; sf != nil {
 		grids = append(grids, scaleFactorGrid(*sf, *s.AbsScaleFactorErrorPPM, conf))
 	}
+	if m := s.Measured; m != nil {
+		grids = append(grids, measuredGrid(s, m, conf))
+	}
 	return grids
 }
 
@@ -223,4 +226,32 @@ func RampNumericsLines(rep RankReport) []string {
 		out = append(out, strings.Replace(NumericsLine(r.Summary.Numerics), "Numerics:", "Numerics of "+r.Name+":", 1))
 	}
 	return out
+}
+
+// measuredGrid returns the measured signal (mc.Measured: the bias with the
+// read-out's projection and detection noise, docs/model.md, Gyroscope
+// figures) beside the true, simulated one.
+func measuredGrid(s mc.Summary, m *mc.Measured, conf string) *Grid {
+	b3 := func(x float64) string { return Sci(x, 3) }
+	noise := "projection noise of " + Sig(m.Atoms, 6) + " atoms"
+	if m.DetectionAtoms > 0 {
+		noise += ", detection noise " + Sig(m.DetectionAtoms, 6) + " atoms rms"
+	}
+	g := NewGrid("The measured signal: the true (simulated) bias read out with "+noise,
+		"Read-out: "+noise, "True", "Measured", conf+" (measured)", "Unit")
+	g.Append("bias std", b3(s.BiasRad.Std), b3(m.BiasRad.Std), ciCell(m.BiasRad, "std", b3), "rad")
+	g.Append("|bias| p50", b3(s.AbsBiasRad.P50), b3(m.AbsBiasRad.P50), ciCell(m.AbsBiasRad, "p50", b3), "rad")
+	g.Append("|bias| p95", b3(s.AbsBiasRad.P95), b3(m.AbsBiasRad.P95), ciCell(m.AbsBiasRad, "p95", b3), "rad")
+	if y, yt := m.Yield, s.Yield; y != nil && yt != nil {
+		var lim []string
+		if y.Spec.MinContrast > 0 {
+			lim = append(lim, "contrast >= "+Sig(y.Spec.MinContrast, 6))
+		}
+		if y.Spec.MaxAbsBiasRad > 0 {
+			lim = append(lim, "|bias| <= "+Sig(y.Spec.MaxAbsBiasRad, 6)+" rad")
+		}
+		g.Append(fmt.Sprintf("yield (%s): %d and %d of %d", strings.Join(lim, ", "), yt.Inside, y.Inside, s.Samples),
+			Fixed(yt.Value, 4), Fixed(y.Value, 4), interval(y.Lo, y.Hi, func(x float64) string { return Fixed(x, 4) })+" exact", "")
+	}
+	return g
 }
