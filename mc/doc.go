@@ -64,7 +64,9 @@
 // their confidence: exact distribution-free order-statistic intervals for
 // the quantiles (Hahn, Meeker and Escobar 2017, ch. 5; absent, with the size
 // that would give them, when the ensemble is too small), the bootstrap-t
-// for the mean (Hall 1988), the percentile bootstrap for the standard
+// for the mean (Hall 1988; with lost shots, whose contrast is 0, the
+// mixture bound stats.ZeroMixture, also in [Qualify] and a ranking by
+// mean), the percentile bootstrap for the standard
 // deviation, and the bias as an angle (mean direction, circular standard
 // deviation; Fisher 1993) with the count of inverted shots.
 //

@@ -31,7 +31,12 @@ import (
 //     NoBoundBelow gives the size that would bound it.
 //   - the mean contrast: the bootstrap-t (stats.MeanBootstrapT, Hall 1988),
 //     whose one-sided error is O(1/n), with DecisionResamples resamples
-//     drawn from Substream(seed, 0, "qualify/contrast.mean").
+//     drawn from Substream(seed, 0, "qualify/contrast.mean"). With lost
+//     shots (Record.Lost, contrast exactly 0) the contrast is a mixture and
+//     the bound is stats.ZeroMixture's: Clopper-Pearson on the lost
+//     fraction and the bootstrap-t on the shots with a fringe, each at
+//     alpha_k/2, multiplied (docs/model.md, Statistics); a resample without
+//     a lost shot would otherwise make t* huge and the bound collapse.
 //   - the yield: exact binomial (Clopper-Pearson) tests.
 //
 // Verdicts. A criterion passes when PPass <= alpha_k. The overall verdict
@@ -103,9 +108,9 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 		sortedAbs = slices.Sorted(slices.Values(abs))
 	}
 	if l := req.ContrastMeanMin; l > 0 {
-		var b *stats.BootstrapT
+		var b *stats.ZeroMixture
 		if n >= 2 {
-			b = stats.MeanBootstrapT(contrast, DecisionResamples, Substream(seed, 0, "qualify/contrast.mean"))
+			b = stats.MeanZeroMixture(contrast, 1, false, DecisionResamples, Substream(seed, 0, "qualify/contrast.mean"))
 		}
 		q.Criteria = append(q.Criteria, t.mean(Criterion{Name: CriterionContrastMean, AtLeast: true, Limit: l}, contrast, b))
 	}
@@ -219,13 +224,17 @@ func (t qualifyTests) quantile(cr Criterion, sorted []float64, p float64, suppor
 	return cr
 }
 
-// mean fills in the mean-contrast criterion from its bootstrap-t (nil for
+// mean fills in the mean-contrast criterion from its bootstrap-t, or with
+// lost shots the mixture bounds of stats.ZeroMixture (nil for
 // a single realisation, which has no spread and decides nothing: at least
 // one more is needed). Bounds are clamped to the
 // contrast's range [0, 1], where a tied resample made them infinite.
-func (t qualifyTests) mean(cr Criterion, x []float64, b *stats.BootstrapT) Criterion {
+func (t qualifyTests) mean(cr Criterion, x []float64, b *stats.ZeroMixture) Criterion {
 	c := 1 - t.alpha
 	cr.Method = "bootstrap-t"
+	if b != nil && b.Zeros > 0 {
+		cr.Method = "lost fraction (Clopper-Pearson) x fringe mean (bootstrap-t)"
+	}
 	clamp := func(v float64) float64 { return min(max(v, 0), 1) }
 	if b == nil {
 		cr.Value, cr.Lo, cr.Hi, cr.PPass, cr.PFail = x[0], 0, 1, 1, 1

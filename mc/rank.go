@@ -35,7 +35,8 @@ type Place struct {
 	// Value is the ramp's metric and [Lo, Hi] its two-sided interval: for
 	// a quantile or a yield the exact interval at the simultaneous
 	// confidence 1 - (1 - c)/k of k ramps, on which the places are decided;
-	// for a mean the bootstrap-t interval at c.
+	// for a mean the bootstrap-t interval at c (with lost shots that of
+	// stats.ZeroMixture).
 	Value float64 `json:"value"`
 	Lo    float64 `json:"lo"`
 	Hi    float64 `json:"hi"`
@@ -84,7 +85,12 @@ type Place struct {
 //     T*_b = max_{a<b} |d*_ab - d_ab| / s_ab,  q = the c-quantile of T*,
 //
 //     and the simultaneous interval of d_ab is d_ab +- q s_ab (Hsu 1996,
-//     ch. 4, for the same construction with a normal model).
+//     ch. 4, for the same construction with a normal model). Each ramp's
+//     own interval is its bootstrap-t, or with lost shots (Record.Lost,
+//     contrast 0) the mixture bound of stats.ZeroMixture (docs/model.md,
+//     Statistics). The differences need no such change: s_ab is the full
+//     sample's, not a resample's, so a resample without a lost shot does
+//     not inflate T*.
 //
 // A place is resolved when it is separated from every other ramp.
 //

@@ -76,7 +76,7 @@ func yieldComparison(xs [][]float64, confidence float64) comparison {
 
 // meanComparison compares the means of paired samples with the max-type
 // bootstrap described at Rank, and gives each ramp its bootstrap-t interval at the
-// confidence. An index is the high word of the 128-bit product of a random
+// confidence, or with lost shots the interval of stats.ZeroMixture. An index is the high word of the 128-bit product of a random
 // word and n (Lemire's multiply-shift without rejection; its departure from
 // uniform, below n/2^64, no bootstrap can see).
 //
@@ -91,7 +91,9 @@ func meanComparison(xs [][]float64, confidence float64, rng *rand.Rand) comparis
 		value[r] = stats.Mean(x)
 		interval[r] = [2]float64{value[r], value[r]}
 		if n >= 2 {
-			lo, hi := stats.MeanBootstrapT(x, DecisionResamples, rng).Interval(confidence)
+			// With lost shots (contrast exactly 0) the mixture bounds of
+			// stats.ZeroMixture; without, the bootstrap-t, same draws.
+			lo, hi := stats.MeanZeroMixture(x, 1, false, DecisionResamples, rng).Interval(confidence)
 			interval[r] = [2]float64{max(lo, 0), min(hi, 1)} // contrast lies in [0, 1]
 		}
 	}

@@ -212,6 +212,9 @@ func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confid
 	}
 	buf := make([]float64, n) // scratch of every distribution
 	s.Contrast = distribution(c, buf, rng, confidence, [2]float64{0, 1})
+	if lost > 0 && n >= 2 {
+		s.Contrast.CI["mean"] = contrastMeanMixture(cFringe, n, seed, confidence)
+	}
 	s.BiasCircular = CircularBias{ContrastFloor: UsableContrastFloor}
 	if len(bias) > 0 {
 		// With no fringe at all the bias distributions stay zero: Lost
@@ -249,6 +252,32 @@ func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confid
 		s.ScaleFactorErrorPPM, s.AbsScaleFactorErrorPPM = &d, &a
 	}
 	return s
+}
+
+// contrastMeanMixture is the interval of the mean contrast with lost
+// shots, whose contrast is exactly 0: the mean is (1 - q) m, q the lost
+// fraction and m the mean over the shots with a fringe (fringe, of n
+// shots), and the bounds are those of stats.ZeroMixture, Clopper-Pearson on
+// q and the bootstrap-t on m (BootstrapResamples resamples from its own
+// stream Substream(seed, 0, "summary/contrast.mean"), so that the other
+// intervals draw as they do without lost shots) or from AsymptoticMin
+// realisations the skewness-corrected t (stats.SkewT), each at half the
+// tail (docs/model.md, Statistics). The bootstrap-t of all contrasts would
+// collapse: a resample without a lost shot has a tiny standard error and a
+// huge t*.
+func contrastMeanMixture(fringe []float64, n int, seed uint64, confidence float64) [2]float64 {
+	var z *stats.ZeroMixture
+	switch {
+	case len(fringe) < 2:
+		z = stats.NewZeroMixture(n, n-len(fringe), 0, nil, 1, false) // Value unused
+	case n >= AsymptoticMin:
+		z = stats.NewZeroMixture(n, n-len(fringe), stats.Mean(fringe), stats.SkewT{Moments: stats.SampleMoments(fringe)}, 1, false)
+	default:
+		z = stats.NewZeroMixture(n, n-len(fringe), stats.Mean(fringe),
+			stats.MeanBootstrapT(fringe, BootstrapResamples, Substream(seed, 0, "summary/contrast.mean")), 1, false)
+	}
+	lo, hi := z.Interval(confidence)
+	return [2]float64{max(lo, 0), min(hi, 1)}
 }
 
 // fringeIntervals returns the contrast |mean z| and the bias arg(mean z) -

@@ -39,6 +39,12 @@
 // statistics without a better interval (a standard deviation, Sobol'
 // indices).
 //
+// [ZeroMixture] ([MeanZeroMixture], [NewZeroMixture]) bounds the mean of a
+// non-negative output with a point mass at exactly 0 (a contrast with lost
+// shots): Clopper-Pearson on the fraction of zeros times the bootstrap-t
+// (or [SkewT]) of the rest, each at alpha/2. The bootstrap-t of all values
+// collapses there, a resample without a zero having a tiny standard error.
+//
 // # Proportions
 //
 // A yield has the exact binomial interval of Clopper and Pearson
