@@ -15,6 +15,9 @@ type Sample struct {
 	Records      []mc.Record
 	ScaleFactorS float64
 	Seed         uint64
+	// LossPossible says that shots may be lost to photon scattering
+	// (mc.Budget.LossPossible), for the mean contrast's bound.
+	LossPossible bool
 }
 
 // Edge searches a key's range for the edge of a spec: the smallest value
@@ -143,6 +146,8 @@ func (e Edge) Find(ctx context.Context) (EdgeResult, error) {
 		if err != nil {
 			return false, err
 		}
+		req := req
+		req.LossPossible = s.LossPossible
 		q := mc.Qualify(s.Records, req, s.ScaleFactorS, s.Seed)
 		ev := Evaluation{Value: x, Qualification: q}
 		res.Evaluations = append(res.Evaluations, ev)

@@ -110,3 +110,11 @@ type scaledIntegrable struct{ scaledPSD }
 func (s scaledIntegrable) Integral(lo, hi float64) float64 {
 	return s.k * s.s.(noise.Integrable).Integral(lo, hi)
 }
+
+// LossPossible reports whether a shot of the budget can be lost
+// (Record.Lost): photon scattering is on and drawn shot by shot, not as a
+// cloud's mean factor.
+func (b Budget) LossPossible() bool {
+	sc := b.Apparatus.Scattering
+	return !sc.Cloud && (sc.RateS[0] > 0 || sc.RateS[1] > 0)
+}

@@ -107,6 +107,7 @@ func (j Job) Manifest() Manifest {
 	if ens.ScaleFactor {
 		m.Columns = WithScaleFactor(m.Columns)
 	}
+	m.LossPossible = ens.Budget.LossPossible()
 	return m
 }
 
@@ -119,6 +120,7 @@ func (m Manifest) Summarise(recs []Record, confidence float64, spec Spec) Summar
 // SummariseOutcomes summarises the outputs of the run m describes
 // (SummariseOutcomes), in the memory of their columns.
 func (m Manifest) SummariseOutcomes(o *Outcomes, confidence float64, spec Spec) Summary {
+	o.LossPossible = o.LossPossible || m.LossPossible
 	s := SummariseOutcomes(o, m.Seed, m.SagnacRad, m.ScaleFactorS, confidence, spec)
 	s.Numerics = m.NumericsError
 	return s

@@ -66,3 +66,32 @@ func TestJobInProcessBound(t *testing.T) {
 		t.Errorf("a shard of %d realisations was refused: %v", MaxInProcess, err)
 	}
 }
+
+// TestLossPossible: a budget whose photon scattering is drawn shot by shot
+// can lose shots, one whose scattering is a cloud's mean factor cannot;
+// the manifest records it so that summaries and verdicts bound the mean
+// contrast for losses a sample happens not to show (stats.ZeroMixture;
+// its coverage with Possible set is TestZeroMixtureCoverage).
+func TestLossPossible(t *testing.T) {
+	var b Budget
+	if b.LossPossible() {
+		t.Error("a budget without scattering can lose shots")
+	}
+	b.Apparatus.Scattering.RateS = [2]float64{0.5, 0.5}
+	if !b.LossPossible() {
+		t.Error("a budget with scattering drawn shot by shot cannot lose shots")
+	}
+	e := sfEnsemble(t, b, 10)
+	e.ScaleFactor = false
+	r, err := NewRealiser(e)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(Job{Realiser: r}).Manifest().LossPossible {
+		t.Error("the manifest of a run with scattering does not record that shots may be lost")
+	}
+	b.Apparatus.Scattering.Cloud = true
+	if b.LossPossible() {
+		t.Error("a cloud's mean factor loses no shot, but the budget says it can")
+	}
+}

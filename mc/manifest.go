@@ -106,6 +106,10 @@ type Manifest struct {
 	// NumericsError is the nominal shot's estimated numerical error
 	// (sim.EstimateError), checked before the run (nil: not recorded).
 	NumericsError *sim.ErrorEstimate `json:"numerics_error,omitempty"`
+	// LossPossible says that the budget's photon scattering can lose
+	// shots (Record.Lost), so that summaries allow for losses a sample
+	// happens not to show.
+	LossPossible bool `json:"loss_possible,omitempty"`
 	// SagnacRad and ScaleFactorS are those of the nominal sequence, for
 	// summaries of the records.
 	SagnacRad    float64  `json:"sagnac_rad"`

@@ -16,7 +16,12 @@ type Outcomes struct {
 	// ScaleFactorPPM is the scale-factor error of each realisation when
 	// every one added has it (Record.HasScaleFactor), nil otherwise.
 	ScaleFactorPPM []float64
-	noScaleFactor  bool
+	// LossPossible says that a shot may be lost (photon scattering is on,
+	// Manifest.LossPossible) even if none of these is: the mean contrast's
+	// bound then allows for the losses the sample did not show
+	// (stats.ZeroMixture.Possible).
+	LossPossible  bool
+	noScaleFactor bool
 }
 
 // NewOutcomes returns empty columns with room for n realisations.

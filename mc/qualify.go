@@ -14,6 +14,10 @@ type Requirements struct {
 	// Confidence is the one-sided confidence of every verdict, in (0.5, 1).
 	// If zero, 0.95.
 	Confidence float64 `json:"confidence"`
+	// LossPossible says that shots may be lost to photon scattering even
+	// if the ensemble shows none (Manifest.LossPossible): the mean
+	// contrast's bound allows for them (stats.ZeroMixture.Possible).
+	LossPossible bool `json:"loss_possible,omitempty"`
 
 	ContrastMeanMin      float64 `json:"contrast_mean_min,omitempty"`          // mean contrast at least this
 	ContrastP05Min       float64 `json:"contrast_p05_min,omitempty"`           // 5th-percentile contrast at least this

@@ -110,7 +110,7 @@ func Qualify(recs []Record, req Requirements, scaleFactorS float64, seed uint64)
 	if l := req.ContrastMeanMin; l > 0 {
 		var b *stats.ZeroMixture
 		if n >= 2 {
-			b = stats.MeanZeroMixture(contrast, 1, false, DecisionResamples, Substream(seed, 0, "qualify/contrast.mean"))
+			b = stats.MeanZeroMixture(contrast, 1, req.LossPossible, DecisionResamples, Substream(seed, 0, "qualify/contrast.mean"))
 		}
 		q.Criteria = append(q.Criteria, t.mean(Criterion{Name: CriterionContrastMean, AtLeast: true, Limit: l}, contrast, b))
 	}
@@ -232,8 +232,8 @@ func (t qualifyTests) quantile(cr Criterion, sorted []float64, p float64, suppor
 func (t qualifyTests) mean(cr Criterion, x []float64, b *stats.ZeroMixture) Criterion {
 	c := 1 - t.alpha
 	cr.Method = "bootstrap-t"
-	if b != nil && b.Zeros > 0 {
-		cr.Method = "lost fraction (Clopper-Pearson) x fringe mean (bootstrap-t)"
+	if b != nil && (b.Zeros > 0 || b.Possible) {
+		cr.Method = MethodLostMixture
 	}
 	clamp := func(v float64) float64 { return min(max(v, 0), 1) }
 	if b == nil {
@@ -297,3 +297,7 @@ func extraRealisations(extra int, ok bool) (int, bool) {
 	}
 	return extra, false
 }
+
+// MethodLostMixture is the Method of a mean-contrast criterion bounded for
+// shots lost to photon scattering (stats.ZeroMixture).
+const MethodLostMixture = "lost fraction (Clopper-Pearson) x fringe mean (bootstrap-t)"

@@ -212,8 +212,8 @@ func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confid
 	}
 	buf := make([]float64, n) // scratch of every distribution
 	s.Contrast = distribution(c, buf, rng, confidence, [2]float64{0, 1})
-	if lost > 0 && n >= 2 {
-		s.Contrast.CI["mean"] = contrastMeanMixture(cFringe, n, seed, confidence)
+	if (lost > 0 || o.LossPossible) && n >= 2 {
+		s.Contrast.CI["mean"] = contrastMeanMixture(cFringe, n, seed, confidence, o.LossPossible)
 	}
 	s.BiasCircular = CircularBias{ContrastFloor: UsableContrastFloor}
 	if len(bias) > 0 {
@@ -265,16 +265,16 @@ func SummariseOutcomes(o *Outcomes, seed uint64, sagnacRad, scaleFactorS, confid
 // tail (docs/model.md, Statistics). The bootstrap-t of all contrasts would
 // collapse: a resample without a lost shot has a tiny standard error and a
 // huge t*.
-func contrastMeanMixture(fringe []float64, n int, seed uint64, confidence float64) [2]float64 {
+func contrastMeanMixture(fringe []float64, n int, seed uint64, confidence float64, possible bool) [2]float64 {
 	var z *stats.ZeroMixture
 	switch {
 	case len(fringe) < 2:
-		z = stats.NewZeroMixture(n, n-len(fringe), 0, nil, 1, false) // Value unused
+		z = stats.NewZeroMixture(n, n-len(fringe), 0, nil, 1, possible) // Value unused
 	case n >= AsymptoticMin:
-		z = stats.NewZeroMixture(n, n-len(fringe), stats.Mean(fringe), stats.SkewT{Moments: stats.SampleMoments(fringe)}, 1, false)
+		z = stats.NewZeroMixture(n, n-len(fringe), stats.Mean(fringe), stats.SkewT{Moments: stats.SampleMoments(fringe)}, 1, possible)
 	default:
 		z = stats.NewZeroMixture(n, n-len(fringe), stats.Mean(fringe),
-			stats.MeanBootstrapT(fringe, BootstrapResamples, Substream(seed, 0, "summary/contrast.mean")), 1, false)
+			stats.MeanBootstrapT(fringe, BootstrapResamples, Substream(seed, 0, "summary/contrast.mean")), 1, possible)
 	}
 	lo, hi := z.Interval(confidence)
 	return [2]float64{max(lo, 0), min(hi, 1)}

@@ -22,7 +22,7 @@ func TestSummaryContrastMeanLostShots(t *testing.T) {
 			fringe = append(fringe, r.Contrast)
 		}
 	}
-	if want := contrastMeanMixture(fringe, len(recs), 7, 0.95); s.Lost == 0 || s.Contrast.CI["mean"] != want {
+	if want := contrastMeanMixture(fringe, len(recs), 7, 0.95, false); s.Lost == 0 || s.Contrast.CI["mean"] != want {
 		t.Errorf("lost %d: mean interval %v, want %v", s.Lost, s.Contrast.CI["mean"], want)
 	}
 	for _, c := range []struct {
@@ -39,7 +39,7 @@ func TestSummaryContrastMeanLostShots(t *testing.T) {
 					fringe = append(fringe, v)
 				}
 			}
-			ci := contrastMeanMixture(fringe, c.n, uint64(i), 0.95)
+			ci := contrastMeanMixture(fringe, c.n, uint64(i), 0.95, false)
 			if ci[0] > mu {
 				below++
 			}

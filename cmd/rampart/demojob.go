@@ -77,10 +77,11 @@ func (d *demo) rank() error {
 }
 
 func (d *demo) qualifyWinner() error {
-	_, req, ro, err := d.inputs()
+	budget, req, ro, err := d.inputs()
 	if err != nil {
 		return err
 	}
+	req.LossPossible = budget.LossPossible()
 	ramp := d.ranking.Ramps[d.winner]
 	q := mc.Qualify(d.recs[d.winner], req, ramp.Summary.ScaleFactorS, d.opts.seed)
 	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.Gyro(ramp.Summary)}

@@ -141,7 +141,7 @@ func runEdge(e env, stdout, stderr io.Writer, o edgeOptions, confidenceGiven boo
 		if err := mc.CheckDecidable(run.records); err != nil {
 			return design.Sample{}, fmt.Errorf("%s: %w", set, err)
 		}
-		return design.Sample{Records: run.records, ScaleFactorS: run.manifest.ScaleFactorS, Seed: run.manifest.Seed}, nil
+		return design.Sample{Records: run.records, ScaleFactorS: run.manifest.ScaleFactorS, Seed: run.manifest.Seed, LossPossible: run.manifest.LossPossible}, nil
 	}
 	search.Evaluated = func(ev design.Evaluation) {
 		fmt.Fprintf(stderr, "%s = %s: %s\n", o.key, present.Sig(ev.Value, 6), ev.Qualification.Verdict)

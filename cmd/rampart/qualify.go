@@ -132,6 +132,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		}
 		return present.PrintShardNote(stdout, o.ens.shard, o.ens.dir(), []string{""}, "qualify the merged ensemble")
 	}
+	req.LossPossible = run.manifest.LossPossible
 	q := mc.Qualify(run.records, req, run.manifest.ScaleFactorS, run.manifest.Seed)
 	rep := present.QualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.Gyro(sum)}
 	if dir != "" {

@@ -115,6 +115,12 @@ func criteriaNotes(rep QualifyReport) []string {
 	}
 	q := rep.Qualification
 	out = append(out, "A limit \"at least\" passes when the lower bound clears it and fails when the upper bound misses it; \"at most\" the other way round.")
+	for _, c := range q.Criteria {
+		if c.Method == mc.MethodLostMixture {
+			out = append(out, "The mean contrast allows for shots lost to photon scattering: a Clopper-Pearson bound on the lost fraction times the bootstrap-t of the shots with a fringe, each at half the tail (docs/model.md, Statistics).")
+			break
+		}
+	}
 	return append(out, fmt.Sprintf("Look %d: each bound is one-sided at %s %%, this look's share of the %s %% claim, so that qualifying again after topping up the ensemble keeps it; the advice in \"To decide\" is for the next look. Quantiles have exact order-statistic bounds, the mean a bootstrap-t, the yield Clopper-Pearson; a fail is corrected for the number of criteria (Holm).",
 		q.Look, Sig(100*q.LookConfidence, 4), Sig(100*q.Confidence, 3)))
 }
