@@ -150,6 +150,6 @@ bias_max_rad = 1e-3
 	_, err = Parse("gate.toml", []byte("[contrast]\np05_min = 90\n"))
 	fmt.Println(err)
 	// Output:
-	// {Confidence:0.95 ContrastMeanMin:0 ContrastP05Min:0.9 AbsBiasP95MaxRad:0 AbsBiasP95MaxDegPerH:0 AbsScaleFactorP95MaxPPM:0 YieldMin:0.99 Yield:{MinContrast:0 MaxAbsBiasRad:0.001} Look:0} <nil>
+	// {Confidence:0.95 LossPossible:false ContrastMeanMin:0 ContrastP05Min:0.9 AbsBiasP95MaxRad:0 AbsBiasP95MaxDegPerH:0 AbsScaleFactorP95MaxPPM:0 YieldMin:0.99 Yield:{MinContrast:0 MaxAbsBiasRad:0.001} Look:0} <nil>
 	// spec "gate.toml" line 2: contrast.p05_min = 90 is out of range: want a number in (0, 1] for the least 5th-percentile contrast
 }
