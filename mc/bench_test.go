@@ -17,18 +17,7 @@ import (
 // white RIN at -120 dB/Hz and drive phase noise at -110 dBc/Hz.
 func benchEnsemble(b *testing.B, samples int, dynamic bool) Ensemble {
 	b.Helper()
-	c := sim.Config{
-		Ring:         sim.Ring{Sites: 20, RadiusM: 5e-6, MassKg: sim.Rb87MassU * sim.AtomicMassUnit},
-		DepthHz:      20e3,
-		RotationRadS: 1e-3,
-	}
-	up, err := sim.NewShape("sin2", 150e-6, 500, c.TrapRadS())
-	if err != nil {
-		b.Fatal(err)
-	}
-	if c.Sequence, err = sim.NewSequence(up, 1); err != nil {
-		b.Fatal(err)
-	}
+	c := benchSequence(b)
 	bud := Budget{DepthCommonRel: 0.01, DepthDifferentialRel: 1e-3, ClockRel: 1e-6, SpeedRel: 1e-6,
 		SkewS: 10e-9, TemperatureSpreadK: 20e-9, PulseAreaRel: 0.01}
 	if dynamic {
@@ -68,4 +57,24 @@ func BenchmarkEnsembleStatic(b *testing.B) {
 // most 3 minutes (ms/realisation <= 180).
 func BenchmarkEnsembleDynamic(b *testing.B) {
 	runBench(b, benchEnsemble(b, 20, true), 2)
+}
+
+// benchSequence is the benchmark sequence: a 20-site ring of radius 5 um,
+// Rb-87, 20 kHz deep, a 150 us sin2 ramp to 500 rad/s, one lap, rotation
+// 1e-3 rad/s.
+func benchSequence(tb testing.TB) sim.Config {
+	tb.Helper()
+	c := sim.Config{
+		Ring:         sim.Ring{Sites: 20, RadiusM: 5e-6, MassKg: sim.Rb87MassU * sim.AtomicMassUnit},
+		DepthHz:      20e3,
+		RotationRadS: 1e-3,
+	}
+	up, err := sim.NewShape("sin2", 150e-6, 500, c.TrapRadS())
+	if err != nil {
+		tb.Fatal(err)
+	}
+	if c.Sequence, err = sim.NewSequence(up, 1); err != nil {
+		tb.Fatal(err)
+	}
+	return c
 }

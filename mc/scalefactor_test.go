@@ -13,18 +13,7 @@ import (
 // scale factors and the given budget.
 func sfEnsemble(t *testing.T, b Budget, samples int) Ensemble {
 	t.Helper()
-	c := sim.Config{
-		Ring:         sim.Ring{Sites: 20, RadiusM: 5e-6, MassKg: sim.Rb87MassU * sim.AtomicMassUnit},
-		DepthHz:      20e3,
-		RotationRadS: 1e-3,
-	}
-	up, err := sim.NewShape("sin2", 150e-6, 500, c.TrapRadS())
-	if err != nil {
-		t.Fatal(err)
-	}
-	if c.Sequence, err = sim.NewSequence(up, 1); err != nil {
-		t.Fatal(err)
-	}
+	c := benchSequence(t)
 	return Ensemble{Config: c, Budget: b, Samples: samples, Seed: 3, ScaleFactor: true}
 }
 
