@@ -56,7 +56,7 @@ func newRoot(e env) *cobra.Command {
 	root.AddCommand(newShotCmd(e, runShot), newRampCmd(e, runRamp), newRunCmd(e, runRun), newMergeCmd(e, runMerge),
 		newRankCmd(e, runRank), newQualifyCmd(e, runQualify), newToleranceCmd(e, runTolerance),
 		newSensitivityCmd(e, runSensitivity), newResponseCmd(e, runResponse), newScanCmd(e, runScan), newEdgeCmd(e, runEdge),
-		newRobustCmd(e, runRobust), newDemoCmd(e))
+		newRobustCmd(e, runRobust), newDemoCmd(e), newSbatchCmd(e))
 	return root
 }
 

@@ -49,7 +49,10 @@ the draws.
 --out DIR writes scan.csv, scan.json and the figures (lines against one
 key, a colour map over two with the spec's contour); with --ensemble each
 point's realisations are kept in DIR/point-NNN, and --resume DIR continues
-an interrupted scan.`,
+an interrupted scan. --shard k/n (with --ensemble) runs slice k of every
+point's ensemble into DIR/point-NNN and prints how to merge the slices
+(rampart merge, point by point) and finish the scan on the merged set
+(--resume), which gives the files of one unsharded scan.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)
@@ -72,8 +75,8 @@ func (o *scanOptions) validate() error {
 	switch {
 	case len(o.vary) > 2:
 		return fmt.Errorf("--vary given %d times: scan one or two keys", len(o.vary))
-	case o.ens.shard != "":
-		return fmt.Errorf("--shard %s: a scan is not sharded; run parts of the range as separate scans", o.ens.shard)
+	case o.ens.shard != "" && !o.ensemble:
+		return fmt.Errorf("--shard %s: only an --ensemble scan is sharded; a noise-free scan has no ensembles to merge (run parts of the range as separate scans)", o.ens.shard)
 	case !o.ensemble && o.ens.resume != "":
 		return fmt.Errorf("--resume %s: only an --ensemble scan keeps runs to resume; a noise-free scan is rerun whole", o.ens.resume)
 	}
@@ -156,6 +159,7 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 		if err != nil {
 			return fmt.Errorf("scenario %q: %w", rep.Scenario, err)
 		}
+		var subs []string
 		for i, p := range pts {
 			ens := mc.Ensemble{Config: cfgs[i], Budget: budgets[i], Samples: o.ens.samples, Seed: o.ens.seed, Sampler: o.ens.sampler}
 			tag := grid.Apply(&ens)
@@ -163,11 +167,18 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 			if err != nil {
 				return err
 			}
+			if o.ens.shard != "" { // a slice decides nothing: merged first
+				subs = append(subs, fmt.Sprintf("point-%03d", i))
+				continue
+			}
 			if err := mc.CheckDecidable(run.records); err != nil {
 				return fmt.Errorf("scan point %s: %w", strings.Join(p.Sets, " "), err)
 			}
 			m := design.MetricsOf(run.manifest.Summarise(run.records, o.ens.confidence, yield))
 			rep.Points[i] = present.ScanPoint{Values: p.Values, Ensemble: &m}
+		}
+		if o.ens.shard != "" {
+			return present.PrintShardNote(stdout, o.ens.shard, dir, subs, "finish the scan on the merged set")
 		}
 	}
 	if dir != "" {
