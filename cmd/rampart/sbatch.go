@@ -110,6 +110,9 @@ type sbatchPlan struct {
 	Version   string
 }
 
+// shardsDir is the directory of the shards and the tasks' logs.
+func (p sbatchPlan) shardsDir() string { return strings.TrimRight(p.Out, "/") + ".shards" }
+
 // Estimate returns the estimated wall time of one shard.
 func (p sbatchPlan) Estimate() time.Duration {
 	perShard := math.Ceil(float64(p.Units) / float64(p.Shards))
@@ -121,6 +124,9 @@ func runSbatch(e env, stdout, stderr io.Writer, line []string, o sbatchOptions) 
 	if err != nil {
 		return err
 	}
+	if _, err := os.Lstat(p.Script); err == nil {
+		return fmt.Errorf("--script %s: the file exists; remove it or name another", p.Script)
+	}
 	if p.Rate == 0 {
 		if o.probe < 1 {
 			return fmt.Errorf("--probe %d: want at least 1 realisation", o.probe)
@@ -131,12 +137,10 @@ func runSbatch(e env, stdout, stderr io.Writer, line []string, o sbatchOptions) 
 		fmt.Fprintf(stderr, "rate %.4g realisations per core-second, %s\n", p.Rate, p.RateFrom)
 	}
 	est := p.Estimate()
-	p.Time = (2*est + 10*time.Minute).Round(time.Minute)
-	if p.Time < 2*est+10*time.Minute {
-		p.Time += time.Minute
-	}
-	if _, err := os.Lstat(p.Script); err == nil {
-		return fmt.Errorf("--script %s: the file exists; remove it or name another", p.Script)
+	p.Time = (2*est + 10*time.Minute + time.Minute - 1).Truncate(time.Minute) // rounded up
+	// The tasks' logs go to DIR.shards, which Slurm needs to exist.
+	if err := os.MkdirAll(p.shardsDir(), 0o755); err != nil {
+		return err
 	}
 	if err := atomicfile.Write(p.Script, func(w io.Writer) error { return writeSbatch(w, p) }); err != nil {
 		return err

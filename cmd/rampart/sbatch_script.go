@@ -16,7 +16,7 @@ import (
 func writeSbatch(w io.Writer, p sbatchPlan) error {
 	var b strings.Builder
 	pr := func(format string, a ...any) { fmt.Fprintf(&b, format+"\n", a...) }
-	shards := strings.TrimRight(p.Out, "/") + ".shards"
+	shards := p.shardsDir()
 	perShard := int(math.Ceil(float64(p.Units) / float64(p.Shards)))
 	pr("#!/bin/bash")
 	pr("# Slurm job array written by rampart sbatch (rampart %s) for", p.Version)
@@ -35,6 +35,7 @@ func writeSbatch(w io.Writer, p sbatchPlan) error {
 	pr("#SBATCH --job-name=rampart-%s", p.Command)
 	pr("#SBATCH --array=1-%d", p.Shards)
 	pr("#SBATCH --cpus-per-task=%d", p.CPUs)
+	pr("#SBATCH --output=%s/slurm-%%A_%%a.out", shards)
 	pr("#SBATCH --time=%s", slurmTime(p.Time))
 	if p.Partition != "" {
 		pr("#SBATCH --partition=%s", p.Partition)
@@ -51,7 +52,6 @@ func writeSbatch(w io.Writer, p sbatchPlan) error {
 	pr("	# Shard k of n, continued if an earlier attempt left its directory.")
 	pr(`	place=(--out "$shards/$k")`)
 	pr(`	[[ -d $shards/$k ]] && place=(--resume "$shards/$k")`)
-	pr(`	mkdir -p "$shards"`)
 	pr(`	exec "$rampart" %s %s \`, p.Command, shellJoin(p.ShardArgs))
 	pr(`		--shard "$k/$n" --workers "$workers" "${place[@]}"`)
 	pr("fi")
