@@ -110,6 +110,12 @@ type sbatchPlan struct {
 	Version   string
 }
 
+// setTime sets the time limit of a task: twice the estimate plus 10
+// minutes, rounded up to the minute.
+func (p *sbatchPlan) setTime() {
+	p.Time = (2*p.Estimate() + 10*time.Minute + time.Minute - 1).Truncate(time.Minute)
+}
+
 // shardsDir is the directory of the shards and the tasks' logs.
 func (p sbatchPlan) shardsDir() string { return strings.TrimRight(p.Out, "/") + ".shards" }
 
@@ -136,8 +142,8 @@ func runSbatch(e env, stdout, stderr io.Writer, line []string, o sbatchOptions) 
 		}
 		fmt.Fprintf(stderr, "rate %.4g realisations per core-second, %s\n", p.Rate, p.RateFrom)
 	}
+	p.setTime()
 	est := p.Estimate()
-	p.Time = (2*est + 10*time.Minute + time.Minute - 1).Truncate(time.Minute) // rounded up
 	// The tasks' logs go to DIR.shards, which Slurm needs to exist.
 	if err := os.MkdirAll(p.shardsDir(), 0o755); err != nil {
 		return err
