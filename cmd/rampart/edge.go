@@ -55,7 +55,11 @@ cross the spec once in the range.
 Every point's ensemble starts from the same --seed (common random numbers).
 --out DIR keeps each point's run in DIR/KEY=VALUE and the result in
 edge.json; --resume DIR continues an interrupted search. Exit code 0 when a
-value is found, 1 when none in the range meets the spec, 2 bad input.`,
+value is found, 1 when none in the range meets the spec, 2 bad input. The
+search is sequential (each value tried depends on the verdicts before it), so
+--shard is refused: run it on one node with --workers set to its cores; a
+confirmation at the value found, rampart qualify --set KEY=VALUE, shards as a
+job array (rampart sbatch).`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))

@@ -72,7 +72,12 @@ reads it). It is then ranked, as read back from that file, against the
 reference and any --ramp NAME=SPEC candidates on a fresh ensemble of
 --fresh-samples realisations from --fresh-seed (by default --seed + 1, an
 independent stream), so that the gain is not an artefact of the draws it
-was tuned on.`,
+was tuned on.
+
+The optimisation is sequential (each evaluation depends on those before
+it) and runs on one node, with --workers set to its cores; on a cluster the
+fresh ranking can be redone larger as rampart rank --ramp best=file:RAMP.csv,
+which shards as a job array (rampart sbatch).`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o)

@@ -145,9 +145,10 @@ func TestSlurmTime(t *testing.T) {
 
 // TestSbatchProbeAndScript measures the rate (the README example, without
 // --rate) and runs the written script's tasks with bash as Slurm would
-// (SLURM_ARRAY_TASK_ID 1 to N, then 0) for rank and sensitivity, the
-// commands the Slurm test leaves out: the merged directory holds the files
-// of the unsharded run, byte for byte.
+// (SLURM_ARRAY_TASK_ID 1 to N, then 0) for rank, sensitivity, scan and
+// qualify (the last two run under Slurm too, when there is one): the merged
+// directory holds the files of the unsharded run, byte for byte, and the
+// final step exits as the unsharded run does.
 func TestSbatchProbeAndScript(t *testing.T) {
 	if testing.Short() {
 		t.Skip("builds rampart and runs ensembles")
@@ -165,6 +166,8 @@ func TestSbatchProbeAndScript(t *testing.T) {
 	}{
 		{"rank", []string{"--shards", "2"}, []string{"rank", "--scenario", "testdata/scenarios/ensemble.toml", "--ramp", "a=sin2", "--ramp", "b=minjerk", "--samples", "30", "--seed", "3", "--out", "r"}},
 		{"sensitivity", []string{"--shards", "3", "--rate", "100"}, []string{"sensitivity", "--scenario", "testdata/scenarios/ensemble.toml", "--base", "8", "--seed", "3", "--out", "d"}},
+		{"scan", []string{"--shards", "2", "--rate", "100"}, []string{"scan", "--scenario", "testdata/scenarios/ensemble.toml", "--ensemble", "--vary", "lattice.depth_khz=18:22:2", "--samples", "20", "--seed", "3", "--out", "s"}},
+		{"qualify", []string{"--shards", "2", "--rate", "100"}, []string{"qualify", "--scenario", "testdata/scenarios/ensemble.toml", "--spec", "testdata/specs/tight.toml", "--samples", "40", "--seed", "3", "--out", "q"}},
 	} {
 		root := t.TempDir()
 		one, sharded := filepath.Join(root, "one"), filepath.Join(root, "sharded")

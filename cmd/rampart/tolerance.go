@@ -52,7 +52,10 @@ binding criterion and its value at the tolerance with its one-sided bounds.
 --out DIR writes the tolerance curves (tolerance-curves.csv and a figure per
 source) and keeps each ensemble in DIR/SOURCE/AMPLITUDE; --resume DIR reuses
 them. --shard is refused: each step of the search needs the whole ensemble of
-the step before.`,
+the step before. On a cluster, run the search on one node with --workers set
+to its cores; the confirmation of a tolerance found, a qualification at that
+amplitude (rampart qualify with --set on the source's scenario key), shards
+as a job array (rampart sbatch).`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
