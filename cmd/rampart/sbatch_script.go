@@ -58,18 +58,25 @@ func writeSbatch(w io.Writer, p sbatchPlan) error {
 	pr("")
 	pr("# Task 0: merge every run directory of the shards (one per ramp for rank,")
 	pr("# per point for scan), then finish the command on the merged set.")
-	pr(`(cd "$shards/1" && find . -name manifest.json | sort) | while IFS= read -r m; do`)
-	pr(`	sub=${m%%/manifest.json}`)
-	pr(`	[[ -e $out/$sub/manifest.json ]] && continue # merged by an earlier attempt`)
-	pr(`	parts=()`)
-	pr(`	for ((i = 1; i <= n; i++)); do parts+=("$shards/$i/$sub"); done`)
-	pr(`	"$rampart" merge --out "$out/$sub" "${parts[@]}" >/dev/null`)
-	pr("done")
+	b.WriteString(mergeLoop)
 	pr(`exec "$rampart" %s %s \`, p.Command, shellJoin(p.FinalArgs))
 	pr(`	--workers "$workers" --resume "$out"`)
 	_, err := io.WriteString(w, b.String())
 	return err
 }
+
+// mergeLoop merges each run directory of the shards (the top directory,
+// or one per ramp or point below it) into the same place under $out,
+// skipping those an earlier attempt merged.
+const mergeLoop = `(cd "$shards/1" && find . -name manifest.json | sort) | while IFS= read -r m; do
+	sub=${m#./}
+	sub=${sub%manifest.json} # "" for the top directory, NAME/ below it
+	[[ -e $out/${sub}manifest.json ]] && continue # merged by an earlier attempt
+	parts=()
+	for ((i = 1; i <= n; i++)); do parts+=("$shards/$i/$sub"); done
+	"$rampart" merge --out "$out/$sub" "${parts[@]}" >/dev/null
+done
+`
 
 // submitLine is the submission of the shards, mergeLine that of the merge.
 func submitLine(p sbatchPlan) string {

@@ -148,7 +148,8 @@ func TestSlurmTime(t *testing.T) {
 // (SLURM_ARRAY_TASK_ID 1 to N, then 0) for rank, sensitivity, scan and
 // qualify (the last two run under Slurm too, when there is one): the merged
 // directory holds the files of the unsharded run, byte for byte, and the
-// final step exits as the unsharded run does.
+// final step exits as the unsharded run does; a task run again (as after a
+// pre-emption) continues.
 func TestSbatchProbeAndScript(t *testing.T) {
 	if testing.Short() {
 		t.Skip("builds rampart and runs ensembles")
@@ -186,8 +187,14 @@ func TestSbatchProbeAndScript(t *testing.T) {
 		}
 		out := c.line[len(c.line)-1]
 		n, _ := strconv.Atoi(c.flags[1])
-		for k := 1; k <= n+1; k++ {
-			id := strconv.Itoa(k % (n + 1)) // 1 to n, then the merge, 0
+		// Tasks 1 to n, then the merge, 0; task 1 runs twice, as a
+		// resubmitted task does, and must continue, not fail. (The merge
+		// run twice would qualify twice: a second look, counted.)
+		ids := []string{"1"}
+		for k := 1; k <= n; k++ {
+			ids = append(ids, strconv.Itoa(k))
+		}
+		for _, id := range append(ids, "0") {
 			task := exec.CommandContext(ctx, "bash", out+".sbatch")
 			task.Dir = sharded
 			task.Env = append(os.Environ(), "RAMPART="+bin, "SLURM_ARRAY_TASK_ID="+id, "SLURM_CPUS_PER_TASK=1")

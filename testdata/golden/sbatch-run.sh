@@ -36,8 +36,9 @@ fi
 # Task 0: merge every run directory of the shards (one per ramp for rank,
 # per point for scan), then finish the command on the merged set.
 (cd "$shards/1" && find . -name manifest.json | sort) | while IFS= read -r m; do
-	sub=${m%/manifest.json}
-	[[ -e $out/$sub/manifest.json ]] && continue # merged by an earlier attempt
+	sub=${m#./}
+	sub=${sub%manifest.json} # "" for the top directory, NAME/ below it
+	[[ -e $out/${sub}manifest.json ]] && continue # merged by an earlier attempt
 	parts=()
 	for ((i = 1; i <= n; i++)); do parts+=("$shards/$i/$sub"); done
 	"$rampart" merge --out "$out/$sub" "${parts[@]}" >/dev/null
