@@ -66,7 +66,8 @@ minutes. The estimate comes from a rate in realisations (the unit of
 --samples, or base rows for sensitivity) per core-second: --rate R, or
 measured here by running the command line twice on one worker, with --probe
 M and 4M realisations, as (4M - M) / (t(4M) - t(M)), which leaves out the
-fixed cost of a run (preflight, noise grid). For rank and scan a realisation
+fixed cost of a run (preflight, noise grid); M grows fourfold until the
+larger run takes a second (or 16M would pass the command's size). For rank and scan a realisation
 is one of every ramp or point. tolerance, edge and robust are sequential
 searches and are refused, naming the stage of each that shards.`,
 		Args: func(_ *cobra.Command, args []string) error {
@@ -151,8 +152,8 @@ func runSbatch(e env, stdout, stderr io.Writer, line []string, o sbatchOptions) 
 	if err := atomicfile.Write(p.Script, func(w io.Writer) error { return writeSbatch(w, p) }); err != nil {
 		return err
 	}
-	fmt.Fprintf(stdout, "Wrote %s: %d tasks, %d CPUs per task, time limit %s each (a shard of %d realisations estimated at %s).\nSubmit both stages from this directory:\n  %s\n  %s\n",
-		p.Script, p.Shards, p.CPUs, slurmTime(p.Time), int(math.Ceil(float64(p.Units)/float64(p.Shards))), roundEstimate(est), submitLine(p), mergeLine(p))
+	fmt.Fprintf(stdout, "Wrote %s: %d tasks of %s, time limit %s each (a shard of %d realisations estimated at %s).\nSubmit both stages from this directory:\n  %s\n  %s\n",
+		p.Script, p.Shards, cpusText(p.CPUs), slurmTime(p.Time), int(math.Ceil(float64(p.Units)/float64(p.Shards))), roundEstimate(est), submitLine(p), mergeLine(p))
 	return nil
 }
 
@@ -255,32 +256,48 @@ func dropFlags(fs *pflag.FlagSet, args []string, names ...string) []string {
 	return kept
 }
 
+// probeMin is the time the larger run of the probe should take at least,
+// so that the difference of the two runs stands above the timing noise.
+const probeMin = time.Second
+
 // probeRate measures the command's rate in realisations per core-second:
 // the command line (as a shard runs it, without its directory) run in this
-// process on one worker with m and 4m realisations.
+// process on one worker with m and 4m realisations, m growing fourfold
+// until the larger run takes probeMin or 16m would pass the command's own
+// size. The rate is 3m / (t(4m) - t(m)), which leaves out the fixed cost of
+// a run; when the difference is under a quarter of t(4m) (timing noise) it
+// is 4m / t(4m), which counts the fixed cost and so errs slow.
 func probeRate(e env, p sbatchPlan, fs *pflag.FlagSet, m int) (float64, string, error) {
 	size := shardable[p.Command]
 	base := append([]string{p.Command}, dropFlags(fs, p.ShardArgs, size)...)
-	var t [2]time.Duration
-	for i, n := range []int{m, 4 * m} {
+	time1 := func(n int) (time.Duration, error) {
 		args := append(append([]string{}, base...), "--workers", "1", "--"+size, fmt.Sprint(n))
 		var errs strings.Builder
 		t0 := time.Now()
 		code := run(args, io.Discard, &errs, env{now: e.now})
-		t[i] = time.Since(t0)
 		if code != 0 && code != 1 && code != 3 { // 1 and 3: a verdict, not an error
-			return 0, "", fmt.Errorf("sbatch: measuring the rate with %d realisations: %s", n, strings.TrimSpace(errs.String()))
+			return 0, fmt.Errorf("sbatch: measuring the rate with %d realisations: %s", n, strings.TrimSpace(errs.String()))
 		}
+		return time.Since(t0), nil
 	}
-	rate := float64(3*m) / t[1].Seconds()
-	how := fmt.Sprintf("measured here on one worker: %d and %d realisations in %s and %s, (%d - %d) / (difference)", m, 4*m, t[0].Round(time.Millisecond), t[1].Round(time.Millisecond), 4*m, m)
-	if d := t[1] - t[0]; d > t[1]/4 {
-		rate = float64(3*m) / d.Seconds()
-	} else { // the difference is lost in the noise: the whole time, an overestimate
-		rate = float64(4*m) / t[1].Seconds()
-		how = fmt.Sprintf("measured here on one worker: %d realisations in %s (the difference to %d was within the noise, so the fixed cost is counted too)", 4*m, t[1].Round(time.Millisecond), m)
+	for {
+		t1, err := time1(m)
+		if err != nil {
+			return 0, "", err
+		}
+		t4, err := time1(4 * m)
+		if err != nil {
+			return 0, "", err
+		}
+		if t4 < probeMin && 16*m <= p.Units {
+			m *= 4
+			continue
+		}
+		if d := t4 - t1; d > t4/4 {
+			return float64(3*m) / d.Seconds(), fmt.Sprintf("measured on one worker: %d and %d realisations in %s and %s", m, 4*m, t1.Round(time.Millisecond), t4.Round(time.Millisecond)), nil
+		}
+		return float64(4*m) / t4.Seconds(), fmt.Sprintf("measured on one worker: %d realisations in %s, fixed cost included", 4*m, t4.Round(time.Millisecond)), nil
 	}
-	return rate, how, nil
 }
 
 func excerptArg(s string) string {

@@ -30,8 +30,9 @@ func writeSbatch(w io.Writer, p sbatchPlan) error {
 	pr("# run directories into %s and runs the command on the merged set, which gives", p.Out)
 	pr("# the files of one unsharded run. A task that stopped continues when resubmitted.")
 	pr("#")
-	pr("# Time limit: at %.4g realisations per core-second (%s), a shard of %d", p.Rate, p.RateFrom, perShard)
-	pr("# realisations on %d CPUs takes about %s; the limit is twice that plus 10 minutes.", p.CPUs, roundEstimate(p.Estimate()))
+	pr("# Time limit: a shard of %d realisations on %s at %.4g realisations per", perShard, cpusText(p.CPUs), p.Rate)
+	pr("# core-second (%s) takes about %s;", p.RateFrom, roundEstimate(p.Estimate()))
+	pr("# the limit is twice that plus 10 minutes.")
 	pr("#SBATCH --job-name=rampart-%s", p.Command)
 	pr("#SBATCH --array=1-%d", p.Shards)
 	pr("#SBATCH --cpus-per-task=%d", p.CPUs)
@@ -130,4 +131,12 @@ func shellJoin(args []string) string {
 		q[i] = shellQuote(a)
 	}
 	return strings.Join(q, " ")
+}
+
+// cpusText is "1 CPU" or "N CPUs".
+func cpusText(n int) string {
+	if n == 1 {
+		return "1 CPU"
+	}
+	return fmt.Sprintf("%d CPUs", n)
 }

@@ -10,8 +10,9 @@
 # run directories into run7 and runs the command on the merged set, which gives
 # the files of one unsharded run. A task that stopped continues when resubmitted.
 #
-# Time limit: at 50 realisations per core-second (--rate 50), a shard of 25
-# realisations on 4 CPUs takes about 130ms; the limit is twice that plus 10 minutes.
+# Time limit: a shard of 25 realisations on 4 CPUs at 50 realisations per
+# core-second (--rate 50) takes about 130ms;
+# the limit is twice that plus 10 minutes.
 #SBATCH --job-name=rampart-run
 #SBATCH --array=1-16
 #SBATCH --cpus-per-task=4
