@@ -158,3 +158,21 @@ func slurmLogs(dir, out string) string {
 	}
 	return b.String()
 }
+
+// TestReadmeClusterExample: the README's cluster example is the command
+// line the job-array test runs (slurmCases[0]) and its GNU parallel
+// variant the same line, so that the README shows what is tested.
+func TestReadmeClusterExample(t *testing.T) {
+	b, err := os.ReadFile(filepath.Join(repoRoot, "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := slurmCases[0]
+	line := "rampart sbatch " + strings.Join(c.sbatch, " ") + " -- " + strings.Join(c.line, " ") + " --out " + c.out
+	if n := strings.Count(string(b), "\n"+line+"\n"); n != 1 {
+		t.Errorf("README.md holds the GNU parallel line %q %d times, want once", line, n)
+	}
+	if !strings.Contains(string(b), "\n$ "+line+"\n") {
+		t.Errorf("README.md lacks the cluster example %q", "$ "+line)
+	}
+}
