@@ -12,6 +12,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"rampart/internal/atomicfile"
+	"rampart/mc"
 	"rampart/internal/version"
 )
 
@@ -202,6 +203,9 @@ func planSbatch(line []string, o sbatchOptions) (sbatchPlan, *pflag.FlagSet, err
 	var units, cpus int
 	fmt.Sscan(get(sizeFlag), &units)
 	fmt.Sscan(get("workers"), &cpus)
+	if perShard := (units + o.shards - 1) / o.shards; sizeFlag == "samples" && perShard > mc.MaxInProcess {
+		return sbatchPlan{}, nil, fmt.Errorf("--shards %d: shards of %d realisations, more than the %d one process holds; give --shards %d or more", o.shards, perShard, mc.MaxInProcess, (units+mc.MaxInProcess-1)/mc.MaxInProcess)
+	}
 	if o.shards > units {
 		return sbatchPlan{}, nil, fmt.Errorf("--shards %d: more tasks than the %d %s of the command line", o.shards, units, map[string]string{"samples": "realisations", "base": "base rows"}[sizeFlag])
 	}

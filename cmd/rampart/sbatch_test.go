@@ -103,6 +103,8 @@ func TestSbatchRefuses(t *testing.T) {
 		{"noise-free scan", append([]string{"sbatch", "--", "scan", "--vary", "ring.sites=10,20", "--out", out}, sc...), "give scan --ensemble"},
 		{"more shards than samples", append([]string{"sbatch", "--shards", "20", "--", "run", "--samples", "10", "--out", out}, sc...), "--shards 20: more tasks than the 10 realisations"},
 		{"more shards than base rows", append([]string{"sbatch", "--shards", "20", "--", "sensitivity", "--base", "16", "--out", out}, sc...), "than the 16 base rows"},
+		// 10^9 / 16 = 62.5 M per shard, over mc.MaxInProcess = 10^7: 100 shards or more.
+		{"shards too large", append([]string{"sbatch", "--rate", "1", "--", "run", "--samples", "1000000000", "--out", out}, sc...), "--shards 16: shards of 62500000 realisations, more than the 10000000 one process holds; give --shards 100 or more"},
 		{"bad flag in the line", []string{"sbatch", "--", "run", "--samplez", "3"}, "the command line: unknown flag: --samplez"},
 		{"bad merge time", append([]string{"sbatch", "--merge-time", "1h", "--", "run", "--out", out}, sc...), "--merge-time 1h: want a time limit [D-]HH:MM:SS"},
 		{"negative rate", append([]string{"sbatch", "--rate", "-1", "--", "run", "--out", out}, sc...), "--rate -1: want a positive rate"},
