@@ -12,8 +12,8 @@ import (
 	"github.com/spf13/pflag"
 
 	"rampart/internal/atomicfile"
-	"rampart/mc"
 	"rampart/internal/version"
+	"rampart/mc"
 )
 
 // sbatchOptions are the generator's own flags.
