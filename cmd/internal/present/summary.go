@@ -233,10 +233,7 @@ func RampNumericsLines(rep RankReport) []string {
 // figures) beside the true, simulated one.
 func measuredGrid(s mc.Summary, m *mc.Measured, conf string) *Grid {
 	b3 := func(x float64) string { return Sci(x, 3) }
-	noise := "projection noise of " + Sig(m.Atoms, 6) + " atoms"
-	if m.DetectionAtoms > 0 {
-		noise += ", detection noise " + Sig(m.DetectionAtoms, 6) + " atoms rms"
-	}
+	noise := readoutNoise(m)
 	g := NewGrid("The measured signal: the true (simulated) bias read out with "+noise,
 		"Read-out: "+noise, "True", "Measured", conf+" (measured)", "Unit")
 	g.Append("bias std", b3(s.BiasRad.Std), b3(m.BiasRad.Std), ciCell(m.BiasRad, "std", b3), "rad")
