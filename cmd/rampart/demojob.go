@@ -73,7 +73,7 @@ func (d *demo) rank() error {
 		fmt.Fprintln(w, line)
 	}
 	fmt.Fprintln(w)
-	return present.RankingGrid(rep).RenderNoted(w, present.RankingNotes(rep))
+	return present.PrintRanking(w, rep)
 }
 
 func (d *demo) qualifyWinner() error {
