@@ -84,7 +84,13 @@ func (d *demo) qualifyWinner() error {
 	req.LossPossible = budget.LossPossible()
 	ramp := d.ranking.Ramps[d.winner]
 	q := mc.Qualify(d.recs[d.winner], req, ramp.Summary.ScaleFactorS, d.opts.seed)
-	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.Gyro(ramp.Summary)}
+	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.Gyro(ramp.Summary), Signal: signalTrue}
+	// The measured signal, as qualify decides it (docs/model.md, Gyroscope
+	// figures).
+	if m := ro.MeasuredRecords(d.recs[d.winner], d.opts.seed); m != nil {
+		qm := mc.Qualify(m, req, ramp.Summary.ScaleFactorS, d.opts.seed)
+		d.qualify.MeasuredSignal = &qm
+	}
 	fmt.Fprintf(d.out, "3. The winner, %s, qualified against the spec %s on its %d realisations\n\n", ramp.Name, demoSpec, len(d.recs[d.winner]))
 	if err := present.PrintQualification(d.out, d.qualify); err != nil {
 		return err

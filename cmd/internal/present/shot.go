@@ -99,6 +99,9 @@ type ShotRun struct {
 	Config  sim.Config // with the numerics in use filled in
 	Result  sim.Result
 	Elapsed time.Duration
+	// Gyro is the shot's zero-rate bias and own scale factor
+	// (sim.Simulator.Gyro), nil if not measured.
+	Gyro *sim.Gyro
 }
 
 // ShotReport is the output of `rampart shot`, the object --json prints.
