@@ -102,11 +102,11 @@ func (d *demo) qualifyWinner() error {
 }
 
 func (d *demo) tolerances() error {
-	budget, req, _, err := d.inputs()
+	budget, req, ro, err := d.inputs()
 	if err != nil {
 		return err
 	}
-	names, err := toleranceSources(budget, "")
+	names, err := toleranceSources(budget, "", ro)
 	if err != nil {
 		return err
 	}
@@ -114,7 +114,7 @@ func (d *demo) tolerances() error {
 	defer stop()
 	c := d.cs[d.winner]
 	o := d.demoEnsemble(d.opts.toleranceSamples)
-	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.Scenario, c.Config, budget, req, names, o, demoTolerancePrecision)
+	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.Scenario, c.Config, budget, req, names, o, demoTolerancePrecision, ro)
 	if err != nil {
 		return err
 	}
