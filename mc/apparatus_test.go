@@ -361,3 +361,52 @@ func TestSensitivityApparatus(t *testing.T) {
 		t.Errorf("%d distinct field records over the design, want at least one per row of A and B (8)", len(first))
 	}
 }
+
+// TestEnsembleGradient: a realisation's field gradient adds to the
+// apparatus's static gradient towards its azimuth, and the shot is the
+// one sim runs with that gradient (sim.TestFieldGradientFirstOrder checks
+// the physics against the full-grid integration). On a whole lap it leaves
+// a bias linear in the gradient (the arms add; the half lap cancels it):
+// the phase per unit gradient is the same for every draw (first order,
+// exact to rounding: tolerance 1e-9 relative).
+func TestEnsembleGradient(t *testing.T) {
+	const lin, g0, az = -2.1e6, 0.05, 0.4
+	b := Budget{GradientGPerM: 0.02}
+	b.Apparatus.Field = sim.FieldShift{Zeeman: sim.Zeeman{LinearHzPerG: lin}, GradientGPerM: g0, GradientRad: az}
+	e := testEnsemble(t, 3, false)
+	e.Config.TemperatureK = 0
+	seq, err := sim.NewSequence(e.Config.Sequence.Up, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	e.Config.Sequence = seq
+	e.Budget = b
+	r, err := NewRealiser(e)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := sim.NewSimulator(r.Config())
+	if err != nil {
+		t.Fatal(err)
+	}
+	level := s.Run(sim.Shot{}, nil).Z
+	w := r.NewWorker()
+	var slope []float64
+	for i := range 3 {
+		rec := w.Realise(i)
+		g := g0 + rec.Inputs[0]
+		direct := s.Run(sim.Shot{Field: sim.FieldShift{Zeeman: sim.Zeeman{LinearHzPerG: lin}, GradientGPerM: g, GradientRad: az}}, nil)
+		if cmplx.Abs(rec.Z-direct.Z) > 1e-14 {
+			t.Errorf("realisation %d: z %v, a shot with gradient %g G/m gives %v", i, rec.Z, g, direct.Z)
+		}
+		slope = append(slope, cmplx.Phase(rec.Z/level)/g)
+	}
+	if math.Abs(slope[0]) < 1e-3 {
+		t.Errorf("gradient phase %g rad per G/m on a whole lap: want it clearly non-zero", slope[0])
+	}
+	for i, x := range slope[1:] {
+		if math.Abs(x-slope[0]) > 1e-9*math.Abs(slope[0]) {
+			t.Errorf("realisation %d: %g rad per G/m, realisation 0 %g: not first order", i+1, x, slope[0])
+		}
+	}
+}

@@ -52,6 +52,11 @@ type Atom struct {
 	ZeemanLinearHzPerG     float64 `json:",omitempty"`
 	ZeemanQuadraticHzPerG2 float64 `json:",omitempty"`
 	FieldOffsetUG          float64 `json:",omitempty"`
+	// FieldGradientUGPerUM is a static field gradient in the ring's plane,
+	// uG/um (= G/m), towards the azimuth FieldGradientDeg from the start
+	// site (sim.FieldShift.GradientGPerM).
+	FieldGradientUGPerUM float64 `json:",omitempty"`
+	FieldGradientDeg     float64 `json:",omitempty"`
 }
 
 // Ring is the [ring] table.

@@ -47,6 +47,28 @@ type FieldShift struct {
 	Zeeman  Zeeman
 	OffsetG float64 // static field offset from the bias, G
 	Noise   *Series // field noise b(t), G
+	// GradientGPerM is a field gradient in the ring's plane, G/m, towards
+	// the azimuth GradientRad from the start site: the field's offset
+	// varies around the ring as GradientGPerM R cos(theta - GradientRad),
+	// a spin-dependent ring potential (GradientHz; docs/model.md,
+	// Perturbations, field gradient) applied with the ring potential.
+	GradientGPerM float64
+	GradientRad   float64
+}
+
+// GradientHz returns the amplitude delta_nu_g of the differential Zeeman
+// shift around a ring r from the gradient, linear in it about the static
+// offset:
+//
+//	delta_nu_g = (LinearHzPerG + 2 QuadraticHzPerG2 OffsetG) GradientGPerM R.
+//
+// The arm s = +1 sees +delta_nu_g/2 cos(theta - GradientRad) and the arm
+// s = -1 its opposite, relative to their mean (the sign of FieldShift).
+func (f FieldShift) GradientHz(r Ring) float64 {
+	if f.GradientGPerM == 0 {
+		return 0
+	}
+	return (f.Zeeman.LinearHzPerG + 2*f.Zeeman.QuadraticHzPerG2*f.OffsetG) * f.GradientGPerM * r.RadiusM
 }
 
 // PhaseRad returns Phi_B for a shot from t0 to t1 s.
@@ -194,7 +216,8 @@ func (f FieldShift) Validate() error {
 		name string
 		v    float64
 	}{{"differential shift (Hz)", f.ShiftHz}, {"linear Zeeman coefficient (Hz/G)", f.Zeeman.LinearHzPerG},
-		{"quadratic Zeeman coefficient (Hz/G^2)", f.Zeeman.QuadraticHzPerG2}, {"field offset (G)", f.OffsetG}} {
+		{"quadratic Zeeman coefficient (Hz/G^2)", f.Zeeman.QuadraticHzPerG2}, {"field offset (G)", f.OffsetG},
+		{"field gradient (G/m)", f.GradientGPerM}, {"field gradient azimuth (rad)", f.GradientRad}} {
 		if math.IsNaN(x.v) || math.IsInf(x.v, 0) {
 			return fmt.Errorf("%s %g is not finite", x.name, x.v)
 		}
