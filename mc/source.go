@@ -47,6 +47,10 @@ type Budget struct {
 	// the bias during the shot, in G^2/Hz (nil: none); it acts through the
 	// spin pair's Zeeman shift (Apparatus.Field.Zeeman).
 	FieldNoise noise.PSD
+	// RotationNoise is the one-sided PSD of the platform's rotation rate
+	// during the shot, in (rad/s)^2/Hz (nil: none); it acts through the
+	// arms' enclosed-area rate (sim.RotationNoisePhaseRad).
+	RotationNoise noise.PSD
 
 	// Apparatus is the shot every realisation starts from: the settings of
 	// the apparatus that are not drawn (the spin pair's Zeeman
@@ -172,6 +176,7 @@ const (
 	SourceRIN         = "depth.rin_db_hz"
 	SourcePhase       = "drive.phase_dbc_hz"
 	SourceFieldNoise  = "field.noise_ug2_hz"
+	SourceRotationPSD = "platform.rotation_noise_urad2_s2_hz"
 	SourceBudget      = "budget"
 )
 
@@ -192,6 +197,10 @@ const (
 	// A white field noise of 1e-4 uG^2/Hz (10 nG per root hertz): a quiet
 	// magnetically shielded apparatus (common practice, from memory).
 	RefFieldNoiseUG2Hz = 1e-4
+	// A white rotation-rate noise of 1e-2 (urad/s)^2/Hz (0.1 urad/s per
+	// root hertz, an angle random walk of about 3.4e-4 deg/sqrt(h)): a
+	// quiet laboratory floor (from memory).
+	RefRotationNoiseURad2S2Hz = 1e-2
 	// A magnetically shielded apparatus holds its field to about 1 uG shot
 	// to shot, a ring's radius is calibrated to about 100 ppm, and a
 	// levelled table holds its tilt to about 0.1 mrad (common practice,
@@ -304,6 +313,15 @@ var Sources = []Source{
 		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.Field.Noise = arms[0] },
 		Ref:        RefFieldNoiseUG2Hz, Max: math.Inf(1),
 		Line: "field noise", Reference: model + "magnetic field",
+	},
+	{
+		Key: SourceRotationPSD, Meaning: "rotation-rate noise of the platform during the shot, through the arms' enclosed-area rate",
+		Scenario: "noise.platform.rotation_noise_urad2_s2_hz",
+		Unit:     "(urad/s)^2/Hz", Level: RotationNoiseURad2S2Hz, FromLevel: RotationNoiseFromURad2S2Hz, Kind: Process,
+		PSD:        func(b *Budget) *noise.PSD { return &b.RotationNoise },
+		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.RotationNoise = arms[0] },
+		Ref:        RefRotationNoiseURad2S2Hz, Max: math.Inf(1),
+		Line: "rotation noise", Reference: model + "platform rotation",
 	},
 	{
 		Key: ParamClock, Meaning: "waveform time-base error kappa: the profile plays (1+kappa) faster",
@@ -497,7 +515,7 @@ func (b Budget) validApparatus() error {
 	if err := b.Mains.Validate(); err != nil {
 		return err
 	}
-	if a.Field.Noise != nil || a.Jitter != [2]*sim.Series{} || a.DepthNoise != [2]*sim.Series{} {
+	if a.Field.Noise != nil || a.RotationNoise != nil || a.Jitter != [2]*sim.Series{} || a.DepthNoise != [2]*sim.Series{} {
 		return fmt.Errorf("apparatus: a noise record in the starting shot (records come from the budget's processes)")
 	}
 	return nil
@@ -509,3 +527,11 @@ func FieldNoiseUG2Hz(g2PerHz float64) float64 { return g2PerHz * 1e12 }
 
 // FieldNoiseFromUG2Hz converts a level in uG^2/Hz to G^2/Hz.
 func FieldNoiseFromUG2Hz(ug2PerHz float64) float64 { return ug2PerHz * 1e-12 }
+
+// RotationNoiseURad2S2Hz converts a rotation-noise PSD level in
+// (rad/s)^2/Hz to the lab unit (urad/s)^2/Hz.
+func RotationNoiseURad2S2Hz(perHz float64) float64 { return perHz * 1e12 }
+
+// RotationNoiseFromURad2S2Hz converts a level in (urad/s)^2/Hz to
+// (rad/s)^2/Hz.
+func RotationNoiseFromURad2S2Hz(level float64) float64 { return level * 1e-12 }

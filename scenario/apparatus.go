@@ -107,6 +107,10 @@ func (d *decoder) checkApparatus() error {
 			offset = "noise.field.mains_ug"
 		} else if s.Noise.FieldUG2PerHz > 0 {
 			offset = "noise.field.noise_ug2_hz"
+		} else if s.Noise.FieldFlickerUG2 > 0 {
+			offset = "noise.field.flicker_ug2"
+		} else if s.Noise.FieldRandomWalkUG2Hz > 0 {
+			offset = "noise.field.random_walk_ug2_hz"
 		} else if v, _ := s.Number("noise.field.gradient_ug_um"); v > 0 {
 			offset = "noise.field.gradient_ug_um"
 		} else if s.Atom.FieldGradientUGPerUM != 0 {

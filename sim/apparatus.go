@@ -153,13 +153,17 @@ func (sc Scattering) Factor(l [2]float64) (factor float64, scattered bool) {
 	return math.Exp(-(l[0]+l[1])/2) / none, false
 }
 
-// apparatus returns the factor on z of the field shift, the scattering and
-// the radius error of shot sh, whose arms run to time end.
+// apparatus returns the factor on z of the field shift, the scattering,
+// the rotation-rate noise and the radius error of shot sh, whose arms run
+// to time end.
 func (s *Simulator) apparatus(sh Shot, drives [2]Drive, end float64) complex128 {
 	f := cis(sh.Field.PhaseRad(0, end))
 	if sh.Scattering.RateS != [2]float64{} {
 		k, _ := sh.Scattering.Factor(scatteringMeans(sh.Scattering, drives, end))
 		f *= complex(k, 0)
+	}
+	if sh.RotationNoise != nil {
+		f *= cis(RotationNoisePhaseRad(s.cfg.Ring, sh.RadiusRel, drives, end, sh.RotationNoise))
 	}
 	if sh.RadiusRel != 0 {
 		c := s.cfg

@@ -84,6 +84,10 @@ type Shot struct {
 	// the nominal K Omega_bg, so the bias moves by K dOmega
 	// (docs/model.md, Perturbations, platform rotation).
 	RotationOffsetRadS float64
+	// RotationNoise is the platform's rotation-rate noise delta Omega(t)
+	// during the shot, rad/s (nil: none), applied through the arms'
+	// enclosed-area rate (RotationNoisePhaseRad).
+	RotationNoise *Series
 }
 
 // Level is the contribution of one of the site's levels to a thermal start.
