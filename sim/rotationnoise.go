@@ -1,5 +1,7 @@
 package sim
 
+import "math"
+
 // RotationNoisePhaseRad returns the Sagnac phase of a rotation-rate record
 // delta Omega(t) (rad/s; nil: none) during a shot whose arms follow drives
 // to time end, with true radius R (1 + radiusRel) (docs/model.md,
@@ -19,9 +21,11 @@ package sim
 // one-sided level S_0 over all frequencies, Var Phi = (S_0 / 2)
 // integral w(t)^2 dt.
 //
-// The integral of w times the piecewise-linear record is by 3-point
-// Gauss-Legendre quadrature on each record interval (w is smooth on the
-// record's step, a quarter of the split step).
+// Where w is constant (both arms cruising, or both at rest, w = 0) the
+// integral is that of the piecewise-linear record, exactly; elsewhere (the
+// ramps) it is by 3-point Gauss-Legendre quadrature on each record
+// interval (w is smooth on the record's step, a quarter of the split
+// step).
 func RotationNoisePhaseRad(r Ring, radiusRel float64, drives [2]Drive, end float64, rec *Series) float64 {
 	if rec == nil || len(rec.Values) == 0 || end <= 0 {
 		return 0
@@ -40,15 +44,33 @@ func RotationNoisePhaseRad(r Ring, radiusRel float64, drives [2]Drive, end float
 			sum += h * w3[j] * w(t) * rec.At(t)
 		}
 	}
-	a := 0.0
-	for i := 1; ; i++ {
-		ti := float64(i) * rec.StepS
-		if ti >= end {
-			break
+	quad := func(t0, t1 float64) {
+		t1 = math.Min(t1, end)
+		if t1 <= t0 {
+			return
 		}
-		piece(a, ti)
-		a = ti
+		a := t0
+		for i := int(math.Floor(t0/rec.StepS)) + 1; ; i++ {
+			ti := float64(i) * rec.StepS
+			if ti >= t1 {
+				break
+			}
+			piece(a, ti)
+			a = ti
+		}
+		piece(a, t1)
 	}
-	piece(a, end)
+	p, m := drives[0].times(), drives[1].times()
+	start, up := math.Min(p[0], m[0]), math.Max(p[1], m[1])
+	down, stop := math.Min(p[2], m[2]), math.Max(p[3], m[3])
+	if down > up {
+		// Both cruise on [up, down]: w is constant there.
+		quad(start, up)
+		lin, _ := seriesIntegrals(rec, up, math.Min(down, end))
+		sum += w((up+down)/2) * lin
+		quad(down, stop)
+	} else {
+		quad(start, stop)
+	}
 	return sum
 }

@@ -45,6 +45,13 @@ func TestRotationNoiseWhite(t *testing.T) {
 		t.Errorf("constant rate, radius error 1e-3: phase %.10g rad, want K (1+r)^2 Omega = %.10g", got, k*omega*1.001*1.001)
 	}
 
+	// With a skew of 30 us and a clock error the arms move at different
+	// times, but the enclosed area is still 2 phi(T) R^2 / 2 per arm.
+	skewed := s.drives(Shot{SkewS: 30e-6, ClockRel: 1e-3})
+	skewEnd := math.Max(skewed[0].times()[3], skewed[1].times()[3])
+	if got := RotationNoisePhaseRad(cfg.Ring, 0, skewed, skewEnd, flat); math.Abs(got-k*omega) > 1e-9*k*omega {
+		t.Errorf("constant rate, skew and clock error: phase %.10g rad, want K Omega = %.10g", got, k*omega)
+	}
 	// Through a shot: the same factor on z.
 	nominal := s.Run(Shot{}, nil)
 	if d := Wrap(s.Run(Shot{RotationNoise: flat}, nil).PhaseRad - nominal.PhaseRad); math.Abs(d-k*omega) > 1e-9 {
