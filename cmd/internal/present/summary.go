@@ -214,9 +214,14 @@ func NumericsLine(est *sim.ErrorEstimate) string {
 	if est == nil {
 		return "Numerics: not checked"
 	}
-	return fmt.Sprintf("Numerics: grid %d, step %s us; estimated error (against grid %d, step %s us) contrast %s, phase %s rad (targets %s, %s rad)",
+	line := fmt.Sprintf("Numerics: grid %d, step %s us; estimated error (against grid %d, step %s us) contrast %s, phase %s rad (targets %s, %s rad)",
 		est.Grid, Sig(est.StepS*1e6, 4), est.RefinedGrid, Sig(est.RefinedStepS*1e6, 4),
 		Sci(est.ContrastError, 2), Sci(est.PhaseErrorRad, 2), Sci(est.ContrastTarget, 1), Sci(est.PhaseTargetRad, 1))
+	if est.ModelBiasRad > 0 {
+		// docs/model.md, Perturbations: the first-order tilt.
+		line += fmt.Sprintf("; first-order tilt model: bias left out of order %s rad", Sci(est.ModelBiasRad, 1))
+	}
+	return line
 }
 
 // RampNumericsLines is NumericsLine for each ramp of a ranking, named.
