@@ -84,7 +84,7 @@ func (d *demo) qualifyWinner() error {
 	req.LossPossible = budget.LossPossible()
 	ramp := d.ranking.Ramps[d.winner]
 	q := mc.Qualify(d.recs[d.winner], req, ramp.Summary.ScaleFactorS, d.opts.seed)
-	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.Gyro(ramp.Summary), Signal: signalTrue}
+	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.Gyro(ramp.Summary)}
 	// The measured signal, as qualify decides it (docs/model.md, Gyroscope
 	// figures).
 	if m := ro.MeasuredRecords(d.recs[d.winner], d.opts.seed); m != nil {

@@ -21,7 +21,7 @@ type QualifyReport struct {
 	// embedded Qualification is that of the true, simulated signal.
 	MeasuredSignal *mc.Qualification `json:"measured_signal,omitempty"`
 	// Signal names the verdict that sets the exit code: "true" or
-	// "measured".
+	// "measured"; empty where no exit code depends on it (the demo).
 	Signal string `json:"signal,omitempty"`
 }
 
@@ -144,7 +144,7 @@ func verdictLines(rep QualifyReport) []string {
 		return []string{verdictLine(rep.Qualification)}
 	}
 	gate := func(s string) string {
-		if rep.Signal == s || (s == "true" && rep.Signal == "") {
+		if rep.Signal == s {
 			return " (sets the exit code)"
 		}
 		return ""
