@@ -88,3 +88,26 @@ func (r Readout) Measure(o *Outcomes, seed uint64, confidence float64, spec Spec
 	}
 	return m
 }
+
+// MeasuredRecords returns copies of the records of an ensemble with the
+// given seed with each realisation's bias and phase replaced by the
+// measured ones (MeasuredBias, the same draws Measure makes), so that
+// Qualify and Rank decide on the measured signal as on the true one. A lost
+// shot stays lost (no phase to read); the contrast, the fringe amplitude
+// and the inputs stay as simulated. Without a read-out it returns nil.
+func (r Readout) MeasuredRecords(recs []Record, seed uint64) []Record {
+	if r.Atoms == 0 {
+		return nil
+	}
+	out := make([]Record, len(recs))
+	for i, rec := range recs {
+		out[i] = rec
+		if rec.Lost() {
+			continue
+		}
+		m := r.MeasuredBias(seed, rec.Index, rec.Contrast, rec.BiasRad)
+		out[i].BiasRad = m
+		out[i].PhaseRad = sim.Wrap(rec.PhaseRad + m - rec.BiasRad)
+	}
+	return out
+}

@@ -73,3 +73,45 @@ func TestMeasuredBiasVariance(t *testing.T) {
 		t.Error("Measure without a read-out is not nil")
 	}
 }
+
+// TestMeasuredRecordsQualify checks that qualification on the measured
+// records decides on the measured signal: with a true bias of zero the
+// measured bias is normal with sigma = PhaseSigmaRad(C) (detection.go), so
+// the 95th percentile of its magnitude is 1.959964 sigma (the normal
+// quantile z_0.975, Abramowitz & Stegun table 26.1). The criterion's
+// one-sided bounds must bracket it; the true records' p95 is zero. The
+// records' draws are those of Measure, and a lost shot stays lost.
+func TestMeasuredRecordsQualify(t *testing.T) {
+	const n, c = 4000, 0.8
+	ro := Readout{Atoms: 1000, CycleS: 1, DetectionAtoms: 20}
+	recs := make([]Record, n)
+	for i := range recs {
+		recs[i] = Record{Index: i, Contrast: c, Z: complex(c, 0)}
+	}
+	recs[7] = Record{Index: 7} // lost
+	const seed = 9
+	m := ro.MeasuredRecords(recs, seed)
+	if !m[7].Lost() || m[7].BiasRad != 0 {
+		t.Errorf("a lost record became %+v", m[7])
+	}
+	if m[3].BiasRad != ro.MeasuredBias(seed, 3, c, 0) || m[3].PhaseRad != m[3].BiasRad {
+		t.Errorf("record 3: bias %g phase %g, want MeasuredBias %g for both", m[3].BiasRad, m[3].PhaseRad, ro.MeasuredBias(seed, 3, c, 0))
+	}
+	if recs[3].BiasRad != 0 {
+		t.Error("MeasuredRecords changed its input")
+	}
+	sigma := ro.PhaseSigmaRad(c)
+	want := 1.959964 * sigma
+	req := Requirements{AbsBiasP95MaxRad: 10 * want}
+	q := Qualify(m, req, 1, seed)
+	cr := q.Criteria[0]
+	if !(cr.Lo <= want && want <= cr.Hi) {
+		t.Errorf("measured |bias| p95 %.5g with bounds [%.5g, %.5g]: want them to bracket 1.96 sigma = %.5g", cr.Value, cr.Lo, cr.Hi, want)
+	}
+	if tq := Qualify(recs, req, 1, seed); tq.Criteria[0].Value != 0 {
+		t.Errorf("true |bias| p95 %g, want 0", tq.Criteria[0].Value)
+	}
+	if (Readout{}).MeasuredRecords(recs, seed) != nil {
+		t.Error("MeasuredRecords without a read-out is not nil")
+	}
+}

@@ -47,6 +47,7 @@ type Realiser struct {
 	rin       *noise.Synthesizer
 	phase     *noise.Synthesizer
 	field     *noise.Synthesizer
+	rotation  *noise.Synthesizer
 	// The grid of the waveforms (the mains line): that of the noise
 	// records.
 	waveStep float64
@@ -151,6 +152,11 @@ func (r *Realiser) prepareNoise() error {
 			return fmt.Errorf("field noise: %w", err)
 		}
 	}
+	if b.RotationNoise != nil {
+		if r.rotation, err = noise.NewSynthesizer(b.RotationNoise, n, r.noiseStep, noise.Band{HighHz: top}); err != nil {
+			return fmt.Errorf("rotation noise: %w", err)
+		}
+	}
 	return nil
 }
 
@@ -203,6 +209,7 @@ type Worker struct {
 	bufA   []float64
 	bufB   []float64
 	field  *noise.Synthesizer
+	rot    *noise.Synthesizer
 }
 
 // NewWorker returns scratch space for one goroutine.
@@ -220,6 +227,9 @@ func (r *Realiser) NewWorker() *Worker {
 	if r.field != nil {
 		w.field = r.field.Clone()
 	}
+	if r.rotation != nil {
+		w.rot = r.rotation.Clone()
+	}
 	return w
 }
 
@@ -229,17 +239,18 @@ func (w *Worker) Shot(i int) (sim.Shot, Record) {
 	if w.r.design != nil {
 		w.r.design.Point(i, w.point)
 	}
-	return w.ShotAt(i, w.point, [3]int{i, i, i})
+	return w.ShotAt(i, w.point, [4]int{i, i, i, i})
 }
 
 // ShotAt returns the perturbation of a shot whose static parameters are
 // the standard normal variates z (length StaticDim, coordinate k for the
 // k-th parameter of the budget whether active or not) and whose intensity
 // and drive phase noise records are those of realisations noise[0] and
-// noise[1], and the field noise record that of noise[2]. Designs that
-// recombine inputs (Sobol' indices) use it; Shot(i) is ShotAt(i, point i
-// of the design, {i, i, i}).
-func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record) {
+// noise[1], the field noise record that of noise[2] and the rotation
+// noise record that of noise[3]. Designs that recombine inputs (Sobol'
+// indices) use it; Shot(i) is ShotAt(i, point i of the design,
+// {i, i, i, i}).
+func (w *Worker) ShotAt(index int, z []float64, noise [4]int) (sim.Shot, Record) {
 	r := w.r
 	if len(z) != StaticDim {
 		panic("mc: ShotAt needs StaticDim normal variates")
@@ -299,6 +310,11 @@ func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record)
 		x := w.field.Synthesize(make([]float64, w.field.Len()), Substream(r.ens.Seed, noise[2], "noise/field"))
 		fieldRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: x}})
 	}
+	if w.rot != nil {
+		// One record of the platform's rotation rate, rad/s.
+		x := w.rot.Synthesize(make([]float64, w.rot.Len()), Substream(r.ens.Seed, noise[3], "noise/rotation"))
+		rotationRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: x}})
+	}
 	for _, wv := range waves {
 		wv.src.Waveform(&sh, &r.ens.Budget, wv.z, r.waveStep, r.waveN)
 	}
@@ -328,7 +344,7 @@ func (w *Worker) RunShot(sh sim.Shot, rec Record) Record {
 }
 
 // The noise processes' rows, whose records a Worker synthesises.
-var rinRow, phaseRow, fieldRow = mustSource(SourceRIN), mustSource(SourcePhase), mustSource(SourceFieldNoise)
+var rinRow, phaseRow, fieldRow, rotationRow = mustSource(SourceRIN), mustSource(SourcePhase), mustSource(SourceFieldNoise), mustSource(SourceRotationPSD)
 
 func mustSource(key string) Source {
 	s, ok := LookupSource(key)

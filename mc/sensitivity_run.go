@@ -32,9 +32,10 @@ type SensitivityDesign struct {
 }
 
 const (
-	coordRIN   = -1
-	coordPhase = -2
-	coordField = -3
+	coordRIN      = -1
+	coordPhase    = -2
+	coordField    = -3
+	coordRotation = -4
 )
 
 // NewSensitivityDesign returns the design of n base rows for the ensemble of
@@ -66,6 +67,10 @@ func NewSensitivityDesign(r *Realiser, n int) (*SensitivityDesign, error) {
 	if e.Budget.FieldNoise != nil {
 		d.inputs = append(d.inputs, SourceFieldNoise)
 		d.coord = append(d.coord, coordField)
+	}
+	if e.Budget.RotationNoise != nil {
+		d.inputs = append(d.inputs, SourceRotationPSD)
+		d.coord = append(d.coord, coordRotation)
 	}
 	if len(d.inputs) == 0 {
 		var keys []string
@@ -117,7 +122,8 @@ func (b *sensitivityBase) Point(i int, dst []float64) {
 }
 
 // Inputs returns the names of the inputs: static parameter names (Param
-// names) and SourceRIN, SourcePhase, SourceFieldNoise for the noise processes.
+// names) and SourceRIN, SourcePhase, SourceFieldNoise, SourceRotationPSD
+// for the noise processes.
 func (d *SensitivityDesign) Inputs() []string { return d.inputs }
 
 // BaseLen returns n, the number of base rows.
@@ -135,7 +141,7 @@ func (d *SensitivityDesign) Shot(w *Worker, j int) (sim.Shot, Record) {
 	x := make([]float64, d.saltelli.Dim())
 	d.saltelli.Point(j, x)
 	z := make([]float64, StaticDim)
-	var streams [3]int
+	var streams [4]int
 	for k, c := range d.coord {
 		switch c {
 		case coordRIN:
@@ -144,6 +150,8 @@ func (d *SensitivityDesign) Shot(w *Worker, j int) (sim.Shot, Record) {
 			streams[1] = int(x[k])
 		case coordField:
 			streams[2] = int(x[k])
+		case coordRotation:
+			streams[3] = int(x[k])
 		default:
 			z[c] = x[k]
 		}
@@ -268,7 +276,7 @@ func LocalDerivatives(r *Realiser) []Derivative {
 	z := make([]float64, StaticDim)
 	shot := func(k int, x float64) Record {
 		z[k] = x
-		sh, rec := w.ShotAt(0, z, [3]int{})
+		sh, rec := w.ShotAt(0, z, [4]int{})
 		z[k] = 0
 		sh.DepthNoise, sh.Jitter, sh.Field.Noise = [2]*sim.Series{}, [2]*sim.Series{}, nil
 		sh.Scattering.Cloud = true

@@ -25,6 +25,7 @@ type Budget struct {
 	RadiusRel            float64 // relative error r of the ring radius: the true radius is R (1 + r)
 	TiltRad              float64 // shot-to-shot change of the ring's tilt, rad, towards the azimuth of its lowest point
 	RotationRadS         float64 // shot-to-shot rotation-rate noise of the platform, rad/s
+	GradientGPerM        float64 // shot-to-shot change of the field gradient in the ring's plane, G/m
 	// MainsG is the amplitude of the mains field line's fundamental, G (an
 	// amplitude, not a standard deviation: its draw is the line's phase);
 	// Mains its frequency, harmonics and phase.
@@ -46,6 +47,10 @@ type Budget struct {
 	// the bias during the shot, in G^2/Hz (nil: none); it acts through the
 	// spin pair's Zeeman shift (Apparatus.Field.Zeeman).
 	FieldNoise noise.PSD
+	// RotationNoise is the one-sided PSD of the platform's rotation rate
+	// during the shot, in (rad/s)^2/Hz (nil: none); it acts through the
+	// arms' enclosed-area rate (sim.RotationNoisePhaseRad).
+	RotationNoise noise.PSD
 
 	// Apparatus is the shot every realisation starts from: the settings of
 	// the apparatus that are not drawn (the spin pair's Zeeman
@@ -160,6 +165,7 @@ const (
 	ParamTilt              = "ring.tilt_mrad"
 	ParamRotation          = "platform.rotation_urad_s"
 	ParamMains             = "field.mains_ug"
+	ParamGradient          = "field.gradient_ug_um"
 )
 
 // Tolerance sources: the static parameters by their budget names, the two
@@ -170,6 +176,7 @@ const (
 	SourceRIN         = "depth.rin_db_hz"
 	SourcePhase       = "drive.phase_dbc_hz"
 	SourceFieldNoise  = "field.noise_ug2_hz"
+	SourceRotationPSD = "platform.rotation_noise_urad2_s2_hz"
 	SourceBudget      = "budget"
 )
 
@@ -190,6 +197,10 @@ const (
 	// A white field noise of 1e-4 uG^2/Hz (10 nG per root hertz): a quiet
 	// magnetically shielded apparatus (common practice, from memory).
 	RefFieldNoiseUG2Hz = 1e-4
+	// A white rotation-rate noise of 1e-2 (urad/s)^2/Hz (0.1 urad/s per
+	// root hertz, an angle random walk of about 3.4e-4 deg/sqrt(h)): a
+	// quiet laboratory floor (from memory).
+	RefRotationNoiseURad2S2Hz = 1e-2
 	// A magnetically shielded apparatus holds its field to about 1 uG shot
 	// to shot, a ring's radius is calibrated to about 100 ppm, and a
 	// levelled table holds its tilt to about 0.1 mrad (common practice,
@@ -204,6 +215,10 @@ const (
 	// practice, from memory; unshielded laboratories see 10 to 100 times
 	// more).
 	RefMainsG = 1e-6
+	// A field gradient of 1e-3 uG/um (1 uG across a millimetre, 1e-5
+	// G/cm) in a magnetically shielded apparatus (common practice, from
+	// memory; unshielded laboratories see mG/cm).
+	RefGradientGPerM = 1e-3
 )
 
 // DrawSigmas is how many standard deviations a static draw may reach and
@@ -232,6 +247,9 @@ const (
 	maxRotationRadS = 1
 	// 1 mG, as the field offset.
 	maxMainsG = 1e-3
+	// 1 G/m (0.1 G/cm, 100 uG/um): a gradient that shifts a stretched
+	// pair by kHz across a 5 um ring, far beyond a shielded apparatus.
+	maxGradientGPerM = 1
 )
 
 // relative is the SI unit of a relative error.
@@ -295,6 +313,15 @@ var Sources = []Source{
 		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.Field.Noise = arms[0] },
 		Ref:        RefFieldNoiseUG2Hz, Max: math.Inf(1),
 		Line: "field noise", Reference: model + "magnetic field",
+	},
+	{
+		Key: SourceRotationPSD, Meaning: "rotation-rate noise of the platform during the shot, through the arms' enclosed-area rate",
+		Scenario: "noise.platform.rotation_noise_urad2_s2_hz",
+		Unit:     "(urad/s)^2/Hz", Level: RotationNoiseURad2S2Hz, FromLevel: RotationNoiseFromURad2S2Hz, Kind: Process,
+		PSD:        func(b *Budget) *noise.PSD { return &b.RotationNoise },
+		ApplyNoise: func(sh *sim.Shot, arms [2]*sim.Series) { sh.RotationNoise = arms[0] },
+		Ref:        RefRotationNoiseURad2S2Hz, Max: math.Inf(1),
+		Line: "rotation noise", Reference: model + "platform rotation",
 	},
 	{
 		Key: ParamClock, Meaning: "waveform time-base error kappa: the profile plays (1+kappa) faster",
@@ -388,6 +415,15 @@ var Sources = []Source{
 		Ref: RefMainsG, Max: maxMainsG,
 		Line: "mains line {} amplitude", Reference: model + "magnetic field",
 	},
+	{
+		Key: ParamGradient, Meaning: "shot-to-shot change of the field gradient in the ring's plane (towards atom.field_gradient_deg), a spin-dependent ring potential through the spin pair's Zeeman coefficients",
+		Scenario: "noise.field.gradient_ug_um", FileScale: 1, // uG/um is G/m
+		Unit: "uG/um", Scale: 1, SIUnit: "G/m", Kind: Static, Inputs: []string{ParamGradient},
+		Sigma: func(b *Budget) *float64 { return &b.GradientGPerM },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.Field.GradientGPerM += v },
+		Ref:   RefGradientGPerM, Max: maxGradientGPerM,
+		Line: "field gradient {}", Reference: model + "field gradient",
+	},
 }
 
 // StaticDim is the dimension of the static parameters' design: one
@@ -479,7 +515,7 @@ func (b Budget) validApparatus() error {
 	if err := b.Mains.Validate(); err != nil {
 		return err
 	}
-	if a.Field.Noise != nil || a.Jitter != [2]*sim.Series{} || a.DepthNoise != [2]*sim.Series{} {
+	if a.Field.Noise != nil || a.RotationNoise != nil || a.Jitter != [2]*sim.Series{} || a.DepthNoise != [2]*sim.Series{} {
 		return fmt.Errorf("apparatus: a noise record in the starting shot (records come from the budget's processes)")
 	}
 	return nil
@@ -491,3 +527,11 @@ func FieldNoiseUG2Hz(g2PerHz float64) float64 { return g2PerHz * 1e12 }
 
 // FieldNoiseFromUG2Hz converts a level in uG^2/Hz to G^2/Hz.
 func FieldNoiseFromUG2Hz(ug2PerHz float64) float64 { return ug2PerHz * 1e-12 }
+
+// RotationNoiseURad2S2Hz converts a rotation-noise PSD level in
+// (rad/s)^2/Hz to the lab unit (urad/s)^2/Hz.
+func RotationNoiseURad2S2Hz(perHz float64) float64 { return perHz * 1e12 }
+
+// RotationNoiseFromURad2S2Hz converts a level in (urad/s)^2/Hz to
+// (rad/s)^2/Hz.
+func RotationNoiseFromURad2S2Hz(level float64) float64 { return level * 1e-12 }

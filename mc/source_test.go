@@ -188,7 +188,7 @@ func TestSourcesInReadme(t *testing.T) {
 // is the table's number), and the suffix names the lab unit.
 func TestSourceOneNameOneUnit(t *testing.T) {
 	suffix := map[string]string{"_rel": Relative, "_ppm": "ppm", "_ns": "ns", "_nk": "nK", "_db_hz": "dB/Hz", "_dbc_hz": "dBc/Hz",
-		"_ug": "uG", "_mrad": "mrad", "_urad_s": "urad/s", "_ug2_hz": "uG^2/Hz"}
+		"_ug": "uG", "_mrad": "mrad", "_urad_s": "urad/s", "_ug2_hz": "uG^2/Hz", "_ug_um": "uG/um", "_urad2_s2_hz": "(urad/s)^2/Hz"}
 	for _, s := range Sources {
 		if s.Key != strings.TrimPrefix(s.Scenario, "noise.") {
 			t.Errorf("%s: key differs from its scenario key %s", s.Key, s.Scenario)

@@ -158,6 +158,10 @@ type ToleranceSearch struct {
 	// clamped there, and a scenario refuses such a spread. Zero (a
 	// ground-state start): no cap but the source's Max.
 	StartTemperatureK float64
+	// Readout is the read-out of the detection axis (SourceDetection),
+	// whose measured signal draws from Seed as the ensemble's own
+	// (Readout.MeasuredBias): Seed must then be the ensemble's seed.
+	Readout Readout
 }
 
 // capTemperature lowers the largest amplitude of src, the axis of the
@@ -179,6 +183,13 @@ func (s ToleranceSearch) capTemperature(src source, name string) source {
 func (s ToleranceSearch) Source(ctx context.Context, eval Evaluator, name string) (ToleranceResult, error) {
 	if name == SourceBudget {
 		return s.Joint(ctx, eval)
+	}
+	if name == SourceDetection {
+		src, err := detectionSource(s.Budget, s.Readout)
+		if err != nil {
+			return ToleranceResult{}, err
+		}
+		return s.search(ctx, once(eval), src)
 	}
 	src, err := newSource(s.Budget, name)
 	if err != nil {
@@ -254,6 +265,9 @@ func (s ToleranceSearch) search(ctx context.Context, eval Evaluator, src source)
 		}
 		if len(recs) == 0 {
 			return false, fmt.Errorf("tolerance of %s at %g %s: the evaluator returned no records", src.name, src.display(a), src.unit)
+		}
+		if src.measure != nil {
+			recs = src.measure(a, recs, s.Seed)
 		}
 		q := Qualify(recs, s.Requirements, s.ScaleFactorS, s.Seed)
 		p := TolerancePoint{Amplitude: a, Holds: q.Verdict == Pass, Criteria: q.Criteria}

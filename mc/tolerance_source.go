@@ -19,6 +19,10 @@ type source struct {
 	max        float64 // the largest amplitude searched; +Inf: none
 	set        func(a float64) Budget
 	display    func(a float64) float64 // a in unit
+	// measure, if set, turns the records of the ensemble at amplitude a
+	// (run with seed) into those the requirements judge: the measured
+	// signal of the detection axis (SourceDetection).
+	measure func(a float64, recs []Record, seed uint64) []Record
 }
 
 // newSource returns the search axis of the named source of budget b, the

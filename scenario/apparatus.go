@@ -60,7 +60,9 @@ func (s *Scenario) Apparatus() (sim.Shot, error) {
 		return sim.Shot{}, &Error{File: s.Name, Key: "atom.spin_pair", Err: err}
 	}
 	sh := sim.Shot{
-		Field:      sim.FieldShift{Zeeman: z, OffsetG: s.Atom.FieldOffsetUG * 1e-6},
+		Field: sim.FieldShift{Zeeman: z, OffsetG: s.Atom.FieldOffsetUG * 1e-6,
+			// uG/um is G/m.
+			GradientGPerM: s.Atom.FieldGradientUGPerUM, GradientRad: s.Atom.FieldGradientDeg * math.Pi / 180},
 		Scattering: sim.Scattering{RateS: s.ScatteringRates(), Cloud: true},
 		RadiusRel:  s.Ring.RadiusErrorPPM * 1e-6,
 		Potential: sim.RingPotential{
@@ -105,6 +107,14 @@ func (d *decoder) checkApparatus() error {
 			offset = "noise.field.mains_ug"
 		} else if s.Noise.FieldUG2PerHz > 0 {
 			offset = "noise.field.noise_ug2_hz"
+		} else if s.Noise.FieldFlickerUG2 > 0 {
+			offset = "noise.field.flicker_ug2"
+		} else if s.Noise.FieldRandomWalkUG2Hz > 0 {
+			offset = "noise.field.random_walk_ug2_hz"
+		} else if v, _ := s.Number("noise.field.gradient_ug_um"); v > 0 {
+			offset = "noise.field.gradient_ug_um"
+		} else if s.Atom.FieldGradientUGPerUM != 0 {
+			offset = "atom.field_gradient_ug_um"
 		} else if s.Atom.FieldOffsetUG == 0 {
 			offset = ""
 		}

@@ -66,8 +66,9 @@ func (sc *Scenario) Budget() (mc.Budget, error) {
 		return mc.Budget{}, err
 	}
 	b.Apparatus = app
-	if n.FieldUG2PerHz > 0 {
-		b.FieldNoise = noise.White{Level: n.FieldUG2PerHz * 1e-12} // uG^2 -> G^2
+	b.FieldNoise = fieldPSD(n)
+	if n.RotationURad2S2PerHz > 0 {
+		b.RotationNoise = noise.White{Level: mc.RotationNoiseFromURad2S2Hz(n.RotationURad2S2PerHz)}
 	}
 	mains, err := sc.mains(b.MainsG)
 	if err != nil {
@@ -169,4 +170,32 @@ func (sc *Scenario) mains(a float64) (mc.Mains, error) {
 		out.HarmonicsRel = []float64{m.H2UG * 1e-6 / a, m.H3UG * 1e-6 / a}
 	}
 	return out, nil
+}
+
+// fieldPSD returns the field's PSD during the shot in G^2/Hz, the IEEE Std
+// 1139 power-law form
+//
+//	S_B(f) = h_0 + h_-1 / f + h_-2 / f^2
+//
+// from noise_ug2_hz, flicker_ug2 and random_walk_ug2_hz (uG^2 -> G^2),
+// nil if all are zero; a single term is that term alone.
+func fieldPSD(n Noise) noise.PSD {
+	const g2 = 1e-12 // uG^2 -> G^2
+	var terms noise.Sum
+	if n.FieldUG2PerHz > 0 {
+		terms = append(terms, noise.White{Level: n.FieldUG2PerHz * g2})
+	}
+	if n.FieldFlickerUG2 > 0 {
+		terms = append(terms, noise.PowerLaw{H: n.FieldFlickerUG2 * g2, Alpha: -1})
+	}
+	if n.FieldRandomWalkUG2Hz > 0 {
+		terms = append(terms, noise.PowerLaw{H: n.FieldRandomWalkUG2Hz * g2, Alpha: -2})
+	}
+	switch len(terms) {
+	case 0:
+		return nil
+	case 1:
+		return terms[0]
+	}
+	return terms
 }

@@ -52,6 +52,11 @@ type Atom struct {
 	ZeemanLinearHzPerG     float64 `json:",omitempty"`
 	ZeemanQuadraticHzPerG2 float64 `json:",omitempty"`
 	FieldOffsetUG          float64 `json:",omitempty"`
+	// FieldGradientUGPerUM is a static field gradient in the ring's plane,
+	// uG/um (= G/m), towards the azimuth FieldGradientDeg from the start
+	// site (sim.FieldShift.GradientGPerM).
+	FieldGradientUGPerUM float64 `json:",omitempty"`
+	FieldGradientDeg     float64 `json:",omitempty"`
 }
 
 // Ring is the [ring] table.
@@ -129,6 +134,16 @@ type Noise struct {
 	// FieldUG2PerHz is the white one-sided PSD of the magnetic field during
 	// the shot, uG^2/Hz ([noise.field] noise_ug2_hz; 0: none).
 	FieldUG2PerHz float64 `json:",omitempty"`
+	// FieldFlickerUG2 and FieldRandomWalkUG2Hz are the power-law terms
+	// h_-1 / f and h_-2 / f^2 of the field's PSD (IEEE Std 1139 forms),
+	// h_-1 in uG^2 and h_-2 in uG^2 Hz ([noise.field] flicker_ug2 and
+	// random_walk_ug2_hz; 0: none), added to the white FieldUG2PerHz.
+	FieldFlickerUG2      float64 `json:",omitempty"`
+	FieldRandomWalkUG2Hz float64 `json:",omitempty"`
+	// RotationURad2S2PerHz is the white one-sided PSD of the platform's
+	// rotation rate during the shot, (urad/s)^2/Hz ([noise.platform]
+	// rotation_noise_urad2_s2_hz; 0: none).
+	RotationURad2S2PerHz float64 `json:",omitempty"`
 	// Mains is the shape of the mains field line ([noise.field] mains_*;
 	// its fundamental's amplitude mains_ug is the row mc.ParamMains).
 	Mains MainsNoise `json:",omitempty"`

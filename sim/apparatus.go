@@ -47,6 +47,28 @@ type FieldShift struct {
 	Zeeman  Zeeman
 	OffsetG float64 // static field offset from the bias, G
 	Noise   *Series // field noise b(t), G
+	// GradientGPerM is a field gradient in the ring's plane, G/m, towards
+	// the azimuth GradientRad from the start site: the field's offset
+	// varies around the ring as GradientGPerM R cos(theta - GradientRad),
+	// a spin-dependent ring potential (GradientHz; docs/model.md,
+	// Perturbations, field gradient) applied with the ring potential.
+	GradientGPerM float64
+	GradientRad   float64
+}
+
+// GradientHz returns the amplitude delta_nu_g of the differential Zeeman
+// shift around a ring r from the gradient, linear in it about the static
+// offset:
+//
+//	delta_nu_g = (LinearHzPerG + 2 QuadraticHzPerG2 OffsetG) GradientGPerM R.
+//
+// The arm s = +1 sees +delta_nu_g/2 cos(theta - GradientRad) and the arm
+// s = -1 its opposite, relative to their mean (the sign of FieldShift).
+func (f FieldShift) GradientHz(r Ring) float64 {
+	if f.GradientGPerM == 0 {
+		return 0
+	}
+	return (f.Zeeman.LinearHzPerG + 2*f.Zeeman.QuadraticHzPerG2*f.OffsetG) * f.GradientGPerM * r.RadiusM
 }
 
 // PhaseRad returns Phi_B for a shot from t0 to t1 s.
@@ -131,13 +153,17 @@ func (sc Scattering) Factor(l [2]float64) (factor float64, scattered bool) {
 	return math.Exp(-(l[0]+l[1])/2) / none, false
 }
 
-// apparatus returns the factor on z of the field shift, the scattering and
-// the radius error of shot sh, whose arms run to time end.
+// apparatus returns the factor on z of the field shift, the scattering,
+// the rotation-rate noise and the radius error of shot sh, whose arms run
+// to time end.
 func (s *Simulator) apparatus(sh Shot, drives [2]Drive, end float64) complex128 {
 	f := cis(sh.Field.PhaseRad(0, end))
 	if sh.Scattering.RateS != [2]float64{} {
 		k, _ := sh.Scattering.Factor(scatteringMeans(sh.Scattering, drives, end))
 		f *= complex(k, 0)
+	}
+	if sh.RotationNoise != nil {
+		f *= cis(RotationNoisePhaseRad(s.cfg.Ring, sh.RadiusRel, drives, end, sh.RotationNoise))
 	}
 	if sh.RadiusRel != 0 {
 		c := s.cfg
@@ -194,7 +220,8 @@ func (f FieldShift) Validate() error {
 		name string
 		v    float64
 	}{{"differential shift (Hz)", f.ShiftHz}, {"linear Zeeman coefficient (Hz/G)", f.Zeeman.LinearHzPerG},
-		{"quadratic Zeeman coefficient (Hz/G^2)", f.Zeeman.QuadraticHzPerG2}, {"field offset (G)", f.OffsetG}} {
+		{"quadratic Zeeman coefficient (Hz/G^2)", f.Zeeman.QuadraticHzPerG2}, {"field offset (G)", f.OffsetG},
+		{"field gradient (G/m)", f.GradientGPerM}, {"field gradient azimuth (rad)", f.GradientRad}} {
 		if math.IsNaN(x.v) || math.IsInf(x.v, 0) {
 			return fmt.Errorf("%s %g is not finite", x.name, x.v)
 		}

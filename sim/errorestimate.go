@@ -29,6 +29,12 @@ type ErrorEstimate struct {
 	Met            bool    `json:"met"`
 	// Remedy says what to change when Met is false; empty otherwise.
 	Remedy string `json:"remedy,omitempty"`
+	// ModelBiasRad is the scale of the bias the first-order treatment of
+	// the ring's tilt leaves out when the ramps excite the packets
+	// (RingPotential.ExcitedBiasRad; docs/model.md, Perturbations): a
+	// model error, not part of PhaseErrorRad or Met, carried beside them
+	// by the commands; zero without a tilt.
+	ModelBiasRad float64 `json:"first_order_model_bias_rad,omitempty"`
 }
 
 // Refine returns c with twice its grid and half its step. c must carry the

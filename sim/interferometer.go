@@ -84,6 +84,10 @@ type Shot struct {
 	// the nominal K Omega_bg, so the bias moves by K dOmega
 	// (docs/model.md, Perturbations, platform rotation).
 	RotationOffsetRadS float64
+	// RotationNoise is the platform's rotation-rate noise delta Omega(t)
+	// during the shot, rad/s (nil: none), applied through the arms'
+	// enclosed-area rate (RotationNoisePhaseRad).
+	RotationNoise *Series
 }
 
 // Level is the contribution of one of the site's levels to a thermal start.
@@ -276,8 +280,8 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	da := drives[0].Angle(end) - drives[1].Angle(end)
 	pulse := math.Sin(math.Pi/2*(1+sh.PulseAreaRel[0])) * math.Sin(math.Pi/2*(1+sh.PulseAreaRel[1]))
 	var ring []complex128
-	if !sh.Potential.zero() {
-		ring = s.ringFactors(sh.Potential, drives, end, starts)
+	if pot := sh.Potential.withGradient(sh.Field, cfg.Ring); !pot.zero() {
+		ring = s.ringFactors(pot, drives, end, starts)
 	}
 	for n := range lev {
 		plus, minus := fields[0].get(n), fields[1].get(n)

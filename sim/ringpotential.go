@@ -37,6 +37,22 @@ type RingPotential struct {
 	LowRad    float64
 	GravityMS float64 // g in m/s^2; zero means StandardGravity
 	Harmonics []DepthHarmonic
+
+	// spinHz and spinRad are a spin-dependent term, set from the shot's
+	// field gradient (FieldShift.GradientHz, withGradient):
+	//
+	//	U_s(theta) = s h spinHz/2 cos(theta - spinRad)
+	//
+	// for the arm s, half the differential Zeeman shift each with opposite
+	// signs (docs/model.md, Perturbations, field gradient).
+	spinHz, spinRad float64
+}
+
+// withGradient returns p with the spin-dependent term of field f's
+// gradient on ring r.
+func (p RingPotential) withGradient(f FieldShift, r Ring) RingPotential {
+	p.spinHz, p.spinRad = f.GradientHz(r), f.GradientRad
+	return p
 }
 
 // DepthHarmonic is one angular harmonic of the lattice depth around the
@@ -66,7 +82,7 @@ func (p RingPotential) Validate() error {
 	return nil
 }
 
-func (p RingPotential) zero() bool { return p.TiltRad == 0 && len(p.Harmonics) == 0 }
+func (p RingPotential) zero() bool { return p.TiltRad == 0 && len(p.Harmonics) == 0 && p.spinHz == 0 }
 
 // GravityHz returns the amplitude m g R sin(tilt) / h of the gravity term
 // in Hz (10.7 kHz per rad of tilt for rubidium-87 at R = 5 um).
@@ -78,10 +94,10 @@ func (p RingPotential) GravityHz(r Ring) float64 {
 	return r.MassKg * g * r.RadiusM * math.Sin(p.TiltRad) / Planck
 }
 
-// potentialRadS returns U(theta)/hbar in rad/s for a lattice of relative
-// depth g at angle a (depth v0 = V0/hbar).
-func (p RingPotential) potentialRadS(r Ring, v0, g, a, theta float64) float64 {
-	u := -2 * math.Pi * p.GravityHz(r) * math.Cos(theta-p.LowRad)
+// potentialRadS returns U_s(theta)/hbar in rad/s for the arm of sign s in
+// a lattice of relative depth g at angle a (depth v0 = V0/hbar).
+func (p RingPotential) potentialRadS(r Ring, v0, g, a, theta, s float64) float64 {
+	u := -2*math.Pi*p.GravityHz(r)*math.Cos(theta-p.LowRad) + s*math.Pi*p.spinHz*math.Cos(theta-p.spinRad)
 	if len(p.Harmonics) > 0 {
 		c := math.Cos(float64(r.Sites) * (theta - a) / 2)
 		for _, h := range p.Harmonics {
@@ -117,10 +133,14 @@ type ringTerm struct {
 //
 // F_k = <w|e^{i k theta}|w> the packet's form factors in its own lattice
 // (w_a is w carried to angle a, cos^2 x = 1/2 + (e^{2ix} + e^{-2ix})/4).
-func (p RingPotential) terms(r Ring, v0, g float64, w State) []ringTerm {
+func (p RingPotential) terms(r Ring, v0, g, sign float64, w State) []ringTerm {
 	var ts []ringTerm
 	if p.TiltRad != 0 {
 		ts = append(ts, ringTerm{1, complex(-2*math.Pi*p.GravityHz(r), 0) * cis(-p.LowRad) * formFactor(w, 1)})
+	}
+	if p.spinHz != 0 {
+		// s pi delta_nu_g Re(e^{i (a - spinRad)} F_1).
+		ts = append(ts, ringTerm{1, complex(sign*math.Pi*p.spinHz, 0) * cis(-p.spinRad) * formFactor(w, 1)})
 	}
 	n := r.Sites
 	for _, h := range p.Harmonics {
@@ -143,7 +163,7 @@ func (p RingPotential) terms(r Ring, v0, g float64, w State) []ringTerm {
 // quadrature elsewhere, on pieces over which k a(t) turns by at most 0.5
 // rad (quadrature error below 1e-15 of the piece).
 func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end float64) float64 {
-	ts := p.terms(r, v0, 1+d.DepthRel, w)
+	ts := p.terms(r, v0, 1+d.DepthRel, d.Sign, w)
 	if len(ts) == 0 {
 		return 0
 	}

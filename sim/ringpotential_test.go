@@ -12,8 +12,8 @@ import (
 // first-order treatment is tested against. Lowest level, no pulse factor.
 func plainWithPotential(s *Simulator, sh Shot, p RingPotential, stepS float64) complex128 {
 	v0 := 2 * math.Pi * s.cfg.DepthHz
-	return s.plainSplitStep(sh, stepS, func(a, g, theta float64) float64 {
-		return p.potentialRadS(s.cfg.Ring, v0, g, a, theta)
+	return s.plainSplitStep(sh, stepS, func(a, g, theta, sign float64) float64 {
+		return p.potentialRadS(s.cfg.Ring, v0, g, a, theta, sign)
 	})
 }
 

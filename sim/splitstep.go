@@ -20,10 +20,10 @@ func (s *Simulator) PlainSplitStep(sh Shot, stepS float64) complex128 {
 }
 
 // plainSplitStep is PlainSplitStep with, if u is not nil, a potential
-// u(a, g, theta) in rad/s added to the lattice factor as a diagonal in
+// u(a, g, theta, s) in rad/s for the arm of sign s added to the lattice factor as a diagonal in
 // angle space (a the lattice's angle, g its relative depth): the exact
 // reference the ring potential's first-order treatment is tested against.
-func (s *Simulator) plainSplitStep(sh Shot, stepS float64, u func(a, g, theta float64) float64) complex128 {
+func (s *Simulator) plainSplitStep(sh Shot, stepS float64, u func(a, g, theta, s float64) float64) complex128 {
 	cfg, b := s.cfg, s.basis
 	m := b.Size()
 	v0 := 2 * math.Pi * cfg.DepthHz
@@ -66,7 +66,7 @@ func (s *Simulator) plainSplitStep(sh Shot, stepS float64, u func(a, g, theta fl
 				c := math.Cos(float64(b.Sites) * (th - aa) / 2)
 				w := g * v0 * c * c
 				if u != nil {
-					w -= u(aa, g, th)
+					w -= u(aa, g, th, d.Sign)
 				}
 				x[j] *= cis(w * dt)
 			}

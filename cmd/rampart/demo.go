@@ -168,6 +168,21 @@ func (d *demo) compareRamps() error {
 		if err != nil {
 			return err
 		}
+		// The bias at zero rotation, as rampart shot reports it (two more
+		// shots at Omega +- h, sim.Simulator.Gyro).
+		s, err := sim.NewSimulator(run.Config)
+		if err != nil {
+			return err
+		}
+		base, err := sc.Apparatus()
+		if err != nil {
+			return err
+		}
+		_, g, err := s.Gyro(base)
+		if err != nil {
+			return err
+		}
+		run.Gyro = &g
 		runs, cfg = append(runs, run), c
 		names = append(names, dr.name)
 		d.cs = append(d.cs, scenario.Contestant{Name: dr.name, Spec: "demo ramp " + dr.name, Scenario: sc, Config: c})

@@ -73,7 +73,7 @@ func (d *demo) rank() error {
 		fmt.Fprintln(w, line)
 	}
 	fmt.Fprintln(w)
-	return present.RankingGrid(rep).RenderNoted(w, present.RankingNotes(rep))
+	return present.PrintRanking(w, rep)
 }
 
 func (d *demo) qualifyWinner() error {
@@ -85,6 +85,12 @@ func (d *demo) qualifyWinner() error {
 	ramp := d.ranking.Ramps[d.winner]
 	q := mc.Qualify(d.recs[d.winner], req, ramp.Summary.ScaleFactorS, d.opts.seed)
 	d.qualify = present.QualifyReport{Qualification: q, Spec: demoSpec, Summary: ramp.Summary, Gyro: ro.Gyro(ramp.Summary)}
+	// The measured signal, as qualify decides it (docs/model.md, Gyroscope
+	// figures).
+	if m := ro.MeasuredRecords(d.recs[d.winner], d.opts.seed); m != nil {
+		qm := mc.Qualify(m, req, ramp.Summary.ScaleFactorS, d.opts.seed)
+		d.qualify.MeasuredSignal = &qm
+	}
 	fmt.Fprintf(d.out, "3. The winner, %s, qualified against the spec %s on its %d realisations\n\n", ramp.Name, demoSpec, len(d.recs[d.winner]))
 	if err := present.PrintQualification(d.out, d.qualify); err != nil {
 		return err
@@ -96,11 +102,11 @@ func (d *demo) qualifyWinner() error {
 }
 
 func (d *demo) tolerances() error {
-	budget, req, _, err := d.inputs()
+	budget, req, ro, err := d.inputs()
 	if err != nil {
 		return err
 	}
-	names, err := toleranceSources(budget, "")
+	names, err := toleranceSources(budget, "", ro)
 	if err != nil {
 		return err
 	}
@@ -108,7 +114,7 @@ func (d *demo) tolerances() error {
 	defer stop()
 	c := d.cs[d.winner]
 	o := d.demoEnsemble(d.opts.toleranceSamples)
-	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.Scenario, c.Config, budget, req, names, o, demoTolerancePrecision)
+	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.Scenario, c.Config, budget, req, names, o, demoTolerancePrecision, ro)
 	if err != nil {
 		return err
 	}

@@ -66,27 +66,37 @@ func warnValidity(stderr io.Writer, cfg sim.Config) {
 // command running many ensembles of one configuration says it once.
 var warned = map[string]bool{}
 
-// warnFirstOrder writes a note when the ring potential of base (tilt) is
+// warnFirstOrder writes a note, and returns the bias scale, when the ring potential of base (tilt) is
 // applied at first order along the adiabatic path but the ramp excites
 // the packets enough that the bias this leaves out
 // (sim.RingPotential.ExcitedBiasRad, a scale measured against the full-grid
 // integration, docs/model.md, Perturbations) exceeds the phase target.
-func warnFirstOrder(stderr io.Writer, what string, cfg sim.Config, base sim.Shot) {
-	pot := base.Potential
-	if pot.TiltRad == 0 {
-		return
-	}
-	s, err := sim.NewSimulator(cfg)
-	if err != nil {
-		return // the run itself reports it
-	}
-	r := s.Run(sim.Shot{}, nil)
-	ground := min(r.GroundAfterRampUp[0], r.GroundAfterRampUp[1])
-	e := pot.ExcitedBiasRad(cfg.Ring, cfg.TrapRadS(), ground)
+func warnFirstOrder(stderr io.Writer, what string, cfg sim.Config, base sim.Shot) float64 {
+	e, ground := firstOrderModelBias(cfg, base)
 	if e <= sim.PhaseTargetRad || warned[what] {
-		return
+		return e
 	}
 	warned[what] = true
 	fmt.Fprintf(stderr, "rampart: warning: %s: the ring's tilt is applied at first order along the adiabatic path; with %.2g of the atoms left outside the ground band after the ramp-up, that leaves out a bias of order %.1g rad (above the %g rad phase target), so the bias figures carry this model error; a gentler ramp reduces it (docs/model.md, Perturbations)\n",
 		what, 1-ground, e, sim.PhaseTargetRad)
+	return e
+}
+
+// firstOrderModelBias returns the scale of the bias the first-order
+// treatment of the tilt of base leaves out (sim.RingPotential.ExcitedBiasRad
+// at the nominal shot's ground-band population, which it returns too);
+// zero without a tilt. warnFirstOrder returns it too, and the commands
+// carry it beside the numerical error (sim.ErrorEstimate.ModelBiasRad).
+func firstOrderModelBias(cfg sim.Config, base sim.Shot) (bias, ground float64) {
+	pot := base.Potential
+	if pot.TiltRad == 0 {
+		return 0, 1
+	}
+	s, err := sim.NewSimulator(cfg)
+	if err != nil {
+		return 0, 1 // the run itself reports it
+	}
+	r := s.Run(sim.Shot{}, nil)
+	ground = min(r.GroundAfterRampUp[0], r.GroundAfterRampUp[1])
+	return pot.ExcitedBiasRad(cfg.Ring, cfg.TrapRadS(), ground), ground
 }

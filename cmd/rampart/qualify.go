@@ -23,7 +23,16 @@ type qualifyOptions struct {
 	// those recorded in the --resume directory's manifest.
 	lookGiven bool
 	readout   readoutOptions
+	// signal is the signal whose verdict gates the exit code: "true" (the
+	// simulated bias) or "measured" (with the read-out's noise).
+	signal string
 }
+
+// The values of --signal.
+const (
+	signalTrue     = "true"
+	signalMeasured = "measured"
+)
 
 // newQualifyCmd returns the command; run is what it runs with the parsed
 // options (runQualify outside tests).
@@ -42,6 +51,13 @@ the bad side clears the limit, fail when the bound on the good side misses it,
 undecided otherwise, with an estimate of how many more realisations would
 decide it. The exit code gates lab automation: 0 pass, 1 fail, 3 undecided,
 2 bad input.
+
+With a read-out (the scenario's [readout] or --atoms and --cycle-s) the
+criteria are also decided on the measured signal: each realisation's bias
+with the projection noise of its atoms and the detection noise added, as a
+read-out would see it (contrast criteria are the same for both). Both tables
+are shown, labelled; --signal measured makes the measured verdict the one
+that sets the exit code (default: the true, simulated signal).
 
 --out DIR keeps the ensemble as rampart run does, with the verdict in
 qualification.json; --resume DIR continues it, and with a larger --samples
@@ -65,6 +81,7 @@ qualify the merged ensemble.`,
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
 	f.IntVar(&o.look, "look", 1, "number `K` of this qualification of a topped-up ensemble (default: 1, or the next after those recorded in the --resume directory)")
+	f.StringVar(&o.signal, "signal", signalTrue, "the signal whose verdict sets the exit code: "+signalTrue+" (simulated) or "+signalMeasured+" (with the read-out's projection and detection noise; needs a read-out)")
 	cmd.MarkFlagRequired("spec")
 	return cmd
 }
@@ -97,6 +114,9 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		return err
 	}
 	o.ens.confidence = req.Confidence
+	if o.signal != signalTrue && o.signal != signalMeasured {
+		return fmt.Errorf("--signal %q: want %q or %q", o.signal, signalTrue, signalMeasured)
+	}
 	if o.look < 1 {
 		return fmt.Errorf("--look %d: want 1 for a first qualification, 2, 3, ... each time the ensemble is topped up and qualified again", o.look)
 	}
@@ -110,6 +130,9 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	ro, err := o.readout.of(sc)
 	if err != nil {
 		return err
+	}
+	if o.signal == signalMeasured && ro.Atoms == 0 {
+		return fmt.Errorf("--signal measured needs a read-out: give the scenario a [readout] table or --atoms N and --cycle-s T")
 	}
 	ctx, stop := signalContext()
 	defer stop()
@@ -125,6 +148,9 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		return err
 	}
 	sum := run.summarise(req.Confidence, req.Yield)
+	// The measured signal, with the read-out's projection and detection
+	// noise (docs/model.md, Gyroscope figures); nil without a read-out.
+	sum.Measured = ro.Measure(mc.OutcomesOf(run.records), run.manifest.Seed, req.Confidence, req.Yield)
 	dir := o.ens.dir()
 	if o.ens.shard != "" {
 		if err := present.WriteResults(dir, sum, run.records, req.Yield); err != nil {
@@ -134,7 +160,12 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	}
 	req.LossPossible = run.manifest.LossPossible
 	q := mc.Qualify(run.records, req, run.manifest.ScaleFactorS, run.manifest.Seed)
-	rep := present.QualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.Gyro(sum)}
+	rep := present.QualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.Gyro(sum), Signal: o.signal}
+	if m := ro.MeasuredRecords(run.records, run.manifest.Seed); m != nil {
+		qm := mc.Qualify(m, req, run.manifest.ScaleFactorS, run.manifest.Seed)
+		rep.MeasuredSignal = &qm
+	}
+	gate := rep.Gating()
 	if dir != "" {
 		// The look is counted before the verdict is written or shown, so
 		// that no verdict is seen whose look the directory does not count.
@@ -166,10 +197,14 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 			return err
 		}
 	}
-	if q.Verdict == mc.Pass {
+	if gate.Verdict == mc.Pass {
 		return nil
 	}
-	return &exitError{code: q.ExitCode(), err: fmt.Errorf("%s against spec %q: %s", q.Verdict, o.spec, strings.Join(present.Deciding(q), "; "))}
+	which := ""
+	if rep.MeasuredSignal != nil {
+		which = " (" + o.signal + " signal)"
+	}
+	return &exitError{code: gate.ExitCode(), err: fmt.Errorf("%s against spec %q%s: %s", gate.Verdict, o.spec, which, strings.Join(present.Deciding(gate), "; "))}
 }
 
 // lookAt returns the look number of this qualification: --look if given,

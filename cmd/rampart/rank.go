@@ -134,7 +134,7 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 		return present.WriteJSON(stdout, rep)
 	}
 	present.PrintHeader(stdout, sc, cfg, what, budget, append([]string{rampsLine, workLine}, numLines...)...)
-	return present.RankingGrid(rep).RenderNoted(stdout, present.RankingNotes(rep))
+	return present.PrintRanking(stdout, rep)
 }
 
 // rankContestants runs the ensemble of every contestant under budget on
@@ -154,6 +154,7 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario
 	}
 	names := make([]string, len(cs))
 	recs := make([][]mc.Record, len(cs))
+	seeds := make([]uint64, len(cs))
 	rep := present.RankReport{Ramps: make([]present.RampReport, len(cs))}
 	// Every contestant's numerics are checked before any ensemble runs, so
 	// that a refusal leaves no run directory behind.
@@ -177,12 +178,15 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario
 		}
 		work.Add(run.fresh, len(run.records), run.elapsed)
 		sum := run.summarise(o.confidence, spec)
+		// The measured signal (docs/model.md, Gyroscope figures); nil
+		// without a read-out.
+		sum.Measured = ro.Measure(mc.OutcomesOf(run.records), run.manifest.Seed, o.confidence, spec)
 		if dir != "" {
 			if err := present.WriteResults(dir, sum, run.records, spec); err != nil {
 				return present.RankReport{}, nil, work, err
 			}
 		}
-		names[i], recs[i] = c.Name, run.records
+		names[i], recs[i], seeds[i] = c.Name, run.records, run.manifest.Seed
 		rep.Ramps[i] = present.RampReport{
 			Name: c.Name, Spec: c.Spec, RampUpS: c.Config.Sequence.Up.Duration(), Dir: dir,
 			ContrastMean: sum.Contrast.Mean, AbsBiasP95Rad: sum.AbsBiasRad.P95, AbsBiasP95DegPerH: present.AbsBiasP95DegPerH(sum),
@@ -192,8 +196,24 @@ func rankContestants(ctx context.Context, e env, stderr io.Writer, cs []scenario
 	if o.shard != "" {
 		return rep, recs, work, nil
 	}
-	rep.Ranking, err = mc.Rank(names, recs, metric, spec, o.confidence, o.seed)
-	return rep, recs, work, err
+	if rep.Ranking, err = mc.Rank(names, recs, metric, spec, o.confidence, o.seed); err != nil {
+		return rep, recs, work, err
+	}
+	// With a read-out, a metric of the bias is ranked on the measured
+	// signal too (the contrast metrics read the same in both). Every ramp
+	// shares the seed, so the read-out draws are common random numbers too.
+	if ro.Atoms > 0 && (metric == mc.MetricBiasSpread || (metric == mc.MetricYield && spec.MaxAbsBiasRad > 0)) {
+		measured := make([][]mc.Record, len(recs))
+		for i := range recs {
+			measured[i] = ro.MeasuredRecords(recs[i], seeds[i])
+		}
+		m, err := mc.Rank(names, measured, metric, spec, o.confidence, o.seed)
+		if err != nil {
+			return rep, recs, work, err
+		}
+		rep.MeasuredSignal = &m
+	}
+	return rep, recs, work, nil
 }
 
 // writeRankReport writes the report of a ranking: every ramp's drive, the

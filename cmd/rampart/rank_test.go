@@ -205,3 +205,48 @@ func jsonString(v any) string {
 	b, _ := json.Marshal(v)
 	return string(b)
 }
+
+// TestRankMeasuredSignal checks that a ranking by |bias| p95 with a
+// read-out ranks the measured signal too, labelled: at 100 atoms the
+// projection noise, sigma = 1/(C sqrt(N)) about 0.1 rad (the standard
+// quantum limit, docs/model.md, Gyroscope figures), dwarfs every ramp's
+// true bias, so each ramp's measured p95 sits near 1.96 sigma (the normal
+// quantile, Abramowitz & Stegun table 26.1) at the ramp's contrast, while
+// the true ranking is unchanged and a contrast metric has no measured one.
+func TestRankMeasuredSignal(t *testing.T) {
+	args := append(append([]string(nil), rankArgs...), "--atoms", "100", "--cycle-s", "1")
+	rep := rankJSON(t, append(args, "--metric", "bias-spread")...)
+	if rep.MeasuredSignal == nil {
+		t.Fatal("no ranking of the measured signal")
+	}
+	byName := map[string]present.RampReport{}
+	for _, r := range rep.Ramps {
+		byName[r.Name] = r
+	}
+	for i, p := range rep.MeasuredSignal.Ranking {
+		r := byName[p.Name]
+		c := r.Summary.Contrast.Mean
+		want := 1.959964 / (c * 10)
+		if !(p.Lo <= want && want <= p.Hi) {
+			t.Errorf("%s: measured |bias| p95 %.4g in [%.4g, %.4g], want it to hold 1.96/(C sqrt(N)) = %.4g", p.Name, p.Value, p.Lo, p.Hi, want)
+		}
+		if p.Value <= rep.Ranking.Ranking[i].Value && p.Value <= r.AbsBiasP95Rad {
+			t.Errorf("%s: measured p95 %.3g not above the true %.3g", p.Name, p.Value, r.AbsBiasP95Rad)
+		}
+		if r.Summary.Measured == nil {
+			t.Errorf("%s: summary without the measured signal", p.Name)
+		}
+	}
+	if rep := rankJSON(t, args...); rep.MeasuredSignal != nil {
+		t.Error("a p05 ranking has a measured one")
+	}
+	stdout, stderr, code := execute(t, append(args, "--metric", "bias-spread")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for _, want := range []string{"By the true (simulated) signal:", "By the measured signal (projection noise of 100 atoms"} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("output lacks %q", want)
+		}
+	}
+}

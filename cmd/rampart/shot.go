@@ -104,7 +104,7 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 		return err
 	}
 	rep.SetGyro(g)
-	warnFirstOrder(stderr, fmt.Sprintf("scenario %q", sc.Name), run.Config, base)
+	model := warnFirstOrder(stderr, fmt.Sprintf("scenario %q", sc.Name), run.Config, base)
 	// The shot on the refined numerics tells how far the bias is resolved
 	// (and, with --check, whether the numerics meet their targets).
 	f, err := simulate(e, sc, sim.Refine(run.Config), nil)
@@ -112,6 +112,7 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 		return err
 	}
 	est := sim.CompareNumerics(run.Result, f.Result)
+	est.ModelBiasRad = model
 	rep.SetNumerics(est)
 	if o.check {
 		rep.Check = present.NewCheckReport(est)

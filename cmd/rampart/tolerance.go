@@ -22,6 +22,7 @@ type toleranceOptions struct {
 	sources   string
 	joint     bool
 	precision float64
+	readout   readoutOptions
 }
 
 // newToleranceCmd returns the command; run is what it runs with the parsed
@@ -43,6 +44,11 @@ The sources searched are those the budget switches on, or those listed by
 --sources (names as in the table, comma-separated, or all); a source the
 budget switches off starts from a reference amplitude typical of a good
 apparatus. --joint adds the factor by which the whole budget may be scaled.
+With a read-out (the scenario's [readout] or --atoms and --cycle-s) the
+sources include ` + mc.SourceDetection + `, the detection noise in atoms rms:
+the largest at which the measured signal (each bias with the projection
+noise of the read-out's atoms and the detection noise) still meets the spec;
+it runs the ensemble once and reads it out at each amplitude.
 
 The table gives each source's unit, its value in the budget, the tolerance,
 how the search ended (found; above-range: the spec holds up to the largest
@@ -65,7 +71,8 @@ as a job array (rampart sbatch).`,
 	confidenceFromSpec(cmd)
 	f := cmd.Flags()
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
-	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.SourceKeys(), ", ")+", or all (default: those the budget switches on)")
+	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.SourceKeys(), ", ")+", "+mc.SourceDetection+" (with a read-out), or all (default: those the budget switches on, and the detection noise with a read-out)")
+	addReadoutFlags(cmd, &o.readout)
 	f.BoolVar(&o.joint, "joint", false, "also search the factor by which the whole budget may be scaled")
 	f.Float64Var(&o.precision, "precision", 0.05, "relative precision `P` of each tolerance, in [0.001, 1]")
 	cmd.MarkFlagRequired("spec")
@@ -77,7 +84,7 @@ as a job array (rampart sbatch).`,
 // amplitude an ensemble of the options' size on common random numbers (one
 // noise grid sized for the widest search), kept in a subdirectory
 // SOURCE/AMPLITUDE of the options' directory if there is one.
-func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (present.ToleranceReport, present.Work, error) {
+func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64, ro mc.Readout) (present.ToleranceReport, present.Work, error) {
 	var work present.Work
 	if n := req.MinSamples(); o.samples < n {
 		return present.ToleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot pass the spec at %g %% confidence even if every one is far inside its limits (no exact bound on its quantiles or yield from so few); give at least %d",
@@ -89,6 +96,8 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		Options:      mc.ToleranceOptions{Precision: precision},
 		// The spread stays at most the start temperature, as the scenario's.
 		StartTemperatureK: cfg.TemperatureK,
+		// The detection axis reads the ensemble out with its own seed.
+		Readout: ro,
 	}
 	// The nominal shot's numerics are checked before the search starts.
 	nominal, err := mc.NewRealiser(mc.Ensemble{Config: cfg, Budget: budget, Samples: o.samples, Seed: o.seed, Sampler: o.sampler})
@@ -106,6 +115,9 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 	evaluator := func(name string) mc.Evaluator {
 		return func(ctx context.Context, b mc.Budget) ([]mc.Record, error) {
 			key := amplitudeKey(name, budget, b)
+			if name == mc.SourceDetection {
+				key = "nominal" // the one ensemble the detection axis reads out
+			}
 			ens := mc.Ensemble{Config: cfg, Budget: b, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactor: o.scaleFactor || req.NeedsScaleFactor()}
 			tag := toleranceTag{Source: name, Amplitude: key, Grid: grid.Apply(&ens)}
 			run, _, err := runPart(ctx, e, stderr, sc, ens, tag, o, filepath.Join(name, key), "tolerance "+name+" "+key)
@@ -156,19 +168,23 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 	if err != nil {
 		return err
 	}
-	names, err := toleranceSources(budget, o.sources)
+	ro, err := o.readout.of(sc)
+	if err != nil {
+		return err
+	}
+	names, err := toleranceSources(budget, o.sources, ro)
 	if err != nil {
 		return fmt.Errorf("scenario %q: %w", sc.Name, err)
 	}
 	if o.joint {
-		if active, _ := toleranceSources(budget, ""); len(active) == 0 {
+		if active, _ := toleranceSources(budget, "", mc.Readout{}); len(active) == 0 {
 			return fmt.Errorf("--joint: the budget of scenario %q has no active noise source to scale", sc.Name)
 		}
 		names = append(names, mc.SourceBudget)
 	}
 	ctx, stop := signalContext()
 	defer stop()
-	rep, work, err := searchTolerances(ctx, e, stderr, sc, cfg, budget, req, names, o.ens, o.precision)
+	rep, work, err := searchTolerances(ctx, e, stderr, sc, cfg, budget, req, names, o.ens, o.precision, ro)
 	if err != nil {
 		return err
 	}
@@ -202,26 +218,39 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 
 // toleranceSources returns the sources to search: those listed
 // (comma-separated, or "all"), or the sources b switches on.
-func toleranceSources(b mc.Budget, list string) ([]string, error) {
+func toleranceSources(b mc.Budget, list string, ro mc.Readout) ([]string, error) {
+	withDetection := func(names []string) []string {
+		if ro.Atoms > 0 {
+			names = append(names, mc.SourceDetection)
+		}
+		return names
+	}
 	if list == "all" {
-		return mc.SourceKeys(), nil
+		return withDetection(mc.SourceKeys()), nil
 	}
 	if list != "" {
 		var out []string
 		for _, name := range strings.Split(list, ",") {
 			name = strings.TrimSpace(name)
+			if name == mc.SourceDetection {
+				if ro.Atoms == 0 {
+					return nil, fmt.Errorf("--sources: %s needs a read-out: give the scenario a [readout] table or --atoms N and --cycle-s T", name)
+				}
+				out = append(out, name)
+				continue
+			}
 			if _, ok := mc.LookupSource(name); !ok {
 				hint := ""
 				if name == mc.SourceBudget {
 					hint = " (--joint searches the whole budget)"
 				}
-				return nil, fmt.Errorf("--sources: unknown noise source %q%s: want %s, or all", name, hint, strings.Join(mc.SourceKeys(), ", "))
+				return nil, fmt.Errorf("--sources: unknown noise source %q%s: want %s, %s (with a read-out), or all", name, hint, strings.Join(mc.SourceKeys(), ", "), mc.SourceDetection)
 			}
 			out = append(out, name)
 		}
 		return out, nil
 	}
-	out := mc.ActiveSources(b)
+	out := withDetection(mc.ActiveSources(b))
 	if len(out) == 0 {
 		return nil, fmt.Errorf("the noise budget has no active source: give --sources to search some from their reference amplitudes")
 	}

@@ -150,3 +150,52 @@ func TestToleranceBadInput(t *testing.T) {
 		{"too few to bound", append(skewArgs(spec), "--samples", "68", "--out", out), "give at least 69"},
 	})
 }
+
+// TestToleranceDetectionAxis checks the detection-noise axis end to end
+// against rampart qualify --signal measured on the same ensemble (the same
+// seed and read-out draws): at the tolerance the measured signal passes,
+// at 1.2 times it (beyond the 5 % precision) it does not. The closed form
+// of the axis is checked in mc (TestToleranceDetection). Here the contrast
+// is about 0.59 (a half lap of sin2 ramps), so 1e4 atoms give a projection
+// noise of about 0.017 rad alone. Without a read-out the axis is refused
+// with exit 2.
+func TestToleranceDetectionAxis(t *testing.T) {
+	dir := t.TempDir()
+	spec := writeSpec(t, dir, "det.toml", "[bias]\nabs_p95_max_rad = 0.05\n")
+	common := []string{"--scenario", ensembleScenario, "--spec", spec, "--samples", "500", "--seed", "2"}
+	readout := []string{"--atoms", "1e4", "--cycle-s", "1"}
+	args := append(append([]string{"tolerance", "--sources", "readout.detection_atoms", "--precision", "0.05"}, common...), readout...)
+	stdout, stderr, code := execute(t, append(args, "--json")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var rep struct {
+		Results []struct {
+			Unit, Status string
+			At           *struct{ Amplitude float64 }
+		}
+	}
+	if err := json.Unmarshal([]byte(stdout), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.Results) != 1 || rep.Results[0].At == nil || rep.Results[0].Unit != "atoms rms" || rep.Results[0].Status != "found" {
+		t.Fatalf("results %+v: want one found, in atoms rms", rep.Results)
+	}
+	tol := rep.Results[0].At.Amplitude
+	for _, tc := range []struct {
+		sigma float64
+		pass  bool
+	}{{tol, true}, {1.2 * tol, false}} {
+		q := append([]string{"qualify", "--signal", "measured", "--set", "readout.atoms=1e4", "--set", "readout.cycle_s=1",
+			"--set", "readout.detection_atoms=" + strconv.FormatFloat(tc.sigma, 'g', -1, 64)}, common...)
+		_, stderr, code := execute(t, q...)
+		if (code == 0) != tc.pass {
+			t.Errorf("qualify --signal measured at %.4g atoms rms (tolerance %.4g): exit %d, want pass %v: %s", tc.sigma, tol, code, tc.pass, stderr)
+		}
+	}
+	noReadout := append([]string{"tolerance", "--sources", "readout.detection_atoms"}, common...)
+	_, stderr, code = execute(t, noReadout...)
+	if code != 2 || !strings.Contains(stderr, "needs a read-out") {
+		t.Errorf("without a read-out: exit %d, %q; want 2 and a message", code, stderr)
+	}
+}

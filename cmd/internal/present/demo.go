@@ -3,6 +3,7 @@ package present
 import (
 	"fmt"
 	"io"
+	"math"
 	"strings"
 
 	"rampart/scenario"
@@ -35,8 +36,18 @@ func PrintRampComparison(w io.Writer, sc *scenario.Scenario, cfg sim.Config, nam
 	row("Ground band after ramp-up, arm s = -1", "", func(r ShotRun) string { return Fixed(r.Result.GroundAfterRampUp[1], 5) })
 	row("Interferometer phase arg z", "rad", func(r ShotRun) string { return Sci(r.Result.PhaseRad, 7) })
 	row("Sagnac phase", "rad", func(r ShotRun) string { return Sci(r.Result.SagnacRad, 7) })
-	row("Bias b = phase - Sagnac phase", "rad", func(r ShotRun) string { return Sci(r.Result.BiasRad, 3) })
-	row("Bias as a rotation rate b / K", "deg/h", func(r ShotRun) string { return Sci(r.Result.BiasDegPerH, 3) })
+	// The bias as rampart shot reports it: at zero rotation, with the
+	// shot's own scale factor (ShotReport.SetGyro).
+	bias := func(r ShotRun) float64 {
+		if r.Gyro != nil {
+			return r.Gyro.ZeroRateBiasRad
+		}
+		return math.NaN()
+	}
+	row("Bias at zero rotation b = phase - K_shot Omega", "rad", func(r ShotRun) string { return Sci(bias(r), 3) })
+	row("Bias as a rotation rate b / K", "deg/h", func(r ShotRun) string {
+		return Sci(sim.RadPerSToDegPerH(bias(r)/r.Result.ScaleFactorS), 3)
+	})
 	row("Peak speed max |Omega|", "rad/s", func(r ShotRun) string {
 		peak, _ := sim.PeakSpeed(r.Config.Sequence.Up)
 		return Sig(peak, 5)

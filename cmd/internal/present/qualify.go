@@ -15,6 +15,24 @@ type QualifyReport struct {
 	Spec    string     `json:"spec"`
 	Summary mc.Summary `json:"summary"`
 	Gyro    *mc.Gyro   `json:"gyro,omitempty"`
+	// MeasuredSignal is the qualification of the measured signal (each
+	// realisation's bias with the read-out's projection and detection
+	// noise, mc.Readout.MeasuredRecords); nil without a read-out. The
+	// embedded Qualification is that of the true, simulated signal.
+	MeasuredSignal *mc.Qualification `json:"measured_signal,omitempty"`
+	// Signal names the verdict that sets the exit code: "true" or
+	// "measured"; empty where no exit code depends on it (the demo).
+	Signal string `json:"signal,omitempty"`
+}
+
+// Gating returns the qualification whose verdict sets the exit code: the
+// measured signal's if Signal is "measured" and there is one, else the
+// true signal's.
+func (rep QualifyReport) Gating() mc.Qualification {
+	if rep.Signal == "measured" && rep.MeasuredSignal != nil {
+		return *rep.MeasuredSignal
+	}
+	return rep.Qualification
 }
 
 // Deciding lists the criteria behind an overall verdict other than pass:
@@ -67,8 +85,16 @@ func criterionFormat(c mc.Criterion) func(float64) string {
 }
 
 func PrintQualification(w io.Writer, rep QualifyReport) error {
-	if err := criteriaGrid(rep).Render(w); err != nil {
-		return err
+	for i, g := range criteriaGrids(rep) {
+		if rep.MeasuredSignal != nil {
+			if i > 0 {
+				fmt.Fprintln(w)
+			}
+			fmt.Fprintln(w, "Against the "+strings.TrimPrefix(g.caption, "The criteria of spec "+rep.Spec+" against the ")+":")
+		}
+		if err := g.Render(w); err != nil {
+			return err
+		}
 	}
 	for _, line := range criteriaNotes(rep) {
 		fmt.Fprintln(w, line)
@@ -81,16 +107,61 @@ func PrintQualification(w io.Writer, rep QualifyReport) error {
 		fmt.Fprintln(w, NoReadout)
 	}
 	fmt.Fprintln(w)
-	fmt.Fprintln(w, verdictLine(rep.Qualification))
+	for _, line := range verdictLines(rep) {
+		fmt.Fprintln(w, line)
+	}
 	return nil
 }
 
-// criteriaGrid returns the table of a qualification's criteria.
-func criteriaGrid(rep QualifyReport) *Grid {
-	q, s := rep.Qualification, rep.Summary
+// criteriaGrids returns the criteria table of the true signal and, with a
+// read-out, that of the measured signal, each labelled.
+func criteriaGrids(rep QualifyReport) []*Grid {
+	if rep.MeasuredSignal == nil {
+		return []*Grid{criteriaGrid(rep.Qualification, rep.Summary, "The criteria of spec "+rep.Spec+" against the ensemble")}
+	}
+	return []*Grid{
+		criteriaGrid(rep.Qualification, rep.Summary, "The criteria of spec "+rep.Spec+" against the true (simulated) signal"),
+		criteriaGrid(*rep.MeasuredSignal, rep.Summary, "The criteria of spec "+rep.Spec+" against the measured signal ("+readoutNoise(rep.Summary.Measured)+")"),
+	}
+}
+
+// readoutNoise describes the read-out noise of the measured signal.
+func readoutNoise(m *mc.Measured) string {
+	if m == nil {
+		return "read-out noise"
+	}
+	s := "projection noise of " + Sig(m.Atoms, 6) + " atoms"
+	if m.DetectionAtoms > 0 {
+		s += ", detection noise " + Sig(m.DetectionAtoms, 6) + " atoms rms"
+	}
+	return s
+}
+
+// verdictLines state the verdict, and with a read-out both verdicts, each
+// labelled, with the one that sets the exit code named.
+func verdictLines(rep QualifyReport) []string {
+	if rep.MeasuredSignal == nil {
+		return []string{verdictLine(rep.Qualification)}
+	}
+	gate := func(s string) string {
+		if rep.Signal == s {
+			return " (sets the exit code)"
+		}
+		return ""
+	}
+	return []string{
+		"True signal" + gate("true") + ": " + verdictLine(rep.Qualification),
+		"Measured signal" + gate("measured") + ": " + verdictLine(*rep.MeasuredSignal),
+	}
+}
+
+// criteriaGrid returns the table of a qualification's criteria, titled.
+// Its "Value" is the statistic of the ensemble (not the measured signal,
+// which has its own table).
+func criteriaGrid(q mc.Qualification, s mc.Summary, title string) *Grid {
 	conf := Sig(100*q.LookConfidence, 4) + " %"
-	t := NewGrid("The criteria of spec "+rep.Spec+" against the ensemble", "Criterion", "Limit", "Unit", "Measured",
-		"Lower bound ("+conf+" one-sided)", "Upper bound ("+conf+" one-sided)", "Margin", "Verdict", "To decide", "Measured (deg/h)")
+	t := NewGrid(title, "Criterion", "Limit", "Unit", "Value",
+		"Lower bound ("+conf+" one-sided)", "Upper bound ("+conf+" one-sided)", "Margin", "Verdict", "To decide", "Value (deg/h)")
 	for _, c := range q.Criteria {
 		f := criterionFormat(c)
 		limit := "<= " + f(c.Limit)
@@ -141,14 +212,18 @@ func verdictLine(q mc.Qualification) string {
 // the criteria table and the gyroscope figures; the ensemble's own section
 // is the caller's to add.
 func QualifySection(q QualifyReport) (report.Section, error) {
-	text := append([]string{verdictLine(q.Qualification)}, criteriaNotes(q)...)
+	text := append(verdictLines(q), criteriaNotes(q)...)
 	if q.Gyro == nil {
 		text = append(text, NoReadout)
+	}
+	var tables []report.Table
+	for _, g := range criteriaGrids(q) {
+		tables = append(tables, g.Table())
 	}
 	return report.Section{
 		Heading: "Qualification against " + q.Spec,
 		Text:    strings.Join(text, "\n\n"),
-		Tables:  []report.Table{criteriaGrid(q).Table(), GyroGrid(q.Summary, q.Gyro).Table()},
+		Tables:  append(tables, GyroGrid(q.Summary, q.Gyro).Table()),
 	}, nil
 }
 

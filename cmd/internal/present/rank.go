@@ -19,6 +19,42 @@ import (
 type RankReport struct {
 	mc.Ranking
 	Ramps []RampReport `json:"ramps"`
+	// MeasuredSignal ranks the ramps by the measured signal (each bias with
+	// the read-out's projection and detection noise,
+	// mc.Readout.MeasuredRecords), for a metric of the bias (bias-spread,
+	// or a yield with a bias limit) and with a read-out; nil otherwise.
+	// The embedded Ranking is that of the true, simulated signal.
+	MeasuredSignal *mc.Ranking `json:"measured_signal,omitempty"`
+}
+
+// PrintRanking writes the ranking table with its notes and, when the
+// ranking has one, the ranking by the measured signal, each labelled.
+func PrintRanking(w io.Writer, rep RankReport) error {
+	if rep.MeasuredSignal != nil {
+		fmt.Fprintln(w, "By the true (simulated) signal:")
+	}
+	if err := RankingGrid(rep).RenderNoted(w, RankingNotes(rep)); err != nil {
+		return err
+	}
+	if g := MeasuredRankingGrid(rep); g != nil {
+		fmt.Fprintln(w)
+		fmt.Fprintln(w, "By the measured signal ("+readoutNoise(rep.Ramps[0].Summary.Measured)+"; the context columns are the true signal's):")
+		return g.Render(w)
+	}
+	return nil
+}
+
+// MeasuredRankingGrid returns the table of the ranking by the measured
+// signal, nil without one.
+func MeasuredRankingGrid(rep RankReport) *Grid {
+	if rep.MeasuredSignal == nil {
+		return nil
+	}
+	m := rep
+	m.Ranking = *rep.MeasuredSignal
+	g := RankingGrid(m)
+	g.caption = strings.Replace(g.caption, ", best first", " of the measured signal, best first", 1)
+	return g
 }
 
 // RampReport is one ramp's ensemble in a ranking.
@@ -160,7 +196,7 @@ func RankSections(rep RankReport, cfgs []NamedConfig, recs map[string][]mc.Recor
 	out := []report.Section{{
 		Heading: "Ranking",
 		Text:    strings.Join(RankingNotes(rep), "\n\n"),
-		Tables:  []report.Table{RankingGrid(rep).Table()},
+		Tables:  rankingTables(rep),
 		Figures: figs,
 	}}
 	byName := map[string]RampReport{}
@@ -202,4 +238,14 @@ var metricLabels = map[string]string{
 	mc.MetricMean:       "Mean contrast",
 	mc.MetricYield:      "Yield",
 	mc.MetricBiasSpread: "|bias| p95 (rad)",
+}
+
+// rankingTables returns the ranking's report tables: the true signal's
+// and, with one, the measured signal's.
+func rankingTables(rep RankReport) []report.Table {
+	out := []report.Table{RankingGrid(rep).Table()}
+	if g := MeasuredRankingGrid(rep); g != nil {
+		out = append(out, g.Table())
+	}
+	return out
 }

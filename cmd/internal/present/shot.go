@@ -99,6 +99,9 @@ type ShotRun struct {
 	Config  sim.Config // with the numerics in use filled in
 	Result  sim.Result
 	Elapsed time.Duration
+	// Gyro is the shot's zero-rate bias and own scale factor
+	// (sim.Simulator.Gyro), nil if not measured.
+	Gyro *sim.Gyro
 }
 
 // ShotReport is the output of `rampart shot`, the object --json prints.
@@ -286,6 +289,9 @@ func (rep *ShotReport) Print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	}
 	if rep.BiasBelowResolution {
 		fmt.Fprintln(w, "\n"+ResolutionNote("the bias at zero rotation", rep.BiasRad, rep.Numerics))
+	}
+	if est := rep.Numerics; est != nil && est.ModelBiasRad > 0 {
+		fmt.Fprintf(w, "\nNote: the ring's tilt is applied at first order along the adiabatic path, which leaves out a bias of order %s rad for packets the ramps excite (docs/model.md, Perturbations): the bias carries this model error beside the numerical one.\n", Sci(est.ModelBiasRad, 1))
 	}
 	if sc.Noise != (scenario.Noise{}) || len(sc.SourceNoise) > 0 {
 		fmt.Fprintln(w, "\nNote: the scenario's [noise.*] tables describe an ensemble; this shot is noise-free.")

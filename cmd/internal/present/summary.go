@@ -214,9 +214,14 @@ func NumericsLine(est *sim.ErrorEstimate) string {
 	if est == nil {
 		return "Numerics: not checked"
 	}
-	return fmt.Sprintf("Numerics: grid %d, step %s us; estimated error (against grid %d, step %s us) contrast %s, phase %s rad (targets %s, %s rad)",
+	line := fmt.Sprintf("Numerics: grid %d, step %s us; estimated error (against grid %d, step %s us) contrast %s, phase %s rad (targets %s, %s rad)",
 		est.Grid, Sig(est.StepS*1e6, 4), est.RefinedGrid, Sig(est.RefinedStepS*1e6, 4),
 		Sci(est.ContrastError, 2), Sci(est.PhaseErrorRad, 2), Sci(est.ContrastTarget, 1), Sci(est.PhaseTargetRad, 1))
+	if est.ModelBiasRad > 0 {
+		// docs/model.md, Perturbations: the first-order tilt.
+		line += fmt.Sprintf("; first-order tilt model: bias left out of order %s rad", Sci(est.ModelBiasRad, 1))
+	}
+	return line
 }
 
 // RampNumericsLines is NumericsLine for each ramp of a ranking, named.
@@ -233,10 +238,7 @@ func RampNumericsLines(rep RankReport) []string {
 // figures) beside the true, simulated one.
 func measuredGrid(s mc.Summary, m *mc.Measured, conf string) *Grid {
 	b3 := func(x float64) string { return Sci(x, 3) }
-	noise := "projection noise of " + Sig(m.Atoms, 6) + " atoms"
-	if m.DetectionAtoms > 0 {
-		noise += ", detection noise " + Sig(m.DetectionAtoms, 6) + " atoms rms"
-	}
+	noise := readoutNoise(m)
 	g := NewGrid("The measured signal: the true (simulated) bias read out with "+noise,
 		"Read-out: "+noise, "True", "Measured", conf+" (measured)", "Unit")
 	g.Append("bias std", b3(s.BiasRad.Std), b3(m.BiasRad.Std), ciCell(m.BiasRad, "std", b3), "rad")
