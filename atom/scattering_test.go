@@ -113,3 +113,119 @@ func TestCheckWavelength(t *testing.T) {
 		}
 	}
 }
+
+// TestStateScatteringAgainstOscillator checks the spin-dependent light
+// shift and scattering per depth of each state in circularly polarised
+// light against testdata/reference/scattering.py's damped-oscillator sum
+// with the line shares of Grimm et al. 2000, eq. (20) (numpy, complex
+// arithmetic; the far-detuned expansion here agrees to order Gamma/Delta).
+func TestStateScatteringAgainstOscillator(t *testing.T) {
+	buf, err := os.ReadFile("../testdata/reference/scattering.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		Polarised []struct {
+			Nm        float64 `json:"wavelength_nm"`
+			P         float64 `json:"polarisation"`
+			F, M      int
+			Potential float64 `json:"potential_j_per_w_m2"`
+			PerDepth  float64 `json:"scattering_per_depth_hz"`
+		} `json:"polarised"`
+	}
+	if err := json.Unmarshal(buf, &ref); err != nil {
+		t.Fatal(err)
+	}
+	if len(ref.Polarised) < 100 {
+		t.Fatalf("only %d polarised reference rows", len(ref.Polarised))
+	}
+	// Relative 1e-6, as for linear light; rows where U nearly cancels
+	// (a state's tune-out) lose digits to the difference of the two lines
+	// and get 1e-4 (the worst row here is 4 % of the scale of the shift).
+	for _, r := range ref.Polarised {
+		l := Light{WavelengthM: r.Nm * 1e-9, Polarisation: r.P}
+		s := State{F: r.F, M: r.M}
+		u := StatePotential(l, s)
+		got, err := StateScatteringPerDepth(l, s)
+		if err != nil {
+			t.Errorf("%v at %g nm, P = %g: %v", s, r.Nm, r.P, err)
+			continue
+		}
+		tol := 1e-6
+		if math.Abs(u) < 0.1*scaleOfShift(l.WavelengthM) {
+			tol = 1e-4
+		}
+		if math.Abs(u/r.Potential-1) > tol || math.Abs(got/r.PerDepth-1) > tol {
+			t.Errorf("%v at %g nm, P = %g: U = %.8g (want %.8g), rate/depth = %.8g (want %.8g), tol %g",
+				s, r.Nm, r.P, u, r.Potential, got, r.PerDepth, tol)
+		}
+	}
+}
+
+// TestStateSharesLimits checks the shares' limits of Grimm et al. 2000,
+// eq. (20): linear light gives every state the linear result, and sigma+
+// light on |2,2> leaves only the D2 line (the stretched state has no
+// sigma+ transition on D1: angular momentum, common practice).
+func TestStateSharesLimits(t *testing.T) {
+	l := 785e-9
+	for _, s := range []State{{1, -1}, {1, 0}, {2, -2}, {2, 2}} {
+		got, err := StateScatteringPerDepth(Light{WavelengthM: l}, s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want := ScatteringPerDepth(l); got != want {
+			t.Errorf("%v, linear light: %g, want the linear %g", s, got, want)
+		}
+	}
+	sh := stateShares(Light{WavelengthM: l, Polarisation: 1}, State{2, 2})
+	if sh[0] != 0 || sh[1] != 1 {
+		t.Errorf("sigma+ on |2,2>: shares %v, want D1 0 and D2 1", sh)
+	}
+	// sigma- on |2,2> and sigma+ on |2,-2> are the same coupling.
+	a, _ := StateScatteringPerDepth(Light{WavelengthM: l, Polarisation: -1}, State{2, 2})
+	b, _ := StateScatteringPerDepth(Light{WavelengthM: l, Polarisation: 1}, State{2, -2})
+	if a != b {
+		t.Errorf("sigma- on |2,2> %g differs from sigma+ on |2,-2> %g", a, b)
+	}
+}
+
+func TestStateScatteringRefusals(t *testing.T) {
+	for _, c := range []struct {
+		l Light
+		s State
+	}{
+		{Light{780.5e-9, 0}, State{2, 2}}, // at the D2 line
+		{Light{785e-9, 1.5}, State{2, 2}}, // polarisation out of range
+		{Light{785e-9, 0}, State{3, 0}},   // not a ground state
+		{Light{785e-9, math.NaN()}, State{1, 0}},
+	} {
+		if _, err := StateScatteringPerDepth(c.l, c.s); err == nil {
+			t.Errorf("%+v %v: accepted", c.l, c.s)
+		}
+	}
+	// A state's own tune-out: sigma+ on |2,2> sees D2 only, so it has
+	// none between the lines; sigma- on |2,2> has shares 2/3 (D1) and 1/3
+	// (D2), whose zero lies between the lines (attractive red of D2 at
+	// 782 nm, repulsive blue of D1 at 793 nm). Bisect for it and check
+	// the refusal there.
+	l := Light{Polarisation: -1}
+	lo, hi := 782e-9, 793e-9
+	s := State{2, 2}
+	if !(StatePotential(Light{lo, -1}, s) < 0 && StatePotential(Light{hi, -1}, s) > 0) {
+		t.Fatal("sigma- on |2,2>: no sign change of U between 782 and 793 nm")
+	}
+	for range 200 {
+		l.WavelengthM = (lo + hi) / 2
+		if StatePotential(l, s) < 0 {
+			lo = l.WavelengthM
+		} else {
+			hi = l.WavelengthM
+		}
+	}
+	if l.WavelengthM < 783e-9 || l.WavelengthM > 792e-9 {
+		t.Fatalf("bisection ended at %.4f nm, not between the lines", l.WavelengthM*1e9)
+	}
+	if _, err := StateScatteringPerDepth(l, s); err == nil {
+		t.Errorf("sigma- on |2,2> at its tune-out %.6f nm: accepted", l.WavelengthM*1e9)
+	}
+}

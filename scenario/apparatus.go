@@ -36,16 +36,46 @@ func (s *Scenario) Zeeman() (sim.Zeeman, error) {
 }
 
 // ScatteringRates returns each arm's photon scattering rate at the lattice
-// depth, 1/s: from lattice.wavelength_nm, V0/h atom.ScatteringPerDepth
-// (Grimm et al. 2000, both D lines, linear polarisation, the same for both
-// arms), or the rates the file gives.
+// depth, 1/s: from lattice.wavelength_nm, V0/h times the scattering per
+// unit depth (Grimm et al. 2000, both D lines with their counter-rotating
+// terms): with linear light the same for both arms; with a spin pair and
+// the polarisation of each arm's light, each arm's state with its own line
+// shares (atom.StateScatteringPerDepth; the F = 2 state rides the arm
+// s = +1). Otherwise the rates the file gives. The decoder has checked
+// that the states are not at a tune-out, so the rates are finite.
 func (s *Scenario) ScatteringRates() [2]float64 {
 	l := s.Lattice
-	if l.WavelengthNM > 0 {
+	if l.WavelengthNM <= 0 {
+		return [2]float64{l.ScatteringPlusPerS, l.ScatteringMinusPerS}
+	}
+	states, ok := s.armStates()
+	if !ok {
 		r := atom.ScatteringPerDepth(l.WavelengthNM*1e-9) * l.DepthKHz * 1e3
 		return [2]float64{r, r}
 	}
-	return [2]float64{l.ScatteringPlusPerS, l.ScatteringMinusPerS}
+	var rates [2]float64
+	for a, p := range [2]float64{l.PolarisationPlus, l.PolarisationMinus} {
+		r, err := atom.StateScatteringPerDepth(atom.Light{WavelengthM: l.WavelengthNM * 1e-9, Polarisation: p}, states[a])
+		if err != nil {
+			return [2]float64{math.NaN(), math.NaN()}
+		}
+		rates[a] = r * l.DepthKHz * 1e3
+	}
+	return rates
+}
+
+// armStates returns the states of the arms s = +1 and s = -1 from the spin
+// pair preset (the F = 2 state in the arm s = +1, docs/model.md,
+// Perturbations), and false without a preset.
+func (s *Scenario) armStates() ([2]atom.State, bool) {
+	if s.Atom.SpinPair == "" {
+		return [2]atom.State{}, false
+	}
+	p, err := atom.LookupPreset(s.Atom.SpinPair)
+	if err != nil {
+		return [2]atom.State{}, false
+	}
+	return [2]atom.State{p.Pair.Upper, p.Pair.Lower}, true
 }
 
 // Apparatus returns the shot the scenario's apparatus makes without noise
@@ -133,6 +163,19 @@ func (d *decoder) checkApparatus() error {
 		}
 		if err := atom.CheckWavelength(l.WavelengthNM * 1e-9); err != nil {
 			return d.fail("lattice.wavelength_nm", err)
+		}
+	}
+	for a, k := range []string{"lattice.polarisation_plus", "lattice.polarisation_minus"} {
+		p := [2]float64{s.Lattice.PolarisationPlus, s.Lattice.PolarisationMinus}[a]
+		if p == 0 {
+			continue
+		}
+		if s.Lattice.WavelengthNM <= 0 || s.Atom.SpinPair == "" {
+			return d.fail(k, fmt.Errorf("%s = %g needs lattice.wavelength_nm and atom.spin_pair: the polarisation sets the scattering of the arm's state in the lattice light (presets: %v)", k, p, presetKeys()))
+		}
+		states, _ := s.armStates()
+		if _, err := atom.StateScatteringPerDepth(atom.Light{WavelengthM: s.Lattice.WavelengthNM * 1e-9, Polarisation: p}, states[a]); err != nil {
+			return d.fail(k, err)
 		}
 	}
 	// A harmonic is on when its order and amplitude are both non-zero; a

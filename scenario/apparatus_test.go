@@ -1,7 +1,9 @@
 package scenario
 
 import (
+	"encoding/json"
 	"math"
+	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -80,6 +82,59 @@ func TestApparatusScattering(t *testing.T) {
 	}
 }
 
+// TestApparatusPolarisedScattering: with a spin pair and each arm's
+// polarisation, each arm scatters at its state's own rate per unit depth,
+// checked against the damped-oscillator rows of
+// testdata/reference/scattering.py (numpy; line shares of Grimm et al.
+// 2000, eq. (20)) for sigma- on |2,-2> (arm s = +1) and sigma+ on |1,-1>
+// (arm s = -1) at 785 nm; relative 1e-6 as in the atom package.
+func TestApparatusPolarisedScattering(t *testing.T) {
+	buf, err := os.ReadFile("../testdata/reference/scattering.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		Polarised []struct {
+			Nm       float64 `json:"wavelength_nm"`
+			P        float64 `json:"polarisation"`
+			F, M     int
+			PerDepth float64 `json:"scattering_per_depth_hz"`
+		} `json:"polarised"`
+	}
+	if err := json.Unmarshal(buf, &ref); err != nil {
+		t.Fatal(err)
+	}
+	row := func(p float64, f, m int) float64 {
+		for _, r := range ref.Polarised {
+			if r.Nm == 785 && r.P == p && r.F == f && r.M == m {
+				return r.PerDepth
+			}
+		}
+		t.Fatalf("no reference row for 785 nm, P = %g, |%d,%d>", p, f, m)
+		return 0
+	}
+	s := withSets(t, "atom.spin_pair=rb87-stretched", "lattice.wavelength_nm=785", "lattice.depth_khz=20",
+		"lattice.polarisation_plus=-1", "lattice.polarisation_minus=1")
+	sh, err := s.Apparatus()
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := [2]float64{row(-1, 2, -2) * 20e3, row(1, 1, -1) * 20e3}
+	for a := range want {
+		if got := sh.Scattering.RateS[a]; math.Abs(got/want[a]-1) > 1e-6 {
+			t.Errorf("arm %d: %g /s, want %g /s", a, got, want[a])
+		}
+	}
+	// sigma- on |2,-2> couples to D2 alone, so it scatters less per unit
+	// depth than linear light at 785 nm (D1 lies blue of the light and
+	// takes depth away from D2's): 0.32/s against 0.47/s.
+	lin := withSets(t, "atom.spin_pair=rb87-stretched", "lattice.wavelength_nm=785", "lattice.depth_khz=20")
+	shl, _ := lin.Apparatus()
+	if !(sh.Scattering.RateS[0] < shl.Scattering.RateS[0]) {
+		t.Errorf("sigma- on |2,-2>: %g /s, not below linear light's %g /s", sh.Scattering.RateS[0], shl.Scattering.RateS[0])
+	}
+}
+
 // TestApparatusRing: tilt, lowest point, harmonic and radius error in
 // their file units reach the shot in SI (mrad, degrees, ppm).
 func TestApparatusRing(t *testing.T) {
@@ -126,6 +181,9 @@ func TestApparatusBad(t *testing.T) {
 		{[]string{"ring.harmonic_rel=1e-3"}, "ring.harmonic_rel", "needs ring.harmonic_order"},
 		{[]string{"ring.harmonic_order=2", "ring.harmonic_rel=0.02"}, "ring.harmonic_rel", "from -0.01 to 0.01"},
 		{[]string{"noise.ring.tilt_mrad=-1"}, "noise.ring.tilt_mrad", ">= 0"},
+		{[]string{"lattice.wavelength_nm=785", "lattice.polarisation_plus=1"}, "lattice.polarisation_plus", "needs lattice.wavelength_nm and atom.spin_pair"},
+		{[]string{"atom.spin_pair=rb87-stretched", "lattice.polarisation_minus=0.5"}, "lattice.polarisation_minus", "needs lattice.wavelength_nm"},
+		{[]string{"atom.spin_pair=rb87-stretched", "lattice.wavelength_nm=785", "lattice.polarisation_plus=1.5"}, "lattice.polarisation_plus", "from -1 to 1"},
 	} {
 		_, err := parse(fstest.MapFS{}, "s.toml", []byte(minimal), row.sets)
 		if err == nil {

@@ -87,6 +87,11 @@ type Lattice struct {
 	WavelengthNM        float64 `json:",omitempty"`
 	ScatteringPlusPerS  float64 `json:",omitempty"`
 	ScatteringMinusPerS float64 `json:",omitempty"`
+	// The degree of circular polarisation of the light that carries each
+	// arm (0 linear, +1 sigma+, -1 sigma-): with the spin pair it sets
+	// each arm's line shares and so its own scattering per unit depth.
+	PolarisationPlus  float64 `json:",omitempty"`
+	PolarisationMinus float64 `json:",omitempty"`
 }
 
 // Motion is the [motion] table.

@@ -34,10 +34,12 @@ M = 86.909180520 * 1.66053906660e-27
 LINES = [(377.107463380e12, 1 / 27.679e-9, 1 / 3), (384.2304844685e12, 1 / 26.2348e-9, 2 / 3)]
 
 
-def alpha(lam):
+def alpha(lam, shares=None):
     w = 2 * np.pi * C / lam
     a = 0j
-    for nu, gam, share in LINES:
+    for i, (nu, gam, share) in enumerate(LINES):
+        if shares is not None:
+            share = shares[i]
         w0 = 2 * np.pi * nu
         a += share * 6 * np.pi * EPS0 * C**3 * (gam / w0**2) / (w0**2 - w**2 - 1j * (w**3 / w0**2) * gam)
     return a
@@ -58,11 +60,30 @@ for nm in [532.0, 770.0, 775.0, 785.0, 787.0, 789.0, 790.0, 791.0, 793.0, 800.0,
         "rate_at_20_recoils_per_s": g / abs(u / H) * 20 * er,
     })
 
+# A spin-dependent lattice: light of circular polarisation P on a state
+# with g_F m_F = gm has the line shares (1 - P gm)/3 (D1) and (2 + P gm)/3
+# (D2) (Grimm et al. 2000, eq. (20)); g_F = +1/2 for F = 2, -1/2 for F = 1.
+polarised = []
+for nm in [785.0, 787.0, 789.0, 791.0, 800.0, 1064.0]:
+    for p in [1.0, -1.0, 0.5]:
+        for f, m in [(1, -1), (1, 1), (1, 0), (2, -2), (2, 2), (2, 1)]:
+            gm = (0.5 if f == 2 else -0.5) * m
+            lam = nm * 1e-9
+            a = alpha(lam, [(1 - p * gm) / 3, (2 + p * gm) / 3])
+            u = -a.real / (2 * EPS0 * C)
+            g = a.imag / (HBAR * EPS0 * C)
+            polarised.append({
+                "wavelength_nm": nm, "polarisation": p, "f": f, "m": m,
+                "potential_j_per_w_m2": u,
+                "scattering_per_depth_hz": g / abs(u / H),
+            })
+
 out = {
     "generator": "testdata/reference/scattering.py",
     "numpy": np.__version__,
     "python": platform.python_version(),
     "rows": rows,
+    "polarised": polarised,
 }
 with open(os.path.join(os.path.dirname(os.path.abspath(__file__)), "scattering.json"), "w") as fh:
     json.dump(out, fh, indent=1)
