@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sync"
 	"time"
 )
 
@@ -123,6 +124,23 @@ type Simulator struct {
 	// constant stretches too (the fine-step reference of the tests).
 	splitOnly bool
 	splitStep float64
+	// work pools the two arms' propagators (*[2]*propagator), whose
+	// scratch and tables a shot reuses; copies of the simulator share it.
+	work *sync.Pool
+}
+
+// propagators returns a pair of propagators for the two arms of a shot,
+// sharing their kinetic tables; the caller puts it back into s.work.
+func (s *Simulator) propagators() *[2]*propagator {
+	if v, ok := s.work.Get().(*[2]*propagator); ok {
+		return v
+	}
+	v0 := 2 * math.Pi * s.cfg.DepthHz
+	kin := newKineticCache(s.basis)
+	return &[2]*propagator{
+		newSharedPropagator(s.basis, s.cfg.Ring, v0, s.lev, kin),
+		newSharedPropagator(s.basis, s.cfg.Ring, v0, s.lev, kin),
+	}
 }
 
 // MaxRampSteps bounds the split steps of a shot's two ramps: at about a
@@ -166,7 +184,7 @@ func NewSimulator(cfg Config) (*Simulator, error) {
 	if lev > b.Block {
 		lev = b.Block
 	}
-	return &Simulator{cfg: cfg, basis: b, step: step, lev: lev}, nil
+	return &Simulator{cfg: cfg, basis: b, step: step, lev: lev, work: new(sync.Pool)}, nil
 }
 
 // Config returns the configuration with the numerics in use filled in.
@@ -230,12 +248,14 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	}
 	var res Result
 	var fields [2]*field
+	props := s.propagators()
+	defer s.work.Put(props)
 	for a, d := range drives {
 		f := newField(b, lev)
 		for n, st := range starts {
 			f.set(n, st)
 		}
-		p := newPropagator(b, cfg.Ring, v0, lev)
+		p := props[a]
 		tm := d.times()
 		var rest *eigensystem // of the lattice at rest, diagonalised if a rest stretch needs it
 		stretch := func(w, t0, t1 float64, es *eigensystem) *eigensystem {

@@ -29,31 +29,27 @@ type propagator struct {
 	rot float64 // E_rot/hbar, rad/s
 	v0  float64 // V0/hbar of this arm at g = 1, rad/s
 
-	u   []float64 // DST-I matrix, K x K, symmetric and its own inverse
-	lam []float64 // eigenvalues of the unit-depth block lattice, rad/s per (rad/s of v0)
+	*sineBasis // the DST-I of the block, shared by every propagator of the block size
 
 	scheme scheme
 
-	kinTabs [][]complex128 // exp(-i rot l^2 h) for the durations in kinHs
-	kinHs   []float64
-	s, d    []float64 // scratch: even and odd halves, K/2 x 2W
-	y       []float64 // scratch: K x 2W
+	kin  *kineticCache // exp(-i rot l^2 h), shareable by the propagators of one goroutine
+	lat  latticeCache  // exp(-i g v0 lam dt) for the last few g dt
+	s, d []float64     // scratch: even and odd halves, K/2 x 2W
+	y    []float64     // scratch: K x 2W
 }
 
 func newPropagator(b Basis, r Ring, v0 float64, levels int) *propagator {
+	return newSharedPropagator(b, r, v0, levels, newKineticCache(b))
+}
+
+// newSharedPropagator is newPropagator with the kinetic tables of kin,
+// which propagators of the same basis and ring used by one goroutine (the
+// two arms of a shot) share.
+func newSharedPropagator(b Basis, r Ring, v0 float64, levels int, kin *kineticCache) *propagator {
 	k := b.Block
-	p := &propagator{b: b, rot: r.rotationalRate(), v0: v0, scheme: defaultScheme}
-	p.u = make([]float64, k*k)
-	p.lam = make([]float64, k)
-	norm := math.Sqrt(2 / float64(k+1))
-	for j := range k {
-		for m := range k {
-			p.u[j*k+m] = norm * math.Sin(math.Pi*float64((j+1)*(m+1))/float64(k+1))
-		}
-	}
-	for m := range k {
-		p.lam[m] = -0.5 - 0.5*math.Cos(math.Pi*float64(m+1)/float64(k+1))
-	}
+	p := &propagator{b: b, rot: r.rotationalRate(), v0: v0, scheme: defaultScheme, kin: kin}
+	p.sineBasis = sineBasisOf(k)
 	cols := 2 * b.Sites * levels
 	p.s = make([]float64, k/2*cols)
 	p.d = make([]float64, k/2*cols)
@@ -112,14 +108,15 @@ func (p *propagator) latticeStep(f *field, g, dt float64) {
 	w := f.width()
 	cols := 2 * w
 	p.sine(f.x, cols)
+	cs, sn := p.lat.phases(p, g, dt)
 	for m := range p.b.Block {
-		sn, cs := math.Sincos(-g * p.v0 * p.lam[m] * dt)
+		c, s := cs[m], sn[m]
 		row := p.y[m*cols : (m+1)*cols]
 		re, im := row[:w], row[w:cols]
 		for q := range re {
 			a, b := re[q], im[q]
-			re[q] = cs*a - sn*b
-			im[q] = sn*a + cs*b
+			re[q] = c*a - s*b
+			im[q] = s*a + c*b
 		}
 	}
 	p.sine(p.y, cols)
@@ -160,22 +157,7 @@ func (p *propagator) diagonalPhase(f *field, tab []complex128, da float64) {
 // kineticTable returns exp(-i rot l^2 h) for every l, cached for the few
 // durations a scheme uses.
 func (p *propagator) kineticTable(h float64) []complex128 {
-	for i, x := range p.kinHs {
-		if x == h {
-			return p.kinTabs[i]
-		}
-	}
-	tab := make([]complex128, p.b.Size())
-	for i := range tab {
-		l := float64(p.b.LMin() + i)
-		tab[i] = cis(-p.rot * l * l * h)
-	}
-	if len(p.kinHs) >= 8 {
-		p.kinHs, p.kinTabs = p.kinHs[1:], p.kinTabs[1:]
-	}
-	p.kinHs = append(p.kinHs, h)
-	p.kinTabs = append(p.kinTabs, tab)
-	return tab
+	return p.kin.table(p.b, p.rot, h)
 }
 
 // motion is what the propagator needs to know of an arm: the lattice angle
