@@ -2,6 +2,8 @@ package sim
 
 import (
 	"math"
+
+	"rampart/internal/kernel"
 )
 
 // propagator advances the states of one arm in the frame co-moving with
@@ -57,49 +59,21 @@ func newSharedPropagator(b Basis, r Ring, v0 float64, levels int, kin *kineticCa
 	return p
 }
 
-// sine applies the DST-I matrix to every column of f.x, leaving the result
+// sine applies the DST-I matrix to every column of x, leaving the result
 // in p.y. Rows j and K-1-j of the matrix agree up to the sign (-1)^m, so
-// the sums over j fold into K/2 terms on the even and odd combinations.
+// the sums over j fold into K/2 terms on the even and odd combinations,
+// each output row a combination of the folded rows (kernel.Combine).
 func (p *propagator) sine(x []float64, cols int) {
 	k, h := p.b.Block, p.b.Block/2
 	for j := range h {
-		a := x[j*cols : (j+1)*cols]
-		b := x[(k-1-j)*cols : (k-j)*cols]
-		s := p.s[j*cols : (j+1)*cols]
-		d := p.d[j*cols : (j+1)*cols]
-		for q := range a {
-			s[q] = a[q] + b[q]
-			d[q] = a[q] - b[q]
-		}
+		kernel.Fold(p.s[j*cols:(j+1)*cols], p.d[j*cols:(j+1)*cols], x[j*cols:(j+1)*cols], x[(k-1-j)*cols:(k-j)*cols])
 	}
 	for m := range k {
 		src := p.s
 		if m%2 == 1 {
 			src = p.d
 		}
-		y := p.y[m*cols : (m+1)*cols]
-		clear(y)
-		j := 0
-		for ; j+4 <= h; j += 4 {
-			c0, c1, c2, c3 := p.u[j*k+m], p.u[(j+1)*k+m], p.u[(j+2)*k+m], p.u[(j+3)*k+m]
-			r0 := src[j*cols : (j+1)*cols]
-			r1 := src[(j+1)*cols : (j+2)*cols]
-			r2 := src[(j+2)*cols : (j+3)*cols]
-			r3 := src[(j+3)*cols : (j+4)*cols]
-			r1, r2, r3 = r1[:len(r0)], r2[:len(r0)], r3[:len(r0)]
-			y := y[:len(r0)]
-			for q, x := range r0 {
-				y[q] += c0*x + c1*r1[q] + c2*r2[q] + c3*r3[q]
-			}
-		}
-		for ; j < h; j++ {
-			c := p.u[j*k+m]
-			row := src[j*cols : (j+1)*cols]
-			y := y[:len(row)]
-			for q, x := range row {
-				y[q] += c * x
-			}
-		}
+		kernel.Combine(p.y[m*cols:(m+1)*cols], src, cols, p.ut[m*h:(m+1)*h])
 	}
 }
 
@@ -110,14 +84,8 @@ func (p *propagator) latticeStep(f *field, g, dt float64) {
 	p.sine(f.x, cols)
 	cs, sn := p.lat.phases(p, g, dt)
 	for m := range p.b.Block {
-		c, s := cs[m], sn[m]
 		row := p.y[m*cols : (m+1)*cols]
-		re, im := row[:w], row[w:cols]
-		for q := range re {
-			a, b := re[q], im[q]
-			re[q] = c*a - s*b
-			im[q] = s*a + c*b
-		}
+		kernel.Rotate(row[:w], row[w:cols], cs[m], sn[m])
 	}
 	p.sine(p.y, cols)
 	copy(f.x, p.y)

@@ -20,6 +20,7 @@ import (
 //	G. Strang, "The discrete cosine transform", SIAM Rev. 41, 135 (1999).
 type sineBasis struct {
 	u   []float64 // K x K
+	ut  []float64 // ut[m*K/2+j] = u[j][m], j < K/2: the folded rows' coefficients
 	lam []float64 // rad/s per (rad/s of v0)
 }
 
@@ -35,6 +36,13 @@ func sineBasisOf(k int) *sineBasis {
 	for j := range k {
 		for m := range k {
 			sb.u[j*k+m] = norm * math.Sin(math.Pi*float64((j+1)*(m+1))/float64(k+1))
+		}
+	}
+	h := k / 2
+	sb.ut = make([]float64, k*h)
+	for m := range k {
+		for j := range h {
+			sb.ut[m*h+j] = sb.u[j*k+m]
 		}
 	}
 	for m := range k {
