@@ -57,3 +57,21 @@ func BenchmarkShotCold(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkShotRepeated times the nominal shot of BenchmarkShotCold
+// repeated on one Simulator: the second and later shots take over the
+// eigensystems and start states of the first (sim/shotwork.go), so this
+// is the cost of a shot whose depth and speeds repeat (the nominal shot
+// again, or an ensemble drawing only skew, temperature, pulse areas or
+// dynamic noise): the ramps' split steps and the cruise's exact step.
+func BenchmarkShotRepeated(b *testing.B) {
+	for _, laps := range []float64{1, 100} {
+		b.Run(fmt.Sprintf("laps=%g", laps), func(b *testing.B) {
+			s, err := NewSimulator(issueConfig(b, laps))
+			if err != nil {
+				b.Fatal(err)
+			}
+			reportCPU(b, func() { s.Run(Shot{}, nil) })
+		})
+	}
+}

@@ -124,23 +124,9 @@ type Simulator struct {
 	// constant stretches too (the fine-step reference of the tests).
 	splitOnly bool
 	splitStep float64
-	// work pools the two arms' propagators (*[2]*propagator), whose
-	// scratch and tables a shot reuses; copies of the simulator share it.
+	// work pools the *shotWork that shots reuse (sim/shotwork.go);
+	// copies of the simulator share it.
 	work *sync.Pool
-}
-
-// propagators returns a pair of propagators for the two arms of a shot,
-// sharing their kinetic tables; the caller puts it back into s.work.
-func (s *Simulator) propagators() *[2]*propagator {
-	if v, ok := s.work.Get().(*[2]*propagator); ok {
-		return v
-	}
-	v0 := 2 * math.Pi * s.cfg.DepthHz
-	kin := newKineticCache(s.basis)
-	return &[2]*propagator{
-		newSharedPropagator(s.basis, s.cfg.Ring, v0, s.lev, kin),
-		newSharedPropagator(s.basis, s.cfg.Ring, v0, s.lev, kin),
-	}
 }
 
 // MaxRampSteps bounds the split steps of a shot's two ramps: at about a
@@ -226,8 +212,10 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	rot := cfg.Ring.rotationalRate()
 	gStart := 1 + (sh.DepthRel[0]+sh.DepthRel[1])/2
 	omega := cfg.RotationRadS + sh.RotationOffsetRadS // the shot's true rotation
-	es0 := lowestBands(b, rot, omega, gStart*v0, s.lev)
-	means := bandMeans(es0)
+	wk := s.shotWork()
+	defer s.work.Put(wk)
+	es0 := wk.restBands(b, rot, omega, gStart*v0, s.lev)
+	means := bandMeans(*es0)
 	temp := math.Max(0, cfg.TemperatureK+sh.TemperatureOffsetK)
 	lev := min(s.lev, thermalLevels(means, temp))
 	weights := thermalWeights(means[:lev], temp)
@@ -242,20 +230,15 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	// the band that NoiseBandHz gives.
 	noiseStep := math.Min(s.step/2, 2*math.Pi/cfg.TrapRadS()/40)
 
-	starts := make([]State, lev)
-	for n := range starts {
-		starts[n] = wannier(b, cfg.Ring, es0, n, trap)
-	}
+	starts := wk.startStates(b, cfg.Ring, lev, trap)
 	var res Result
 	var fields [2]*field
-	props := s.propagators()
-	defer s.work.Put(props)
 	for a, d := range drives {
 		f := newField(b, lev)
 		for n, st := range starts {
 			f.set(n, st)
 		}
-		p := props[a]
+		p := wk.props[a]
 		tm := d.times()
 		var rest *eigensystem // of the lattice at rest, diagonalised if a rest stretch needs it
 		stretch := func(w, t0, t1 float64, es *eigensystem) *eigensystem {
@@ -274,7 +257,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		rest = stretch(omega, 0, tm[0], rest)
 		p.observe(obs, a, tm[0], f, d, rest)
 		p.splitStepsObserved(f, d, tm[0], tm[1], s.steps(tm[1]-tm[0]), obs, a)
-		cruise := diagonaliseFor(p, d.cruiseSpeed(), 1+d.DepthRel)
+		cruise := wk.cruiseSystem(a, p, d.cruiseSpeed(), 1+d.DepthRel)
 		res.GroundAfterRampUp[a] = groundPopulation(f, cruise, 0)
 		if tm[1] == tm[0] {
 			p.observe(obs, a, tm[1], f, d, cruise)

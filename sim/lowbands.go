@@ -24,6 +24,7 @@ func lowestBands(b Basis, rot, w, v0 float64, count int) eigensystem {
 	es := eigensystem{vals: make([][]float64, b.Sites), vecs: make([][]float64, b.Sites)}
 	d, e := make([]float64, k), make([]float64, k)
 	x, y := make([]float64, k), make([]float64, k)
+	scratch := make([]float64, 4*k)
 	var impl gonum.Implementation
 	for c := range b.Sites {
 		blockHamiltonian(b, c, rot, w, v0, d, e)
@@ -43,7 +44,7 @@ func lowestBands(b Basis, rot, w, v0 float64, count int) eigensystem {
 				x[j] = 1 / math.Sqrt(float64(k))
 			}
 			for range 3 {
-				solveShifted(d, e, shift, x, y)
+				solveShifted(d, e, shift, x, y, scratch)
 				normalise(y)
 				x, y = y, x
 			}
@@ -68,14 +69,14 @@ func lowestBands(b Basis, rot, w, v0 float64, count int) eigensystem {
 // solveShifted solves (T - shift I) y = x for the symmetric tridiagonal T
 // with diagonal d and off-diagonal e, by Gaussian elimination with partial
 // pivoting (as LAPACK dgtsv).
-func solveShifted(d, e []float64, shift float64, x, y []float64) {
+// scratch holds 4 len(d) elements.
+func solveShifted(d, e []float64, shift float64, x, y, scratch []float64) {
 	n := len(d)
 	// Rows of the working matrix: sub (l), diagonal (m), super (u), and a
 	// second super-diagonal (u2) that pivoting can fill.
-	m := make([]float64, n)
-	u := make([]float64, n)
-	u2 := make([]float64, n)
-	l := make([]float64, n)
+	scratch = scratch[:4*n]
+	clear(scratch)
+	m, u, u2, l := scratch[:n], scratch[n:2*n], scratch[2*n:3*n], scratch[3*n:]
 	copy(y, x)
 	for i := range n {
 		m[i] = d[i] - shift

@@ -190,7 +190,7 @@ func steqr(n int, d, e, zt, work []float64) bool {
 				for i := m - 1; i >= l; i-- {
 					f := s * e[i]
 					b := c * e[i]
-					c, s, r = impl.Dlartg(g, f)
+					c, s, r = dlartg(g, f)
 					if i != m-1 {
 						e[i+1] = r
 					}
@@ -254,7 +254,7 @@ func steqr(n int, d, e, zt, work []float64) bool {
 				for i := m; i < l; i++ {
 					f := s * e[i]
 					b := c * e[i]
-					c, s, r = impl.Dlartg(g, f)
+					c, s, r = dlartg(g, f)
 					if i != m {
 						e[i-1] = r
 					}
@@ -291,3 +291,41 @@ func steqr(n int, d, e, zt, work []float64) bool {
 	}
 	return true
 }
+
+// dlartg is gonum's Dlartg (v0.17.0) with its constants folded: the plane
+// rotation [c s; -s c] [f; g] = [r; 0], the same operations in the same
+// order, inlined into steqr's inner loop.
+func dlartg(f, g float64) (cs, sn, r float64) {
+	const (
+		safmin = 0x1p-1022
+		safmax = 1 / safmin
+		rtmin  = 0x1p-511 // sqrt(safmin)
+	)
+	if g == 0 {
+		return 1, 0, f
+	}
+	g1 := math.Abs(g)
+	if f == 0 {
+		return 0, math.Copysign(1, g), g1
+	}
+	f1 := math.Abs(f)
+	if rtmin < f1 && f1 < dlartgRtmax && rtmin < g1 && g1 < dlartgRtmax {
+		d := math.Sqrt(f*f + g*g)
+		cs = f1 / d
+		r = math.Copysign(d, f)
+		sn = g / r
+		return cs, sn, r
+	}
+	u := math.Min(math.Max(safmin, math.Max(f1, g1)), safmax)
+	fs := f / u
+	gs := g / u
+	d := math.Sqrt(fs*fs + gs*gs)
+	cs = math.Abs(fs) / d
+	r = math.Copysign(d, f)
+	sn = gs / r
+	r *= u
+	return cs, sn, r
+}
+
+// dlartgRtmax is sqrt(safmax/2) as gonum's Dlartg computes it.
+var dlartgRtmax = math.Sqrt(0x1p1022 / 2)
