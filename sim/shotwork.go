@@ -7,8 +7,9 @@ import "math"
 // eigensystems of the last shot, which the next shot takes over when the
 // parameters they depend on are exactly the same (a nominal shot repeated,
 // an ensemble whose draws leave the depth and the speeds alone: skew,
-// temperature, pulse areas, dynamic noise). Equal inputs give equal bits,
-// so reuse changes no result.
+// temperature, pulse areas, dynamic noise), and whose storage they reuse
+// otherwise. Equal inputs give equal bits, so reuse changes no result; the
+// eigensystems and states it returns live until the goroutine's next shot.
 type shotWork struct {
 	props [2]*propagator
 
@@ -41,8 +42,11 @@ func (s *Simulator) shotWork() *shotWork {
 func (w *shotWork) restBands(b Basis, rot, omega, v0g float64, count int) *eigensystem {
 	key := [2]float64{omega, v0g}
 	if w.rest == nil || w.restKey != key {
-		es := lowestBands(b, rot, omega, v0g, count)
-		w.rest, w.restKey, w.starts = &es, key, nil
+		if w.rest == nil {
+			w.rest = new(eigensystem)
+		}
+		lowestBandsOver(b, rot, omega, v0g, count, w.rest)
+		w.restKey, w.starts = key, w.starts[:0]
 	}
 	return w.rest
 }
@@ -52,7 +56,7 @@ func (w *shotWork) restBands(b Basis, rot, omega, v0g float64, count int) *eigen
 // when the rest eigensystem and trap are unchanged. The states are shared:
 // the caller must not modify them.
 func (w *shotWork) startStates(b Basis, r Ring, lev int, trap float64) []State {
-	if w.starts == nil || w.startsT != trap {
+	if w.startsT != trap {
 		w.starts, w.startsT = w.starts[:0], trap
 	}
 	for n := len(w.starts); n < lev; n++ {
@@ -66,7 +70,11 @@ func (w *shotWork) startStates(b Basis, r Ring, lev int, trap float64) []State {
 func (w *shotWork) cruiseSystem(a int, p *propagator, wc, g float64) *eigensystem {
 	key := [2]float64{wc, g}
 	if w.cruise[a] == nil || w.cruiseKey[a] != key {
-		w.cruise[a], w.cruiseKey[a] = diagonaliseFor(p, wc, g), key
+		if w.cruise[a] == nil {
+			w.cruise[a] = new(eigensystem)
+		}
+		diagonaliseOver(p.b, p.rot, wc, g*p.v0, w.cruise[a])
+		w.cruiseKey[a] = key
 	}
 	return w.cruise[a]
 }
