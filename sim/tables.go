@@ -53,45 +53,44 @@ func sineBasisOf(k int) *sineBasis {
 }
 
 // kineticCache holds exp(-i rot l^2 h) over a basis for the last few
-// durations h: a split-step scheme uses five (the stages and the merged
-// step ends), the same in both arms, so the arms of a shot share one. Not
-// safe for concurrent use.
+// durations h, as real and imaginary parts: a split-step scheme uses five
+// (the stages and the merged step ends), the same in both arms, so the arms
+// of a shot share one. Not safe for concurrent use.
 type kineticCache struct {
-	hs   []float64
-	tabs [][]complex128
-	next int
+	hs     []float64
+	re, im [][]float64
+	next   int
 }
 
 // kineticEntries is how many durations a kineticCache holds.
 const kineticEntries = 8
 
 func newKineticCache(b Basis) *kineticCache {
-	c := &kineticCache{}
-	for range kineticEntries {
-		c.tabs = append(c.tabs, make([]complex128, b.Size()))
-	}
-	return c
+	return &kineticCache{}
 }
 
-func (c *kineticCache) table(b Basis, rot, h float64) []complex128 {
+func (c *kineticCache) table(b Basis, rot, h float64) (re, im []float64) {
 	for i, x := range c.hs {
 		if x == h {
-			return c.tabs[i]
+			return c.re[i], c.im[i]
 		}
 	}
 	i := c.next
 	c.next = (c.next + 1) % kineticEntries
 	if len(c.hs) < kineticEntries {
 		c.hs = append(c.hs, h)
+		c.re = append(c.re, make([]float64, b.Size()))
+		c.im = append(c.im, make([]float64, b.Size()))
 	} else {
 		c.hs[i] = h
 	}
-	tab := c.tabs[i]
-	for j := range tab {
+	re, im = c.re[i], c.im[i]
+	for j := range re {
 		l := float64(b.LMin() + j)
-		tab[j] = cis(-rot * l * l * h)
+		z := cis(-rot * l * l * h)
+		re[j], im[j] = real(z), imag(z)
 	}
-	return tab
+	return re, im
 }
 
 // latticeCache holds cos and sin of -g v0 lam[m] dt for the last few

@@ -46,3 +46,17 @@ func foldAVX(s, d, a, b []float64)
 //
 //go:noescape
 func rotateAVX(re, im []float64, c, s float64)
+
+func phaseRotate(re, im, cr, ci, tr, ti []float64) {
+	if useAVX {
+		phaseRotateAVX(re, im, cr, ci, tr, ti)
+		return
+	}
+	phaseRotateGo(re, im, cr, ci, tr, ti)
+}
+
+// phaseRotateAVX is phaseRotateGo four elements at a time; len(re)
+// elements of each.
+//
+//go:noescape
+func phaseRotateAVX(re, im, cr, ci, tr, ti []float64)

@@ -40,3 +40,27 @@ func rotateGo(re, im []float64, c, s float64) {
 		im[q] = s*a + c*b
 	}
 }
+
+// PhaseRotate multiplies re[q] + i im[q], q < len(re), by the product of
+// c[q] = cr[q] + i ci[q] and t[q] = tr[q] + i ti[q], in Go's order: first
+// p = c t = (cr tr - ci ti) + i (cr ti + ci tr), then (re + i im) p as
+// Rotate does.
+func PhaseRotate(re, im, cr, ci, tr, ti []float64) {
+	n := len(re)
+	if len(im) < n || len(cr) < n || len(ci) < n || len(tr) < n || len(ti) < n {
+		panic("kernel: PhaseRotate of slices shorter than re")
+	}
+	if n > 0 {
+		phaseRotate(re[:n], im[:n], cr[:n], ci[:n], tr[:n], ti[:n])
+	}
+}
+
+func phaseRotateGo(re, im, cr, ci, tr, ti []float64) {
+	for q := range re {
+		ph := complex(cr[q], ci[q]) * complex(tr[q], ti[q])
+		cs, sn := real(ph), imag(ph)
+		a, b := re[q], im[q]
+		re[q] = cs*a - sn*b
+		im[q] = sn*a + cs*b
+	}
+}

@@ -116,3 +116,36 @@ func TestFoldRotateMatchLoops(t *testing.T) {
 		}
 	}
 }
+
+// TestPhaseRotateMatchesLoop checks PhaseRotate against the portable loop
+// bit for bit for every remainder of the length modulo 4, and against the
+// product of three unit complex numbers (modulus kept to round-off).
+func TestPhaseRotateMatchesLoop(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	for n := range 23 {
+		re, im := make([]float64, n), make([]float64, n)
+		cr, ci, tr, ti := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+		for i := range re {
+			re[i], im[i] = rng.NormFloat64(), rng.NormFloat64()
+			s, c := math.Sincos(rng.Float64() * 7)
+			cr[i], ci[i] = c, s
+			s, c = math.Sincos(rng.Float64() * 7)
+			tr[i], ti[i] = c, s
+		}
+		wre, wim := append([]float64(nil), re...), append([]float64(nil), im...)
+		m0 := make([]float64, n)
+		for i := range re {
+			m0[i] = math.Hypot(re[i], im[i])
+		}
+		PhaseRotate(re, im, cr, ci, tr, ti)
+		phaseRotateGo(wre, wim, cr, ci, tr, ti)
+		for q := range n {
+			if math.Float64bits(re[q]) != math.Float64bits(wre[q]) || math.Float64bits(im[q]) != math.Float64bits(wim[q]) {
+				t.Fatalf("n=%d q=%d: got %v, %v, want %v, %v (bit for bit)", n, q, re[q], im[q], wre[q], wim[q])
+			}
+			if m1 := math.Hypot(re[q], im[q]); math.Abs(m1-m0[q]) > 1e-15*m0[q] {
+				t.Fatalf("n=%d q=%d: modulus %v, want %v (tol %g relative)", n, q, m1, m0[q], 1e-15)
+			}
+		}
+	}
+}
