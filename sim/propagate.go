@@ -45,7 +45,7 @@ type propagator struct {
 }
 
 func newPropagator(b Basis, r Ring, v0 float64, levels int) *propagator {
-	return newSharedPropagator(b, r, v0, levels, newKineticCache(b))
+	return newSharedPropagator(b, r, v0, levels, new(kineticCache))
 }
 
 // newSharedPropagator is newPropagator with the kinetic tables of kin,

@@ -29,7 +29,7 @@ func (s *Simulator) shotWork() *shotWork {
 		return v
 	}
 	v0 := 2 * math.Pi * s.cfg.DepthHz
-	kin := newKineticCache(s.basis)
+	kin := new(kineticCache)
 	return &shotWork{props: [2]*propagator{
 		newSharedPropagator(s.basis, s.cfg.Ring, v0, s.lev, kin),
 		newSharedPropagator(s.basis, s.cfg.Ring, v0, s.lev, kin),

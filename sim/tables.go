@@ -65,10 +65,6 @@ type kineticCache struct {
 // kineticEntries is how many durations a kineticCache holds.
 const kineticEntries = 8
 
-func newKineticCache(b Basis) *kineticCache {
-	return &kineticCache{}
-}
-
 func (c *kineticCache) table(b Basis, rot, h float64) (re, im []float64) {
 	for i, x := range c.hs {
 		if x == h {
