@@ -1,11 +1,6 @@
 package sim
 
-import (
-	"math"
-
-	"gonum.org/v1/gonum/lapack"
-	"gonum.org/v1/gonum/lapack/gonum"
-)
+import "math"
 
 // eigensystem holds the eigenvalues (ascending, rad/s) and eigenvectors of
 // every class block of one Hamiltonian: vecs[c][j*K+k] is component j of
@@ -32,12 +27,24 @@ func blockHamiltonian(b Basis, c int, rot, w, v0 float64, d, e []float64) {
 
 // diagonalise returns the eigensystem of every block of H'(w) at depth v0.
 func diagonalise(b Basis, rot, w, v0 float64) eigensystem {
-	es := eigensystem{vals: make([][]float64, b.Sites), vecs: make([][]float64, b.Sites)}
-	for c := range b.Sites {
-		blk := diagonaliseBlock(b, c, rot, w, v0)
-		es.vals[c], es.vecs[c] = blk.vals, blk.vecs
-	}
+	var es eigensystem
+	diagonaliseOver(b, rot, w, v0, &es)
 	return es
+}
+
+// diagonaliseOver is diagonalise into es, reusing its storage when it has
+// the basis's shape (a shot's cruise eigensystems, sim/shotwork.go).
+func diagonaliseOver(b Basis, rot, w, v0 float64, es *eigensystem) {
+	k := b.Block
+	if len(es.vals) != b.Sites || len(es.vals[0]) != k {
+		*es = eigensystem{vals: make([][]float64, b.Sites), vecs: make([][]float64, b.Sites)}
+	}
+	e := make([]float64, k)
+	zt := make([]float64, k*k)
+	work := make([]float64, 2*k)
+	for c := range b.Sites {
+		es.vals[c], es.vecs[c] = diagonaliseInto(b, c, rot, w, v0, e, zt, work, es.vals[c], es.vecs[c])
+	}
 }
 
 // block is the eigensystem of one class block.
@@ -49,16 +56,32 @@ type block struct {
 // by the implicit QL method (LAPACK dsteqr).
 func diagonaliseBlock(b Basis, c int, rot, w, v0 float64) block {
 	k := b.Block
-	d := make([]float64, k)
-	e := make([]float64, k)
-	z := make([]float64, k*k)
-	work := make([]float64, 2*k)
-	blockHamiltonian(b, c, rot, w, v0, d, e)
-	var impl gonum.Implementation
-	if !impl.Dsteqr(lapack.EVTridiag, k, d, e, z, k, work) {
+	vals, vecs := diagonaliseInto(b, c, rot, w, v0, make([]float64, k), make([]float64, k*k), make([]float64, 2*k), nil, nil)
+	return block{vals: vals, vecs: vecs}
+}
+
+// diagonaliseInto returns the eigenvalues and eigenvectors (vecs[j*K+m],
+// component j of vector m) of the class-c block by steqr, with scratch e
+// (K), zt (K*K) and work (2K), in vals (K) and vecs (K*K) when they are
+// not nil.
+func diagonaliseInto(b Basis, c int, rot, w, v0 float64, e, zt, work, vals, vecs []float64) ([]float64, []float64) {
+	k := b.Block
+	if vals == nil {
+		vals = make([]float64, k)
+	}
+	blockHamiltonian(b, c, rot, w, v0, vals, e)
+	if !steqr(k, vals, e, zt, work) {
 		panic("sim: tridiagonal eigensolver did not converge")
 	}
-	return block{vals: d, vecs: z}
+	if vecs == nil {
+		vecs = make([]float64, k*k)
+	}
+	for m := range k {
+		for j, v := range zt[m*k : (m+1)*k] {
+			vecs[j*k+m] = v
+		}
+	}
+	return vals, vecs
 }
 
 // BandsHz returns the band energies E/h in Hz, ascending, of class c (the

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sync"
 	"time"
 )
 
@@ -127,6 +128,9 @@ type Simulator struct {
 	// constant stretches too (the fine-step reference of the tests).
 	splitOnly bool
 	splitStep float64
+	// work pools the *shotWork that shots reuse (sim/shotwork.go);
+	// copies of the simulator share it.
+	work *sync.Pool
 }
 
 // MaxRampSteps bounds the split steps of a shot's two ramps: at about a
@@ -170,7 +174,7 @@ func NewSimulator(cfg Config) (*Simulator, error) {
 	if lev > b.Block {
 		lev = b.Block
 	}
-	return &Simulator{cfg: cfg, basis: b, step: step, lev: lev}, nil
+	return &Simulator{cfg: cfg, basis: b, step: step, lev: lev, work: new(sync.Pool)}, nil
 }
 
 // Config returns the configuration with the numerics in use filled in.
@@ -212,8 +216,10 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	rot := cfg.Ring.rotationalRate()
 	gStart := 1 + (sh.DepthRel[0]+sh.DepthRel[1])/2
 	omega := cfg.RotationRadS + sh.RotationOffsetRadS // the shot's true rotation
-	es0 := lowestBands(b, rot, omega, gStart*v0, s.lev)
-	means := bandMeans(es0)
+	wk := s.shotWork()
+	defer s.work.Put(wk)
+	es0 := wk.restBands(b, rot, omega, gStart*v0, s.lev)
+	means := bandMeans(*es0)
 	temp := math.Max(0, cfg.TemperatureK+sh.TemperatureOffsetK)
 	lev := min(s.lev, thermalLevels(means, temp))
 	weights := thermalWeights(means[:lev], temp)
@@ -228,10 +234,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	// the band that NoiseBandHz gives.
 	noiseStep := math.Min(s.step/2, 2*math.Pi/cfg.TrapRadS()/40)
 
-	starts := make([]State, lev)
-	for n := range starts {
-		starts[n] = wannier(b, cfg.Ring, es0, n, trap)
-	}
+	starts := wk.startStates(b, cfg.Ring, lev, trap)
 	var res Result
 	var fields [2]*field
 	for a, d := range drives {
@@ -239,7 +242,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		for n, st := range starts {
 			f.set(n, st)
 		}
-		p := newPropagator(b, cfg.Ring, v0, lev)
+		p := wk.props[a]
 		tm := d.times()
 		var rest *eigensystem // of the lattice at rest, diagonalised if a rest stretch needs it
 		stretch := func(w, t0, t1 float64, es *eigensystem) *eigensystem {
@@ -258,7 +261,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		rest = stretch(omega, 0, tm[0], rest)
 		p.observe(obs, a, tm[0], f, d, rest)
 		p.splitStepsObserved(f, d, tm[0], tm[1], s.steps(tm[1]-tm[0]), obs, a)
-		cruise := diagonaliseFor(p, d.cruiseSpeed(), 1+d.DepthRel)
+		cruise := wk.cruiseSystem(a, p, d.cruiseSpeed(), 1+d.DepthRel)
 		res.GroundAfterRampUp[a] = groundPopulation(f, cruise, 0)
 		if tm[1] == tm[0] {
 			p.observe(obs, a, tm[1], f, d, cruise)

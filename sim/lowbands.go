@@ -19,20 +19,36 @@ import (
 //	J. W. Demmel, Applied Numerical Linear Algebra (SIAM, 1997), sec. 5.3.3
 //	(inverse iteration).
 func lowestBands(b Basis, rot, w, v0 float64, count int) eigensystem {
+	var es eigensystem
+	lowestBandsOver(b, rot, w, v0, count, &es)
+	return es
+}
+
+// lowestBandsOver is lowestBands into es, reusing its storage when it has
+// the basis's shape (a shot's start lattice, sim/shotwork.go).
+func lowestBandsOver(b Basis, rot, w, v0 float64, count int, es *eigensystem) {
 	k := b.Block
 	count = min(count, k)
-	es := eigensystem{vals: make([][]float64, b.Sites), vecs: make([][]float64, b.Sites)}
+	if len(es.vals) != b.Sites || len(es.vals[0]) != k || len(es.vecs[0]) != k*k {
+		*es = eigensystem{vals: make([][]float64, b.Sites), vecs: make([][]float64, b.Sites)}
+	}
 	d, e := make([]float64, k), make([]float64, k)
 	x, y := make([]float64, k), make([]float64, k)
+	scratch := make([]float64, 4*k)
 	var impl gonum.Implementation
 	for c := range b.Sites {
 		blockHamiltonian(b, c, rot, w, v0, d, e)
-		vals := append([]float64(nil), d...)
+		vals := append(es.vals[c][:0], d...)
 		ee := append([]float64(nil), e[:k-1]...)
 		if !impl.Dsterf(k, vals, ee) {
 			panic("sim: tridiagonal eigenvalue solver did not converge")
 		}
-		vecs := make([]float64, k*k)
+		vecs := es.vecs[c]
+		if vecs == nil {
+			vecs = make([]float64, k*k)
+		} else {
+			clear(vecs)
+		}
 		scale := math.Abs(vals[0]) + math.Abs(vals[k-1]) + math.Abs(v0)
 		ok := true
 		for n := 0; n < count && ok; n++ {
@@ -43,7 +59,7 @@ func lowestBands(b Basis, rot, w, v0 float64, count int) eigensystem {
 				x[j] = 1 / math.Sqrt(float64(k))
 			}
 			for range 3 {
-				solveShifted(d, e, shift, x, y)
+				solveShifted(d, e, shift, x, y, scratch)
 				normalise(y)
 				x, y = y, x
 			}
@@ -62,20 +78,18 @@ func lowestBands(b Basis, rot, w, v0 float64, count int) eigensystem {
 		}
 		es.vals[c], es.vecs[c] = vals, vecs
 	}
-	return es
 }
 
 // solveShifted solves (T - shift I) y = x for the symmetric tridiagonal T
 // with diagonal d and off-diagonal e, by Gaussian elimination with partial
-// pivoting (as LAPACK dgtsv).
-func solveShifted(d, e []float64, shift float64, x, y []float64) {
+// pivoting (as LAPACK dgtsv); scratch holds 4 len(d) elements.
+func solveShifted(d, e []float64, shift float64, x, y, scratch []float64) {
 	n := len(d)
 	// Rows of the working matrix: sub (l), diagonal (m), super (u), and a
 	// second super-diagonal (u2) that pivoting can fill.
-	m := make([]float64, n)
-	u := make([]float64, n)
-	u2 := make([]float64, n)
-	l := make([]float64, n)
+	scratch = scratch[:4*n]
+	clear(scratch)
+	m, u, u2, l := scratch[:n], scratch[n:2*n], scratch[2*n:3*n], scratch[3*n:]
 	copy(y, x)
 	for i := range n {
 		m[i] = d[i] - shift

@@ -2,6 +2,8 @@ package sim
 
 import (
 	"math"
+
+	"rampart/internal/kernel"
 )
 
 // propagator advances the states of one arm in the frame co-moving with
@@ -29,81 +31,55 @@ type propagator struct {
 	rot float64 // E_rot/hbar, rad/s
 	v0  float64 // V0/hbar of this arm at g = 1, rad/s
 
-	u   []float64 // DST-I matrix, K x K, symmetric and its own inverse
-	lam []float64 // eigenvalues of the unit-depth block lattice, rad/s per (rad/s of v0)
+	*sineBasis // the DST-I of the block, shared by every propagator of the block size
 
 	scheme scheme
 
-	kinTabs [][]complex128 // exp(-i rot l^2 h) for the durations in kinHs
-	kinHs   []float64
-	s, d    []float64 // scratch: even and odd halves, K/2 x 2W
-	y       []float64 // scratch: K x 2W
+	kin  *kineticCache // exp(-i rot l^2 h), shareable by the propagators of one goroutine
+	lat  latticeCache  // exp(-i g v0 lam dt) for the last few g dt
+	s, d []float64     // scratch: even and odd halves, K/2 x 2W
+	y    []float64     // scratch: K x 2W
+
+	ops    []splitOp             // scratch: the factors of a split-step pass
+	cr, ci [chainBatch][]float64 // scratch: e^{i l da} of a batch of kinetic factors
 }
 
 func newPropagator(b Basis, r Ring, v0 float64, levels int) *propagator {
+	return newSharedPropagator(b, r, v0, levels, new(kineticCache))
+}
+
+// newSharedPropagator is newPropagator with the kinetic tables of kin,
+// which propagators of the same basis and ring used by one goroutine (the
+// two arms of a shot) share.
+func newSharedPropagator(b Basis, r Ring, v0 float64, levels int, kin *kineticCache) *propagator {
 	k := b.Block
-	p := &propagator{b: b, rot: r.rotationalRate(), v0: v0, scheme: defaultScheme}
-	p.u = make([]float64, k*k)
-	p.lam = make([]float64, k)
-	norm := math.Sqrt(2 / float64(k+1))
-	for j := range k {
-		for m := range k {
-			p.u[j*k+m] = norm * math.Sin(math.Pi*float64((j+1)*(m+1))/float64(k+1))
-		}
-	}
-	for m := range k {
-		p.lam[m] = -0.5 - 0.5*math.Cos(math.Pi*float64(m+1)/float64(k+1))
-	}
+	p := &propagator{b: b, rot: r.rotationalRate(), v0: v0, scheme: defaultScheme, kin: kin}
+	p.sineBasis = sineBasisOf(k)
 	cols := 2 * b.Sites * levels
 	p.s = make([]float64, k/2*cols)
 	p.d = make([]float64, k/2*cols)
 	p.y = make([]float64, k*cols)
+	for i := range chainBatch {
+		p.cr[i], p.ci[i] = make([]float64, b.Size()), make([]float64, b.Size())
+	}
 	return p
 }
 
-// sine applies the DST-I matrix to every column of f.x, leaving the result
+// sine applies the DST-I matrix to every column of x, leaving the result
 // in p.y. Rows j and K-1-j of the matrix agree up to the sign (-1)^m, so
-// the sums over j fold into K/2 terms on the even and odd combinations.
+// the sums over j fold into K/2 terms on the even and odd combinations,
+// each output row a combination of the folded rows (kernel.Combine).
 func (p *propagator) sine(x []float64, cols int) {
 	k, h := p.b.Block, p.b.Block/2
 	for j := range h {
-		a := x[j*cols : (j+1)*cols]
-		b := x[(k-1-j)*cols : (k-j)*cols]
-		s := p.s[j*cols : (j+1)*cols]
-		d := p.d[j*cols : (j+1)*cols]
-		for q := range a {
-			s[q] = a[q] + b[q]
-			d[q] = a[q] - b[q]
-		}
+		kernel.Fold(p.s[j*cols:(j+1)*cols], p.d[j*cols:(j+1)*cols], x[j*cols:(j+1)*cols], x[(k-1-j)*cols:(k-j)*cols])
 	}
 	for m := range k {
 		src := p.s
 		if m%2 == 1 {
 			src = p.d
 		}
-		y := p.y[m*cols : (m+1)*cols]
-		clear(y)
-		j := 0
-		for ; j+4 <= h; j += 4 {
-			c0, c1, c2, c3 := p.u[j*k+m], p.u[(j+1)*k+m], p.u[(j+2)*k+m], p.u[(j+3)*k+m]
-			r0 := src[j*cols : (j+1)*cols]
-			r1 := src[(j+1)*cols : (j+2)*cols]
-			r2 := src[(j+2)*cols : (j+3)*cols]
-			r3 := src[(j+3)*cols : (j+4)*cols]
-			r1, r2, r3 = r1[:len(r0)], r2[:len(r0)], r3[:len(r0)]
-			y := y[:len(r0)]
-			for q, x := range r0 {
-				y[q] += c0*x + c1*r1[q] + c2*r2[q] + c3*r3[q]
-			}
-		}
-		for ; j < h; j++ {
-			c := p.u[j*k+m]
-			row := src[j*cols : (j+1)*cols]
-			y := y[:len(row)]
-			for q, x := range row {
-				y[q] += c * x
-			}
-		}
+		kernel.Combine(p.y[m*cols:(m+1)*cols], src, cols, p.ut[m*h:(m+1)*h])
 	}
 }
 
@@ -112,23 +88,13 @@ func (p *propagator) latticeStep(f *field, g, dt float64) {
 	w := f.width()
 	cols := 2 * w
 	p.sine(f.x, cols)
+	cs, sn := p.lat.phases(p, g, dt)
 	for m := range p.b.Block {
-		sn, cs := math.Sincos(-g * p.v0 * p.lam[m] * dt)
 		row := p.y[m*cols : (m+1)*cols]
-		re, im := row[:w], row[w:cols]
-		for q := range re {
-			a, b := re[q], im[q]
-			re[q] = cs*a - sn*b
-			im[q] = sn*a + cs*b
-		}
+		kernel.Rotate(row[:w], row[w:cols], cs[m], sn[m])
 	}
 	p.sine(p.y, cols)
 	copy(f.x, p.y)
-}
-
-// kineticStep applies exp(-i rot l^2 h + i l da) to f.
-func (p *propagator) kineticStep(f *field, h, da float64) {
-	p.diagonalPhase(f, p.kineticTable(h), da)
 }
 
 // diagonalPhase multiplies every level of f by tab[l] e^{i l da} (tab nil:
@@ -157,25 +123,59 @@ func (p *propagator) diagonalPhase(f *field, tab []complex128, da float64) {
 	}
 }
 
-// kineticTable returns exp(-i rot l^2 h) for every l, cached for the few
-// durations a scheme uses.
-func (p *propagator) kineticTable(h float64) []complex128 {
-	for i, x := range p.kinHs {
-		if x == h {
-			return p.kinTabs[i]
+// chainBatch is how many kinetic factors' phase recurrences kineticChains
+// runs side by side: each is a chain of dependent complex products, whose
+// latency the others hide.
+const chainBatch = 4
+
+// kineticChains fills p.cr[k], p.ci[k] with e^{i l da[k]} for every l of
+// the basis, k < len(da) <= chainBatch, by the recurrence
+// e^{i (l+1) da} = e^{i l da} e^{i da} from l = LMin (the products of the
+// one-factor loop, in its order).
+func (p *propagator) kineticChains(da []float64) {
+	var cur, step [chainBatch]complex128
+	for k := range chainBatch {
+		x := 0.0
+		if k < len(da) {
+			x = da[k]
+		}
+		step[k] = cis(x)
+		cur[k] = cis(float64(p.b.LMin()) * x)
+	}
+	c0r, c0i := p.cr[0], p.ci[0]
+	c1r, c1i := p.cr[1][:len(c0r)], p.ci[1][:len(c0r)]
+	c2r, c2i := p.cr[2][:len(c0r)], p.ci[2][:len(c0r)]
+	c3r, c3i := p.cr[3][:len(c0r)], p.ci[3][:len(c0r)]
+	c0i = c0i[:len(c0r)]
+	a0, a1, a2, a3 := cur[0], cur[1], cur[2], cur[3]
+	s0, s1, s2, s3 := step[0], step[1], step[2], step[3]
+	for l := range c0r {
+		c0r[l], c0i[l] = real(a0), imag(a0)
+		c1r[l], c1i[l] = real(a1), imag(a1)
+		c2r[l], c2i[l] = real(a2), imag(a2)
+		c3r[l], c3i[l] = real(a3), imag(a3)
+		a0 *= s0
+		a1 *= s1
+		a2 *= s2
+		a3 *= s3
+	}
+}
+
+// kineticStep applies exp(-i rot l^2 h + i l da) to f, with e^{i l da} the
+// chain k of the last kineticChains: every level times (e^{i l da}
+// e^{-i rot l^2 h}).
+func (p *propagator) kineticStep(f *field, h float64, k int) {
+	tr, ti := p.kin.table(p.b, p.rot, h)
+	cr, ci := p.cr[k], p.ci[k]
+	n, w := p.b.Sites, f.width()
+	for j := range p.b.Block {
+		row := f.x[2*w*j : 2*w*(j+1)]
+		re, im := row[:w], row[w:]
+		l := n * j
+		for q := 0; q < w; q += n {
+			kernel.PhaseRotate(re[q:q+n], im[q:q+n], cr[l:l+n], ci[l:l+n], tr[l:l+n], ti[l:l+n])
 		}
 	}
-	tab := make([]complex128, p.b.Size())
-	for i := range tab {
-		l := float64(p.b.LMin() + i)
-		tab[i] = cis(-p.rot * l * l * h)
-	}
-	if len(p.kinHs) >= 8 {
-		p.kinHs, p.kinTabs = p.kinHs[1:], p.kinTabs[1:]
-	}
-	p.kinHs = append(p.kinHs, h)
-	p.kinTabs = append(p.kinTabs, tab)
-	return tab
 }
 
 // motion is what the propagator needs to know of an arm: the lattice angle
@@ -242,8 +242,18 @@ var (
 	defaultScheme = blanesMoan6
 )
 
+// splitOp is one kinetic factor of a split-step pass, exp(-i rot l^2 h +
+// i l da), and, if lattice, the lattice factor exp(-i g V tau) after it.
+type splitOp struct {
+	h, da, g, tau float64
+	lattice       bool
+}
+
 // splitSteps advances f from t0 to t1 in n steps of the propagator's scheme.
 // The last kinetic factor of a step and the first of the next are merged.
+// The factors' times, angles and depths are listed first (m is a pure
+// function of time), so that the kinetic phases of chainBatch factors are
+// built side by side.
 func (p *propagator) splitSteps(f *field, m motion, t0, t1 float64, n int) {
 	if n < 1 || t1 <= t0 {
 		return
@@ -255,19 +265,36 @@ func (p *propagator) splitSteps(f *field, m motion, t0, t1 float64, n int) {
 	dt := (t1 - t0) / float64(n)
 	t, a := t0, m.angle(t0)
 	pending := 0.0 // kinetic time owed from the previous step
+	ops := p.ops[:0]
 	for range n {
 		for i, bw := range sch.b {
 			h := pending + sch.a[i]*dt
 			tn := t + sch.a[i]*dt
 			an := m.angle(tn)
-			p.kineticStep(f, h, an-a)
+			ops = append(ops, splitOp{h: h, da: an - a})
 			t, a, pending = tn, an, 0
-			p.latticeStep(f, m.depth(t), bw*dt)
+			op := &ops[len(ops)-1]
+			op.g, op.tau, op.lattice = m.depth(t), bw*dt, true
 		}
 		pending = sch.a[len(sch.b)] * dt
 		t += pending
 	}
-	p.kineticStep(f, pending, m.angle(t1)-a)
+	ops = append(ops, splitOp{h: pending, da: m.angle(t1) - a})
+	p.ops = ops
+	var da [chainBatch]float64
+	for i := 0; i < len(ops); i += chainBatch {
+		batch := ops[i:min(i+chainBatch, len(ops))]
+		for k, op := range batch {
+			da[k] = op.da
+		}
+		p.kineticChains(da[:len(batch)])
+		for k, op := range batch {
+			p.kineticStep(f, op.h, k)
+			if op.lattice {
+				p.latticeStep(f, op.g, op.tau)
+			}
+		}
+	}
 }
 
 // exactStep advances f by tau under the constant H'(w) at relative depth g,

@@ -136,11 +136,12 @@ func unit(t, d float64) float64 {
 // the cruise speed).
 func PeakSpeed(r Ramp) (peak float64, reverses bool) {
 	const samples = 4000
-	c := math.Abs(Cruise(r))
+	cruise := Cruise(r)
+	c, sign := math.Abs(cruise), math.Copysign(1, cruise)
 	for i := 0; i <= samples; i++ {
 		w := r.Speed(r.Duration() * float64(i) / samples)
 		peak = math.Max(peak, math.Abs(w))
-		if w*math.Copysign(1, Cruise(r)) < -1e-9*c {
+		if w*sign < -1e-9*c {
 			reverses = true
 		}
 	}

@@ -1,0 +1,62 @@
+//go:build !noasm
+
+package kernel
+
+import "golang.org/x/sys/cpu"
+
+var useAVX = cpu.X86.HasAVX
+
+func combine(y, x []float64, stride int, c []float64) {
+	if useAVX {
+		combineAVX(y, x, stride, c)
+		return
+	}
+	combineGo(y, x, stride, c)
+}
+
+// combineAVX is combineGo with four (sixteen) elements of y at a time in
+// YMM registers; the lanes are independent, so each element sees the same
+// operations in the same order.
+//
+//go:noescape
+func combineAVX(y, x []float64, stride int, c []float64)
+
+func fold(s, d, a, b []float64) {
+	if useAVX {
+		foldAVX(s, d, a, b)
+		return
+	}
+	foldGo(s, d, a, b)
+}
+
+func rotate(re, im []float64, c, s float64) {
+	if useAVX {
+		rotateAVX(re, im, c, s)
+		return
+	}
+	rotateGo(re, im, c, s)
+}
+
+// foldAVX is foldGo four elements at a time; len(s) elements of each.
+//
+//go:noescape
+func foldAVX(s, d, a, b []float64)
+
+// rotateAVX is rotateGo four elements at a time; len(re) elements of each.
+//
+//go:noescape
+func rotateAVX(re, im []float64, c, s float64)
+
+func phaseRotate(re, im, cr, ci, tr, ti []float64) {
+	if useAVX {
+		phaseRotateAVX(re, im, cr, ci, tr, ti)
+		return
+	}
+	phaseRotateGo(re, im, cr, ci, tr, ti)
+}
+
+// phaseRotateAVX is phaseRotateGo four elements at a time; len(re)
+// elements of each.
+//
+//go:noescape
+func phaseRotateAVX(re, im, cr, ci, tr, ti []float64)

@@ -1,0 +1,11 @@
+//go:build !amd64 || noasm
+
+package kernel
+
+func combine(y, x []float64, stride int, c []float64) { combineGo(y, x, stride, c) }
+
+func fold(s, d, a, b []float64) { foldGo(s, d, a, b) }
+
+func rotate(re, im []float64, c, s float64) { rotateGo(re, im, c, s) }
+
+func phaseRotate(re, im, cr, ci, tr, ti []float64) { phaseRotateGo(re, im, cr, ci, tr, ti) }

@@ -1,0 +1,66 @@
+package kernel
+
+// Fold sets s[q] = a[q] + b[q] and d[q] = a[q] - b[q] for q < len(s): the
+// even and odd combinations of two rows of a symmetric transform.
+func Fold(s, d, a, b []float64) {
+	n := len(s)
+	if len(d) < n || len(a) < n || len(b) < n {
+		panic("kernel: Fold of slices shorter than s")
+	}
+	if n > 0 {
+		fold(s[:n], d[:n], a[:n], b[:n])
+	}
+}
+
+// Rotate multiplies the complex numbers re[q] + i im[q], q < len(re), by
+// c + i s:
+//
+//	re[q], im[q] = c re[q] - s im[q], s re[q] + c im[q].
+func Rotate(re, im []float64, c, s float64) {
+	n := len(re)
+	if len(im) < n {
+		panic("kernel: Rotate with im shorter than re")
+	}
+	if n > 0 {
+		rotate(re[:n], im[:n], c, s)
+	}
+}
+
+func foldGo(s, d, a, b []float64) {
+	for q := range s {
+		s[q] = a[q] + b[q]
+		d[q] = a[q] - b[q]
+	}
+}
+
+func rotateGo(re, im []float64, c, s float64) {
+	for q := range re {
+		a, b := re[q], im[q]
+		re[q] = c*a - s*b
+		im[q] = s*a + c*b
+	}
+}
+
+// PhaseRotate multiplies re[q] + i im[q], q < len(re), by the product of
+// c[q] = cr[q] + i ci[q] and t[q] = tr[q] + i ti[q], in Go's order: first
+// p = c t = (cr tr - ci ti) + i (cr ti + ci tr), then (re + i im) p as
+// Rotate does.
+func PhaseRotate(re, im, cr, ci, tr, ti []float64) {
+	n := len(re)
+	if len(im) < n || len(cr) < n || len(ci) < n || len(tr) < n || len(ti) < n {
+		panic("kernel: PhaseRotate of slices shorter than re")
+	}
+	if n > 0 {
+		phaseRotate(re[:n], im[:n], cr[:n], ci[:n], tr[:n], ti[:n])
+	}
+}
+
+func phaseRotateGo(re, im, cr, ci, tr, ti []float64) {
+	for q := range re {
+		ph := complex(cr[q], ci[q]) * complex(tr[q], ti[q])
+		cs, sn := real(ph), imag(ph)
+		a, b := re[q], im[q]
+		re[q] = cs*a - sn*b
+		im[q] = sn*a + cs*b
+	}
+}

@@ -1,0 +1,158 @@
+//go:build !noasm
+
+#include "textflag.h"
+
+// func foldAVX(s, d, a, b []float64)
+TEXT ·foldAVX(SB), NOSPLIT, $0-96
+	MOVQ s_base+0(FP), DI
+	MOVQ s_len+8(FP), CX
+	MOVQ d_base+24(FP), DX
+	MOVQ a_base+48(FP), SI
+	MOVQ b_base+72(FP), BX
+	XORQ AX, AX
+
+fold4:
+	CMPQ CX, $4
+	JLT  fold1
+	VMOVUPD (SI)(AX*1), Y0
+	VMOVUPD (BX)(AX*1), Y1
+	VADDPD  Y1, Y0, Y2
+	VSUBPD  Y1, Y0, Y3
+	VMOVUPD Y2, (DI)(AX*1)
+	VMOVUPD Y3, (DX)(AX*1)
+	ADDQ    $32, AX
+	SUBQ    $4, CX
+	JMP     fold4
+
+fold1:
+	CMPQ CX, $1
+	JLT  folddone
+	VMOVSD (SI)(AX*1), X0
+	VMOVSD (BX)(AX*1), X1
+	VADDSD X1, X0, X2
+	VSUBSD X1, X0, X3
+	VMOVSD X2, (DI)(AX*1)
+	VMOVSD X3, (DX)(AX*1)
+	ADDQ   $8, AX
+	DECQ   CX
+	JMP    fold1
+
+folddone:
+	VZEROUPPER
+	RET
+
+// func rotateAVX(re, im []float64, c, s float64)
+TEXT ·rotateAVX(SB), NOSPLIT, $0-64
+	MOVQ         re_base+0(FP), DI
+	MOVQ         re_len+8(FP), CX
+	MOVQ         im_base+24(FP), SI
+	VBROADCASTSD c+48(FP), Y8
+	VBROADCASTSD s+56(FP), Y9
+	XORQ         AX, AX
+
+rot4:
+	CMPQ    CX, $4
+	JLT     rot1
+	VMOVUPD (DI)(AX*1), Y0
+	VMOVUPD (SI)(AX*1), Y1
+	VMULPD  Y0, Y8, Y2
+	VMULPD  Y1, Y9, Y3
+	VSUBPD  Y3, Y2, Y2
+	VMULPD  Y0, Y9, Y4
+	VMULPD  Y1, Y8, Y5
+	VADDPD  Y5, Y4, Y4
+	VMOVUPD Y2, (DI)(AX*1)
+	VMOVUPD Y4, (SI)(AX*1)
+	ADDQ    $32, AX
+	SUBQ    $4, CX
+	JMP     rot4
+
+rot1:
+	CMPQ   CX, $1
+	JLT    rotdone
+	VMOVSD (DI)(AX*1), X0
+	VMOVSD (SI)(AX*1), X1
+	VMULSD X0, X8, X2
+	VMULSD X1, X9, X3
+	VSUBSD X3, X2, X2
+	VMULSD X0, X9, X4
+	VMULSD X1, X8, X5
+	VADDSD X5, X4, X4
+	VMOVSD X2, (DI)(AX*1)
+	VMOVSD X4, (SI)(AX*1)
+	ADDQ   $8, AX
+	DECQ   CX
+	JMP    rot1
+
+rotdone:
+	VZEROUPPER
+	RET
+
+// func phaseRotateAVX(re, im, cr, ci, tr, ti []float64)
+TEXT ·phaseRotateAVX(SB), NOSPLIT, $0-144
+	MOVQ re_base+0(FP), DI
+	MOVQ re_len+8(FP), CX
+	MOVQ im_base+24(FP), SI
+	MOVQ cr_base+48(FP), R8
+	MOVQ ci_base+72(FP), R9
+	MOVQ tr_base+96(FP), R10
+	MOVQ ti_base+120(FP), R11
+	XORQ AX, AX
+
+pr4:
+	CMPQ CX, $4
+	JLT  pr1
+	VMOVUPD (R8)(AX*1), Y0
+	VMOVUPD (R9)(AX*1), Y1
+	VMOVUPD (R10)(AX*1), Y2
+	VMOVUPD (R11)(AX*1), Y3
+	VMULPD Y2, Y0, Y4
+	VMULPD Y3, Y1, Y5
+	VSUBPD Y5, Y4, Y4
+	VMULPD Y3, Y0, Y6
+	VMULPD Y2, Y1, Y7
+	VADDPD Y7, Y6, Y6
+	VMOVUPD (DI)(AX*1), Y8
+	VMOVUPD (SI)(AX*1), Y9
+	VMULPD Y8, Y4, Y10
+	VMULPD Y9, Y6, Y11
+	VSUBPD Y11, Y10, Y10
+	VMULPD Y8, Y6, Y12
+	VMULPD Y9, Y4, Y13
+	VADDPD Y13, Y12, Y12
+	VMOVUPD Y10, (DI)(AX*1)
+	VMOVUPD Y12, (SI)(AX*1)
+	ADDQ $32, AX
+	SUBQ $4, CX
+	JMP  pr4
+
+pr1:
+	CMPQ CX, $1
+	JLT  prdone
+	VMOVSD (R8)(AX*1), X0
+	VMOVSD (R9)(AX*1), X1
+	VMOVSD (R10)(AX*1), X2
+	VMOVSD (R11)(AX*1), X3
+	VMULSD X2, X0, X4
+	VMULSD X3, X1, X5
+	VSUBSD X5, X4, X4
+	VMULSD X3, X0, X6
+	VMULSD X2, X1, X7
+	VADDSD X7, X6, X6
+	VMOVSD (DI)(AX*1), X8
+	VMOVSD (SI)(AX*1), X9
+	VMULSD X8, X4, X10
+	VMULSD X9, X6, X11
+	VSUBSD X11, X10, X10
+	VMULSD X8, X6, X12
+	VMULSD X9, X4, X13
+	VADDSD X13, X12, X12
+	VMOVSD X10, (DI)(AX*1)
+	VMOVSD X12, (SI)(AX*1)
+	ADDQ $8, AX
+	SUBQ $1, CX
+	JMP  pr1
+
+prdone:
+	VZEROUPPER
+	RET
