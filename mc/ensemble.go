@@ -3,6 +3,7 @@ package mc
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
 
 	"rampart/noise"
 	"rampart/sim"
@@ -47,6 +48,11 @@ type Realiser struct {
 	rin       *noise.Synthesizer
 	phase     *noise.Synthesizer
 	field     *noise.Synthesizer
+	// Streamed records (longer than StreamSamples): rinStream and
+	// phaseStream replace rin and phase; noiseN is the records' length.
+	rinStream   *noise.StreamSynthesizer
+	phaseStream *noise.StreamSynthesizer
+	noiseN      int
 	// The grid of the waveforms (the mains line): that of the noise
 	// records.
 	waveStep float64
@@ -136,12 +142,24 @@ func (r *Realiser) prepareNoise() error {
 		rinBand.HighHz = top
 	}
 	var err error
-	if b.RIN != nil {
+	r.noiseN = n
+	if n > streamAbove {
+		if b.RIN != nil {
+			if r.rinStream, err = noise.NewStreamSynthesizer(b.RIN, r.noiseStep, streamBand(rinBand, r.noiseStep)); err != nil {
+				return fmt.Errorf("intensity noise: %w", err)
+			}
+		}
+		if b.Phase != nil {
+			if r.phaseStream, err = noise.NewStreamSynthesizer(b.Phase, r.noiseStep, streamBand(noise.Band{HighHz: top}, r.noiseStep)); err != nil {
+				return fmt.Errorf("drive phase noise: %w", err)
+			}
+		}
+	} else if b.RIN != nil {
 		if r.rin, err = noise.NewSynthesizer(b.RIN, n, r.noiseStep, rinBand); err != nil {
 			return fmt.Errorf("intensity noise: %w", err)
 		}
 	}
-	if b.Phase != nil {
+	if b.Phase != nil && r.phaseStream == nil {
 		if r.phase, err = noise.NewSynthesizer(b.Phase, n, r.noiseStep, noise.Band{HighHz: top}); err != nil {
 			return fmt.Errorf("drive phase noise: %w", err)
 		}
@@ -203,6 +221,11 @@ type Worker struct {
 	bufA   []float64
 	bufB   []float64
 	field  *noise.Synthesizer
+	// Streams of the streamed records: intensity, and the drive phase x1
+	// of arm s = +1, its replica for arm s = -1 and the independent part y.
+	rinS    *noise.Stream
+	phaseS  [3]*noise.Stream
+	scratch []float64
 }
 
 // NewWorker returns scratch space for one goroutine.
@@ -219,6 +242,18 @@ func (r *Realiser) NewWorker() *Worker {
 	}
 	if r.field != nil {
 		w.field = r.field.Clone()
+	}
+	none := func() *rand.Rand { return rand.New(rand.NewPCG(0, 0)) }
+	if r.rinStream != nil {
+		w.rinS = r.rinStream.NewStream(none)
+	}
+	if r.phaseStream != nil {
+		for k := range w.phaseS {
+			w.phaseS[k] = r.phaseStream.NewStream(none)
+		}
+	}
+	if w.rinS != nil || w.phaseS[0] != nil {
+		w.scratch = make([]float64, 4096)
 	}
 	return w
 }
@@ -238,7 +273,9 @@ func (w *Worker) Shot(i int) (sim.Shot, Record) {
 // and drive phase noise records are those of realisations noise[0] and
 // noise[1], and the field noise record that of noise[2]. Designs that
 // recombine inputs (Sobol' indices) use it; Shot(i) is ShotAt(i, point i
-// of the design, {i, i, i}).
+// of the design, {i, i, i}). Streamed records (longer than StreamSamples)
+// read the worker's streams: a shot's records are valid until the
+// worker's next Shot or ShotAt.
 func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record) {
 	r := w.r
 	if len(z) != StaticDim {
@@ -292,6 +329,25 @@ func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record)
 		}
 		phaseRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: a}, {StepS: r.noiseStep, Values: b}})
 		rec.PhaseRms = [2]float64{rms(w.bufA), rms(w.bufB)}
+	}
+	if w.rinS != nil {
+		w.rinS.Restart(substream(r.ens.Seed, noise[0], "noise/rin"))
+		s := &sim.Series{StepS: r.noiseStep, Stream: w.rinS, N: r.noiseN}
+		rinRow.ApplyNoise(&sh, [2]*sim.Series{s, s})
+		rec.RINRms = streamRMS(w.rinS, r.noiseN, w.scratch)
+	}
+	if w.phaseS[0] != nil {
+		// x1 for arm s = +1 and rho x1 + sqrt(1 - rho^2) y for arm s = -1,
+		// as Synthesizer.SynthesizePair, from two substreams.
+		n, rho := float64(r.ens.Config.Ring.Sites), r.ens.Budget.PhaseCorrelation
+		x1 := substream(r.ens.Seed, noise[1], "noise/phase")
+		w.phaseS[0].Restart(x1)
+		w.phaseS[1].Restart(x1)
+		w.phaseS[2].Restart(substream(r.ens.Seed, noise[1], "noise/phase/independent"))
+		a := &mixStream{a: w.phaseS[0], ca: 1 / n}
+		b := &mixStream{a: w.phaseS[1], ca: rho / n, b: w.phaseS[2], cb: math.Sqrt(1-rho*rho) / n}
+		rec.PhaseRms = [2]float64{n * streamRMS(a, r.noiseN, w.scratch), n * streamRMS(b, r.noiseN, w.scratch)}
+		phaseRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Stream: a, N: r.noiseN}, {StepS: r.noiseStep, Stream: b, N: r.noiseN}})
 	}
 	if w.field != nil {
 		// One record of the field, in G; its rms is not a column of the

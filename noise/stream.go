@@ -182,6 +182,13 @@ func (z *StreamSynthesizer) NewStream(source func() *rand.Rand) *Stream {
 	return s
 }
 
+// Restart makes s the realisation whose variates come from source (as in
+// NewStream), reusing its buffers, and rewinds it.
+func (s *Stream) Restart(source func() *rand.Rand) {
+	s.source = source
+	s.Reset()
+}
+
 // Reset rewinds the stream to its first sample.
 func (s *Stream) Reset() {
 	s.rng = s.source()
