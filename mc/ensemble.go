@@ -248,9 +248,12 @@ func (r *Realiser) NewWorker() *Worker {
 		w.rinS = r.rinStream.NewStream(none)
 	}
 	if r.phaseStream != nil {
-		for k := range w.phaseS {
-			w.phaseS[k] = r.phaseStream.NewStream(none)
+		// Uncorrelated arms need no replica of x1.
+		k := 3
+		if r.ens.Budget.PhaseCorrelation == 0 {
+			k = 2
 		}
+		copy(w.phaseS[:], r.phaseStream.NewStreams(k, none))
 	}
 	if w.rinS != nil || w.phaseS[0] != nil {
 		w.scratch = make([]float64, 4096)
@@ -341,11 +344,15 @@ func (w *Worker) ShotAt(index int, z []float64, noise [3]int) (sim.Shot, Record)
 		// as Synthesizer.SynthesizePair, from two substreams.
 		n, rho := float64(r.ens.Config.Ring.Sites), r.ens.Budget.PhaseCorrelation
 		x1 := substream(r.ens.Seed, noise[1], "noise/phase")
+		y := substream(r.ens.Seed, noise[1], "noise/phase/independent")
 		w.phaseS[0].Restart(x1)
-		w.phaseS[1].Restart(x1)
-		w.phaseS[2].Restart(substream(r.ens.Seed, noise[1], "noise/phase/independent"))
+		w.phaseS[1].Restart(y)
 		a := &mixStream{a: w.phaseS[0], ca: 1 / n}
-		b := &mixStream{a: w.phaseS[1], ca: rho / n, b: w.phaseS[2], cb: math.Sqrt(1-rho*rho) / n}
+		b := &mixStream{a: w.phaseS[1], ca: math.Sqrt(1-rho*rho) / n}
+		if w.phaseS[2] != nil {
+			w.phaseS[2].Restart(x1)
+			b.b, b.cb = w.phaseS[2], rho/n
+		}
 		rec.PhaseRms = [2]float64{n * streamRMS(a, r.noiseN, w.scratch), n * streamRMS(b, r.noiseN, w.scratch)}
 		phaseRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Stream: a, N: r.noiseN}, {StepS: r.noiseStep, Stream: b, N: r.noiseN}})
 	}

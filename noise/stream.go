@@ -162,13 +162,12 @@ type Stream struct {
 	z      *StreamSynthesizer
 	source func() *rand.Rand
 	rng    *rand.Rand
-	fft    *fourier.FFT
-	white  []float64 // the last M variates, oldest first
-	coeff  []complex128
-	buf    []float64 // the last FFT's output
-	out    []float64 // the current block's samples, a tail of buf
-	next   int       // index in out of the next sample
-	pos    int       // index of the next sample in the record
+	*streamScratch
+	white []float64 // the last M variates, oldest first
+	buf   []float64 // the last FFT's output
+	out   []float64 // the current block's samples, a tail of buf
+	next  int       // index in out of the next sample
+	pos   int       // index of the next sample in the record
 }
 
 // NewStream returns a realisation whose variates come from the generators
@@ -176,10 +175,29 @@ type Stream struct {
 // return a generator in the same state each time (for example a new
 // rand.Rand seeded alike).
 func (z *StreamSynthesizer) NewStream(source func() *rand.Rand) *Stream {
-	s := &Stream{z: z, source: source, fft: fourier.NewFFT(z.m),
-		white: make([]float64, z.m), coeff: make([]complex128, z.m/2+1), buf: make([]float64, z.m)}
-	s.Reset()
-	return s
+	return z.NewStreams(1, source)[0]
+}
+
+// streamScratch is the FFT plan and spectrum scratch that streams read in
+// turn can share.
+type streamScratch struct {
+	fft   *fourier.FFT
+	coeff []complex128
+}
+
+// NewStreams returns k streams, all started from source (Restart gives
+// each its own), that share one FFT plan and scratch: they may be read in
+// any interleaving, but not concurrently. Each holds 2M numbers of its own
+// and the group 3M more.
+func (z *StreamSynthesizer) NewStreams(k int, source func() *rand.Rand) []*Stream {
+	sc := &streamScratch{fft: fourier.NewFFT(z.m), coeff: make([]complex128, z.m/2+1)}
+	out := make([]*Stream, k)
+	for i := range out {
+		s := &Stream{z: z, source: source, streamScratch: sc, white: make([]float64, z.m), buf: make([]float64, z.m)}
+		s.Reset()
+		out[i] = s
+	}
+	return out
 }
 
 // Restart makes s the realisation whose variates come from source (as in

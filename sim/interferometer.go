@@ -123,6 +123,9 @@ type Simulator struct {
 	// constant stretches too (the fine-step reference of the tests).
 	splitOnly bool
 	splitStep float64
+	// gridCruise makes noisy constant stretches run on the full grid
+	// rather than in the cut band basis (sim/reduced.go).
+	gridCruise bool
 }
 
 // MaxRampSteps bounds the split steps of a shot's two ramps: at about a
@@ -236,6 +239,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 			f.set(n, st)
 		}
 		p := newPropagator(b, cfg.Ring, v0, lev)
+		p.gridCruise = s.gridCruise
 		tm := d.times()
 		var rest *eigensystem // of the lattice at rest, diagonalised if a rest stretch needs it
 		stretch := func(w, t0, t1 float64, es *eigensystem) *eigensystem {

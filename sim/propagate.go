@@ -34,6 +34,14 @@ type propagator struct {
 
 	scheme scheme
 
+	// Noisy cruise (sim/reduced.go): gridCruise forces the full grid;
+	// tailEst is the largest error estimate of the band basis, fellBack
+	// records a stretch redone on the full grid.
+	gridCruise bool
+	tailEst    float64
+	fellBack   bool
+	cutBands   int
+
 	kinTabs [][]complex128 // exp(-i rot l^2 h) for the durations in kinHs
 	kinHs   []float64
 	s, d    []float64 // scratch: even and odd halves, K/2 x 2W
