@@ -4,9 +4,12 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"os"
 	"runtime"
-	"runtime/debug"
+	"runtime/metrics"
+	"sync"
 	"testing"
+	"time"
 
 	"rampart/noise"
 	"rampart/sim"
@@ -35,33 +38,57 @@ func cruiseEnsemble(tb testing.TB, laps float64, samples int) Ensemble {
 }
 
 // BenchmarkNoisyCruise runs one realisation of the noisy-cruise scenario on
-// one worker at 1, 20 and 100 laps and reports the CPU per lap and the peak
-// heap in use during the realisation (sampled by a forced collection after
-// each realisation is not enough: the peak is read from the runtime's
-// HeapInuse high-water mark between collections, so the benchmark disables
-// the collector's pacing headroom with SetGCPercent(10)).
+// one worker at 1, 20 and 100 laps (RAMPART_BENCH_LARGE=1: also 1000) and
+// reports the time per lap and the peak of the live heap during the
+// realisations (runtime/metrics, sampled every 10 ms, less the heap before),
+// which holds the worker's noise records or streams.
 func BenchmarkNoisyCruise(b *testing.B) {
-	for _, laps := range []float64{1, 20, 100} {
-		b.Run(fmt.Sprintf("laps=%g", laps), func(b *testing.B) {
-			e := cruiseEnsemble(b, laps, 1)
+	laps := []float64{1, 20, 100}
+	if os.Getenv("RAMPART_BENCH_LARGE") == "1" {
+		laps = append(laps, 1000)
+	}
+	for _, l := range laps {
+		b.Run(fmt.Sprintf("laps=%g", l), func(b *testing.B) {
+			e := cruiseEnsemble(b, l, 1)
 			r, err := NewRealiser(e)
 			if err != nil {
 				b.Fatal(err)
 			}
-			old := debug.SetGCPercent(10)
-			defer debug.SetGCPercent(old)
-			var before runtime.MemStats
 			runtime.GC()
-			runtime.ReadMemStats(&before)
+			base := liveHeap()
+			peak := base
+			done := make(chan struct{})
+			var wg sync.WaitGroup
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				tick := time.NewTicker(10 * time.Millisecond)
+				defer tick.Stop()
+				for {
+					select {
+					case <-done:
+						return
+					case <-tick.C:
+						peak = max(peak, liveHeap())
+					}
+				}
+			}()
 			for b.Loop() {
 				if _, err := r.Run(context.Background(), 0, 1, 1, func(Record) error { return nil }); err != nil {
 					b.Fatal(err)
 				}
 			}
-			var after runtime.MemStats
-			runtime.ReadMemStats(&after)
-			b.ReportMetric(b.Elapsed().Seconds()/float64(b.N)/laps*1e3, "ms/lap")
-			b.ReportMetric(float64(after.TotalAlloc-before.TotalAlloc)/float64(b.N)/1e6, "MBalloc/op")
+			close(done)
+			wg.Wait()
+			b.ReportMetric(b.Elapsed().Seconds()/float64(b.N)/l*1e3, "ms/lap")
+			b.ReportMetric(float64(peak-base)/1e6, "MBpeak")
 		})
 	}
+}
+
+// liveHeap returns the bytes of live and not yet collected heap objects.
+func liveHeap() uint64 {
+	s := []metrics.Sample{{Name: "/memory/classes/heap/objects:bytes"}}
+	metrics.Read(s)
+	return s[0].Value.Uint64()
 }

@@ -43,10 +43,11 @@ import (
 // References:
 //
 //	A. V. Oppenheim and R. W. Schafer, Discrete-Time Signal Processing,
-//	3rd ed. (Pearson, 2010), sec. 8.7.3 (overlap-save block convolution).
+//	3rd ed. (Pearson, 2010), ch. 8 (overlap-save block convolution;
+//	chapter from memory).
 //	A. Papoulis and S. U. Pillai, Probability, Random Variables and
-//	Stochastic Processes, 4th ed. (McGraw-Hill, 2002), sec. 9-3 (the PSD of
-//	a linear system's output, S_y = |H|² S_x).
+//	Stochastic Processes, 4th ed. (McGraw-Hill, 2002), ch. 9 (the PSD of a
+//	linear system's output, S_y = |H|² S_x; chapter from memory).
 type StreamSynthesizer struct {
 	dt       float64
 	band     Band

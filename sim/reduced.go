@@ -56,11 +56,11 @@ import "math"
 // References:
 //
 //	J. P. Boyd, Chebyshev and Fourier Spectral Methods, 2nd ed. (Dover,
-//	2001), sec. 2.12 (the last retained coefficients as the truncation
-//	error estimate).
+//	2001), ch. 2 (the last retained coefficients as the truncation error
+//	estimate; chapter from memory).
 //	C. Moler and C. Van Loan, "Nineteen dubious ways to compute the
 //	exponential of a matrix, twenty-five years later", SIAM Rev. 45, 3
-//	(2003), sec. 3 (Taylor series with scaling).
+//	(2003) (Taylor series with scaling, their method 1).
 
 // reducedTailTol bounds the error estimate of a stretch in the band
 // basis: the noise-driven amplitude of the tail bands, added in quadrature
