@@ -62,7 +62,8 @@ type StreamSynthesizer struct {
 const streamCells = 2
 
 // MaxStreamTaps bounds the kernel of a StreamSynthesizer (2^18 taps: a
-// stream then holds about 24 MB).
+// stream then holds 2M = 2^20 numbers, 8 MB, and its group's scratch about
+// as much again).
 const MaxStreamTaps = 1 << 18
 
 // StreamTaps returns the number of kernel taps a StreamSynthesizer with step
