@@ -168,7 +168,8 @@ func reducedBands(ar, ai []float64, k, blocks int) int {
 // cut band basis of es, in n intervals, as stretch does on the full grid.
 // The basis grows by reducedTail bands, and the segment is redone, where a
 // segment's tail estimate exceeds its share of reducedTailTol. It returns
-// false, leaving f unchanged, if the basis would grow to all K bands, and
+// false, leaving f unchanged, if the starting basis has more than K/reducedGain
+// bands or would grow past K/2 (no longer cheaper than the grid), and
 // the error estimate.
 func (p *propagator) stretchReduced(f *field, d Drive, es *eigensystem, t0, t1 float64, n int) (bool, float64) {
 	b := p.b
