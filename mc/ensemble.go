@@ -3,6 +3,7 @@ package mc
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
 
 	"rampart/noise"
 	"rampart/sim"
@@ -48,6 +49,11 @@ type Realiser struct {
 	phase     *noise.Synthesizer
 	field     *noise.Synthesizer
 	rotation  *noise.Synthesizer
+	// Streamed records (longer than StreamSamples): rinStream and
+	// phaseStream replace rin and phase; noiseN is the records' length.
+	rinStream   *noise.StreamSynthesizer
+	phaseStream *noise.StreamSynthesizer
+	noiseN      int
 	// The grid of the waveforms (the mains line): that of the noise
 	// records.
 	waveStep float64
@@ -137,12 +143,24 @@ func (r *Realiser) prepareNoise() error {
 		rinBand.HighHz = top
 	}
 	var err error
-	if b.RIN != nil {
+	r.noiseN = n
+	if n > streamAbove {
+		if b.RIN != nil {
+			if r.rinStream, err = noise.NewStreamSynthesizer(b.RIN, r.noiseStep, streamBand(rinBand, r.noiseStep)); err != nil {
+				return fmt.Errorf("intensity noise: %w", err)
+			}
+		}
+		if b.Phase != nil {
+			if r.phaseStream, err = noise.NewStreamSynthesizer(b.Phase, r.noiseStep, streamBand(noise.Band{HighHz: top}, r.noiseStep)); err != nil {
+				return fmt.Errorf("drive phase noise: %w", err)
+			}
+		}
+	} else if b.RIN != nil {
 		if r.rin, err = noise.NewSynthesizer(b.RIN, n, r.noiseStep, rinBand); err != nil {
 			return fmt.Errorf("intensity noise: %w", err)
 		}
 	}
-	if b.Phase != nil {
+	if b.Phase != nil && r.phaseStream == nil {
 		if r.phase, err = noise.NewSynthesizer(b.Phase, n, r.noiseStep, noise.Band{HighHz: top}); err != nil {
 			return fmt.Errorf("drive phase noise: %w", err)
 		}
@@ -210,6 +228,11 @@ type Worker struct {
 	bufB   []float64
 	field  *noise.Synthesizer
 	rot    *noise.Synthesizer
+	// Streams of the streamed records: intensity, and the drive phase x1
+	// of arm s = +1, its replica for arm s = -1 and the independent part y.
+	rinS    *noise.Stream
+	phaseS  [3]*noise.Stream
+	scratch []float64
 }
 
 // NewWorker returns scratch space for one goroutine.
@@ -230,6 +253,21 @@ func (r *Realiser) NewWorker() *Worker {
 	if r.rotation != nil {
 		w.rot = r.rotation.Clone()
 	}
+	none := func() *rand.Rand { return rand.New(rand.NewPCG(0, 0)) }
+	if r.rinStream != nil {
+		w.rinS = r.rinStream.NewStream(none)
+	}
+	if r.phaseStream != nil {
+		// Uncorrelated arms need no replica of x1.
+		k := 3
+		if r.ens.Budget.PhaseCorrelation == 0 {
+			k = 2
+		}
+		copy(w.phaseS[:], r.phaseStream.NewStreams(k, none))
+	}
+	if w.rinS != nil || w.phaseS[0] != nil {
+		w.scratch = make([]float64, 4096)
+	}
 	return w
 }
 
@@ -249,7 +287,9 @@ func (w *Worker) Shot(i int) (sim.Shot, Record) {
 // noise[1], the field noise record that of noise[2] and the rotation
 // noise record that of noise[3]. Designs that recombine inputs (Sobol'
 // indices) use it; Shot(i) is ShotAt(i, point i of the design,
-// {i, i, i, i}).
+// {i, i, i, i}). Streamed records (longer than StreamSamples) read the
+// worker's streams: a shot's records are valid until the worker's next
+// Shot or ShotAt.
 func (w *Worker) ShotAt(index int, z []float64, noise [4]int) (sim.Shot, Record) {
 	r := w.r
 	if len(z) != StaticDim {
@@ -303,6 +343,29 @@ func (w *Worker) ShotAt(index int, z []float64, noise [4]int) (sim.Shot, Record)
 		}
 		phaseRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Values: a}, {StepS: r.noiseStep, Values: b}})
 		rec.PhaseRms = [2]float64{rms(w.bufA), rms(w.bufB)}
+	}
+	if w.rinS != nil {
+		w.rinS.Restart(substream(r.ens.Seed, noise[0], "noise/rin"))
+		s := &sim.Series{StepS: r.noiseStep, Stream: w.rinS, N: r.noiseN}
+		rinRow.ApplyNoise(&sh, [2]*sim.Series{s, s})
+		rec.RINRms = streamRMS(w.rinS, r.noiseN, w.scratch)
+	}
+	if w.phaseS[0] != nil {
+		// x1 for arm s = +1 and rho x1 + sqrt(1 - rho^2) y for arm s = -1,
+		// as Synthesizer.SynthesizePair, from two substreams.
+		n, rho := float64(r.ens.Config.Ring.Sites), r.ens.Budget.PhaseCorrelation
+		x1 := substream(r.ens.Seed, noise[1], "noise/phase")
+		y := substream(r.ens.Seed, noise[1], "noise/phase/independent")
+		w.phaseS[0].Restart(x1)
+		w.phaseS[1].Restart(y)
+		a := &mixStream{a: w.phaseS[0], ca: 1 / n}
+		b := &mixStream{a: w.phaseS[1], ca: math.Sqrt(1-rho*rho) / n}
+		if w.phaseS[2] != nil {
+			w.phaseS[2].Restart(x1)
+			b.b, b.cb = w.phaseS[2], rho/n
+		}
+		rec.PhaseRms = [2]float64{n * streamRMS(a, r.noiseN, w.scratch), n * streamRMS(b, r.noiseN, w.scratch)}
+		phaseRow.ApplyNoise(&sh, [2]*sim.Series{{StepS: r.noiseStep, Stream: a, N: r.noiseN}, {StepS: r.noiseStep, Stream: b, N: r.noiseN}})
 	}
 	if w.field != nil {
 		// One record of the field, in G; its rms is not a column of the

@@ -190,7 +190,7 @@ func radiusPhase(c Config, r float64) float64 {
 // seriesIntegrals returns the integrals of x(t) and x(t)^2 over [t0, t1]
 // for the piecewise-linear record x (zero if nil), exactly.
 func seriesIntegrals(x *Series, t0, t1 float64) (lin, sq float64) {
-	if x == nil || len(x.Values) == 0 || t1 <= t0 {
+	if x.Len() == 0 || t1 <= t0 {
 		return 0, 0
 	}
 	piece := func(a, b float64) {
@@ -198,7 +198,7 @@ func seriesIntegrals(x *Series, t0, t1 float64) (lin, sq float64) {
 		lin += (b - a) * (va + vb) / 2
 		sq += (b - a) * (va*va + va*vb + vb*vb) / 3
 	}
-	last := float64(len(x.Values)-1) * x.StepS
+	last := float64(x.Len()-1) * x.StepS
 	a := t0
 	for i := max(0, int(math.Floor(t0/x.StepS))+1); ; i++ {
 		ti := float64(i) * x.StepS

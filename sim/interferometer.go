@@ -131,6 +131,9 @@ type Simulator struct {
 	// work pools the *shotWork that shots reuse (sim/shotwork.go);
 	// copies of the simulator share it.
 	work *sync.Pool
+	// gridCruise makes noisy constant stretches run on the full grid
+	// rather than in the cut band basis (sim/reduced.go).
+	gridCruise bool
 }
 
 // MaxRampSteps bounds the split steps of a shot's two ramps: at about a
@@ -243,6 +246,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 			f.set(n, st)
 		}
 		p := wk.props[a]
+		p.gridCruise = s.gridCruise
 		tm := d.times()
 		var rest *eigensystem // of the lattice at rest, diagonalised if a rest stretch needs it
 		stretch := func(w, t0, t1 float64, es *eigensystem) *eigensystem {

@@ -35,6 +35,14 @@ type propagator struct {
 
 	scheme scheme
 
+	// Noisy cruise (sim/reduced.go): gridCruise forces the full grid;
+	// tailEst is the largest error estimate of the band basis, fellBack
+	// records a stretch redone on the full grid.
+	gridCruise bool
+	tailEst    float64
+	fellBack   bool
+	cutBands   int
+
 	kin  *kineticCache // exp(-i rot l^2 h), shareable by the propagators of one goroutine
 	lat  latticeCache  // exp(-i g v0 lam dt) for the last few g dt
 	s, d []float64     // scratch: even and odd halves, K/2 x 2W

@@ -81,6 +81,10 @@ func (p *propagator) kick(f *field, da float64) {
 // interval (a Strang splitting in the small perturbation only). Its cost
 // grows with the number of noise samples, not with the trap period.
 // It returns the eigensystem of H'_0.
+//
+// Unless p.gridCruise is set, the noisy stretch is first propagated in the
+// cut band basis (stretchReduced, sim/reduced.go), and on the full grid
+// only where its error estimate fails.
 func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem) *eigensystem {
 	g0 := 1 + d.DepthRel
 	if t1 <= t0 {
@@ -94,6 +98,17 @@ func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es
 		es = &e
 	}
 	n := int(math.Ceil((t1 - t0) / noiseStep))
+	if !p.gridCruise {
+		ok, est := p.stretchReduced(f, d, es, t0, t1, n)
+		p.tailEst = math.Max(p.tailEst, est)
+		if reducedTrace != nil {
+			reducedTrace(p.cutBands, est, ok)
+		}
+		if ok {
+			return es
+		}
+		p.fellBack = true
+	}
 	tau := (t1 - t0) / float64(n)
 	half := newBlockExp(es, tau/2)
 	full := newBlockExp(es, tau)
@@ -114,3 +129,7 @@ func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es
 	half.apply(f, scratch)
 	return es
 }
+
+// reducedTrace, when set (by tests), sees every noisy stretch tried in the
+// band basis: the bands kept, the error estimate and whether it held.
+var reducedTrace func(bands int, est float64, ok bool)
