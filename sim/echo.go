@@ -312,3 +312,15 @@ func echoScatteringMeans(sh Shot, pl echoPlan) [2]float64 {
 	}
 	return l
 }
+
+// WithUp returns q with the ramp-up replaced by up and the cruise set so
+// that each segment turns by the same angle as in q; the ramp-down (or
+// the mirror, which then mirrors up), the echo segments and the hold are
+// kept.
+func (q Sequence) WithUp(up Ramp) (Sequence, error) {
+	s, err := NewSequenceDown(up, q.Down, q.Segment().TotalAngle()/(2*math.Pi))
+	if err != nil || !q.echo() {
+		return s, err
+	}
+	return NewEcho(s, q.Segments, q.HoldS)
+}

@@ -312,3 +312,41 @@ func TestEchoRingPotentialWholeLaps(t *testing.T) {
 		t.Errorf("tilt on an echo of whole laps moved the bias by %.3g rad, want 0 (tol 1e-12)", d)
 	}
 }
+
+// TestWithUp: replacing the ramp-up keeps each segment's angle, the
+// ramp-down, the echo segments and the hold.
+func TestWithUp(t *testing.T) {
+	up, err := NewShape("sin2", 150e-6, 500, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	down, err := NewShape("minjerk", 220e-6, 500, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	other, err := NewShape("minjerk", 300e-6, 500, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain, err := NewSequenceDown(up, down, 1.5)
+	if err != nil {
+		t.Fatal(err)
+	}
+	echo, err := NewEcho(plain, 4, 30e-6)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, q := range []Sequence{plain, echo} {
+		got, err := q.WithUp(other)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got.Up != other || got.Down != down || got.Segments != q.Segments || got.HoldS != q.HoldS {
+			t.Errorf("WithUp kept up %v down %v segments %d hold %g, want %v %v %d %g", got.Up, got.Down, got.Segments, got.HoldS, other, down, q.Segments, q.HoldS)
+		}
+		// Exact but for rounding of the cruise time.
+		if d := math.Abs(got.TotalAngle() - q.TotalAngle()); d > 1e-12*q.TotalAngle() {
+			t.Errorf("total angle %.15g, want %.15g (tol 1e-12 relative)", got.TotalAngle(), q.TotalAngle())
+		}
+	}
+}

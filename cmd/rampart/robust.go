@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -226,8 +225,7 @@ func freshRanking(ctx context.Context, sc *scenario.Scenario, cfg sim.Config, bu
 	if err != nil {
 		return nil, fmt.Errorf("read back %s: %w", o.write, err)
 	}
-	laps := cfg.Sequence.TotalAngle() / (2 * math.Pi)
-	seq, err := sim.NewSequence(tab, laps)
+	seq, err := cfg.Sequence.WithUp(tab)
 	if err != nil {
 		return nil, err
 	}
