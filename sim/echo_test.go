@@ -3,6 +3,7 @@ package sim
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -348,5 +349,19 @@ func TestWithUp(t *testing.T) {
 		if d := math.Abs(got.TotalAngle() - q.TotalAngle()); d > 1e-12*q.TotalAngle() {
 			t.Errorf("total angle %.15g, want %.15g (tol 1e-12 relative)", got.TotalAngle(), q.TotalAngle())
 		}
+	}
+}
+
+// TestEchoKernelsRefused: the noise kernels follow each lattice's arm
+// through the whole shot, not the packets across the swaps, so an echo
+// sequence is refused rather than given wrong kernels.
+func TestEchoKernelsRefused(t *testing.T) {
+	_, echo := echoConfig(t, 150e-6, 1, 0, 0, 2)
+	s, err := NewSimulator(echo)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := s.Kernels(0); err == nil || !strings.Contains(err.Error(), "echo sequence") {
+		t.Errorf("Kernels of an echo: got %v, want a refusal naming the echo sequence", err)
 	}
 }
