@@ -190,7 +190,8 @@ func (s *Simulator) runEcho(sh Shot, obs Observer) Result {
 			case t1 <= t0:
 			case s.splitOnly:
 				p.splitSteps(f, d, t0, t1, int(math.Ceil((t1-t0)/s.splitStep)))
-			case t1-t0 < shortStretch*s.step && !d.noisy():
+			case t1-t0 < shortStretch*s.step && cache[[2]float64{float64(L), st.omega}] == nil:
+				// As in Run: a few split steps cost less than diagonalising.
 				p.splitSteps(f, d, t0, t1, s.steps(t1-t0))
 			default:
 				p.stretch(f, d, st.omega, t0, t1, noiseStep, eig(L, st.omega))
