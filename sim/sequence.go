@@ -82,7 +82,9 @@ func (q Sequence) Duration() float64 {
 }
 
 // segmentS returns the duration of one ramp-up, cruise and ramp-down.
-func (q Sequence) segmentS() float64 { return q.Up.Duration() + q.CruiseS + q.down().Duration() }
+// (The ramps are added first: for a mirrored sequence this is 2 t_r + t_c
+// to the last bit, as it was before a ramp-down of its own existed.)
+func (q Sequence) segmentS() float64 { return q.Up.Duration() + q.down().Duration() + q.CruiseS }
 
 // CruiseSpeed returns Omega_0 in rad/s.
 func (q Sequence) CruiseSpeed() float64 { return Cruise(q.Up) }
@@ -134,7 +136,8 @@ func (q Sequence) Angle(t float64) float64 {
 // TotalAngle returns phi(T) in rad: for an echo sequence the angle its
 // packets turn in all, Segments times that of one segment.
 func (q Sequence) TotalAngle() float64 {
-	one := q.Up.Angle(q.Up.Duration()) + q.CruiseSpeed()*q.CruiseS + q.down().Angle(q.down().Duration())
+	// The ramps first, as in segmentS.
+	one := q.Up.Angle(q.Up.Duration()) + q.down().Angle(q.down().Duration()) + q.CruiseSpeed()*q.CruiseS
 	if q.echo() {
 		return float64(q.Segments) * one
 	}
