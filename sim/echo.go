@@ -25,6 +25,10 @@ import (
 // the packet that started in the arm s, so that Phi_S = K Omega_bg with
 // K = 2 I phi(T) / hbar as for one segment. After an odd number of swaps
 // the spin read-out measures the conjugate, -Phi.
+//
+// References (the echo's principle, from memory):
+//
+//	E. L. Hahn, "Spin echoes", Phys. Rev. 80, 580 (1950).
 
 // NewEcho returns the echo sequence that plays seg segments times with a
 // rest of holdS between segments. seg must be a single segment; segments
