@@ -165,8 +165,7 @@ func (r Robust) Evaluate(ctx context.Context, coef []float64) (float64, *Correct
 // RunRamp runs the ensemble ens with its ramp-up replaced by ramp (the
 // sequence keeping its laps) and returns the records in index order.
 func RunRamp(ctx context.Context, ens mc.Ensemble, ramp sim.Ramp, workers int) ([]mc.Record, error) {
-	laps := ens.Config.Sequence.TotalAngle() / (2 * math.Pi)
-	seq, err := sim.NewSequence(ramp, laps)
+	seq, err := ens.Config.Sequence.WithUp(ramp)
 	if err != nil {
 		return nil, err
 	}

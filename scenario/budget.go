@@ -126,7 +126,7 @@ func (sc *Scenario) Fingerprint() (hash, text string, err error) {
 	c := *sc
 	c.Name = ""
 	files := map[string]string{}
-	for _, p := range []*string{&c.Ramp.File, &c.Noise.Drive.PhaseTable, &c.Noise.Depth.RINTable} {
+	for _, p := range []*string{&c.Ramp.File, &c.Ramp.DownFile, &c.Noise.Drive.PhaseTable, &c.Noise.Depth.RINTable} {
 		if *p == "" {
 			continue
 		}

@@ -223,6 +223,9 @@ func (d *decoder) check() error {
 	if !designed(s.Ramp.Shape) && s.Ramp.DesignDepthKHz != 0 {
 		return d.fail("ramp.design_depth_khz", fmt.Errorf(`ramp.design_depth_khz applies to shapes designed for a depth (%s) only, not %q: leave it out or set it to 0`, strings.Join(designedShapes(), ", "), s.Ramp.Shape))
 	}
+	if err := d.checkDown(); err != nil {
+		return err
+	}
 	if g, m := s.Numerics.Grid, 2*s.Ring.Sites; g%m != 0 {
 		such := fmt.Sprint(m)
 		if lo := g / m * m; lo > 0 {
@@ -270,4 +273,33 @@ func (d *decoder) fail(name string, err error) error {
 		}
 	}
 	return e
+}
+
+// checkDown checks the keys of the ramp-down and of the echo against each
+// other, as check does for the ramp-up.
+func (d *decoder) checkDown() error {
+	r := d.s.Ramp
+	if r.DownShape == "" {
+		for _, k := range []string{"ramp.down_duration_us", "ramp.down_design_depth_khz", "ramp.down_file"} {
+			if d.byKey[k] != nil {
+				return d.fail(k, fmt.Errorf("%s is given but ramp.down_shape is not: set down_shape (a shape or \"file\") for a ramp-down of its own, or leave %s out for the mirror of the ramp-up", k, k))
+			}
+		}
+	}
+	switch {
+	case r.DownShape == "":
+	case r.DownShape == "file" && r.DownFile == "":
+		return d.fail("ramp.down_shape", fmt.Errorf(`ramp.down_shape = "file" needs ramp.down_file, the ramp-down table (a CSV file relative to the scenario file)`))
+	case r.DownShape != "file" && r.DownFile != "":
+		return d.fail("ramp.down_file", fmt.Errorf(`ramp.down_file is given but ramp.down_shape = %q: set down_shape = "file" to use the table, or leave down_file out`, r.DownShape))
+	case r.DownShape != "file" && d.byKey["ramp.down_duration_us"] == nil:
+		k := keyByName["ramp.down_duration_us"]
+		return d.fail("ramp.down_shape", fmt.Errorf("ramp.down_shape = %q needs %s: want %s", r.DownShape, k.name, k.want()))
+	case !designed(r.DownShape) && r.DownDesignDepthKHz != 0:
+		return d.fail("ramp.down_design_depth_khz", fmt.Errorf(`ramp.down_design_depth_khz applies to shapes designed for a depth (%s) only, not %q: leave it out or set it to 0`, strings.Join(designedShapes(), ", "), r.DownShape))
+	}
+	if m := d.s.Motion; m.EchoHoldUS != 0 && m.EchoSegments < 2 {
+		return d.fail("motion.echo_hold_us", fmt.Errorf("motion.echo_hold_us = %g applies to echo sequences only, but motion.echo_segments = %d: set echo_segments to 2 or more, or leave the hold out", m.EchoHoldUS, m.EchoSegments))
+	}
+	return nil
 }

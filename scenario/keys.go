@@ -45,12 +45,16 @@ const (
 	// maxLaps: 10^6 turns, a hundred times the longest cruise docs/model.md
 	// (Numerics) checks; a longer cruise is a typo, not an experiment.
 	maxLaps = 1e6
+	// maxSegments: every segment costs two ramps of split steps; a
+	// thousand swap pulses is far beyond any echo train in use.
+	maxSegments = 1000
 )
 
 var (
-	sitesBound = bound{func(x float64) bool { return x >= 1 && x <= maxSites }, fmt.Sprintf("from 1 to %d", maxSites)}
-	lapsBound  = bound{func(x float64) bool { return x > 0 && x <= maxLaps }, "> 0 and at most 1e6"}
-	gridBound  = bound{func(x float64) bool { return x >= 0 && x <= sim.MaxGrid }, fmt.Sprintf("from 0 (automatic) to %d", sim.MaxGrid)}
+	sitesBound    = bound{func(x float64) bool { return x >= 1 && x <= maxSites }, fmt.Sprintf("from 1 to %d", maxSites)}
+	lapsBound     = bound{func(x float64) bool { return x > 0 && x <= maxLaps }, "> 0 and at most 1e6"}
+	segmentsBound = bound{func(x float64) bool { return x >= 0 && x <= maxSegments }, fmt.Sprintf("from 0 (no echo) to %d", maxSegments)}
+	gridBound     = bound{func(x float64) bool { return x >= 0 && x <= sim.MaxGrid }, fmt.Sprintf("from 0 (automatic) to %d", sim.MaxGrid)}
 	// The ring potential is applied at first order, tested to a tilt of
 	// 10 mrad and harmonics of 1e-2 (sim.RingPotential.Validate).
 	tiltBound     = bound{func(x float64) bool { return math.Abs(x) <= 10 }, "from -10 to 10"}
@@ -135,6 +139,10 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Motion.Laps }},
 	{name: "motion.rotation_rad_s", kind: number, bound: anyFinite, meaning: "the background rotation in rad/s",
 		field: func(s *Scenario) any { return &s.Motion.RotationRadS }},
+	{name: "motion.echo_segments", kind: integer, bound: segmentsBound, meaning: "the number of echo segments, each ending where the arms meet with a swap pulse and the drives reversed (0 or 1: no echo)",
+		field: func(s *Scenario) any { return &s.Motion.EchoSegments }},
+	{name: "motion.echo_hold_us", kind: number, bound: zeroOrAbove("none"), meaning: "the rest between echo segments in us, the swap pulse at its middle",
+		field: func(s *Scenario) any { return &s.Motion.EchoHoldUS }},
 	{name: "ramp.shape", kind: text, choices: shapes, required: true, meaning: "the ramp shape",
 		field: func(s *Scenario) any { return &s.Ramp.Shape }},
 	{name: "ramp.duration_us", kind: number, bound: positive, meaning: "the ramp-up time in us",
@@ -143,6 +151,14 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Ramp.DesignDepthKHz }},
 	{name: "ramp.file", kind: file, meaning: "the ramp table, a CSV file relative to the scenario file",
 		field: func(s *Scenario) any { return &s.Ramp.File }},
+	{name: "ramp.down_shape", kind: text, choices: shapes, meaning: "the ramp-down's shape, a ramp-up played backwards (none: the mirror of the ramp-up)",
+		field: func(s *Scenario) any { return &s.Ramp.DownShape }},
+	{name: "ramp.down_duration_us", kind: number, bound: positive, meaning: "the ramp-down time in us",
+		field: func(s *Scenario) any { return &s.Ramp.DownDurationUS }},
+	{name: "ramp.down_design_depth_khz", kind: number, bound: zeroOrAbove("the lattice depth"), meaning: "the depth V0/h in kHz the inverse ramp-down is designed for",
+		field: func(s *Scenario) any { return &s.Ramp.DownDesignDepthKHz }},
+	{name: "ramp.down_file", kind: file, meaning: "the ramp-down table (a ramp-up played backwards), a CSV file relative to the scenario file",
+		field: func(s *Scenario) any { return &s.Ramp.DownFile }},
 	{name: "start.temperature_nk", kind: number, bound: zeroOrAbove("the ground state"), meaning: "the start temperature in nK",
 		field: func(s *Scenario) any { return &s.Start.TemperatureNK }},
 	{name: "numerics.grid", kind: integer, bound: gridBound, meaning: "the number of momentum states, a multiple of 2*sites",

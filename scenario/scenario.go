@@ -9,6 +9,7 @@ import (
 	"path"
 	"path/filepath"
 	"rampart/internal/boundedread"
+	"strings"
 
 	"rampart/sim"
 )
@@ -99,6 +100,12 @@ type Motion struct {
 	CruiseRadS   float64 // each arm's cruise speed Omega_0 in the apparatus frame, rad/s
 	Laps         float64 // each arm's one-way angle phi(T) in turns; 2 Laps is a whole number
 	RotationRadS float64 // background rotation Omega_bg being measured, rad/s (default 0)
+
+	// EchoSegments is the number of echo segments (0 or 1: none); EchoHoldUS
+	// the rest between segments, with the swap pulse at its middle, in us
+	// (sim.NewEcho).
+	EchoSegments int     `json:",omitempty"`
+	EchoHoldUS   float64 `json:",omitempty"`
 }
 
 // Ramp is the [ramp] table.
@@ -114,6 +121,14 @@ type Ramp struct {
 	// scenario file's directory in the file, already joined to that
 	// directory here. Read it with Scenario.ReadFile.
 	File string
+
+	// The ramp-down, if it is not the mirror of the ramp-up: the keys of
+	// the ramp-up for a ramp-up played backwards in time (sim.Sequence.Down).
+	// An empty DownShape means the mirror.
+	DownShape          string  `json:",omitempty"`
+	DownDurationUS     float64 `json:",omitempty"`
+	DownDesignDepthKHz float64 `json:",omitempty"`
+	DownFile           string  `json:",omitempty"`
 }
 
 // Start is the [start] table.
@@ -325,9 +340,21 @@ func (s *Scenario) config() (sim.Config, *keyError) {
 	if kerr != nil {
 		return sim.Config{}, kerr
 	}
-	seq, err := sim.NewSequence(up, s.Motion.Laps)
+	var down sim.Ramp
+	if s.Ramp.DownShape != "" {
+		r := s.Ramp
+		if down, kerr = s.ramp(rampKeys{r.DownShape, r.DownDurationUS, r.DownDesignDepthKHz, r.DownFile, "ramp.down_"}); kerr != nil {
+			return sim.Config{}, kerr
+		}
+	}
+	seq, err := sim.NewSequenceDown(up, down, s.Motion.Laps)
 	if err != nil {
 		return sim.Config{}, &keyError{"motion.laps", err}
+	}
+	if n := s.Motion.EchoSegments; n >= 2 {
+		if seq, err = sim.NewEcho(seq, n, s.Motion.EchoHoldUS*1e-6); err != nil {
+			return sim.Config{}, &keyError{"motion.echo_segments", err}
+		}
 	}
 	cfg := sim.Config{
 		Ring:         s.simRing(),
@@ -353,32 +380,54 @@ func (s *Scenario) config() (sim.Config, *keyError) {
 const durationAgreement = 1e-6
 
 func (s *Scenario) rampUp() (sim.Ramp, *keyError) {
-	dur := s.Ramp.DurationUS * 1e-6
+	r := s.Ramp
+	return s.ramp(rampKeys{r.Shape, r.DurationUS, r.DesignDepthKHz, r.File, "ramp."})
+}
+
+// rampKeys are the keys of one ramp: the ramp-up's, or the ramp-down's
+// (prefix "ramp.down_").
+type rampKeys struct {
+	shape          string
+	durationUS     float64
+	designDepthKHz float64
+	file           string
+	prefix         string
+}
+
+func (s *Scenario) ramp(k rampKeys) (sim.Ramp, *keyError) {
+	dur := k.durationUS * 1e-6
 	cruise := s.Motion.CruiseRadS
-	switch s.Ramp.Shape {
+	switch k.shape {
 	case "file":
-		data, err := s.ReadFile(s.Ramp.File)
+		data, err := s.ReadFile(k.file)
 		if err != nil {
-			return nil, &keyError{"ramp.file", fmt.Errorf("ramp file %q: %w", boundedread.Excerpt(s.Ramp.File, maxPath), readError(err))}
+			return nil, &keyError{k.prefix + "file", fmt.Errorf("ramp file %q: %w", boundedread.Excerpt(k.file, maxPath), readError(err))}
 		}
-		tab, err := ParseRamp(bytes.NewReader(data), s.Ramp.File, s.Ring.Sites, cruise)
+		tab, err := ParseRamp(bytes.NewReader(data), k.file, s.Ring.Sites, cruise)
 		if err != nil {
-			return nil, &keyError{"ramp.file", err}
+			return nil, &keyError{k.prefix + "file", err}
 		}
 		if dur != 0 && math.Abs(tab.Duration()-dur) > durationAgreement*tab.Duration() {
-			return nil, &keyError{"ramp.duration_us", fmt.Errorf(
-				"ramp.duration_us = %g but the ramp file %q ends at t = %g s (%g us): give that time or leave duration_us out",
-				s.Ramp.DurationUS, s.Ramp.File, tab.Duration(), tab.Duration()*1e6)}
+			return nil, &keyError{k.prefix + "duration_us", fmt.Errorf(
+				"%sduration_us = %g but the ramp file %q ends at t = %g s (%g us): give that time or leave duration_us out",
+				k.prefix, k.durationUS, k.file, tab.Duration(), tab.Duration()*1e6)}
 		}
 		return tab, nil
 	}
-	shape, err := sim.LookupShape(s.Ramp.Shape)
+	shape, err := sim.LookupShape(k.shape)
 	if err != nil {
-		return nil, &keyError{"ramp", err}
+		return nil, &keyError{strings.TrimSuffix(strings.TrimSuffix(k.prefix, "."), "_"), err}
 	}
-	r, err := shape.New(s.simRing(), dur, cruise, s.designDepthHz())
+	depth := s.designDepthHz()
+	if k.prefix != "ramp." {
+		depth = s.Lattice.DepthKHz * 1e3
+		if k.designDepthKHz != 0 {
+			depth = k.designDepthKHz * 1e3
+		}
+	}
+	r, err := shape.New(s.simRing(), dur, cruise, depth)
 	if err != nil {
-		return nil, &keyError{"ramp", err}
+		return nil, &keyError{strings.TrimSuffix(strings.TrimSuffix(k.prefix, "."), "_"), err}
 	}
 	return r, nil
 }
@@ -390,7 +439,7 @@ func (s *Scenario) rampUp() (sim.Ramp, *keyError) {
 // of them.
 func (s *Scenario) Inputs() []string {
 	out := []string{s.Name}
-	for _, p := range []string{s.Ramp.File, s.Noise.Drive.PhaseTable} {
+	for _, p := range []string{s.Ramp.File, s.Ramp.DownFile, s.Noise.Drive.PhaseTable} {
 		if p != "" {
 			out = append(out, p)
 		}

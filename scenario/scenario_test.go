@@ -186,6 +186,12 @@ func TestOverrides(t *testing.T) {
 		}},
 		{[]string{"ramp.shape=file", "ramp.file=" + ramp, "ramp.duration_us=100"}, func(s *Scenario) bool { return s.Ramp.File == ramp }},
 		{[]string{"motion.laps=2", "motion.laps=1.5"}, func(s *Scenario) bool { return s.Motion.Laps == 1.5 }}, // the last wins
+		{[]string{"motion.echo_segments=2", "motion.echo_hold_us=30", "ramp.down_shape=minjerk", "ramp.down_duration_us=80"}, func(s *Scenario) bool {
+			cfg, err := s.Config()
+			q := cfg.Sequence
+			return err == nil && q.Segments == 2 && math.Abs(q.HoldS-30e-6) < 1e-18 && q.Down != nil && math.Abs(q.Down.Duration()-80e-6) < 1e-18 &&
+				math.Abs(q.TotalAngle()-2*2*math.Pi*s.Motion.Laps) < 1e-12*q.TotalAngle()
+		}},
 	} {
 		s, err := parse(nil, filepath.Join(dir, "s.toml"), []byte(minimal), row.set)
 		if err != nil {
@@ -215,7 +221,7 @@ func TestBadScenario(t *testing.T) {
 		{"unknown table", minimal + "[rings]\nsites = 3\n", nil, 15, "rings", "unknown table [rings]: a scenario has the tables atom, ring,"},
 		{"unknown sub-table", minimal + "[noise.depht]\ncommon_rel = 0.1\n", nil, 15, "noise.depht", "unknown table [noise.depht]: [noise] takes depth, drive, timing, temperature, pulses"},
 		{"unknown key", minimal + "[atom]\nmass = 87\n", nil, 16, "atom.mass", "unknown key atom.mass: [atom] takes mass_u"},
-		{"key in the wrong table", minimal + "radius_um = 5\n", nil, 15, "ramp.radius_um", "unknown key ramp.radius_um: [ramp] takes shape, duration_us, design_depth_khz, file (radius_um belongs in [ring])"},
+		{"key in the wrong table", minimal + "radius_um = 5\n", nil, 15, "ramp.radius_um", "unknown key ramp.radius_um: [ramp] takes shape, duration_us, design_depth_khz, file, down_shape, down_duration_us, down_design_depth_khz, down_file (radius_um belongs in [ring])"},
 		{"key in the wrong case", minimal + "[atom]\nMass_U = 87\n", nil, 16, "atom.Mass_U", "unknown key atom.Mass_U: [atom] takes mass_u"},
 		{"table given a value", "atom = 87\n" + minimal, nil, 1, "atom", "atom must be a table [atom], got an integer"},
 		{"value given a table", minimal + "[start.temperature_nk]\nvalue = 20\n", nil, 16, "start.temperature_nk.value", "start.temperature_nk is a value, not a table: want a finite number >= 0 (0: the ground state) for the start temperature in nK"},
@@ -258,6 +264,15 @@ func TestBadScenario(t *testing.T) {
 		{"override out of range", minimal, []string{"lattice.depth_khz=-3"}, -1, "lattice.depth_khz", "lattice.depth_khz = -3 is out of range"},
 		{"override that does not close", minimal, []string{"motion.laps=0.25"}, -1, "motion.laps", "the arms do not recombine: with laps = 0.25"},
 		{"override spanning lines", minimal, []string{"ring.sites=20\nfoo=1"}, -1, "ring.sites", "the value of ring.sites spans several lines"},
+		// The ramp-down and the echo (sim.NewSequenceDown, sim.NewEcho).
+		{"ramp-down time without a shape", minimal, []string{"ramp.down_duration_us=100"}, -1, "ramp.down_duration_us", "ramp.down_duration_us is given but ramp.down_shape is not"},
+		{"ramp-down shape without a time", minimal, []string{"ramp.down_shape=minjerk"}, -1, "ramp.down_shape", `ramp.down_shape = "minjerk" needs ramp.down_duration_us`},
+		{"ramp-down file without a table", minimal, []string{"ramp.down_shape=file"}, -1, "ramp.down_shape", `ramp.down_shape = "file" needs ramp.down_file`},
+		{"ramp-down design depth for sin2", minimal, []string{"ramp.down_shape=sin2", "ramp.down_duration_us=100", "ramp.down_design_depth_khz=10"}, -1, "ramp.down_design_depth_khz", "applies to shapes designed for a depth"},
+		{"ramp-down table at another speed", minimal, []string{"motion.cruise_rad_s=400", "ramp.down_shape=file", "ramp.down_file=ramps/up.csv"}, -1, "ramp.down_file", "ramps/up.csv"},
+		{"echo hold without segments", minimal, []string{"motion.echo_hold_us=20"}, -1, "motion.echo_hold_us", "applies to echo sequences only"},
+		{"too many echo segments", minimal, []string{"motion.echo_segments=1001"}, -1, "motion.echo_segments", "want an integer from 0 (no echo) to 1000"},
+		{"echo segments that do not close", minimal, []string{"motion.laps=1", "motion.echo_segments=2", "motion.laps=0.25"}, -1, "motion.laps", "the arms do not recombine: with laps = 0.25"},
 	} {
 		_, err := parse(fsys, "s/s.toml", []byte(row.doc), row.set)
 		var e *Error

@@ -122,6 +122,9 @@ type Scattering struct {
 // ScatteringMeans returns the accumulated mean numbers of scattering
 // events L_s of each arm in shot sh.
 func (s *Simulator) ScatteringMeans(sh Shot) [2]float64 {
+	if s.cfg.Sequence.echo() {
+		return echoScatteringMeans(sh, s.echoPlan(sh))
+	}
 	drives := s.drives(sh)
 	end := math.Max(drives[0].times()[3], drives[1].times()[3])
 	return scatteringMeans(sh.Scattering, drives, end)

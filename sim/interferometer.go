@@ -49,7 +49,11 @@ func (c Config) Validate() error {
 	if c.StepS < 0 || math.IsNaN(c.StepS) {
 		return fmt.Errorf("time step %g s is negative", c.StepS)
 	}
-	return CheckClosure(c.Sequence.TotalAngle()/(2*math.Pi), c.Ring.Sites)
+	if q := c.Sequence; q.Segments < 0 || q.HoldS < 0 || math.IsNaN(q.HoldS) || math.IsInf(q.HoldS, 0) {
+		return fmt.Errorf("echo of %d segments with a hold of %g s: need a non-negative count and a finite non-negative hold", q.Segments, q.HoldS)
+	}
+	// An echo's arms must meet at every swap: each segment closes.
+	return CheckClosure(c.Sequence.Segment().TotalAngle()/(2*math.Pi), c.Ring.Sites)
 }
 
 // TrapRadS returns the harmonic trap angular frequency omega = 2 pi nu of
@@ -64,6 +68,7 @@ type Shot struct {
 	SpeedRel     float64    // drive-frequency scale error k: speeds and angles scale by (1+k)
 	SkewS        float64    // the arm s = -1 drive starts SkewS after the arm s = +1 drive (negative: before)
 	PulseAreaRel [2]float64 // relative area errors of the two pi/2 pulses
+	SwapAreaRel  float64    // relative area error of every swap (pi) pulse of an echo sequence
 	// TemperatureOffsetK shifts the start temperature of this shot from
 	// Config.TemperatureK (clamped at 0). The levels propagated are those
 	// with a weight above LevelCutoff at the shot's temperature, at most
@@ -156,7 +161,8 @@ func NewSimulator(cfg Config) (*Simulator, error) {
 	if step == 0 {
 		step = auto.StepS
 	}
-	if n := 2 * cfg.Sequence.Up.Duration() / step; n > MaxRampSteps {
+	q := cfg.Sequence
+	if n := float64(max(q.Segments, 1)) * (q.Up.Duration() + q.RampDown().Duration()) / step; n > MaxRampSteps {
 		why := "numerics.step_us"
 		if cfg.StepS == 0 {
 			why = "the ramp's steepest stretch (a tabulated ramp: smooth its steepest rows, or set numerics.step_us)"
@@ -213,20 +219,15 @@ func (s *Simulator) drives(sh Shot) [2]Drive {
 // Run simulates one shot. If obs is not nil it is called with the state of
 // each arm along the way (see Observer).
 func (s *Simulator) Run(sh Shot, obs Observer) Result {
+	if s.cfg.Sequence.echo() {
+		return s.runEcho(sh, obs)
+	}
 	start := time.Now()
 	cfg, b := s.cfg, s.basis
-	v0 := 2 * math.Pi * cfg.DepthHz
-	rot := cfg.Ring.rotationalRate()
-	gStart := 1 + (sh.DepthRel[0]+sh.DepthRel[1])/2
-	omega := cfg.RotationRadS + sh.RotationOffsetRadS // the shot's true rotation
 	wk := s.shotWork()
 	defer s.work.Put(wk)
-	es0 := wk.restBands(b, rot, omega, gStart*v0, s.lev)
-	means := bandMeans(*es0)
-	temp := math.Max(0, cfg.TemperatureK+sh.TemperatureOffsetK)
-	lev := min(s.lev, thermalLevels(means, temp))
-	weights := thermalWeights(means[:lev], temp)
-	trap := 2 * math.Pi * cfg.Ring.TrapHz(cfg.DepthHz*gStart)
+	st := s.startSet(sh, wk)
+	omega, lev, starts := st.omega, st.lev, st.starts
 
 	drives := s.drives(sh)
 	end := math.Max(drives[0].times()[3], drives[1].times()[3])
@@ -237,7 +238,6 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	// the band that NoiseBandHz gives.
 	noiseStep := math.Min(s.step/2, 2*math.Pi/cfg.TrapRadS()/40)
 
-	starts := wk.startStates(b, cfg.Ring, lev, trap)
 	var res Result
 	var fields [2]*field
 	for a, d := range drives {
@@ -291,19 +291,57 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		ring = s.ringFactors(pot, drives, end, starts)
 	}
 	for n := range lev {
-		plus, minus := fields[0].get(n), fields[1].get(n)
-		var z complex128
-		for i := range plus.Amp {
-			l := float64(b.LMin() + i)
-			z += complexConj(minus.Amp[i]) * plus.Amp[i] * cis(-l*da)
-		}
+		z := overlap(b, fields[0].get(n), fields[1].get(n), da)
 		if ring != nil {
 			z *= ring[n]
 		}
-		res.Levels = append(res.Levels, Level{Band: n, Weight: weights[n], EnergyHz: means[n] / (2 * math.Pi), Z: z})
-		res.Z += complex(weights[n]*pulse, 0) * z
+		res.Levels = append(res.Levels, Level{Band: n, Weight: st.weights[n], EnergyHz: st.means[n] / (2 * math.Pi), Z: z})
+		res.Z += complex(st.weights[n]*pulse, 0) * z
 	}
 	res.Z *= s.apparatus(sh, drives, end)
+	return s.finish(res, start)
+}
+
+// startSet is the start of a shot: the levels propagated, their Wannier
+// states and Boltzmann weights, and the shot's true rotation.
+type startSet struct {
+	omega   float64 // Omega_bg + dOmega, rad/s
+	lev     int
+	means   []float64 // band-mean energies, rad/s
+	weights []float64
+	starts  []State
+}
+
+func (s *Simulator) startSet(sh Shot, wk *shotWork) startSet {
+	cfg, b := s.cfg, s.basis
+	v0 := 2 * math.Pi * cfg.DepthHz
+	rot := cfg.Ring.rotationalRate()
+	gStart := 1 + (sh.DepthRel[0]+sh.DepthRel[1])/2
+	omega := cfg.RotationRadS + sh.RotationOffsetRadS // the shot's true rotation
+	es0 := wk.restBands(b, rot, omega, gStart*v0, s.lev)
+	means := bandMeans(*es0)
+	temp := math.Max(0, cfg.TemperatureK+sh.TemperatureOffsetK)
+	lev := min(s.lev, thermalLevels(means, temp))
+	trap := 2 * math.Pi * cfg.Ring.TrapHz(cfg.DepthHz*gStart)
+	return startSet{omega: omega, lev: lev, means: means, weights: thermalWeights(means[:lev], temp),
+		starts: wk.startStates(b, cfg.Ring, lev, trap)}
+}
+
+// overlap returns <psi_-|psi_+> in the laboratory frame for the co-moving
+// states plus and minus whose lattices end da = a_+(T) - a_-(T) apart:
+// psi_l = chi_l exp(-i l a(T)).
+func overlap(b Basis, plus, minus State, da float64) complex128 {
+	var z complex128
+	for i := range plus.Amp {
+		l := float64(b.LMin() + i)
+		z += complexConj(minus.Amp[i]) * plus.Amp[i] * cis(-l*da)
+	}
+	return z
+}
+
+// finish fills in the contrast, phase, Sagnac phase and bias of res.
+func (s *Simulator) finish(res Result, start time.Time) Result {
+	cfg, b := s.cfg, s.basis
 	phi := cfg.Sequence.TotalAngle()
 	res.Contrast = cmplxAbs(res.Z)
 	res.PhaseRad = math.Atan2(imag(res.Z), real(res.Z))

@@ -48,6 +48,9 @@ func AutoNumerics(c Config) Numerics {
 	peak, total := 0.0, 0.0
 	if c.Sequence.Up != nil {
 		peak, _ = PeakSpeed(c.Sequence.Up)
+		if c.Sequence.Down != nil {
+			peak = math.Max(peak, first(PeakSpeed(c.Sequence.Down)))
+		}
 		total = c.Sequence.Duration()
 	}
 	lPeak := inertia * (peak + math.Abs(c.RotationRadS)) / Hbar
@@ -62,12 +65,15 @@ func AutoNumerics(c Config) Numerics {
 	period := 2 * math.Pi / omega
 	step := period / StepsPerPeriod
 	if c.Sequence.Up != nil {
-		step = math.Min(step, c.Sequence.Up.Duration()/MinRampSteps)
-		// A table may turn far faster than its duration suggests (one steep
-		// row): its steepest stretch gets the steps a sin^2 ramp of the same
-		// steepness would, whose duration is pi/2 times its time scale.
-		if ts, ok := c.Sequence.Up.(interface{ TimeScaleS() float64 }); ok {
-			step = math.Min(step, math.Pi/2*ts.TimeScaleS()/MinRampSteps)
+		for _, r := range []Ramp{c.Sequence.Up, c.Sequence.RampDown()} {
+			step = math.Min(step, r.Duration()/MinRampSteps)
+			// A table may turn far faster than its duration suggests (one
+			// steep row): its steepest stretch gets the steps a sin^2 ramp of
+			// the same steepness would, whose duration is pi/2 times its
+			// time scale.
+			if ts, ok := r.(interface{ TimeScaleS() float64 }); ok {
+				step = math.Min(step, math.Pi/2*ts.TimeScaleS()/MinRampSteps)
+			}
 		}
 	}
 	return Numerics{Grid: n * k, StepS: step, Levels: levels}
@@ -124,3 +130,5 @@ const (
 	// A omega T exp(-a x^2) (measured: 0.01, see CruiseTail).
 	CruisePrefactor = 0.1
 )
+
+func first(x float64, _ bool) float64 { return x }

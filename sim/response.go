@@ -141,6 +141,9 @@ func (s *Simulator) Kernels(maxHz float64) (*Kernels, error) {
 	if maxHz < 0 || math.IsNaN(maxHz) || math.IsInf(maxHz, 0) {
 		return nil, fmt.Errorf("kernel band %g Hz is not a finite non-negative frequency (0 means the simulator's noise band)", maxHz)
 	}
+	if s.cfg.Sequence.echo() {
+		return nil, fmt.Errorf("the noise transfer functions of an echo sequence (%d segments) are not computed: its packets change lattice at every swap, which the kernels do not follow", s.cfg.Sequence.Segments)
+	}
 	rs := s.responseSetup(maxHz)
 	var z0 complex128
 	for n, w := range rs.weights {

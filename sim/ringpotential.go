@@ -203,23 +203,37 @@ func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end flo
 			}
 		}
 		vmax := math.Abs(d.scale() * d.rate() * d.Seq.CruiseSpeed())
-		quad(0, tm[0], 0)
-		quad(tm[0], tm[1], vmax)
-		if w := d.cruiseSpeed() - d.RotationRadS; tm[2] > tm[1] {
-			span := tm[2] - tm[1]
-			// No lag on the cruise (a'' = 0): the central difference
-			// at tm[1] would straddle the ramp's end and shift the whole
-			// cruise by jerk*dh/omega^2, breaking the arms' symmetry (it
-			// left 3.9e-7 rad on a whole lap of 150 us inverse ramps).
-			e := cis(k * commanded(tm[1]))
-			if x := k * w * span; math.Abs(x) > 1e-6 {
-				in += e * (cis(x) - 1) / complex(0, k*w)
-			} else {
-				in += e * complex(span, 0) * (1 + complex(0, x/2))
+		// An echo sequence repeats the pieces for each segment, so that no
+		// quadrature piece straddles a ramp's end (docs/model.md, Echo
+		// sequences).
+		seg := d.Seq.Segment()
+		period := (seg.Duration() + d.Seq.HoldS) / d.rate()
+		last := 0.0
+		for j := range max(d.Seq.Segments, 1) {
+			tm := tm
+			if d.Seq.echo() {
+				t0 := d.DelayS + float64(j)*period
+				tm = [4]float64{t0, t0 + seg.Up.Duration()/d.rate(), t0 + (seg.Up.Duration()+seg.CruiseS)/d.rate(), t0 + seg.Duration()/d.rate()}
 			}
+			quad(last, tm[0], 0)
+			quad(tm[0], tm[1], vmax)
+			if w := d.cruiseSpeed() - d.RotationRadS; tm[2] > tm[1] {
+				span := tm[2] - tm[1]
+				// No lag on the cruise (a'' = 0): the central difference
+				// at tm[1] would straddle the ramp's end and shift the whole
+				// cruise by jerk*dh/omega^2, breaking the arms' symmetry (it
+				// left 3.9e-7 rad on a whole lap of 150 us inverse ramps).
+				e := cis(k * commanded(tm[1]))
+				if x := k * w * span; math.Abs(x) > 1e-6 {
+					in += e * (cis(x) - 1) / complex(0, k*w)
+				} else {
+					in += e * complex(span, 0) * (1 + complex(0, x/2))
+				}
+			}
+			quad(tm[2], tm[3], vmax)
+			last = tm[3]
 		}
-		quad(tm[2], tm[3], vmax)
-		quad(tm[3], end, 0)
+		quad(last, end, 0)
 		total += real(tt.a * in)
 	}
 	return -total

@@ -51,8 +51,9 @@ optimiser (optimal.csv) side by side; the three ranked under the scenario's
 noise budget on common random numbers; the winner qualified against the demo
 spec (` + demoSpec + `) on its ranking ensemble; the tolerance of every source
 of the budget for the winner; the winner's noise transfer functions and the
-intensity and drive phase noise masks of the spec; and one HTML report of it
-all, whose path it prints.`,
+intensity and drive phase noise masks of the spec; the shortest sin2 ramp
+that meets the spec (the search of rampart edge); and one HTML report of
+it all, whose path it prints.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			d, err := newDemo(e, cmd.OutOrStdout())
@@ -88,6 +89,7 @@ type demo struct {
 	qualify  present.QualifyReport
 	tol      present.ToleranceReport
 	response *present.ResponseReport
+	design   present.EdgeReport
 }
 
 func newDemo(e env, out io.Writer) (*demo, error) {
@@ -101,7 +103,7 @@ func newDemo(e env, out io.Writer) (*demo, error) {
 
 // stages are the demo's steps in order.
 func (d *demo) stages() []func() error {
-	return []func() error{d.compareRamps, d.rank, d.qualifyWinner, d.tolerances, d.responseStage, d.writeReport}
+	return []func() error{d.compareRamps, d.rank, d.qualifyWinner, d.tolerances, d.responseStage, d.designStage, d.writeReport}
 }
 
 // check refuses demo options that could not give an answer, before any
@@ -123,6 +125,13 @@ func (d *demo) check() error {
 	}
 	if n := req.MinSamples(); o.toleranceSamples < n {
 		return fmt.Errorf("--tolerance-samples %d: the demo spec at %g %% confidence needs at least %d realisations per amplitude to bound its quantiles and yield", o.toleranceSamples, 100*req.Confidence, n)
+	}
+	search, err := d.designSearch()
+	if err != nil {
+		return err
+	}
+	if n := search.PointRequirements().MinSamples(); o.samples < n {
+		return fmt.Errorf("--samples %d: the design stage qualifies each of up to %d ramps at %s %% and needs at least %d realisations per ramp to pass", o.samples, search.Evaluations(), present.Sig(100*search.PointRequirements().Confidence, 5), n)
 	}
 	return nil
 }

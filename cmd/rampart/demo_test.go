@@ -61,12 +61,15 @@ func TestDemoGolden(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	if !strings.Contains(string(page), "Edge of ramp.duration_us against spec") {
+		t.Error("demo report lacks the design stage's section")
+	}
 	for _, id := range []string{"drive", "dynamics-offset-up", "ranking", "rank-sin2-contrast", "rank-optimal-bias", "tolerance-timing-skew_ns", "tolerance-depth-common_rel", "response-phase-common", "response-mask-phase"} {
 		if !strings.Contains(string(page), `id="`+id+`"`) {
 			t.Errorf("demo report lacks figure %q", id)
 		}
 	}
-	for _, want := range []string{"1. One noise-free shot", "2. The three ramps", "3. The winner", "4. Hardware tolerances", "5. Which noise frequencies matter", "6. The report: DIR/report.html"} {
+	for _, want := range []string{"1. One noise-free shot", "2. The three ramps", "3. The winner", "4. Hardware tolerances", "5. Which noise frequencies matter", "6. Designing the ramp", "The smallest ramp.duration_us that meets spec", "7. The report: DIR/report.html"} {
 		if !strings.Contains(strings.ReplaceAll(stdout, dir, "DIR"), want) {
 			t.Errorf("demo output lacks %q", want)
 		}

@@ -167,11 +167,11 @@ func (d *demo) writeReport() error {
 		return err
 	}
 	r := newReport(d.env, "rampart demo: which ramp, and what hardware", d.base, string(text), nil, d.opts.seed)
-	r.Sections = append(append(secs, ranked...), qual, tol, resp)
+	r.Sections = append(append(append(secs, ranked...), qual, tol, resp), present.EdgeSections(d.design)...)
 	path, err := r.Write(d.opts.report)
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(d.out, "6. The report: %s (one self-contained page; open it in a browser)\n", path)
+	fmt.Fprintf(d.out, "7. The report: %s (one self-contained page; open it in a browser)\n", path)
 	return nil
 }

@@ -30,6 +30,7 @@ type edgeOptions struct {
 	spec     string
 	ens      ensembleOptions
 	json     bool
+	report   string
 }
 
 // newEdgeCmd returns the command; run is what it runs with the parsed
@@ -75,6 +76,7 @@ job array (rampart sbatch).`,
 	f.BoolVar(&o.largest, "largest", false, "find the largest value that meets the spec, not the smallest")
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) of the criteria to meet")
 	f.BoolVar(&o.json, "json", false, "print the result as one JSON object")
+	addReportFlag(cmd, &o.report)
 	cmd.MarkFlagRequired("spec")
 	cmd.MarkFlagRequired("key")
 	cmd.MarkFlagRequired("range")
@@ -89,6 +91,9 @@ func runEdge(e env, stdout, stderr io.Writer, o edgeOptions, confidenceGiven boo
 		return fmt.Errorf("--shard %s: a search decides where to go next from each point, so it is not sharded", o.ens.shard)
 	}
 	if err := o.ens.checkResumeDir(); err != nil {
+		return err
+	}
+	if err := checkReportDir(o.report); err != nil {
 		return err
 	}
 	req, err := readRequirements(o.spec, o.ens.confidence, confidenceGiven)
@@ -122,14 +127,15 @@ func runEdge(e env, stdout, stderr io.Writer, o edgeOptions, confidenceGiven boo
 		}
 		return sc, mc.Ensemble{Config: cfg, Budget: budget, Samples: o.ens.samples, Seed: o.ens.seed, Sampler: o.ens.sampler}, nil
 	}
-	var name string
+	var first *scenario.Scenario
 	for _, x := range []float64{lo, hi} {
 		sc, _, err := load(x)
 		if err != nil {
 			return err
 		}
-		name = sc.Name
+		first = sc
 	}
+	name := first.Name
 	ctx, stop := signalContext()
 	defer stop()
 	search.Sample = func(ctx context.Context, x float64) (design.Sample, error) {
@@ -160,6 +166,13 @@ func runEdge(e env, stdout, stderr io.Writer, o edgeOptions, confidenceGiven boo
 			return err
 		}
 		fmt.Fprintf(stderr, "wrote %s to %s\n", edgeFile, dir)
+	}
+	if o.report != "" {
+		r := newReport(e, "Edge of "+o.key+" on "+name, first, scenarioText(o.scenario), o.sets, o.ens.seed)
+		r.Sections = present.EdgeSections(rep)
+		if err := writeReport(stderr, r, o.report); err != nil {
+			return err
+		}
 	}
 	if o.json {
 		err = present.WriteJSON(stdout, rep)

@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -13,6 +12,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/present"
+	"rampart/cmd/internal/report"
 	"rampart/cmd/internal/spec"
 	"rampart/design"
 	"rampart/internal/atomicfile"
@@ -42,6 +42,7 @@ type robustOptions struct {
 	write        string
 	history      string
 	json         bool
+	report       string
 }
 
 // newRobustCmd returns the command; run is what it runs with the parsed
@@ -103,6 +104,7 @@ which shards as a job array (rampart sbatch).`,
 	f.StringVar(&o.write, "write", "", "write the best ramp to this ramp `file` (CSV)")
 	f.StringVar(&o.history, "history", "", "write the optimisation history to this CSV `file` (and a figure beside it)")
 	f.BoolVar(&o.json, "json", false, "print the result as one JSON object")
+	addReportFlag(cmd, &o.report)
 	cmd.MarkFlagRequired("write")
 	return cmd
 }
@@ -124,7 +126,7 @@ func (o robustOptions) validate() error {
 	case o.objective == design.ObjectiveYield && o.spec == "":
 		return fmt.Errorf("--objective yield needs --spec FILE with yield limits")
 	}
-	return nil
+	return checkReportDir(o.report)
 }
 
 func runRobust(e env, stdout, stderr io.Writer, o robustOptions) error {
@@ -189,12 +191,15 @@ func runRobust(e env, stdout, stderr io.Writer, o robustOptions) error {
 		}
 	}
 	if res.Interrupted {
+		if err := writeRobustReport(e, stderr, o, sc, rep, nil); err != nil {
+			return err
+		}
 		if err := printRobust(stdout, o, rep); err != nil {
 			return err
 		}
 		return &exitError{code: 130, err: errors.New("interrupted: the best ramp so far is in " + o.write)}
 	}
-	fresh, err := freshRanking(ctx, sc, cfg, budget, o, rep.FreshSeed, label, cands)
+	fresh, cfgs, err := freshRanking(ctx, sc, cfg, budget, o, rep.FreshSeed, label, cands)
 	if err != nil {
 		if ctx.Err() != nil {
 			return &exitError{code: 130, err: errors.New("interrupted during the fresh ranking; the best ramp is in " + o.write)}
@@ -202,7 +207,32 @@ func runRobust(e env, stdout, stderr io.Writer, o robustOptions) error {
 		return err
 	}
 	rep.Fresh = fresh
+	if err := writeRobustReport(e, stderr, o, sc, rep, cfgs); err != nil {
+		return err
+	}
 	return printRobust(stdout, o, rep)
+}
+
+// writeRobustReport writes --report: the drives of the ranked ramps (none
+// when interrupted), the optimisation and the fresh ranking.
+func writeRobustReport(e env, stderr io.Writer, o robustOptions, sc *scenario.Scenario, rep present.RobustReport, cfgs []present.NamedConfig) error {
+	if o.report == "" {
+		return nil
+	}
+	secs, err := present.RobustSections(rep)
+	if err != nil {
+		return err
+	}
+	r := newReport(e, "Robust optimisation of the ramp on "+sc.Name, sc, scenarioText(o.scenario), o.sets, o.seed)
+	if len(cfgs) > 0 {
+		drive, err := present.DriveSection(cfgs)
+		if err != nil {
+			return err
+		}
+		secs = append([]report.Section{drive}, secs...)
+	}
+	r.Sections = secs
+	return writeReport(stderr, r, o.report)
 }
 
 func printRobust(w io.Writer, o robustOptions, rep present.RobustReport) error {
@@ -226,15 +256,14 @@ func rankMetric(objective string) string {
 
 // freshRanking ranks the reference, the written ramp file (read back as
 // every command reads it) and the candidates on a fresh ensemble.
-func freshRanking(ctx context.Context, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, o robustOptions, seed uint64, label string, cands []scenario.Contestant) (*present.RankReport, error) {
+func freshRanking(ctx context.Context, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, o robustOptions, seed uint64, label string, cands []scenario.Contestant) (*present.RankReport, []present.NamedConfig, error) {
 	tab, err := scenario.ReadRamp(o.write, cfg.Ring.Sites, sim.Cruise(cfg.Sequence.Up))
 	if err != nil {
-		return nil, fmt.Errorf("read back %s: %w", o.write, err)
+		return nil, nil, fmt.Errorf("read back %s: %w", o.write, err)
 	}
-	laps := cfg.Sequence.TotalAngle() / (2 * math.Pi)
-	seq, err := sim.NewSequence(tab, laps)
+	seq, err := cfg.Sequence.WithUp(tab)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	robustCfg := cfg
 	robustCfg.Sequence = seq
@@ -246,13 +275,13 @@ func freshRanking(ctx context.Context, sc *scenario.Scenario, cfg sim.Config, bu
 	}
 	grid, err := mc.SharedGrid(cfgs, budget)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	var yield mc.Spec
 	if o.spec != "" {
 		req, err := spec.Read(o.spec)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		yield = req.Yield
 	}
@@ -263,10 +292,10 @@ func freshRanking(ctx context.Context, sc *scenario.Scenario, cfg sim.Config, bu
 		grid.Apply(&ens)
 		rz, err := mc.NewRealiser(ens)
 		if err != nil {
-			return nil, fmt.Errorf("%s: %w", names[i], err)
+			return nil, nil, fmt.Errorf("%s: %w", names[i], err)
 		}
 		if _, err := rz.Run(ctx, 0, o.freshSamples, o.workers, func(rec mc.Record) error { recs[i] = append(recs[i], rec); return nil }); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		k := c.Ring.ScaleFactor(c.Sequence.TotalAngle())
 		sum := mc.Summarise(recs[i], seed, k*c.RotationRadS, k, o.confidence, yield)
@@ -279,7 +308,11 @@ func freshRanking(ctx context.Context, sc *scenario.Scenario, cfg sim.Config, bu
 	}
 	rep.Ranking, err = mc.Rank(names, recs, metric, yield, o.confidence, seed)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	return rep, nil
+	named := make([]present.NamedConfig, len(cfgs))
+	for i, c := range cfgs {
+		named[i] = present.NamedConfig{Name: names[i], Config: c}
+	}
+	return rep, named, nil
 }

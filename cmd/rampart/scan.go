@@ -25,6 +25,7 @@ type scanOptions struct {
 	spec     string
 	ens      ensembleOptions
 	json     bool
+	report   string
 }
 
 // newScanCmd returns the command; run is what it runs with the parsed
@@ -65,6 +66,7 @@ point's ensemble into DIR/point-NNN and prints how to merge the slices
 	f.BoolVar(&o.ensemble, "ensemble", false, "scan the ensemble under the noise budget, not the noise-free shot")
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) whose limits are drawn and whose yield limits are counted")
 	f.BoolVar(&o.json, "json", false, "print the scan as one JSON object")
+	addReportFlag(cmd, &o.report)
 	cmd.MarkFlagRequired("vary")
 	return cmd
 }
@@ -81,6 +83,9 @@ func (o *scanOptions) validate() error {
 		return fmt.Errorf("--resume %s: only an --ensemble scan keeps runs to resume; a noise-free scan is rerun whole", o.ens.resume)
 	}
 	if err := o.ens.validate(); err != nil {
+		return err
+	}
+	if err := checkReportDir(o.report); err != nil {
 		return err
 	}
 	return o.ens.checkResumeDir()
@@ -186,6 +191,17 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 			return err
 		}
 		fmt.Fprintf(stderr, "wrote %s, %s and the figures to %s\n", present.ScanCSVFile, present.ScanJSONFile, dir)
+	}
+	if o.report != "" {
+		secs, err := present.ScanSections(rep)
+		if err != nil {
+			return err
+		}
+		r := newReport(e, "Scan of "+strings.Join(rep.Keys, " and ")+" on "+rep.Scenario, scs[0], scenarioText(o.scenario), o.sets, rep.Seed)
+		r.Sections = secs
+		if err := writeReport(stderr, r, o.report); err != nil {
+			return err
+		}
 	}
 	if o.json {
 		return present.WriteJSON(stdout, rep)

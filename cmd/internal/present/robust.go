@@ -6,7 +6,6 @@ import (
 	"io"
 	"strings"
 
-	"rampart/cmd/internal/plots"
 	"rampart/design"
 )
 
@@ -80,16 +79,8 @@ func WriteRobustHistory(w io.Writer, r design.RobustResult) error {
 // RobustHistoryFigure plots the objective of each evaluation and the best
 // so far, to base.png and base.svg.
 func RobustHistoryFigure(base string, rep RobustReport) error {
-	var x, v, b []float64
-	for _, s := range rep.Result.History {
-		x, v, b = append(x, float64(s.Eval)), append(v, s.Value), append(b, s.Best)
-	}
-	if len(x) < 2 {
-		return nil
-	}
-	fig, err := plots.Lines([]plots.Series{{Name: "evaluation", X: x, Y: v}, {Name: "best so far", X: x, Y: b}},
-		plots.LinesOptions{Title: "Robust optimisation of " + rep.Scenario, XLabel: "evaluation", YLabel: "objective (" + rep.Objective + ")"})
-	if err != nil {
+	fig, err := robustHistory(rep)
+	if err != nil || fig == nil {
 		return err
 	}
 	return fig.WriteFiles(base)

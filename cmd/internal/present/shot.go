@@ -30,9 +30,17 @@ func Describe(sc *scenario.Scenario, cfg sim.Config, ramp string) string {
 	if sc.Motion.Laps == 1 {
 		laps = "lap"
 	}
-	return fmt.Sprintf("%s, %d sites of radius %s um, %s kHz deep (trap %s kHz); %s of %s us to %s rad/s, %s %s; rotation %s rad/s; %s",
+	q := cfg.Sequence
+	down := ""
+	if q.Down != nil {
+		down = fmt.Sprintf(", ramp-down %s of %s us", q.Down.Name(), Sig(q.Down.Duration()*1e6, 6))
+	}
+	if q.Segments >= 2 {
+		laps += fmt.Sprintf(" in each of %d echo segments (swap pulses between, hold %s us)", q.Segments, Sig(q.HoldS*1e6, 6))
+	}
+	return fmt.Sprintf("%s, %d sites of radius %s um, %s kHz deep (trap %s kHz); %s of %s us to %s rad/s%s, %s %s; rotation %s rad/s; %s",
 		atom, sc.Ring.Sites, Sig(sc.Ring.RadiusUM, 6), Sig(sc.Lattice.DepthKHz, 6), Sig(cfg.Ring.TrapHz(cfg.DepthHz)/1e3, 4),
-		ramp, Sig(cfg.Sequence.Up.Duration()*1e6, 6), Sig(sc.Motion.CruiseRadS, 6), Sig(sc.Motion.Laps, 6), laps,
+		ramp, Sig(q.Up.Duration()*1e6, 6), Sig(sc.Motion.CruiseRadS, 6), down, Sig(sc.Motion.Laps, 6), laps,
 		Sig(sc.Motion.RotationRadS, 6), start)
 }
 
