@@ -10,6 +10,8 @@ import (
 // one-sided PSD, the band it is drawn in and how it reaches the channels.
 type Process struct {
 	Name string
+	// Unit is the unit of the process's signal (its PSD is in unit^2/Hz).
+	Unit string
 	Load Load
 	PSD  noise.PSD
 	// Band is where the process has power; a zero edge is the kernels'
