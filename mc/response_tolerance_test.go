@@ -40,7 +40,7 @@ func flatKernels(bias, contrast float64) *sim.Kernels {
 // = 0.0836 sigma at n = 1000; the mean's 0).
 func TestKernelTolerance(t *testing.T) {
 	const kz, bias, n, limit = 1.4e6, 2.0, 1000, 0.01 // Hz/G, rad^2/Hz per Hz^2, realisations, rad
-	const band = 900.0                               // Hz
+	const band = 900.0                                // Hz
 	k := flatKernels(bias, 0)
 	base := Budget{FieldNoise: noise.White{Level: 1e-16}}
 	base.Apparatus.Field.Zeeman.LinearHzPerG = kz
