@@ -31,12 +31,13 @@ type KernelTolerance struct {
 	// Unpredicted lists the spec's criteria the kernels do not predict
 	// (yield, scale factor): the confirmation alone decides them.
 	Unpredicted []string `json:"unpredicted,omitempty"`
-	// Warnings say where the linear answer cannot be trusted at the
-	// tolerance (sim.Prediction.Warnings).
+	// Warnings say where the linear answer for the binding criterion
+	// cannot be trusted at the tolerance (kernelWarnings).
 	Warnings []string `json:"warnings,omitempty"`
 	// Confirm is the verdict of the Monte Carlo ensemble at the tolerance,
-	// with the whole budget (the result's At holds its criteria).
-	Confirm Verdict `json:"confirm_verdict"`
+	// with the whole budget (the result's At holds its criteria); nil when
+	// no level is left to the process (no ensemble ran).
+	Confirm *Verdict `json:"confirm_verdict,omitempty"`
 }
 
 // Kernel finds the tolerance of the noise process name (a Process row of
@@ -141,8 +142,8 @@ func (s ToleranceSearch) Kernel(ctx context.Context, eval Evaluator, k *sim.Kern
 	}
 	scaled, _ := src.set(a).Process(name, k.DurationS)
 	p := k.PredictProcesses([]sim.Process{scaled})
-	kt.Amplitude, kt.Confirm = src.display(a), v
-	kt.ContrastLoss, kt.BiasStdRad, kt.Warnings = p.ContrastLoss, p.BiasStdRad, p.Warnings
+	kt.Amplitude, kt.Confirm = src.display(a), &v
+	kt.ContrastLoss, kt.BiasStdRad, kt.Warnings = p.ContrastLoss, p.BiasStdRad, kernelWarnings(p, binding.kind == kernelBias)
 	kt.Predicted = binding.value(rest, a*a*loss, a*a*variance)
 	at.Amplitude = src.display(a)
 	res.At = &at
@@ -319,6 +320,31 @@ func fringeBiases(recs []Record) []float64 {
 	}
 	if len(out) == 0 {
 		out = []float64{math.Pi}
+	}
+	return out
+}
+
+// kernelWarnings returns the validity warnings of a prediction that bear
+// on the binding criterion: an unresolved resonance always; for a contrast
+// criterion a loss beyond second order (sim.MaxLinearContrastLoss); for a
+// bias criterion a bias std beyond the linear phase response
+// (sim.MaxLinearPhaseStdRad) or second-order phase fluctuations not small
+// against it (sim.SecondOrderPhaseShare), as sim.Kernels.PredictAll.
+func kernelWarnings(p sim.Prediction, bias bool) []string {
+	var out []string
+	for _, c := range p.Channels {
+		if c.Unresolved {
+			out = append(out, fmt.Sprintf("%v: the kernel has a resonance narrower than its grid where the effect comes from", c.Channel))
+		}
+	}
+	if !bias && p.ContrastLoss > sim.MaxLinearContrastLoss {
+		out = append(out, fmt.Sprintf("the predicted contrast loss %.3g is above %g, where second order is no longer enough", p.ContrastLoss, sim.MaxLinearContrastLoss))
+	}
+	if bias && p.BiasStdRad > sim.MaxLinearPhaseStdRad {
+		out = append(out, fmt.Sprintf("the predicted bias std %.3g rad is above %g rad, where the linear phase response is no longer enough", p.BiasStdRad, sim.MaxLinearPhaseStdRad))
+	}
+	if bias && math.Abs(p.ContrastLoss) > sim.SecondOrderPhaseShare*p.BiasStdRad && math.Abs(p.ContrastLoss) > 1e-3 {
+		out = append(out, fmt.Sprintf("second-order phase fluctuations, of the order of the contrast loss %.3g, are not small against the linear bias std %.3g rad: the bias std is underestimated", p.ContrastLoss, p.BiasStdRad))
 	}
 	return out
 }

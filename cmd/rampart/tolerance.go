@@ -22,6 +22,7 @@ type toleranceOptions struct {
 	sources   string
 	joint     bool
 	precision float64
+	kernels   bool
 }
 
 // newToleranceCmd returns the command; run is what it runs with the parsed
@@ -52,7 +53,17 @@ binding criterion and its value at the tolerance with its one-sided bounds.
 --out DIR writes the tolerance curves (tolerance-curves.csv and a figure per
 source) and keeps each ensemble in DIR/SOURCE/AMPLITUDE; --resume DIR reuses
 them. --shard is refused: each step of the search needs the whole ensemble of
-the step before.`,
+the step before.
+
+The noise processes during the shot (intensity, drive phase and field noise)
+are not searched but predicted: the noise transfer functions of the nominal
+shot (rampart response; docs/model.md, "Noise transfer functions") give the
+level at which each predicted criterion (mean and 5th-percentile contrast,
+|bias| p95) meets its limit, with the rest of the budget taken from one
+ensemble with the process off; one ensemble at that level, with the whole
+budget, confirms it and gives the row's values and verdict. Two ensembles
+instead of a search; the level is where the estimate meets the limit, not
+where a confidence bound does. --kernels=false searches them as the others.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
@@ -65,6 +76,7 @@ the step before.`,
 	f.StringVar(&o.sources, "sources", "", "noise sources to search, comma-separated from "+strings.Join(mc.SourceKeys(), ", ")+", or all (default: those the budget switches on)")
 	f.BoolVar(&o.joint, "joint", false, "also search the factor by which the whole budget may be scaled")
 	f.Float64Var(&o.precision, "precision", 0.05, "relative precision `P` of each tolerance, in [0.001, 1]")
+	f.BoolVar(&o.kernels, "kernels", true, "find the noise processes' tolerances from the noise transfer functions, confirmed by one ensemble (false: search them by Monte Carlo)")
 	cmd.MarkFlagRequired("spec")
 	return cmd
 }
@@ -74,7 +86,10 @@ the step before.`,
 // amplitude an ensemble of the options' size on common random numbers (one
 // noise grid sized for the widest search), kept in a subdirectory
 // SOURCE/AMPLITUDE of the options' directory if there is one.
-func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64) (present.ToleranceReport, present.Work, error) {
+//
+// With kernels, the noise processes' tolerances come from the noise
+// transfer functions (searchSource).
+func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64, kernels bool) (present.ToleranceReport, present.Work, error) {
 	var work present.Work
 	if n := req.MinSamples(); o.samples < n {
 		return present.ToleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot pass the spec at %g %% confidence even if every one is far inside its limits (no exact bound on its quantiles or yield from so few); give at least %d",
@@ -114,12 +129,19 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		}
 	}
 	rep := present.ToleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS, Numerics: &est}
+	var tk *toleranceKernels
+	if kernels {
+		tk = &toleranceKernels{cfg: nominal.Config(), capMiB: defaultKernelMemoryMiB}
+	}
 	for _, name := range names {
-		res, err := search.Source(ctx, evaluator(name), name)
+		res, err := searchSource(ctx, search, evaluator(name), name, tk)
 		if err != nil {
 			return present.ToleranceReport{}, work, err
 		}
 		rep.Results = append(rep.Results, res)
+	}
+	if tk != nil {
+		rep.KernelsSkipped = tk.Skipped
 	}
 	return rep, work, nil
 }
@@ -165,7 +187,7 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 	}
 	ctx, stop := signalContext()
 	defer stop()
-	rep, work, err := searchTolerances(ctx, e, stderr, sc, cfg, budget, req, names, o.ens, o.precision)
+	rep, work, err := searchTolerances(ctx, e, stderr, sc, cfg, budget, req, names, o.ens, o.precision, o.kernels)
 	if err != nil {
 		return err
 	}
