@@ -135,6 +135,9 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	req.LossPossible = run.manifest.LossPossible
 	q := mc.Qualify(run.records, req, run.manifest.ScaleFactorS, run.manifest.Seed)
 	rep := present.QualifyReport{Qualification: q, Spec: o.spec, Summary: sum, Gyro: ro.Gyro(sum)}
+	if rep.Kernel, err = kernelPrediction(run.realiser.Config(), budget, defaultKernelMemoryMiB); err != nil {
+		return err
+	}
 	if dir != "" {
 		// The look is counted before the verdict is written or shown, so
 		// that no verdict is seen whose look the directory does not count.
