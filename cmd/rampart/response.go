@@ -55,8 +55,10 @@ signal the bias variance is int S |G_phi|^2 df and the mean contrast loss
 int S K_C df (linear response; docs/model.md, "Noise transfer functions").
 
 Prints where each kernel peaks and its value at the trap frequency nu and at
-2 nu, and the prediction for the scenario's own noise processes (its RIN and
-drive phase noise, the arms' correlation included): the mean contrast loss
+2 nu, and the prediction for the scenario's own noise processes (its RIN,
+drive phase noise with the arms' correlation, and field noise through the
+spin pair's Zeeman slope at the static offset, a pure differential shift):
+the mean contrast loss
 and the bias standard deviation per channel and in total, with warnings where
 the linear answer cannot be trusted.
 
@@ -218,7 +220,8 @@ func kernelsTooLarge(sc *scenario.Scenario, cfg sim.Config, need int64, capMiB i
 // confirmResponse runs the Monte Carlo of the budget's noise processes
 // alone; nil when the budget has none.
 func confirmResponse(cfg sim.Config, b mc.Budget, nominal sim.Result, o responseOptions) (*present.ResponseConfirm, error) {
-	dyn := mc.Budget{RIN: b.RIN, RINBand: b.RINBand, Phase: b.Phase, PhaseCorrelation: b.PhaseCorrelation}
+	dyn := mc.Budget{RIN: b.RIN, RINBand: b.RINBand, Phase: b.Phase, PhaseCorrelation: b.PhaseCorrelation, FieldNoise: b.FieldNoise}
+	dyn.Apparatus.Field = b.Apparatus.Field
 	if !dyn.Dynamic() {
 		return nil, nil
 	}
@@ -287,7 +290,10 @@ func responseMasks(k *sim.Kernels, nominal sim.Result, b mc.Budget, procs []sim.
 		name, kind, unit string
 		load             sim.Load
 	}
-	targets := []target{{"phase", "process", "rad", sim.PhaseLoad(b.PhaseCorrelation)}, {"rin", "process", "1", sim.Load{sim.IntensityCommon: 1}}}
+	targets := []target{{mc.ProcessPhase, "process", "rad", sim.PhaseLoad(b.PhaseCorrelation)}, {mc.ProcessRIN, "process", "1", sim.Load{sim.IntensityCommon: 1}}}
+	if fl := b.FieldLoad(); fl[sim.ShiftDifferential] != 0 {
+		targets = append(targets, target{mc.ProcessField, "process", "G", fl})
+	}
 	for _, ck := range k.Channels {
 		targets = append(targets, target{ck.Channel.String(), "channel", ck.Channel.Unit(), sim.Load{ck.Channel: 1}})
 	}
