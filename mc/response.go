@@ -13,10 +13,11 @@ const (
 	ProcessRIN   = "rin"
 	ProcessPhase = "phase"
 	ProcessField = "field"
+	ProcessMains = "mains"
 )
 
 // processNames maps the Process rows of Sources to their process names.
-var processNames = map[string]string{SourceRIN: ProcessRIN, SourcePhase: ProcessPhase, SourceFieldNoise: ProcessField}
+var processNames = map[string]string{SourceRIN: ProcessRIN, SourcePhase: ProcessPhase, SourceFieldNoise: ProcessField, ParamMains: ProcessMains}
 
 // Processes returns the budget's noise processes on the noise transfer
 // functions' channels (sim.Kernels), in the bands the Monte Carlo draws
@@ -24,7 +25,7 @@ var processNames = map[string]string{SourceRIN: ProcessRIN, SourcePhase: Process
 // holds, up to the kernels' band unless the budget gives a band.
 func (b Budget) Processes(durationS float64) []sim.Process {
 	var ps []sim.Process
-	for _, key := range []string{SourceRIN, SourcePhase, SourceFieldNoise} {
+	for _, key := range []string{SourceRIN, SourcePhase, SourceFieldNoise, ParamMains} {
 		if p, ok := b.Process(key, durationS); ok {
 			ps = append(ps, p)
 		}
@@ -32,8 +33,9 @@ func (b Budget) Processes(durationS float64) []sim.Process {
 	return ps
 }
 
-// Process returns the noise process of the Process row key of Sources on
-// the kernels' channels, and whether the budget switches it on:
+// Process returns the noise process of the Process row key of Sources (or
+// of the mains line, ParamMains) on the kernels' channels, and whether the
+// budget switches it on:
 //
 //	rin:   intensity_common, PSD S_eps (one laser for both spin states)
 //	phase: sim.PhaseLoad(PhaseCorrelation), PSD S_alpha of each arm
@@ -41,6 +43,11 @@ func (b Budget) Processes(durationS float64) []sim.Process {
 //	       k = LinearHzPerG + 2 QuadraticHzPerG2 OffsetG (Hz/G) is the slope of
 //	       the spin pair's differential Zeeman shift at the apparatus's static
 //	       field offset (sim.FieldShift): delta_nu(t) = k b(t) to first order.
+//	mains: the same load, a line spectrum (sim.Lines) of power a_h^2/2 at
+//	       each harmonic h f of the line (Mains), from 0 Hz: a sinusoid of
+//	       uniformly random phase. A line triggered at a fixed phase
+//	       (Mains.FixedPhase) moves every shot alike, a bias and no spread:
+//	       it is no process.
 //
 // The quadratic Zeeman term's own response to the noise, -2 pi Q int b^2
 // dt, is a mean phase shift of -2 pi Q sigma_b^2 T (second order), not a
@@ -66,6 +73,18 @@ func (b Budget) Process(key string, durationS float64) (sim.Process, bool) {
 			return sim.Process{}, false
 		}
 		return sim.Process{Name: ProcessField, Unit: "G", Load: b.FieldLoad(), PSD: b.FieldNoise, Band: noise.Band{LowHz: lo}}, true
+	case ParamMains:
+		if !(b.MainsG > 0) || b.Mains.FixedPhase {
+			return sim.Process{}, false
+		}
+		f := b.Mains.Frequency()
+		lines := sim.Lines{}
+		for h, r := range append([]float64{1}, b.Mains.HarmonicsRel...) {
+			a := b.MainsG * r
+			lines.FrequencyHz = append(lines.FrequencyHz, float64(h+1)*f)
+			lines.PowerUnit2 = append(lines.PowerUnit2, a*a/2)
+		}
+		return sim.Process{Name: ProcessMains, Unit: "G", Load: b.FieldLoad(), PSD: lines}, true
 	}
 	return sim.Process{}, false
 }

@@ -10,11 +10,12 @@ import (
 
 // kernelPrediction returns the noise transfer functions' prediction for
 // the noise processes of budget b on configuration cfg (the ensemble's,
-// numerics resolved), to state beside a verdict: nil when b has none, a
-// prediction with Skipped set when their kernels would need more than
-// capMiB (twice sim.KernelsBytes, as rampart response).
+// numerics resolved), to state beside a verdict (mc.Budget.Processes: the
+// noise during the shot and a mains line of random phase): nil when b has
+// none, a prediction with Skipped set when their kernels would need more
+// than capMiB (twice sim.KernelsBytes, as rampart response).
 func kernelPrediction(cfg sim.Config, b mc.Budget, capMiB int) (*present.KernelPrediction, error) {
-	if !b.Dynamic() {
+	if len(b.Processes(cfg.Sequence.Duration())) == 0 {
 		return nil, nil
 	}
 	s, err := sim.NewSimulator(cfg)

@@ -222,7 +222,8 @@ func kernelsTooLarge(sc *scenario.Scenario, cfg sim.Config, need int64, capMiB i
 func confirmResponse(cfg sim.Config, b mc.Budget, nominal sim.Result, o responseOptions) (*present.ResponseConfirm, error) {
 	dyn := mc.Budget{RIN: b.RIN, RINBand: b.RINBand, Phase: b.Phase, PhaseCorrelation: b.PhaseCorrelation, FieldNoise: b.FieldNoise}
 	dyn.Apparatus.Field = b.Apparatus.Field
-	if !dyn.Dynamic() {
+	dyn.MainsG, dyn.Mains = b.MainsG, b.Mains
+	if len(dyn.Processes(cfg.Sequence.Duration())) == 0 {
 		return nil, nil
 	}
 	r, err := mc.NewRealiser(mc.Ensemble{Config: cfg, Budget: dyn, Samples: o.confirm, Seed: o.seed})
