@@ -31,6 +31,7 @@ type responseOptions struct {
 	spec      string
 	bands     string
 	shares    []float64
+	spectra   []string
 }
 
 // defaultKernelMemoryMiB is the cap on the kernels' memory: twice the
@@ -62,6 +63,11 @@ the mean contrast loss
 and the bias standard deviation per channel and in total, with warnings where
 the linear answer cannot be trusted.
 
+--spectrum PROCESS=SPEC replaces (or adds) a process's spectrum for the
+prediction, the masks' growth factor and --confirm: a sum of white levels,
+power laws h f^alpha (the IEEE Std 1139 forms) and tables, in the signal's
+unit^2/Hz (intensity 1/Hz, each arm's drive phase rad^2/Hz, field G^2/Hz).
+
 --confirm N runs a Monte Carlo ensemble of N shots under the same noise
 processes (nothing static) and prints it beside the prediction.
 --spec FILE adds the noise masks: for each process of the budget and each
@@ -88,6 +94,7 @@ estimate is above --memory-mib is refused before anything is computed.`,
 	f.IntVar(&o.workers, "workers", 0, "worker goroutines `W` of the --confirm ensemble (0: one per core)")
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) whose criteria the noise masks keep")
 	f.StringVar(&o.bands, "bands", "decade", "mask bands: `decade` or octave")
+	f.StringArrayVar(&o.spectra, "spectrum", nil, "replace a process's spectrum (repeatable): "+spectrumHelp)
 	f.Float64SliceVar(&o.shares, "band-share", nil, "shares of the error budget per band, low to high, comma separated, summing to at most 1 (default equal)")
 	return cmd
 }
@@ -117,6 +124,9 @@ func runResponse(e env, stdout, stderr io.Writer, o responseOptions) error {
 	}
 	sc, cfg, budget, err := scenario.LoadBudget(o.scenario, o.sets)
 	if err != nil {
+		return err
+	}
+	if budget, err = applySpectra(budget, o.spectra); err != nil {
 		return err
 	}
 	var req *mc.Requirements
