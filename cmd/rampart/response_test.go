@@ -192,11 +192,13 @@ func TestResponseFlags(t *testing.T) {
 	var got responseOptions
 	cmd := newResponseCmd(env{}, func(_ env, _, _ io.Writer, o responseOptions) error { got = o; return nil })
 	if err := parse(t, cmd, "--scenario", "s.toml", "--set", "motion.laps=2", "--json", "--out", "D", "--report", "R", "--max-hz", "5e4",
-		"--memory-mib", "512", "--confirm", "50", "--seed", "7", "--workers", "2", "--spec", "q.toml", "--bands", "octave", "--band-share", "0.5,0.25,0.25"); err != nil {
+		"--memory-mib", "512", "--confirm", "50", "--seed", "7", "--workers", "2", "--spec", "q.toml", "--bands", "octave", "--band-share", "0.5,0.25,0.25",
+		"--spectrum", "rin=white:1e-12+powerlaw:1e-9:-1", "--spectrum", "phase=table:p.csv"); err != nil {
 		t.Fatal(err)
 	}
 	want := responseOptions{scenario: "s.toml", sets: []string{"motion.laps=2"}, json: true, out: "D", report: "R", maxHz: 5e4, memoryMiB: 512,
-		confirm: 50, seed: 7, workers: 2, spec: "q.toml", bands: "octave", shares: []float64{0.5, 0.25, 0.25}}
+		confirm: 50, seed: 7, workers: 2, spec: "q.toml", bands: "octave", shares: []float64{0.5, 0.25, 0.25},
+		spectra: []string{"rin=white:1e-12+powerlaw:1e-9:-1", "phase=table:p.csv"}}
 	if !reflect.DeepEqual(got, want) {
 		t.Errorf("got %+v\nwant %+v", got, want)
 	}
