@@ -66,8 +66,9 @@ type KernelTolerance struct {
 // not where a confidence bound does: it is above the demonstrated one by
 // about the ensemble's standard error.
 //
-// If the kernels predict none of the spec's criteria, Kernel runs the
-// search (Source) instead; the result's Method says which it did.
+// If the kernels predict none of the spec's criteria, or the process has
+// no channel on them (Budget.Process), Kernel runs the search (Source)
+// instead; the result's Method says which it did.
 func (s ToleranceSearch) Kernel(ctx context.Context, eval Evaluator, k *sim.Kernels, name string) (ToleranceResult, error) {
 	row, ok := LookupSource(name)
 	if !ok || row.Kind != Process {
@@ -76,16 +77,16 @@ func (s ToleranceSearch) Kernel(ctx context.Context, eval Evaluator, k *sim.Kern
 	if err := s.Requirements.Validate(); err != nil {
 		return ToleranceResult{}, fmt.Errorf("tolerance of %s: %w", name, err)
 	}
-	crits, unpredicted := s.kernelCriteria()
-	if len(crits) == 0 {
-		return s.Source(ctx, eval, name)
-	}
 	o := s.Options.withDefaults()
 	src, err := newSource(s.Budget, name)
 	if err != nil {
 		return ToleranceResult{}, err
 	}
-	unit, _ := src.set(1).Process(name, k.DurationS)
+	crits, unpredicted := s.kernelCriteria()
+	unit, mapped := src.set(1).Process(name, k.DurationS)
+	if len(crits) == 0 || !mapped {
+		return s.Source(ctx, eval, name)
+	}
 	pr := k.PredictProcesses([]sim.Process{unit})
 	loss, variance := pr.ContrastLoss, pr.BiasStdRad*pr.BiasStdRad
 
