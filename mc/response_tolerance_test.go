@@ -100,6 +100,12 @@ func TestKernelTolerance(t *testing.T) {
 	if math.Abs(res.At.Value-cmin) > 1e-12 {
 		t.Errorf("mean contrast at the tolerance %.15g, want the limit %g (the synthetic loss is exact)", res.At.Value, cmin)
 	}
+
+	// A yield alone is not predicted: the Monte Carlo search runs instead.
+	s.Requirements = Requirements{YieldMin: 0.5, Yield: Spec{MinContrast: cmin}}
+	if res, err = s.Kernel(context.Background(), eval, k, SourceFieldNoise); err != nil || res.Method != MethodSearch || res.Kernel != nil {
+		t.Errorf("yield alone: method %q, kernel %v, error %v; want the search", res.Method, res.Kernel, err)
+	}
 }
 
 // smallRing is testEnsemble's sequence on a ring of 10 sites (radius 2.5
