@@ -34,11 +34,30 @@ type KernelTolerance struct {
 	// Warnings say where the linear answer for the binding criterion
 	// cannot be trusted at the tolerance (kernelWarnings).
 	Warnings []string `json:"warnings,omitempty"`
+	// Curve is the binding criterion as the kernels predict it against the
+	// amplitude, from a tenth of the tolerance to sqrt(10) times it
+	// (CurvePoints points, even in log amplitude, the tolerance at
+	// CurveAt): the tolerance curve of a search, without its ensembles.
+	Curve []KernelCurvePoint `json:"curve,omitempty"`
 	// Confirm is the verdict of the Monte Carlo ensemble at the tolerance,
 	// with the whole budget (the result's At holds its criteria); nil when
 	// no level is left to the process (no ensemble ran).
 	Confirm *Verdict `json:"confirm_verdict,omitempty"`
 }
+
+// KernelCurvePoint is one point of KernelTolerance.Curve: an amplitude in
+// the result's Unit and the binding criterion's predicted value there.
+type KernelCurvePoint struct {
+	Amplitude float64 `json:"amplitude"`
+	Predicted float64 `json:"predicted"`
+}
+
+// The kernel tolerance curve's points: CurvePoints of them, 20 per decade
+// of amplitude, the tolerance at index CurveAt.
+const (
+	CurvePoints = 31
+	CurveAt     = 20
+)
 
 // Kernel finds the tolerance of the noise process name (a Process row of
 // Sources) from the noise transfer functions k of the nominal shot, and
@@ -146,6 +165,10 @@ func (s ToleranceSearch) Kernel(ctx context.Context, eval Evaluator, k *sim.Kern
 	kt.Amplitude, kt.Confirm = src.display(a), &v
 	kt.ContrastLoss, kt.BiasStdRad, kt.Warnings = p.ContrastLoss, p.BiasStdRad, kernelWarnings(p, binding.kind == kernelBias)
 	kt.Predicted = binding.value(rest, a*a*loss, a*a*variance)
+	for i := range CurvePoints {
+		ai := a * math.Pow(10, float64(i-CurveAt)/20)
+		kt.Curve = append(kt.Curve, KernelCurvePoint{Amplitude: src.display(ai), Predicted: binding.value(rest, ai*ai*loss, ai*ai*variance)})
+	}
 	at.Amplitude = src.display(a)
 	res.At = &at
 	res.Points = []TolerancePoint{at}

@@ -71,6 +71,15 @@ func TestKernelTolerance(t *testing.T) {
 		if a, _ := res.Tolerance(); a != res.Kernel.Amplitude || math.Abs(res.Kernel.Predicted-limit) > 1e-9*limit {
 			t.Errorf("b0 = %g: At %g, predicted %g; want the kernel's amplitude %g and the limit %g", b0, a, res.Kernel.Predicted, res.Kernel.Amplitude, limit)
 		}
+		cv := res.Kernel.Curve
+		if len(cv) != CurvePoints || cv[CurveAt].Amplitude != res.Kernel.Amplitude || math.Abs(cv[CurveAt].Predicted-limit) > 1e-9*limit {
+			t.Fatalf("b0 = %g: curve of %d points, at index %d %+v; want %d points, the tolerance %g at the limit %g there", b0, len(cv), CurveAt, cv[min(CurveAt, len(cv)-1)], CurvePoints, res.Kernel.Amplitude, limit)
+		}
+		for i := 1; i < len(cv); i++ {
+			if !(cv[i].Amplitude > cv[i-1].Amplitude && cv[i].Predicted > cv[i-1].Predicted) {
+				t.Errorf("b0 = %g: curve not increasing at %d: %+v after %+v", b0, i, cv[i], cv[i-1])
+			}
+		}
 		if se := 0.0836 * sigma; math.Abs(res.At.Value-limit) > 3*se {
 			t.Errorf("b0 = %g: the confirmation's p95 |bias| %.4g, want the limit %g within 3 x %.2g", b0, res.At.Value, limit, se)
 		}

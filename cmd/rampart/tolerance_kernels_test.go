@@ -2,6 +2,8 @@ package main
 
 import (
 	"encoding/json"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -20,8 +22,8 @@ func fieldArgs(spec string) []string {
 // the kernels and says so: the JSON result's method and kernel fields (the
 // predicted level, binding criterion at its limit, the confirming
 // ensemble's verdict at the same level as At), the table's "(kernels)"
-// mark and note; and that --kernels=false searches it by Monte Carlo with
-// neither.
+// mark and note, the figure of its predicted curve in --out; and that
+// --kernels=false searches it by Monte Carlo with neither.
 func TestToleranceKernels(t *testing.T) {
 	dir := t.TempDir()
 	spec := writeSpec(t, dir, "field.toml", "[bias]\nabs_p95_max_rad = 2e-3\n")
@@ -51,9 +53,15 @@ func TestToleranceKernels(t *testing.T) {
 	if r.At.Amplitude != r.Kernel.Amplitude || r.Kernel.Binding != "bias.abs_p95_max_rad" || r.Metric != r.Kernel.Binding || r.Kernel.Predicted != 2e-3 {
 		t.Errorf("kernel %+v, at %+v: want the confirmation at the predicted level, bound by the bias at its limit 2e-3", *r.Kernel, *r.At)
 	}
-	stdout, stderr, code = execute(t, fieldArgs(spec)...)
+	out := filepath.Join(dir, "out")
+	stdout, stderr, code = execute(t, append(fieldArgs(spec), "--out", out)...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for _, name := range []string{"tolerance-field-noise_ug2_hz.png", "tolerance-field-noise_ug2_hz.svg"} {
+		if _, err := os.Stat(filepath.Join(out, name)); err != nil {
+			t.Errorf("--out: no figure of the kernels' tolerance curve: %v", err)
+		}
 	}
 	for _, want := range []string{" (kernels) |", "field.noise_ug2_hz (kernels): found from the noise transfer functions (docs/model.md, Noise transfer functions)", "verdict " + *r.Kernel.Confirm} {
 		if !strings.Contains(stdout, want) {

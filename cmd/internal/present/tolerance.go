@@ -184,6 +184,14 @@ func WriteToleranceCurves(dir string, rep ToleranceReport) error {
 func toleranceFigures(rep ToleranceReport) ([]namedFigure, error) {
 	var out []namedFigure
 	for _, res := range rep.Results {
+		if res.Method == mc.MethodKernels {
+			if nf, ok, err := kernelToleranceFigure(res); err != nil {
+				return nil, fmt.Errorf("figure of the tolerance of %s: %w", res.Source, err)
+			} else if ok {
+				out = append(out, nf)
+			}
+			continue
+		}
 		if len(res.Points) < 2 {
 			continue
 		}

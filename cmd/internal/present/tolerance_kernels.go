@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"strings"
 
+	"rampart/cmd/internal/plots"
 	"rampart/mc"
 )
 
@@ -41,4 +42,39 @@ func kernelToleranceNotes(rep ToleranceReport) []string {
 		out = append(out, "Kernels: "+rep.KernelsSkipped+".")
 	}
 	return out
+}
+
+// kernelToleranceFigure plots a tolerance found from the kernels: the
+// binding criterion as they predict it against the amplitude, the spec
+// limit, the tolerance, and the confirming ensemble's estimate there as
+// the segment between its one-sided bounds; ok is false when there is no
+// curve (no level was left to the process).
+func kernelToleranceFigure(res mc.ToleranceResult) (namedFigure, bool, error) {
+	kt := res.Kernel
+	if kt == nil || len(kt.Curve) < 2 || res.At == nil {
+		return namedFigure{}, false, nil
+	}
+	c, _ := res.Binding(*res.At)
+	var x, y []float64
+	for _, p := range kt.Curve {
+		x, y = append(x, p.Amplitude), append(y, p.Predicted)
+	}
+	a := res.At.Amplitude
+	fig, err := plots.Lines([]plots.Series{
+		{Name: "kernels", X: x, Y: y},
+		{Name: "Monte Carlo bounds", X: []float64{a, a}, Y: []float64{c.Lo, c.Hi}},
+	}, plots.LinesOptions{
+		Title:  fmt.Sprintf("%s from the kernels: %s", res.Source, res.Status),
+		XLabel: fmt.Sprintf("%s (%s)", res.Source, res.Unit),
+		YLabel: criterionLabels[res.Metric],
+		LogX:   !strings.HasPrefix(res.Unit, "dB"),
+		HLines: []plots.Marker{{Label: "spec limit " + Sig(c.Limit, 4), Value: c.Limit}},
+		VLines: []plots.Marker{{Label: "tolerance " + Sig(a, 3) + " " + res.Unit, Value: a}},
+	})
+	if err != nil {
+		return namedFigure{}, false, err
+	}
+	caption := fmt.Sprintf("The binding criterion %s of %s (%s) as the noise transfer functions predict it, with the rest of the budget from the ensemble with the process off; the spec limit, the tolerance where they meet, and the confirming ensemble's estimate there (%s) as the segment between its one-sided bounds.",
+		res.Metric, res.Source, res.Unit, criterionFormat(c)(c.Value))
+	return namedFigure{name: "tolerance-" + strings.ReplaceAll(res.Source, ".", "-"), caption: caption, fig: fig}, true, nil
 }
