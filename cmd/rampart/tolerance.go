@@ -50,11 +50,6 @@ how the search ended (found; above-range: the spec holds up to the largest
 amplitude searched, a lower bound; below-range; fails-without-source;
 undecided-without-source: more samples would decide the source off), the
 binding criterion and its value at the tolerance with its one-sided bounds.
---out DIR writes the tolerance curves (tolerance-curves.csv and a figure per
-source) and keeps each ensemble in DIR/SOURCE/AMPLITUDE; --resume DIR reuses
-them. --shard is refused: each step of the search needs the whole ensemble of
-the step before.
-
 The noise processes during the shot (intensity, drive phase and field noise)
 are not searched but predicted: the noise transfer functions of the nominal
 shot (rampart response; docs/model.md, "Noise transfer functions") give the
@@ -63,7 +58,12 @@ level at which each predicted criterion (mean and 5th-percentile contrast,
 ensemble with the process off; one ensemble at that level, with the whole
 budget, confirms it and gives the row's values and verdict. Two ensembles
 instead of a search; the level is where the estimate meets the limit, not
-where a confidence bound does. --kernels=false searches them as the others.`,
+where a confidence bound does. --kernels=false searches them as the others.
+
+--out DIR writes the tolerance curves (tolerance-curves.csv and a figure per
+source) and keeps each ensemble in DIR/SOURCE/AMPLITUDE; --resume DIR reuses
+them. --shard is refused: each step of the search needs the whole ensemble of
+the step before.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			return run(e, cmd.OutOrStdout(), cmd.ErrOrStderr(), o, cmd.Flags().Changed("confidence"))
