@@ -50,6 +50,7 @@ how the search ended (found; above-range: the spec holds up to the largest
 amplitude searched, a lower bound; below-range; fails-without-source;
 undecided-without-source: more samples would decide the source off), the
 binding criterion and its value at the tolerance with its one-sided bounds.
+
 The noise processes during the shot (intensity, drive phase and field noise)
 are not searched but predicted: the noise transfer functions of the nominal
 shot (rampart response; docs/model.md, "Noise transfer functions") give the
