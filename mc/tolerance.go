@@ -109,6 +109,12 @@ type ToleranceResult struct {
 	// it).
 	Monotone  bool    `json:"monotone"`
 	Precision float64 `json:"precision"`
+	// Method says how the tolerance was found: MethodSearch (the search
+	// described at ToleranceSearch) or MethodKernels (ToleranceSearch.Kernel,
+	// whose prediction Kernel holds; At is then the confirming ensemble
+	// at the predicted tolerance, whatever its verdict).
+	Method string           `json:"method"`
+	Kernel *KernelTolerance `json:"kernel,omitempty"`
 }
 
 // Tolerance returns the tolerance in Unit, and whether there is one.
@@ -248,7 +254,7 @@ func (s ToleranceSearch) search(ctx context.Context, eval Evaluator, src source)
 	if !(o.Precision > 0) || !(o.Factor > 1) || !(o.Range > 1) {
 		return ToleranceResult{}, fmt.Errorf("tolerance options %+v: want Precision > 0, Factor > 1 and Range > 1", o)
 	}
-	res := ToleranceResult{Source: src.name, Unit: src.unit, Precision: o.Precision}
+	res := ToleranceResult{Source: src.name, Unit: src.unit, Precision: o.Precision, Method: MethodSearch}
 	if src.nominal > 0 {
 		v := round12(src.display(src.nominal))
 		res.Nominal = &v

@@ -44,8 +44,31 @@ type Prediction struct {
 // frequency). It is one pass over the grid: the PSD is integrated over
 // quarters of each grid interval (noise.Variance, exact for the closed
 // forms) and weighted by the kernels interpolated linearly.
+//
+// Spectral lines (Lines, alone or in the sums, scalings and band limits
+// PredictProcesses builds) are weighted by the kernels at their own
+// frequencies (At), inside the band.
 func (k *Kernels) Predict(ch Channel, psd noise.PSD, band noise.Band) ChannelPrediction {
+	psd, lines := splitLines(psd)
+	out := k.predictContinuous(ch, psd, band)
+	for i, f := range lines.FrequencyHz {
+		if f < band.LowHz || (band.HighHz > 0 && f > band.HighHz) {
+			continue
+		}
+		kb, kc := k.At(ch, f)
+		out.ContrastLoss += lines.PowerUnit2[i] * kc
+		out.BiasVarRad2 += lines.PowerUnit2[i] * kb
+	}
+	out.BiasStdRad = math.Sqrt(math.Max(out.BiasVarRad2, 0))
+	return out
+}
+
+// predictContinuous is Predict of a PSD without lines (nil: none).
+func (k *Kernels) predictContinuous(ch Channel, psd noise.PSD, band noise.Band) ChannelPrediction {
 	kc := k.Channel(ch)
+	if psd == nil {
+		return ChannelPrediction{Channel: ch}
+	}
 	lo, hi := band.LowHz, band.HighHz
 	top := k.FrequencyHz[len(k.FrequencyHz)-1]
 	if hi == 0 || hi > top {

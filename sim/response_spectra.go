@@ -50,6 +50,21 @@ func (s *Simulator) spectra(rs *responseSetup, op responseOp, second, kick bool)
 	L, nt, h, M := rs.l, rs.nt, rs.h, rs.m
 	lev := len(rs.starts)
 	fft := fourier.NewCmplxFFT(L)
+	// With L even, every series is transformed at length L/2 (it holds
+	// nt+1 <= L/4 samples, so no lag of the correlation wraps), the odd
+	// bins of Yhat by a second, twiddled transform (halfTransforms).
+	half := L%2 == 0
+	var fft2 *fourier.CmplxFFT
+	var tw []complex128
+	if half {
+		fft2 = fourier.NewCmplxFFT(L / 2)
+		for j := 0; j <= nt; j++ {
+			tw = append(tw, cis(-2*math.Pi*float64(j)/float64(L)))
+		}
+	}
+	// kickHat[a][n] is the transform of sum_c conj(yInit_c) Lambda_c(t)
+	// (the start kick's cross term), at length L.
+	var kickHat [2][][]complex128
 	out := &opSpectra{}
 	for a := range 2 {
 		for sg := range 2 {
@@ -148,54 +163,12 @@ func (s *Simulator) spectra(rs *responseSetup, op responseOp, second, kick bool)
 
 		// Fourier transforms of every component, and the ordered
 		// correlation P(nu) = sum_n p_n sum_c conj(Lambdahat) Yhat.
-		p := make([]complex128, L)
-		for n := range lev {
-			// Components whose series carry less than 1e-24 of the total
-			// squared norm are dropped (high momenta the operators barely
-			// reach): their share of any spectrum is below 1e-12.
-			norms := make([]float64, dim)
-			var total float64
-			for which := range 2 {
-				ser := series[n][which]
-				for c := range dim {
-					for _, x := range ser[c*L : c*L+nt+1] {
-						norms[c] += real(x)*real(x) + imag(x)*imag(x)
-					}
-				}
-			}
-			for _, v := range norms {
-				total += v
-			}
-			for which := range 2 {
-				ser := series[n][which]
-				for c := range dim {
-					col := ser[c*L : (c+1)*L]
-					if norms[c] < 1e-24*total {
-						clear(col)
-						continue
-					}
-					fft.Coefficients(col, col)
-				}
-			}
-			yh, lh := series[n][0], series[n][1]
-			pw := complex(rs.weights[n], 0)
-			for c := range dim {
-				yc, lc := yh[c*L:(c+1)*L], lh[c*L:(c+1)*L]
-				for nu := range L {
-					x := lc[nu]
-					p[nu] += pw * complex(real(x), -imag(x)) * yc[nu]
-				}
-			}
+		var cp []complex128
+		if half {
+			cp = rs.halfTransforms(series, &kickHat[a], kick, fft, fft2, tw)
+		} else {
+			cp = rs.fullTransforms(series, &kickHat[a], kick, fft)
 		}
-		// c(k) = (1/L) FFT(P)(k) for lags k >= 0, the k = 0 term halved;
-		// J(+w_m) = h^2 FFT(c')(L-m), J(-w_m) = h^2 FFT(c')(m).
-		fft.Coefficients(p, p)
-		cp := make([]complex128, L)
-		cp[0] = p[0] / complex(2*float64(L), 0)
-		for k := 1; k <= nt; k++ {
-			cp[k] = p[k] / complex(float64(L), 0)
-		}
-		fft.Coefficients(cp, cp)
 		index := func(m, sg int) int {
 			if sg == 0 || m == 0 {
 				return m
@@ -216,7 +189,7 @@ func (s *Simulator) spectra(rs *responseSetup, op responseOp, second, kick bool)
 				opMomentum.apply(b, 0, rs.starts[n], yInit)
 				opMomentum.apply(b, 0, rs.partner[a][n], lInit)
 			}
-			yh, lh := series[n][0], series[n][1]
+			yh := series[n][0]
 			for sg := range 2 {
 				kept[a][n][sg] = make([][]complex128, M+1)
 				for m := 0; m <= M; m++ {
@@ -227,9 +200,13 @@ func (s *Simulator) spectra(rs *responseSetup, op responseOp, second, kick bool)
 						v[c] = complex(h, 0) * yh[c*L+nu]
 						if kick {
 							v[c] += yInit[c]
-							x := lh[c*L+nu]
-							kj += yInit[c] * complex(h*real(x), -h*imag(x))
 						}
+					}
+					if kick {
+						// sum_c yInit_c conj(h Lambdahat_c) = h conj(shat), shat
+						// the transform of sum_c conj(yInit_c) Lambda_c(t).
+						x := kickHat[a][n][nu]
+						kj = complex(h*real(x), -h*imag(x))
 					}
 					kept[a][n][sg][m] = v
 					out.r[a][sg][m] += pw * dot(rs.partner[a][n], v)
@@ -299,4 +276,146 @@ func phaseIntegrals(w, T float64) (complex128, complex128) {
 	i := (1 - cis(-x)) / iw
 	k := ((e-1)/iw - complex(T, 0)) / iw
 	return i, k
+}
+
+// kickSeries returns, when the operator kicks, the transform at length L
+// of sum_c conj(yInit_c) Lambda_c(t) for level n (yInit = l psi0, the
+// kick's vector), from the untransformed series lh; nil otherwise.
+func (rs *responseSetup) kickSeries(lh []complex128, n int, kick bool, fft *fourier.CmplxFFT) []complex128 {
+	if !kick {
+		return nil
+	}
+	dim, L := rs.b.Size(), rs.l
+	yInit := make([]complex128, dim)
+	opMomentum.apply(rs.b, 0, rs.starts[n], yInit)
+	out := make([]complex128, L)
+	for c, y := range yInit {
+		yc := complex(real(y), -imag(y))
+		for j, x := range lh[c*L : c*L+rs.nt+1] {
+			out[j] += yc * x
+		}
+	}
+	return fft.Coefficients(out, out)
+}
+
+// dropped reports, per component of level n's series, whether it carries
+// less than 1e-24 of their total squared norm (high momenta the operators
+// barely reach): its share of any spectrum is below 1e-12, and it is
+// cleared rather than transformed.
+func (rs *responseSetup) dropped(series [2][]complex128) []bool {
+	dim, L, nt := rs.b.Size(), rs.l, rs.nt
+	norms := make([]float64, dim)
+	var total float64
+	for which := range 2 {
+		for c := range dim {
+			for _, x := range series[which][c*L : c*L+nt+1] {
+				norms[c] += real(x)*real(x) + imag(x)*imag(x)
+			}
+		}
+	}
+	for _, v := range norms {
+		total += v
+	}
+	out := make([]bool, dim)
+	for c, v := range norms {
+		out[c] = v < 1e-24*total
+	}
+	return out
+}
+
+// fullTransforms transforms every component of the series at length L in
+// place and returns the transform of the ordered lag correlation
+// c'(k) = (1/L) FFT(P)(k) for lags 0 <= k <= nt (k = 0 halved), P(nu) =
+// sum_n p_n sum_c conj(Lambdahat_c) Yhat_c, from which J(+w_m) = h^2
+// c'hat(L-m) and J(-w_m) = h^2 c'hat(m).
+func (rs *responseSetup) fullTransforms(series [][2][]complex128, kickHat *[][]complex128, kick bool, fft *fourier.CmplxFFT) []complex128 {
+	dim, L, nt := rs.b.Size(), rs.l, rs.nt
+	p := make([]complex128, L)
+	for n := range series {
+		*kickHat = append(*kickHat, rs.kickSeries(series[n][1], n, kick, fft))
+		drop := rs.dropped(series[n])
+		for which := range 2 {
+			ser := series[n][which]
+			for c := range dim {
+				col := ser[c*L : (c+1)*L]
+				if drop[c] {
+					clear(col)
+					continue
+				}
+				fft.Coefficients(col, col)
+			}
+		}
+		yh, lh := series[n][0], series[n][1]
+		pw := complex(rs.weights[n], 0)
+		for c := range dim {
+			yc, lc := yh[c*L:(c+1)*L], lh[c*L:(c+1)*L]
+			for nu := range L {
+				x := lc[nu]
+				p[nu] += pw * complex(real(x), -imag(x)) * yc[nu]
+			}
+		}
+	}
+	return lagTransform(p, L, nt, fft, L, fft)
+}
+
+// halfTransforms is fullTransforms for an even L at half the cost of the
+// Lambda series: a series of nt+1 <= L/4 samples zero-padded to L has
+//
+//	Xhat_L(2q) = Xhat_{L/2}(q),   Xhat_L(2q+1) = FFT_{L/2}(x_j e^{-2 pi i j/L})(q),
+//
+// so Yhat at every bin costs two transforms of length L/2, and the
+// correlation P needs Lambdahat only at the even bins (the lags of
+// two series of nt+1 samples stay within 2 nt < L/2: none wraps). The
+// Lambda series keep only their even-bin transform, in their first L/2
+// entries.
+func (rs *responseSetup) halfTransforms(series [][2][]complex128, kickHat *[][]complex128, kick bool, fft, fft2 *fourier.CmplxFFT, tw []complex128) []complex128 {
+	dim, L, nt := rs.b.Size(), rs.l, rs.nt
+	l2 := L / 2
+	p := make([]complex128, l2)
+	odd, even := make([]complex128, l2), make([]complex128, l2)
+	for n := range series {
+		*kickHat = append(*kickHat, rs.kickSeries(series[n][1], n, kick, fft))
+		drop := rs.dropped(series[n])
+		yh, lh := series[n][0], series[n][1]
+		for c := range dim {
+			ycol, lcol := yh[c*L:(c+1)*L], lh[c*L:(c+1)*L]
+			if drop[c] {
+				clear(ycol)
+				clear(lcol)
+				continue
+			}
+			fft2.Coefficients(lcol[:l2], lcol[:l2])
+			clear(odd)
+			for j, w := range tw {
+				odd[j] = ycol[j] * w
+			}
+			fft2.Coefficients(odd, odd)
+			fft2.Coefficients(even, ycol[:l2])
+			for q := range l2 {
+				ycol[2*q], ycol[2*q+1] = even[q], odd[q]
+			}
+		}
+		pw := complex(rs.weights[n], 0)
+		for c := range dim {
+			yc, lc := yh[c*L:(c+1)*L], lh[c*L:(c+1)*L]
+			for q := range l2 {
+				x := lc[q]
+				p[q] += pw * complex(real(x), -imag(x)) * yc[2*q]
+			}
+		}
+	}
+	return lagTransform(p, l2, nt, fft2, L, fft)
+}
+
+// lagTransform turns P (length n, transformed with fftN) into the
+// transform at length L (fftL) of the ordered lag correlation c'(k) =
+// (1/n) FFT_n(P)(k), 0 <= k <= nt, the k = 0 term halved.
+func lagTransform(p []complex128, n, nt int, fftN *fourier.CmplxFFT, L int, fftL *fourier.CmplxFFT) []complex128 {
+	fftN.Coefficients(p, p)
+	cp := make([]complex128, L)
+	cp[0] = p[0] / complex(2*float64(n), 0)
+	for k := 1; k <= nt; k++ {
+		cp[k] = p[k] / complex(float64(n), 0)
+	}
+	return fftL.Coefficients(cp, cp)
 }

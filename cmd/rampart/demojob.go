@@ -114,7 +114,7 @@ func (d *demo) tolerances() error {
 	defer stop()
 	c := d.cs[d.winner]
 	o := d.demoEnsemble(d.opts.toleranceSamples)
-	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.Scenario, c.Config, budget, req, names, o, demoTolerancePrecision, ro)
+	rep, work, err := searchTolerances(ctx, d.env, d.stderr, c.Scenario, c.Config, budget, req, names, o, demoTolerancePrecision, ro, true)
 	if err != nil {
 		return err
 	}

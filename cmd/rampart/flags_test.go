@@ -96,7 +96,7 @@ func TestFlagsParse(t *testing.T) {
 			t.Fatal(err)
 		}
 		want := toleranceOptions{decisionOptions: decisionOptions{scenario: "s.toml", ens: defaultEnsemble(200)},
-			spec: "q.toml", sources: "timing.skew_ns,depth.rin_db_hz", joint: true, precision: 0.1}
+			spec: "q.toml", sources: "timing.skew_ns,depth.rin_db_hz", joint: true, precision: 0.1, kernels: true}
 		if !reflect.DeepEqual(got, want) {
 			t.Errorf("got %+v\nwant %+v", got, want)
 		}

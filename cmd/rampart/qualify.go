@@ -166,6 +166,9 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		rep.MeasuredSignal = &qm
 	}
 	gate := rep.Gating()
+	if rep.Kernel, err = kernelPrediction(run.realiser.Config(), budget, defaultKernelMemoryMiB); err != nil {
+		return err
+	}
 	if dir != "" {
 		// The look is counted before the verdict is written or shown, so
 		// that no verdict is seen whose look the directory does not count.

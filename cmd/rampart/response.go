@@ -31,6 +31,7 @@ type responseOptions struct {
 	spec      string
 	bands     string
 	shares    []float64
+	spectra   []string
 }
 
 // defaultKernelMemoryMiB is the cap on the kernels' memory: twice the
@@ -55,10 +56,17 @@ signal the bias variance is int S |G_phi|^2 df and the mean contrast loss
 int S K_C df (linear response; docs/model.md, "Noise transfer functions").
 
 Prints where each kernel peaks and its value at the trap frequency nu and at
-2 nu, and the prediction for the scenario's own noise processes (its RIN and
-drive phase noise, the arms' correlation included): the mean contrast loss
+2 nu, and the prediction for the scenario's own noise processes (its RIN,
+drive phase noise with the arms' correlation, and field noise through the
+spin pair's Zeeman slope at the static offset, a pure differential shift):
+the mean contrast loss
 and the bias standard deviation per channel and in total, with warnings where
 the linear answer cannot be trusted.
+
+--spectrum PROCESS=SPEC replaces (or adds) a process's spectrum for the
+prediction, the masks' growth factor and --confirm: a sum of white levels,
+power laws h f^alpha (the IEEE Std 1139 forms) and tables, in the signal's
+unit^2/Hz (intensity 1/Hz, each arm's drive phase rad^2/Hz, field G^2/Hz).
 
 --confirm N runs a Monte Carlo ensemble of N shots under the same noise
 processes (nothing static) and prints it beside the prediction.
@@ -86,6 +94,7 @@ estimate is above --memory-mib is refused before anything is computed.`,
 	f.IntVar(&o.workers, "workers", 0, "worker goroutines `W` of the --confirm ensemble (0: one per core)")
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) whose criteria the noise masks keep")
 	f.StringVar(&o.bands, "bands", "decade", "mask bands: `decade` or octave")
+	f.StringArrayVar(&o.spectra, "spectrum", nil, "replace a process's spectrum (repeatable): "+spectrumHelp)
 	f.Float64SliceVar(&o.shares, "band-share", nil, "shares of the error budget per band, low to high, comma separated, summing to at most 1 (default equal)")
 	return cmd
 }
@@ -115,6 +124,9 @@ func runResponse(e env, stdout, stderr io.Writer, o responseOptions) error {
 	}
 	sc, cfg, budget, err := scenario.LoadBudget(o.scenario, o.sets)
 	if err != nil {
+		return err
+	}
+	if budget, err = applySpectra(budget, o.spectra); err != nil {
 		return err
 	}
 	var req *mc.Requirements
@@ -218,8 +230,10 @@ func kernelsTooLarge(sc *scenario.Scenario, cfg sim.Config, need int64, capMiB i
 // confirmResponse runs the Monte Carlo of the budget's noise processes
 // alone; nil when the budget has none.
 func confirmResponse(cfg sim.Config, b mc.Budget, nominal sim.Result, o responseOptions) (*present.ResponseConfirm, error) {
-	dyn := mc.Budget{RIN: b.RIN, RINBand: b.RINBand, Phase: b.Phase, PhaseCorrelation: b.PhaseCorrelation}
-	if !dyn.Dynamic() {
+	dyn := mc.Budget{RIN: b.RIN, RINBand: b.RINBand, Phase: b.Phase, PhaseCorrelation: b.PhaseCorrelation, FieldNoise: b.FieldNoise}
+	dyn.Apparatus.Field = b.Apparatus.Field
+	dyn.MainsG, dyn.Mains = b.MainsG, b.Mains
+	if len(dyn.Processes(cfg.Sequence.Duration())) == 0 {
 		return nil, nil
 	}
 	r, err := mc.NewRealiser(mc.Ensemble{Config: cfg, Budget: dyn, Samples: o.confirm, Seed: o.seed})
@@ -287,7 +301,10 @@ func responseMasks(k *sim.Kernels, nominal sim.Result, b mc.Budget, procs []sim.
 		name, kind, unit string
 		load             sim.Load
 	}
-	targets := []target{{"phase", "process", "rad", sim.PhaseLoad(b.PhaseCorrelation)}, {"rin", "process", "1", sim.Load{sim.IntensityCommon: 1}}}
+	targets := []target{{mc.ProcessPhase, "process", "rad", sim.PhaseLoad(b.PhaseCorrelation)}, {mc.ProcessRIN, "process", "1", sim.Load{sim.IntensityCommon: 1}}}
+	if fl := b.FieldLoad(); fl[sim.ShiftDifferential] != 0 {
+		targets = append(targets, target{mc.ProcessField, "process", "G", fl})
+	}
 	for _, ck := range k.Channels {
 		targets = append(targets, target{ck.Channel.String(), "channel", ck.Channel.Unit(), sim.Load{ck.Channel: 1}})
 	}

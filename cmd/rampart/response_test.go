@@ -192,11 +192,13 @@ func TestResponseFlags(t *testing.T) {
 	var got responseOptions
 	cmd := newResponseCmd(env{}, func(_ env, _, _ io.Writer, o responseOptions) error { got = o; return nil })
 	if err := parse(t, cmd, "--scenario", "s.toml", "--set", "motion.laps=2", "--json", "--out", "D", "--report", "R", "--max-hz", "5e4",
-		"--memory-mib", "512", "--confirm", "50", "--seed", "7", "--workers", "2", "--spec", "q.toml", "--bands", "octave", "--band-share", "0.5,0.25,0.25"); err != nil {
+		"--memory-mib", "512", "--confirm", "50", "--seed", "7", "--workers", "2", "--spec", "q.toml", "--bands", "octave", "--band-share", "0.5,0.25,0.25",
+		"--spectrum", "rin=white:1e-12+powerlaw:1e-9:-1", "--spectrum", "phase=table:p.csv"); err != nil {
 		t.Fatal(err)
 	}
 	want := responseOptions{scenario: "s.toml", sets: []string{"motion.laps=2"}, json: true, out: "D", report: "R", maxHz: 5e4, memoryMiB: 512,
-		confirm: 50, seed: 7, workers: 2, spec: "q.toml", bands: "octave", shares: []float64{0.5, 0.25, 0.25}}
+		confirm: 50, seed: 7, workers: 2, spec: "q.toml", bands: "octave", shares: []float64{0.5, 0.25, 0.25},
+		spectra: []string{"rin=white:1e-12+powerlaw:1e-9:-1", "phase=table:p.csv"}}
 	if !reflect.DeepEqual(got, want) {
 		t.Errorf("got %+v\nwant %+v", got, want)
 	}
@@ -270,5 +272,49 @@ func TestGoldenResponseCheck(t *testing.T) {
 	}
 	if total := num(rows["total"][0][1]); math.Abs(total-loss) > 0.01*loss {
 		t.Errorf("total loss %g, sum of the channels %g (tol 1 %%)", total, loss)
+	}
+}
+
+// TestResponseRINTable checks that response predicts for a scenario's
+// intensity-noise table (noise.depth.rin_table, dB/Hz): a table flat at
+// -130 dB/Hz (held constant outside its rows, noise.ParseRIN) is white
+// noise of that level, so its prediction must equal the white level's
+// (rin_db_hz = -130) to rounding (1e-12 relative).
+func TestResponseRINTable(t *testing.T) {
+	dir := t.TempDir()
+	base, err := os.ReadFile(filepath.Join(repoRoot, ensembleScenario))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "rin.csv"), []byte("f_hz,rin_db_hz\n10,-130\n1e5,-130\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	losses := map[string]float64{}
+	for name, key := range map[string]string{"table": "rin_table = \"rin.csv\"", "white": "rin_db_hz = -130.0"} {
+		path := filepath.Join(dir, name+".toml")
+		text := strings.Replace(string(base), "[noise.depth]\n", "[noise.depth]\n"+key+"\n", 1)
+		if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		stdout, stderr, code := execute(t, "response", "--scenario", path, "--set", "ring.sites=10", "--set", "ring.radius_um=2.5", "--json")
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", name, code, stderr)
+		}
+		var rep struct {
+			Processes []struct{ Name string }
+			Predicted struct {
+				ContrastLoss float64 `json:"contrast_loss"`
+			}
+		}
+		if err := json.Unmarshal([]byte(stdout), &rep); err != nil {
+			t.Fatal(err)
+		}
+		if len(rep.Processes) != 1 || rep.Processes[0].Name != "rin" || !(rep.Predicted.ContrastLoss > 0) {
+			t.Fatalf("%s: processes %+v, loss %g: want rin alone and a positive loss", name, rep.Processes, rep.Predicted.ContrastLoss)
+		}
+		losses[name] = rep.Predicted.ContrastLoss
+	}
+	if math.Abs(losses["table"]/losses["white"]-1) > 1e-12 {
+		t.Errorf("contrast loss of the flat table %.15g, of the white level %.15g (tol 1e-12 relative)", losses["table"], losses["white"])
 	}
 }

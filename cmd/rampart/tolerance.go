@@ -23,6 +23,7 @@ type toleranceOptions struct {
 	joint     bool
 	precision float64
 	readout   readoutOptions
+	kernels   bool
 }
 
 // newToleranceCmd returns the command; run is what it runs with the parsed
@@ -55,6 +56,17 @@ how the search ended (found; above-range: the spec holds up to the largest
 amplitude searched, a lower bound; below-range; fails-without-source;
 undecided-without-source: more samples would decide the source off), the
 binding criterion and its value at the tolerance with its one-sided bounds.
+
+The noise processes during the shot (intensity, drive phase and field noise)
+are not searched but predicted: the noise transfer functions of the nominal
+shot (rampart response; docs/model.md, "Noise transfer functions") give the
+level at which each predicted criterion (mean and 5th-percentile contrast,
+|bias| p95) meets its limit, with the rest of the budget taken from one
+ensemble with the process off; one ensemble at that level, with the whole
+budget, confirms it and gives the row's values and verdict. Two ensembles
+instead of a search; the level is where the estimate meets the limit, not
+where a confidence bound does. --kernels=false searches them as the others.
+
 --out DIR writes the tolerance curves (tolerance-curves.csv and a figure per
 source) and keeps each ensemble in DIR/SOURCE/AMPLITUDE; --resume DIR reuses
 them. --shard is refused: each step of the search needs the whole ensemble of
@@ -75,6 +87,7 @@ as a job array (rampart sbatch).`,
 	addReadoutFlags(cmd, &o.readout)
 	f.BoolVar(&o.joint, "joint", false, "also search the factor by which the whole budget may be scaled")
 	f.Float64Var(&o.precision, "precision", 0.05, "relative precision `P` of each tolerance, in [0.001, 1]")
+	f.BoolVar(&o.kernels, "kernels", true, "find the noise processes' tolerances from the noise transfer functions, confirmed by one ensemble (false: search them by Monte Carlo)")
 	cmd.MarkFlagRequired("spec")
 	return cmd
 }
@@ -84,7 +97,10 @@ as a job array (rampart sbatch).`,
 // amplitude an ensemble of the options' size on common random numbers (one
 // noise grid sized for the widest search), kept in a subdirectory
 // SOURCE/AMPLITUDE of the options' directory if there is one.
-func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64, ro mc.Readout) (present.ToleranceReport, present.Work, error) {
+//
+// With kernels, the noise processes' tolerances come from the noise
+// transfer functions (searchSource).
+func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64, ro mc.Readout, kernels bool) (present.ToleranceReport, present.Work, error) {
 	var work present.Work
 	if n := req.MinSamples(); o.samples < n {
 		return present.ToleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot pass the spec at %g %% confidence even if every one is far inside its limits (no exact bound on its quantiles or yield from so few); give at least %d",
@@ -129,12 +145,19 @@ func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario
 		}
 	}
 	rep := present.ToleranceReport{Requirements: req, Samples: o.samples, Seed: o.seed, Sampler: o.sampler, ScaleFactorS: search.ScaleFactorS, Numerics: &est}
+	var tk *toleranceKernels
+	if kernels {
+		tk = &toleranceKernels{cfg: nominal.Config(), capMiB: defaultKernelMemoryMiB}
+	}
 	for _, name := range names {
-		res, err := search.Source(ctx, evaluator(name), name)
+		res, err := searchSource(ctx, search, evaluator(name), name, tk)
 		if err != nil {
 			return present.ToleranceReport{}, work, err
 		}
 		rep.Results = append(rep.Results, res)
+	}
+	if tk != nil {
+		rep.KernelsSkipped = tk.Skipped
 	}
 	return rep, work, nil
 }
@@ -184,7 +207,7 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 	}
 	ctx, stop := signalContext()
 	defer stop()
-	rep, work, err := searchTolerances(ctx, e, stderr, sc, cfg, budget, req, names, o.ens, o.precision, ro)
+	rep, work, err := searchTolerances(ctx, e, stderr, sc, cfg, budget, req, names, o.ens, o.precision, ro, o.kernels)
 	if err != nil {
 		return err
 	}

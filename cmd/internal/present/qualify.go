@@ -23,6 +23,9 @@ type QualifyReport struct {
 	// Signal names the verdict that sets the exit code: "true" or
 	// "measured"; empty where no exit code depends on it (the demo).
 	Signal string `json:"signal,omitempty"`
+	// Kernel is the noise transfer functions' prediction for the budget's
+	// noise processes, stated beside the verdict; nil when it has none.
+	Kernel *KernelPrediction `json:"kernel_prediction,omitempty"`
 }
 
 // Gating returns the qualification whose verdict sets the exit code: the
@@ -191,6 +194,9 @@ func criteriaNotes(rep QualifyReport) []string {
 			out = append(out, "The mean contrast allows for shots lost to photon scattering: a Clopper-Pearson bound on the lost fraction times the bootstrap-t of the shots with a fringe, each at half the tail (docs/model.md, Statistics).")
 			break
 		}
+	}
+	if note := kernelPredictionNote(rep.Kernel); note != "" {
+		out = append(out, note)
 	}
 	return append(out, fmt.Sprintf("Look %d: each bound is one-sided at %s %%, this look's share of the %s %% claim, so that qualifying again after topping up the ensemble keeps it; the advice in \"To decide\" is for the next look. Quantiles have exact order-statistic bounds, the mean a bootstrap-t, the yield Clopper-Pearson; a fail is corrected for the number of criteria (Holm).",
 		q.Look, Sig(100*q.LookConfidence, 4), Sig(100*q.Confidence, 3)))

@@ -121,11 +121,7 @@ func NewResponseReport(name string, k *sim.Kernels, nominal sim.Result, ps []sim
 				chs = append(chs, fmt.Sprintf("%s x %s", Sig(w, 3), ck.Channel))
 			}
 		}
-		unit := "rad"
-		if pr.Name == "rin" {
-			unit = "1"
-		}
-		rep.Processes = append(rep.Processes, ResponseProcess{Name: pr.Name, Unit: unit, Channels: strings.Join(chs, ", "), LowHz: pr.Band.LowHz, HighHz: hi})
+		rep.Processes = append(rep.Processes, ResponseProcess{Name: pr.Name, Unit: pr.Unit, Channels: strings.Join(chs, ", "), LowHz: pr.Band.LowHz, HighHz: hi})
 	}
 	rep.Predicted = ResponsePrediction{ContrastLoss: p.ContrastLoss, BiasStdRad: p.BiasStdRad,
 		BiasStdDegPerH: mc.BiasDegPerH(p.BiasStdRad, nominal.ScaleFactorS), Warnings: p.Warnings}

@@ -43,6 +43,9 @@ func ToleranceGrid(rep ToleranceReport) *Grid {
 			if res.Status == mc.ToleranceAboveRange {
 				tol = ">= " + tol
 			}
+			if res.Method == mc.MethodKernels {
+				tol += " (kernels)"
+			}
 			if c, ok := res.Binding(*res.At); ok {
 				f := criterionFormat(c)
 				value, bounds = f(c.Value), interval(c.Lo, c.Hi, f)
@@ -71,6 +74,9 @@ func ToleranceNotes(rep ToleranceReport) []string {
 		each,
 		fmt.Sprintf("The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.", Sig(rep.Results[0].Precision, 3)),
 	}
+	if slices.ContainsFunc(rep.Results, func(r mc.ToleranceResult) bool { return r.Method == mc.MethodKernels }) {
+		out[1] = "Searched by Monte Carlo, a t" + out[1][len("The t"):]
+	}
 	statuses := map[mc.ToleranceStatus]bool{}
 	monotone := true
 	for _, res := range rep.Results {
@@ -85,6 +91,7 @@ func ToleranceNotes(rep ToleranceReport) []string {
 	if note := yieldBySampling(rep); note != "" {
 		out = append(out, note)
 	}
+	out = append(out, kernelToleranceNotes(rep)...)
 	if !monotone {
 		out = append(out, "* The criterion's value was not monotone in the amplitude over the ensembles tried (sampling noise); the curves carry its monotone envelope.")
 	}
@@ -177,6 +184,14 @@ func WriteToleranceCurves(dir string, rep ToleranceReport) error {
 func toleranceFigures(rep ToleranceReport) ([]namedFigure, error) {
 	var out []namedFigure
 	for _, res := range rep.Results {
+		if res.Method == mc.MethodKernels {
+			if nf, ok, err := kernelToleranceFigure(res); err != nil {
+				return nil, fmt.Errorf("figure of the tolerance of %s: %w", res.Source, err)
+			} else if ok {
+				out = append(out, nf)
+			}
+			continue
+		}
 		if len(res.Points) < 2 {
 			continue
 		}
@@ -240,4 +255,7 @@ type ToleranceReport struct {
 	Results      []mc.ToleranceResult `json:"results"`
 	// Numerics is the nominal shot's estimated numerical error.
 	Numerics *sim.ErrorEstimate `json:"numerics_error,omitempty"`
+	// KernelsSkipped says why the noise processes were searched by Monte
+	// Carlo rather than found from the noise transfer functions.
+	KernelsSkipped string `json:"kernels_skipped,omitempty"`
 }
