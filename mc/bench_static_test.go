@@ -3,6 +3,7 @@ package mc
 import (
 	"context"
 	"math"
+	"rampart/internal/cputime"
 	"testing"
 
 	"rampart/sim"
@@ -53,7 +54,7 @@ func BenchmarkStatic10k(b *testing.B) {
 			if err != nil {
 				b.Fatal(err)
 			}
-			c0 := processCPU()
+			c0 := cputime.Process()
 			for b.Loop() {
 				if _, err := r.Run(context.Background(), 0, e.Samples, 2, func(Record) error { return nil }); err != nil {
 					b.Fatal(err)
@@ -61,7 +62,7 @@ func BenchmarkStatic10k(b *testing.B) {
 			}
 			n := float64(b.N * e.Samples)
 			b.ReportMetric(b.Elapsed().Seconds()/n*1e4, "s/1e4")
-			b.ReportMetric(float64((processCPU()-c0).Nanoseconds())/n/1e6, "cpu-ms/real")
+			b.ReportMetric(float64((cputime.Process()-c0).Nanoseconds())/n/1e6, "cpu-ms/real")
 		})
 	}
 }

@@ -1,14 +1,13 @@
 package scenario
 
 import (
-	"encoding/json"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
 	"testing/fstest"
 
+	"rampart/atom"
 	"rampart/sim"
 )
 
@@ -83,50 +82,32 @@ func TestApparatusScattering(t *testing.T) {
 }
 
 // TestApparatusPolarisedScattering: with a spin pair and each arm's
-// polarisation, each arm scatters at its state's own rate per unit depth,
-// checked against the damped-oscillator rows of
-// testdata/reference/scattering.py (numpy; line shares of Grimm et al.
-// 2000, eq. (20)) for sigma- on |2,-2> (arm s = +1) and sigma+ on |1,-1>
-// (arm s = -1) at 785 nm; relative 1e-6 as in the atom package.
+// polarisation, each arm scatters at its own state's rate per unit depth
+// (atom.StateScatteringPerDepth, which atom's tests check against the
+// damped-oscillator sum of testdata/reference/scattering.py): sigma- on
+// |2,-2> for the arm s = +1 (the F = 2 state rides it) and sigma+ on
+// |1,-1> for the arm s = -1, at 785 nm and 20 kHz.
 func TestApparatusPolarisedScattering(t *testing.T) {
-	buf, err := os.ReadFile("../testdata/reference/scattering.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	var ref struct {
-		Polarised []struct {
-			Nm       float64 `json:"wavelength_nm"`
-			P        float64 `json:"polarisation"`
-			F, M     int
-			PerDepth float64 `json:"scattering_per_depth_hz"`
-		} `json:"polarised"`
-	}
-	if err := json.Unmarshal(buf, &ref); err != nil {
-		t.Fatal(err)
-	}
-	row := func(p float64, f, m int) float64 {
-		for _, r := range ref.Polarised {
-			if r.Nm == 785 && r.P == p && r.F == f && r.M == m {
-				return r.PerDepth
-			}
-		}
-		t.Fatalf("no reference row for 785 nm, P = %g, |%d,%d>", p, f, m)
-		return 0
-	}
 	s := withSets(t, "atom.spin_pair=rb87-stretched", "lattice.wavelength_nm=785", "lattice.depth_khz=20",
 		"lattice.polarisation_plus=-1", "lattice.polarisation_minus=1")
 	sh, err := s.Apparatus()
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := [2]float64{row(-1, 2, -2) * 20e3, row(1, 1, -1) * 20e3}
-	for a := range want {
-		if got := sh.Scattering.RateS[a]; math.Abs(got/want[a]-1) > 1e-6 {
-			t.Errorf("arm %d: %g /s, want %g /s", a, got, want[a])
+	for a, c := range []struct {
+		p  float64
+		st atom.State
+	}{{-1, atom.State{F: 2, M: -2}}, {1, atom.State{F: 1, M: -1}}} {
+		r, err := atom.StateScatteringPerDepth(atom.Light{WavelengthM: 785e-9, Polarisation: c.p}, c.st)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got, want := sh.Scattering.RateS[a], r*20e3; math.Abs(got/want-1) > 1e-12 {
+			t.Errorf("arm %d: %g /s, want %g /s (%v, polarisation %g)", a, got, want, c.st, c.p)
 		}
 	}
 	// sigma- on |2,-2> couples to D2 alone, so it scatters less per unit
-	// depth than linear light at 785 nm (D1 lies blue of the light and
+	// depth than linear light at 785 nm (D1 lies red of the light and
 	// takes depth away from D2's): 0.32/s against 0.47/s.
 	lin := withSets(t, "atom.spin_pair=rb87-stretched", "lattice.wavelength_nm=785", "lattice.depth_khz=20")
 	shl, _ := lin.Apparatus()

@@ -3,6 +3,7 @@ package sim
 import (
 	"fmt"
 	"math"
+	"rampart/internal/cputime"
 	"testing"
 )
 
@@ -32,11 +33,11 @@ func issueConfig(tb testing.TB, laps float64) Config {
 // time.
 func reportCPU(b *testing.B, f func()) {
 	b.Helper()
-	c0 := processCPU()
+	c0 := cputime.Process()
 	for b.Loop() {
 		f()
 	}
-	b.ReportMetric(float64((processCPU()-c0).Nanoseconds())/float64(b.N), "cpu-ns/op")
+	b.ReportMetric(float64((cputime.Process()-c0).Nanoseconds())/float64(b.N), "cpu-ns/op")
 }
 
 // BenchmarkShotCold times a nominal ground-state shot on the issue's

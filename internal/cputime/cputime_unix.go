@@ -1,15 +1,15 @@
 //go:build unix
 
-package sim
+package cputime
 
 import (
 	"syscall"
 	"time"
 )
 
-// processCPU returns the user and system CPU time the process has used,
-// all threads (the collector's included).
-func processCPU() time.Duration {
+// Process returns the user and system CPU time the process has used, all
+// threads (the collector's included); 0 if the system does not say.
+func Process() time.Duration {
 	var ru syscall.Rusage
 	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
 		return 0

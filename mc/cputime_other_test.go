@@ -1,8 +1,0 @@
-//go:build !unix
-
-package mc
-
-import "time"
-
-// processCPU is not measured on this platform: the CPU metrics read 0.
-func processCPU() time.Duration { return 0 }
