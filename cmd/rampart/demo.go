@@ -179,15 +179,7 @@ func (d *demo) compareRamps() error {
 		}
 		// The bias at zero rotation, as rampart shot reports it (two more
 		// shots at Omega +- h, sim.Simulator.Gyro).
-		s, err := sim.NewSimulator(run.Config)
-		if err != nil {
-			return err
-		}
-		base, err := sc.Apparatus()
-		if err != nil {
-			return err
-		}
-		_, g, err := s.Gyro(base)
+		g, _, err := zeroRateGyro(sc, run.Config)
 		if err != nil {
 			return err
 		}

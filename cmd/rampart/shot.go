@@ -91,15 +91,7 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 	// The table and the JSON separate the zero-rate bias from the
 	// scale-factor error (IEEE Std 952-1997 terms), from two more shots at
 	// Omega +- h (sim.Simulator.Gyro).
-	s, err := sim.NewSimulator(run.Config)
-	if err != nil {
-		return err
-	}
-	base, err := sc.Apparatus()
-	if err != nil {
-		return err
-	}
-	_, g, err := s.Gyro(base)
+	g, base, err := zeroRateGyro(sc, run.Config)
 	if err != nil {
 		return err
 	}
@@ -150,4 +142,20 @@ func simulate(e env, sc *scenario.Scenario, cfg sim.Config, obs sim.Observer) (p
 	start := e.now()
 	r := s.Run(base, obs)
 	return present.ShotRun{Config: s.Config(), Result: r, Elapsed: e.now().Sub(start)}, nil
+}
+
+// zeroRateGyro returns the zero-rate bias and scale factor of the
+// scenario's apparatus shot under cfg, from two more shots at Omega +- h
+// (sim.Simulator.Gyro), and that apparatus shot.
+func zeroRateGyro(sc *scenario.Scenario, cfg sim.Config) (sim.Gyro, sim.Shot, error) {
+	s, err := sim.NewSimulator(cfg)
+	if err != nil {
+		return sim.Gyro{}, sim.Shot{}, err
+	}
+	base, err := sc.Apparatus()
+	if err != nil {
+		return sim.Gyro{}, sim.Shot{}, err
+	}
+	_, g, err := s.Gyro(base)
+	return g, base, err
 }
