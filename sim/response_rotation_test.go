@@ -144,3 +144,21 @@ func TestRotationKernelConstantSpeed(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkRotationKernel times the rotation channel's kernel on the
+// benchmark scenario (sin2 ramps of 150 us, one lap) on a grid like the
+// simulator's: step 1/(4T) up to its noise band.
+func BenchmarkRotationKernel(b *testing.B) {
+	c := benchConfig(b, 1)
+	s, err := NewSimulator(c)
+	if err != nil {
+		b.Fatal(err)
+	}
+	T := c.Sequence.Duration()
+	df := 1 / (4 * T)
+	M := int(s.NoiseBandHz() / df)
+	drives := s.drives(Shot{})
+	for b.Loop() {
+		rotationKernel(drives, c.Ring.Inertia(), df, M)
+	}
+}
