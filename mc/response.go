@@ -14,10 +14,13 @@ const (
 	ProcessPhase = "phase"
 	ProcessField = "field"
 	ProcessMains = "mains"
+	// ProcessRotation is the platform's rotation-rate noise (its channel
+	// bears the same name, sim.Rotation).
+	ProcessRotation = "rotation"
 )
 
 // processNames maps the Process rows of Sources to their process names.
-var processNames = map[string]string{SourceRIN: ProcessRIN, SourcePhase: ProcessPhase, SourceFieldNoise: ProcessField, ParamMains: ProcessMains}
+var processNames = map[string]string{SourceRIN: ProcessRIN, SourcePhase: ProcessPhase, SourceFieldNoise: ProcessField, ParamMains: ProcessMains, SourceRotationPSD: ProcessRotation}
 
 // Processes returns the budget's noise processes on the noise transfer
 // functions' channels (sim.Kernels), in the bands the Monte Carlo draws
@@ -25,7 +28,7 @@ var processNames = map[string]string{SourceRIN: ProcessRIN, SourcePhase: Process
 // holds, up to the kernels' band unless the budget gives a band.
 func (b Budget) Processes(durationS float64) []sim.Process {
 	var ps []sim.Process
-	for _, key := range []string{SourceRIN, SourcePhase, SourceFieldNoise, ParamMains} {
+	for _, key := range []string{SourceRIN, SourcePhase, SourceFieldNoise, ParamMains, SourceRotationPSD} {
 		if p, ok := b.Process(key, durationS); ok {
 			ps = append(ps, p)
 		}
@@ -48,6 +51,9 @@ func (b Budget) Processes(durationS float64) []sim.Process {
 //	       uniformly random phase. A line triggered at a fixed phase
 //	       (Mains.FixedPhase) moves every shot alike, a bias and no spread:
 //	       it is no process.
+//	rotation: sim.Rotation, PSD S_Omega of the platform's rotation rate in
+//	       (rad/s)^2/Hz (Budget.RotationNoise), a pure phase through the
+//	       arms' enclosed-area rate.
 //
 // The quadratic Zeeman term's own response to the noise, -2 pi Q int b^2
 // dt, is a mean phase shift of -2 pi Q sigma_b^2 T (second order), not a
@@ -85,6 +91,11 @@ func (b Budget) Process(key string, durationS float64) (sim.Process, bool) {
 			lines.PowerUnit2 = append(lines.PowerUnit2, a*a/2)
 		}
 		return sim.Process{Name: ProcessMains, Unit: "G", Load: b.FieldLoad(), PSD: lines}, true
+	case SourceRotationPSD:
+		if b.RotationNoise == nil {
+			return sim.Process{}, false
+		}
+		return sim.Process{Name: ProcessRotation, Unit: "rad/s", Load: sim.Load{sim.Rotation: 1}, PSD: b.RotationNoise, Band: noise.Band{LowHz: lo}}, true
 	}
 	return sim.Process{}, false
 }

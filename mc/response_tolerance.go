@@ -91,7 +91,7 @@ const (
 func (s ToleranceSearch) Kernel(ctx context.Context, eval Evaluator, k *sim.Kernels, name string) (ToleranceResult, error) {
 	row, ok := LookupSource(name)
 	if !ok || row.Kind != Process {
-		return ToleranceResult{}, fmt.Errorf("kernel tolerance of %q: not a noise process (want %s, %s or %s)", name, SourceRIN, SourcePhase, SourceFieldNoise)
+		return ToleranceResult{}, fmt.Errorf("kernel tolerance of %q: not a noise process (want %s, %s, %s or %s)", name, SourceRIN, SourcePhase, SourceFieldNoise, SourceRotationPSD)
 	}
 	if err := s.Requirements.Validate(); err != nil {
 		return ToleranceResult{}, fmt.Errorf("tolerance of %s: %w", name, err)

@@ -200,3 +200,67 @@ func TestKernelToleranceAgreesWithSearch(t *testing.T) {
 		t.Errorf("kernel tolerance %.3f dB/Hz outside the search's bracket [%.3f, %.3f] dB/Hz widened by %.2f dB", got, lo, hi, slack)
 	}
 }
+
+// TestRotationKernelTolerance finds the tolerance of the platform's
+// rotation-rate noise (platform.rotation_noise_urad2_s2_hz) from the
+// kernels of a small ring and confirms it with rampart's own ensemble.
+// With the rotation noise off every shot has the nominal bias b0, so the
+// |bias| p95 criterion binds where the added normal bias's std is that of
+// the folded normal whose 95th percentile is the limit (sim.BiasStdForP95;
+// F. C. Leone, L. S. Nelson and R. B. Nottingham, Technometrics 3, 543
+// (1961)): the level sigma^2 / V with V the kernels' variance per unit
+// level from 1/T (Budget.Process), exact to the bisection (tolerance 1e-9
+// relative). The confirming ensemble of n = 1000 at that level must have
+// its p95 |bias| within three standard errors of the limit (the p95's
+// standard error sqrt(0.05 x 0.95 / n) / phi(1.96) sigma = 0.0836 sigma;
+// measured -0.48 at 1.7e5 (urad/s)^2/Hz for a 2e-4 rad limit).
+func TestRotationKernelTolerance(t *testing.T) {
+	if testing.Short() {
+		t.Skip("1000 realisations with rotation noise")
+	}
+	const n, limit = 1000, 2e-4 // realisations, rad
+	e := smallRing(t, n)
+	e.Budget = Budget{RotationNoise: noise.White{Level: RotationNoiseFromURad2S2Hz(1)}}
+	s0, err := sim.NewSimulator(e.Config)
+	if err != nil {
+		t.Fatal(err)
+	}
+	k, err := s0.Kernels(0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	eval := func(ctx context.Context, b Budget) ([]Record, error) {
+		c := e
+		c.Budget = b
+		r, err := NewRealiser(c)
+		if err != nil {
+			return nil, err
+		}
+		var recs []Record
+		_, err = r.Run(ctx, 0, n, 2, func(rec Record) error { recs = append(recs, rec); return nil })
+		return recs, err
+	}
+	s := ToleranceSearch{Budget: e.Budget, Requirements: Requirements{AbsBiasP95MaxRad: limit}, Seed: 1}
+	res, err := s.Kernel(context.Background(), eval, k, SourceRotationPSD)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Method != MethodKernels || res.Kernel == nil || res.Status != ToleranceFound || res.Metric != CriterionBiasRad {
+		t.Fatalf("method %q, kernel %v, status %s, metric %s; want kernels, found, %s", res.Method, res.Kernel, res.Status, res.Metric, CriterionBiasRad)
+	}
+	unit, _ := (Budget{RotationNoise: noise.White{Level: 1}}).Process(SourceRotationPSD, k.DurationS)
+	v := math.Pow(k.PredictProcesses([]sim.Process{unit}).BiasStdRad, 2)
+	b0 := s0.Run(sim.Shot{}, nil).BiasRad
+	sigma := sim.BiasStdForP95(limit, b0)
+	want := RotationNoiseURad2S2Hz(sigma * sigma / v)
+	got := res.Kernel.Amplitude
+	se := 0.0836 * sigma
+	t.Logf("tolerance %.6g (urad/s)^2/Hz (closed form %.6g); confirmation p95 |bias| %.5g rad against the limit %g (%.2f standard errors), verdict %s",
+		got, want, res.At.Value, limit, (res.At.Value-limit)/se, res.Kernel.Confirm)
+	if math.Abs(got-want) > 1e-9*want {
+		t.Errorf("tolerance %.10g (urad/s)^2/Hz, want %.10g (tol 1e-9 relative)", got, want)
+	}
+	if math.Abs(res.At.Value-limit) > 3*se {
+		t.Errorf("the confirmation's p95 |bias| %.4g rad, want the limit %g within 3 x %.2g", res.At.Value, limit, se)
+	}
+}

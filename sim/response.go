@@ -17,6 +17,8 @@ type Channel int
 //	           the lattice moves by alpha/N)
 //	shift:     H_+ += h nu_d/2,  H_- -= h nu_d/2 (a differential energy shift in Hz, e.g. a
 //	           magnetic field on the two spin states: phase -2 pi nu_d T)
+//	rotation:  the platform's rotation rate dOmega (rad/s) during the shot, phase
+//	           int w dOmega dt through the arms' enclosed-area rate w (RotationNoisePhaseRad)
 //
 // Two arms' drive phases of PSD S and correlation rho have a common part of
 // PSD S (1+rho)/2 and a differential part of PSD 2 S (1-rho), uncorrelated
@@ -30,11 +32,12 @@ const (
 	PhaseMinus    // drive phase noise on arm s = -1 alone
 	IntensityPlus // intensity noise on arm s = +1 alone
 	ShiftDifferential
+	Rotation // the platform's rotation-rate noise, a pure phase (rotationKernel)
 	numChannels
 )
 
 var channelNames = [...]string{"intensity_common", "intensity_differential", "phase_common",
-	"phase_differential", "phase_plus", "phase_minus", "intensity_plus", "shift_differential"}
+	"phase_differential", "phase_plus", "phase_minus", "intensity_plus", "shift_differential", "rotation"}
 
 // String returns the channel's name.
 func (c Channel) String() string {
@@ -52,6 +55,8 @@ func (c Channel) Unit() string {
 		return "1"
 	case ShiftDifferential:
 		return "Hz"
+	case Rotation:
+		return "rad/s"
 	}
 	return "rad"
 }
@@ -104,6 +109,9 @@ func (k *Kernels) Channel(c Channel) *ChannelKernel {
 //	W = -V' + x V''/2        lattice displacement (x = delta a = alpha/N), and the
 //	                         start state displaced with the lattice, exp(-i l x(0))
 //	W = 2 pi                 differential shift (x = nu, Hz)
+//
+// (The rotation channel is a pure phase, linear in the noise, whose
+// kernels follow from the nominal drives alone: rotationKernel.)
 //
 // In the interaction picture W~(t) = U^+ W U, with psi0 the start level,
 // D = exp(-i l (a_+(T) - a_-(T))) the lab-frame map at the end and
@@ -184,6 +192,9 @@ func (s *Simulator) Kernels(maxHz float64) (*Kernels, error) {
 			sp, cp, cm = lattice, 1, 0
 		case ShiftDifferential:
 			sp, cp, cm = shift, 0.5, -0.5
+		case Rotation:
+			k.Channels = append(k.Channels, rotationKernel(rs.drives, s.cfg.Ring.Inertia(), k.StepHz, rs.m))
+			continue
 		}
 		k.Channels = append(k.Channels, assemble(c, sp, cp, cm, z0))
 	}

@@ -51,14 +51,16 @@ func newResponseCmd(e env, run func(e env, stdout, stderr io.Writer, o responseO
 		Long: `Compute the noise transfer functions (kernels) of the scenario's nominal
 shot for every noise channel: intensity noise common to both spin states,
 differential and on one arm; drive phase noise common, differential and on
-each arm; a differential energy shift. For a one-sided PSD S(f) of a channel's
+each arm; a differential energy shift; the platform's rotation rate (rad/s,
+through the arms' enclosed-area rate). For a one-sided PSD S(f) of a channel's
 signal the bias variance is int S |G_phi|^2 df and the mean contrast loss
 int S K_C df (linear response; docs/model.md, "Noise transfer functions").
 
 Prints where each kernel peaks and its value at the trap frequency nu and at
 2 nu, and the prediction for the scenario's own noise processes (its RIN,
 drive phase noise with the arms' correlation, and field noise through the
-spin pair's Zeeman slope at the static offset, a pure differential shift):
+spin pair's Zeeman slope at the static offset, a pure differential shift,
+and the platform's rotation-rate noise):
 the mean contrast loss
 and the bias standard deviation per channel and in total, with warnings where
 the linear answer cannot be trusted.
@@ -66,7 +68,8 @@ the linear answer cannot be trusted.
 --spectrum PROCESS=SPEC replaces (or adds) a process's spectrum for the
 prediction, the masks' growth factor and --confirm: a sum of white levels,
 power laws h f^alpha (the IEEE Std 1139 forms) and tables, in the signal's
-unit^2/Hz (intensity 1/Hz, each arm's drive phase rad^2/Hz, field G^2/Hz).
+unit^2/Hz (intensity 1/Hz, each arm's drive phase rad^2/Hz, field G^2/Hz,
+rotation (rad/s)^2/Hz).
 
 --confirm N runs a Monte Carlo ensemble of N shots under the same noise
 processes (nothing static) and prints it beside the prediction.

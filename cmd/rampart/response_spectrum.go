@@ -13,7 +13,7 @@ import (
 )
 
 // spectrumHelp describes --spectrum for the flag and its errors.
-const spectrumHelp = "PROCESS=TERM[+TERM...] with PROCESS rin, phase or field and each TERM white:S (S unit^2/Hz), powerlaw:H:ALPHA (H f^ALPHA unit^2/Hz, the IEEE Std 1139 form) or table:FILE (an intensity-noise table in dB/Hz for rin, an L(f) table in dBc/Hz for phase); units 1/Hz, rad^2/Hz (each arm's drive phase), G^2/Hz"
+const spectrumHelp = "PROCESS=TERM[+TERM...] with PROCESS rin, phase, field or rotation and each TERM white:S (S unit^2/Hz), powerlaw:H:ALPHA (H f^ALPHA unit^2/Hz, the IEEE Std 1139 form) or table:FILE (an intensity-noise table in dB/Hz for rin, an L(f) table in dBc/Hz for phase); units 1/Hz, rad^2/Hz (each arm's drive phase), G^2/Hz, (rad/s)^2/Hz (the platform's rotation rate)"
 
 // applySpectra replaces the PSD of each process named in specs (the
 // --spectrum values) in budget b, switching it on if it was off.
@@ -30,6 +30,8 @@ func applySpectra(b mc.Budget, specs []string) (mc.Budget, error) {
 			b.Phase = psd
 		case mc.ProcessField:
 			b.FieldNoise = psd
+		case mc.ProcessRotation:
+			b.RotationNoise = psd
 		}
 	}
 	return b, nil
@@ -43,8 +45,8 @@ func parseSpectrum(spec string) (string, noise.PSD, error) {
 	if !ok || rest == "" {
 		return "", nil, fmt.Errorf("want %s", spectrumHelp)
 	}
-	if name != mc.ProcessRIN && name != mc.ProcessPhase && name != mc.ProcessField {
-		return "", nil, fmt.Errorf("unknown process %q: want rin, phase or field", name)
+	if name != mc.ProcessRIN && name != mc.ProcessPhase && name != mc.ProcessField && name != mc.ProcessRotation {
+		return "", nil, fmt.Errorf("unknown process %q: want rin, phase, field or rotation", name)
 	}
 	var sum noise.Sum
 	for _, term := range strings.Split(rest, "+") {
@@ -111,7 +113,7 @@ func parseTerm(name, term string) (noise.PSD, error) {
 		case mc.ProcessPhase:
 			return noise.ParsePhaseNoise(bytes.NewReader(data), args)
 		}
-		return nil, fmt.Errorf("term %q: field noise has no table format; give white or powerlaw terms", term)
+		return nil, fmt.Errorf("term %q: %s noise has no table format; give white or powerlaw terms", term, name)
 	}
 	return nil, fmt.Errorf("term %q: want white:S, powerlaw:H:ALPHA or table:FILE", term)
 }

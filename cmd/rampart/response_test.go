@@ -94,8 +94,8 @@ func TestResponseJSON(t *testing.T) {
 	if c := rep.Confirm; c == nil || c.Samples != 4 || !(c.ContrastLossSE > 0) || !(c.BiasStdRad > 0) || math.Abs(c.BiasStdSE-c.BiasStdRad/math.Sqrt(6)) > 1e-12*c.BiasStdRad {
 		t.Errorf("confirm %+v: want 4 samples, positive spreads, and the bias std's s.e. std/sqrt(2 (n-1))", rep.Confirm)
 	}
-	if len(rep.Channels) != 8 {
-		t.Fatalf("%d channels, want 8", len(rep.Channels))
+	if len(rep.Channels) != 9 {
+		t.Fatalf("%d channels, want 9 (eight channels of the lattice and the rotation channel)", len(rep.Channels))
 	}
 	for _, c := range rep.Channels {
 		if c.Name == "" || len(c.FrequencyHz) < 2 || len(c.BiasKernel) != len(c.FrequencyHz) || len(c.ContrastKernel) != len(c.FrequencyHz) {
@@ -146,8 +146,8 @@ func checkResponseOut(t *testing.T, dir string) {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
-	if lines[0] != "channel,unit,frequency_hz,bias_kernel,contrast_kernel" || (len(lines)-1)%8 != 0 {
-		t.Errorf("kernels CSV: header %q and %d rows, want a row per channel (8) and frequency", lines[0], len(lines)-1)
+	if lines[0] != "channel,unit,frequency_hz,bias_kernel,contrast_kernel" || (len(lines)-1)%9 != 0 {
+		t.Errorf("kernels CSV: header %q and %d rows, want a row per channel (9) and frequency", lines[0], len(lines)-1)
 	}
 }
 

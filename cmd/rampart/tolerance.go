@@ -57,8 +57,8 @@ amplitude searched, a lower bound; below-range; fails-without-source;
 undecided-without-source: more samples would decide the source off), the
 binding criterion and its value at the tolerance with its one-sided bounds.
 
-The noise processes during the shot (intensity, drive phase and field noise)
-are not searched but predicted: the noise transfer functions of the nominal
+The noise processes during the shot (intensity, drive phase, field and
+rotation noise) are not searched but predicted: the noise transfer functions of the nominal
 shot (rampart response; docs/model.md, "Noise transfer functions") give the
 level at which each predicted criterion (mean and 5th-percentile contrast,
 |bias| p95) meets its limit, with the rest of the budget taken from one

@@ -321,10 +321,14 @@ func responseFigures(rep ResponseReport) ([]namedFigure, error) {
 	marks := []plots.Marker{{Label: "nu = " + Sig(rep.TrapHz, 4) + " Hz", Value: rep.TrapHz}, {Label: "2 nu", Value: 2 * rep.TrapHz}}
 	for _, c := range rep.Channels {
 		var series []plots.Series
+		u2 := c.Unit + "^2"
+		if strings.Contains(c.Unit, "/") {
+			u2 = "(" + c.Unit + ")^2" // rad/s: (rad/s)^2
+		}
 		for _, s := range []struct {
 			name string
 			ker  []float64
-		}{{"bias |G_phi|^2 (rad^2/" + c.Unit + "^2)", c.BiasKernel}, {"contrast |K_C| (1/" + c.Unit + "^2)", c.ContrastKernel}} {
+		}{{"bias |G_phi|^2 (rad^2/" + u2 + ")", c.BiasKernel}, {"contrast |K_C| (1/" + u2 + ")", c.ContrastKernel}} {
 			var x, y []float64
 			for m, f := range c.FrequencyHz {
 				if v := math.Abs(s.ker[m]); f > 0 && v > 0 {
@@ -346,7 +350,7 @@ func responseFigures(rep ResponseReport) ([]namedFigure, error) {
 			}
 		}
 		fig, err := plots.Lines(series, plots.LinesOptions{Title: "Noise transfer functions: " + c.Name, XLabel: "f (Hz)",
-			YLabel: "kernel (per " + c.Unit + "^2 of the signal)", LogX: true, LogY: true, VLines: vl})
+			YLabel: "kernel (per " + u2 + " of the signal)", LogX: true, LogY: true, VLines: vl})
 		if err != nil {
 			return nil, fmt.Errorf("kernels of %s: %w", c.Name, err)
 		}
