@@ -480,3 +480,52 @@ func TestEnsembleRotationNoise(t *testing.T) {
 		t.Errorf("sensitivity inputs %v, want the field and the rotation noise", in)
 	}
 }
+
+// TestEnsembleSwapArea: on an echo of two segments (one swap), a
+// realisation's swap-area draw e scales the contrast by the swap's
+// transfer probability sin^2(pi (1 + e)/2) = cos^2(pi e/2) (a pi pulse of
+// area pi (1 + e): Rabi's formula on resonance, common practice) and
+// leaves the phase; over the draws the mean factor is the Gaussian
+// characteristic function's (1 + exp(-pi^2 sigma^2 / 2))/2 (docs/model.md,
+// Echo sequences), within 4 standard errors of the sample.
+func TestEnsembleSwapArea(t *testing.T) {
+	const sigma, n = 0.1, 300
+	e := testEnsemble(t, n, false)
+	e.Config.TemperatureK = 0
+	echo, err := sim.NewEcho(e.Config.Sequence, 2, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	e.Config.Sequence = echo
+	e.Budget = Budget{SwapAreaRel: sigma}
+	r, err := NewRealiser(e)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := sim.NewSimulator(r.Config())
+	if err != nil {
+		t.Fatal(err)
+	}
+	nominal := s.Run(sim.Shot{}, nil)
+	w := r.NewWorker()
+	var sum, sum2 float64
+	for i := range n {
+		rec := w.Realise(i)
+		x := rec.Inputs[0]
+		c := math.Cos(math.Pi * x / 2)
+		if want := nominal.Contrast * c * c; math.Abs(rec.Contrast-want) > 1e-12 {
+			t.Fatalf("realisation %d, e = %g: contrast %.15g, want %.15g", i, x, rec.Contrast, want)
+		}
+		if d := math.Abs(sim.Wrap(rec.BiasRad - nominal.BiasRad)); d > 1e-12 {
+			t.Fatalf("realisation %d: bias moved by %g rad", i, d)
+		}
+		f := rec.Contrast / nominal.Contrast
+		sum += f
+		sum2 += f * f
+	}
+	mean := sum / n
+	se := math.Sqrt((sum2/n - mean*mean) / (n - 1))
+	if want := (1 + math.Exp(-math.Pi*math.Pi*sigma*sigma/2)) / 2; math.Abs(mean-want) > 4*se {
+		t.Errorf("mean swap factor %.5f, want %.5f (4 se = %.2g)", mean, want, 4*se)
+	}
+}

@@ -26,6 +26,7 @@ type Budget struct {
 	TiltRad              float64 // shot-to-shot change of the ring's tilt, rad, towards the azimuth of its lowest point
 	RotationRadS         float64 // shot-to-shot rotation-rate noise of the platform, rad/s
 	GradientGPerM        float64 // shot-to-shot change of the field gradient in the ring's plane, G/m
+	SwapAreaRel          float64 // relative area error of the swap (pi) pulses of an echo sequence, one draw a shot shared by its swaps
 	// MainsG is the amplitude of the mains field line's fundamental, G (an
 	// amplitude, not a standard deviation: its draw is the line's phase);
 	// Mains its frequency, harmonics and phase.
@@ -166,6 +167,7 @@ const (
 	ParamRotation          = "platform.rotation_urad_s"
 	ParamMains             = "field.mains_ug"
 	ParamGradient          = "field.gradient_ug_um"
+	ParamSwap              = "pulses.swap_area_rel"
 )
 
 // Tolerance sources: the static parameters by their budget names, the two
@@ -423,6 +425,15 @@ var Sources = []Source{
 		Apply: func(sh *sim.Shot, _ int, v float64) { sh.Field.GradientGPerM += v },
 		Ref:   RefGradientGPerM, Max: maxGradientGPerM,
 		Line: "field gradient {}", Reference: model + "field gradient",
+	},
+	{
+		Key: ParamSwap, Meaning: "relative area error of the swap (pi) pulses of an echo sequence, one draw a shot shared by all its swaps",
+		Scenario: "noise.pulses.swap_area_rel", FileScale: 1,
+		Unit: Relative, Scale: 1, SIUnit: relative, Kind: Static, Inputs: []string{ParamSwap},
+		Sigma: func(b *Budget) *float64 { return &b.SwapAreaRel },
+		Apply: func(sh *sim.Shot, _ int, v float64) { sh.SwapAreaRel = v },
+		Ref:   RefPulseAreaRel, Max: maxRelativeSigma,
+		Line: "swap area {}", Reference: model + "pulses",
 	},
 }
 
