@@ -62,8 +62,8 @@ func TestKernelTolerance(t *testing.T) {
 		}
 		sigma := sim.BiasStdForP95(limit, b0)
 		want := FieldNoiseUG2Hz(sigma * sigma / (kz * kz * bias * band))
-		if res.Method != MethodKernels || res.Kernel == nil || res.Status != ToleranceFound || res.Metric != CriterionBiasRad {
-			t.Fatalf("b0 = %g: method %q, kernel %v, status %s, metric %s; want kernels, found, %s", b0, res.Method, res.Kernel, res.Status, res.Metric, CriterionBiasRad)
+		if res.Method != MethodKernels || res.Kernel == nil || !kernelStatusAgrees(res) || res.Metric != CriterionBiasRad {
+			t.Fatalf("b0 = %g: method %q, kernel %v, status %s, metric %s; want kernels, found (or predicted when the confirmation did not pass), %s", b0, res.Method, res.Kernel, res.Status, res.Metric, CriterionBiasRad)
 		}
 		if got := res.Kernel.Amplitude; math.Abs(got-want) > 1e-9*want {
 			t.Errorf("b0 = %g: tolerance %.10g uG^2/Hz, want %.10g (tol 1e-9 relative)", b0, got, want)
@@ -245,8 +245,8 @@ func TestRotationKernelTolerance(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if res.Method != MethodKernels || res.Kernel == nil || res.Status != ToleranceFound || res.Metric != CriterionBiasRad {
-		t.Fatalf("method %q, kernel %v, status %s, metric %s; want kernels, found, %s", res.Method, res.Kernel, res.Status, res.Metric, CriterionBiasRad)
+	if res.Method != MethodKernels || res.Kernel == nil || !kernelStatusAgrees(res) || res.Metric != CriterionBiasRad {
+		t.Fatalf("method %q, kernel %v, status %s, metric %s; want kernels, found (or predicted when the confirmation did not pass), %s", res.Method, res.Kernel, res.Status, res.Metric, CriterionBiasRad)
 	}
 	unit, _ := (Budget{RotationNoise: noise.White{Level: 1}}).Process(SourceRotationPSD, k.DurationS)
 	v := math.Pow(k.PredictProcesses([]sim.Process{unit}).BiasStdRad, 2)
@@ -263,4 +263,17 @@ func TestRotationKernelTolerance(t *testing.T) {
 	if math.Abs(res.At.Value-limit) > 3*se {
 		t.Errorf("the confirmation's p95 |bias| %.4g rad, want the limit %g within 3 x %.2g", res.At.Value, limit, se)
 	}
+}
+
+// kernelStatusAgrees reports whether a tolerance from the kernels has the
+// status its confirmation allows: found when the confirming ensemble
+// passed there, predicted when it did not.
+func kernelStatusAgrees(res ToleranceResult) bool {
+	if res.Kernel == nil || res.Kernel.Confirm == nil {
+		return false
+	}
+	if *res.Kernel.Confirm == Pass {
+		return res.Status == ToleranceFound
+	}
+	return res.Status == TolerancePredicted
 }

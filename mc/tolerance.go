@@ -64,6 +64,11 @@ const (
 	// that it holds even then (Off says how many more realisations would
 	// decide it).
 	ToleranceUndecided ToleranceStatus = "undecided-without-source"
+	// TolerancePredicted: a noise process's tolerance from the noise
+	// transfer functions, where the binding criterion's estimate meets its
+	// limit, that the confirming ensemble did not show to hold (it did not
+	// pass there): an estimate, not a demonstrated tolerance.
+	TolerancePredicted ToleranceStatus = "predicted"
 )
 
 // TolerancePoint is one evaluation of a tolerance search.

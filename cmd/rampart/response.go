@@ -36,10 +36,11 @@ type responseOptions struct {
 
 // defaultKernelMemoryMiB is the cap on the kernels' memory: twice the
 // estimate (sim.KernelsBytes; the Go collector may let the heap reach
-// twice the live data) must fit. 2 GiB is a tenth of this project's
-// machine and fits about three laps of the benchmark ring (566 MiB at one
-// lap).
-const defaultKernelMemoryMiB = 2048
+// twice the live data) must fit. 3 GiB is an eighth of this project's
+// machine, fits about five laps of the benchmark ring (566 MiB at one
+// lap) and the demo's one-lap sequence, whose table's steep stretch sets a
+// finer step (about 1.1 GiB live, 2.2 GiB with the headroom).
+const defaultKernelMemoryMiB = 3072
 
 // newResponseCmd returns the command; run is what it runs with the parsed
 // options (runResponse outside tests).
@@ -226,8 +227,12 @@ func kernelsTooLarge(sc *scenario.Scenario, cfg sim.Config, need int64, capMiB i
 	if fit >= 0.5 {
 		remedy = fmt.Sprintf("shorten the sequence (--set motion.laps=%g should fit; the kernels' memory grows with the duration) or raise --memory-mib if the machine has the memory", fit)
 	}
-	return fmt.Errorf("scenario %q: the kernels of this %.3g s sequence (%g laps) would need about %d MiB (twice the estimate, for the collector's headroom), more than --memory-mib %d: %s",
-		sc.Name, cfg.Sequence.Duration(), laps, need>>20, capMiB, remedy)
+	unit := "laps"
+	if laps == 1 {
+		unit = "lap"
+	}
+	return fmt.Errorf("scenario %q: the kernels of this %.3g s sequence (%g %s) would need about %d MiB (twice the estimate, for the collector's headroom), more than --memory-mib %d: %s",
+		sc.Name, cfg.Sequence.Duration(), laps, unit, need>>20, capMiB, remedy)
 }
 
 // confirmResponse runs the Monte Carlo of the budget's noise processes

@@ -16,7 +16,7 @@ func (d *demo) responseStage() error {
 		return err
 	}
 	c := d.cs[d.winner]
-	o := responseOptions{memoryMiB: demoKernelMemoryMiB, bands: "decade", spec: demoSpec}
+	o := responseOptions{memoryMiB: defaultKernelMemoryMiB, bands: "decade", spec: demoSpec}
 	rep, _, _, err := computeResponse(c.Scenario, c.Config, budget, &req, o)
 	if err != nil {
 		return err
@@ -29,9 +29,3 @@ func (d *demo) responseStage() error {
 	fmt.Fprintln(d.out)
 	return present.PrintResponseMasks(d.out, rep)
 }
-
-// demoKernelMemoryMiB is the demo stage's cap on the kernels' memory: the
-// winner's one-lap sequence needs about 1.1 GiB live (2.2 GiB with the
-// collector's headroom) since its table's steep stretch sets a finer step,
-// above the command's default cap.
-const demoKernelMemoryMiB = 3072

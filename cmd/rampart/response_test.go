@@ -164,7 +164,7 @@ func TestResponseRefused(t *testing.T) {
 	}{
 		// 100 laps of the benchmark ring: about 72 GiB with the headroom.
 		{"100 laps", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--set", "motion.laps=100", "--out", out},
-			[]string{"100 laps", "more than --memory-mib 2048", "--set motion.laps=", "raise --memory-mib"}},
+			[]string{"100 laps", "more than --memory-mib 3072", "--set motion.laps=", "raise --memory-mib"}},
 		{"small cap", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--memory-mib", "16", "--out", out},
 			[]string{"more than --memory-mib 16", "even half a lap would not fit"}},
 		{"confirm 1", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--confirm", "1"}, []string{"--confirm 1: need 0 (none) or from 2"}},

@@ -54,7 +54,9 @@ it runs the ensemble once and reads it out at each amplitude.
 The table gives each source's unit, its value in the budget, the tolerance,
 how the search ended (found; above-range: the spec holds up to the largest
 amplitude searched, a lower bound; below-range; fails-without-source;
-undecided-without-source: more samples would decide the source off), the
+undecided-without-source: more samples would decide the source off;
+predicted: a noise process's tolerance from its kernels that the confirming
+ensemble did not show to hold), the
 binding criterion and its value at the tolerance with its one-sided bounds.
 
 The noise processes during the shot (intensity, drive phase, field and

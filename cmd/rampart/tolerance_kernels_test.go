@@ -47,8 +47,14 @@ func TestToleranceKernels(t *testing.T) {
 		t.Fatal(err)
 	}
 	r := rep.Results[0]
-	if r.Method != "kernels" || r.Kernel == nil || r.Kernel.Confirm == nil || r.At == nil || r.Status != "found" {
-		t.Fatalf("result %+v: want method kernels, a kernel prediction, a confirmation and a tolerance found", r)
+	if r.Method != "kernels" || r.Kernel == nil || r.Kernel.Confirm == nil || r.At == nil {
+		t.Fatalf("result %+v: want method kernels, a kernel prediction, a confirmation and a tolerance", r)
+	}
+	// At the predicted level the estimate sits on the limit, so the
+	// confirmation cannot pass with confidence: the status says predicted,
+	// not found (found is kept for a tolerance an ensemble showed to hold).
+	if want := map[bool]string{true: "found", false: "predicted"}[*r.Kernel.Confirm == "pass"]; r.Status != want {
+		t.Errorf("status %q with confirmation %q: want %q", r.Status, *r.Kernel.Confirm, want)
 	}
 	if r.At.Amplitude != r.Kernel.Amplitude || r.Kernel.Binding != "bias.abs_p95_max_rad" || r.Metric != r.Kernel.Binding || r.Kernel.Predicted != 2e-3 {
 		t.Errorf("kernel %+v, at %+v: want the confirmation at the predicted level, bound by the bias at its limit 2e-3", *r.Kernel, *r.At)
@@ -63,7 +69,7 @@ func TestToleranceKernels(t *testing.T) {
 			t.Errorf("--out: no figure of the kernels' tolerance curve: %v", err)
 		}
 	}
-	for _, want := range []string{" (kernels) |", "field.noise_ug2_hz (kernels): found from the noise transfer functions (docs/model.md, Noise transfer functions)", "verdict " + *r.Kernel.Confirm} {
+	for _, want := range []string{" (kernels) |", "field.noise_ug2_hz (kernels): estimated from the noise transfer functions (docs/model.md, Noise transfer functions)", "verdict " + *r.Kernel.Confirm} {
 		if !strings.Contains(stdout, want) {
 			t.Errorf("table and notes lack %q:\n%s", want, stdout)
 		}

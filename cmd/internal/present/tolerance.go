@@ -25,6 +25,7 @@ var toleranceStatusNotes = map[mc.ToleranceStatus]string{
 	mc.ToleranceBelowRange: "below-range: the spec holds with the source off but fails at the smallest amplitude searched (1/1000 of the start).",
 	mc.ToleranceNone:       "fails-without-source: the spec fails even with the source off; the other sources or the sequence itself break it.",
 	mc.ToleranceUndecided:  "undecided-without-source: the spec fails at the start and is undecided even with the source off: the ensembles are too small to show it holds; run with more --samples",
+	mc.TolerancePredicted:  "predicted: the noise transfer functions put the binding criterion's estimate at its limit there, but the confirming ensemble did not show the spec holds (at the limit it cannot, with confidence): an estimate of the tolerance, above the demonstrated one.",
 }
 
 // ToleranceGrid returns the tolerance table: a row per source searched.
@@ -83,7 +84,7 @@ func ToleranceNotes(rep ToleranceReport) []string {
 		statuses[res.Status] = true
 		monotone = monotone && res.Monotone
 	}
-	for _, s := range []mc.ToleranceStatus{mc.ToleranceAboveRange, mc.ToleranceBelowRange, mc.ToleranceNone, mc.ToleranceUndecided} {
+	for _, s := range []mc.ToleranceStatus{mc.ToleranceAboveRange, mc.ToleranceBelowRange, mc.ToleranceNone, mc.ToleranceUndecided, mc.TolerancePredicted} {
 		if statuses[s] {
 			out = append(out, toleranceStatusNotes[s]+undecidedMore(rep, s))
 		}

@@ -24,7 +24,7 @@ func kernelToleranceNotes(rep ToleranceReport) []string {
 		}
 		c, _ := res.Binding(*res.At)
 		f := criterionFormat(c)
-		s := fmt.Sprintf("%s (kernels): found from the noise transfer functions (docs/model.md, Noise transfer functions), not searched: %s %s is the level at which the predicted %s meets its limit %s (predicted %s), the process itself costing a mean contrast loss of %s and a bias std %s rad, the rest of the budget taken from the ensemble with it off. The ensemble at that level, the whole budget on, gives the row's values: %s %s, verdict %s",
+		s := fmt.Sprintf("%s (kernels): estimated from the noise transfer functions (docs/model.md, Noise transfer functions), not searched: %s %s is the level at which the predicted %s meets its limit %s (predicted %s), the process itself costing a mean contrast loss of %s and a bias std %s rad, the rest of the budget taken from the ensemble with it off. The ensemble at that level, the whole budget on, gives the row's values: %s %s, verdict %s",
 			res.Source, Sig(kt.Amplitude, 4), res.Unit, kt.Binding, f(c.Limit), f(kt.Predicted), Sci(kt.ContrastLoss, 3), Sci(kt.BiasStdRad, 3), kt.Binding, f(c.Value), *kt.Confirm)
 		if *kt.Confirm != mc.Pass {
 			s += " (the estimate sits on the limit at a predicted tolerance, so undecided, or a fail within the estimate's standard error, is what agreement looks like; --kernels=false searches the demonstrated tolerance)"
