@@ -190,7 +190,7 @@ func ResponseKernelGrid(rep ResponseReport) *Grid {
 // ResponseKernelNotes explain the kernel table.
 func ResponseKernelNotes(rep ResponseReport) []string {
 	return []string{
-		fmt.Sprintf("For a one-sided PSD S(f) of a channel's signal (unit^2/Hz): bias variance = int S |G_phi|^2 df, mean contrast loss = int S K_C df (docs/model.md, Noise transfer functions). Grid 0 to %s Hz in steps of %s Hz; shot duration T = %s s; nominal contrast %s, bias %s rad.",
+		fmt.Sprintf("For a one-sided PSD S(f) of a channel's signal (unit^2/Hz): bias variance = int S |G_phi|^2 df, mean contrast loss = int S K_C df (docs/model.md, Noise transfer functions). Grid 0 to %s Hz in steps of %s Hz; shot duration T = %s s; the bare nominal shot (the apparatus's scattering, field, ring potential and radius error left out): contrast %s, phase - K Omega %s rad (K the nominal scale factor; rampart shot's zero-rate bias is another figure).",
 			Sig(rep.Channels[0].FrequencyHz[len(rep.Channels[0].FrequencyHz)-1], 4), Sig(rep.StepHz, 4), Sig(rep.DurationS, 4), Fixed(rep.Contrast, 6), Sci(rep.BiasRad, 3)),
 		"Peaks are searched above zero frequency; (nu) and (2 nu) mark a peak within two grid steps of the trap frequency or its second harmonic. A negative contrast kernel is a gain of contrast.",
 	}
