@@ -132,13 +132,20 @@ type ShotReport struct {
 	Numerics            *sim.ErrorEstimate `json:"numerics_error,omitempty"`
 	BiasBelowResolution bool               `json:"bias_below_resolution"`
 	GroundBand          [2]float64         `json:"ground_band_after_rampup"`
-	Grid                int                `json:"grid"`
-	StepS               float64            `json:"step_s"`
-	TemperatureK        float64            `json:"temperature_k"`
-	Levels              []LevelReport      `json:"levels"`
-	ElapsedS            float64            `json:"elapsed_s"`
-	Readout             *ReadoutReport     `json:"readout,omitempty"`
-	Check               *CheckReport       `json:"check,omitempty"`
+	// ScatteringPerS is each arm's photon scattering rate at the lattice
+	// depth (arm s = +1, s = -1), and ScatteringFactor the cloud's mean
+	// factor exp(-(L_+ + L_-)/2) on z that Contrast includes
+	// (docs/model.md, Perturbations: photon scattering); absent without
+	// scattering.
+	ScatteringPerS   *[2]float64    `json:"scattering_per_s,omitempty"`
+	ScatteringFactor float64        `json:"scattering_factor,omitempty"`
+	Grid             int            `json:"grid"`
+	StepS            float64        `json:"step_s"`
+	TemperatureK     float64        `json:"temperature_k"`
+	Levels           []LevelReport  `json:"levels"`
+	ElapsedS         float64        `json:"elapsed_s"`
+	Readout          *ReadoutReport `json:"readout,omitempty"`
+	Check            *CheckReport   `json:"check,omitempty"`
 }
 
 // LevelReport is one of the site's levels of a thermal start.
@@ -194,6 +201,12 @@ func NewShotReport(sc *scenario.Scenario, run ShotRun, ro mc.Readout) *ShotRepor
 		StepS:        r.StepS,
 		TemperatureK: run.Config.TemperatureK,
 		ElapsedS:     run.Elapsed.Seconds(),
+	}
+	if rates := sc.ScatteringRates(); rates[0] > 0 || rates[1] > 0 {
+		// The nominal shot holds its depth, so L_s = Gamma_s T.
+		t := run.Config.Sequence.Duration()
+		rep.ScatteringPerS = &rates
+		rep.ScatteringFactor = math.Exp(-(rates[0] + rates[1]) * t / 2)
 	}
 	for _, l := range r.Levels {
 		rep.Levels = append(rep.Levels, LevelReport{
@@ -280,6 +293,11 @@ func (rep *ShotReport) Print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	}
 	t.Append("Ground band after ramp-up, arm s = +1", Fixed(rep.GroundBand[0], 5), "")
 	t.Append("Ground band after ramp-up, arm s = -1", Fixed(rep.GroundBand[1], 5), "")
+	if r := rep.ScatteringPerS; r != nil {
+		t.Append("Photon scattering rate, arm s = +1", Sig(r[0], 3), "1/s")
+		t.Append("Photon scattering rate, arm s = -1", Sig(r[1], 3), "1/s")
+		t.Append("Cloud's scattering factor exp(-(L_+ + L_-)/2), in C", Fixed(rep.ScatteringFactor, 5), "")
+	}
 	if ro := rep.Readout; ro != nil {
 		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms", Sig(ro.Atoms, 6)), Sci(ro.ProjectionRadS, 3), "rad/s")
 		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms", Sig(ro.Atoms, 6)), Sci(ro.ProjectionDegPerH, 3), "deg/h")

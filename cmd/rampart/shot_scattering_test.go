@@ -1,0 +1,47 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"testing"
+)
+
+// TestShotScatteringRows: shot reports each arm's scattering rate and the
+// cloud's factor exp(-(L_+ + L_-)/2) that its contrast includes. The
+// factor is checked against the simulation itself: the contrast with the
+// lattice's wavelength set (scattering on) over the contrast without it
+// (docs/model.md, Perturbations: photon scattering; the shot applies the
+// factor in sim, the report computes it from the rates and the duration).
+func TestShotScatteringRows(t *testing.T) {
+	type shot struct {
+		Contrast         float64     `json:"contrast"`
+		ScatteringPerS   *[2]float64 `json:"scattering_per_s"`
+		ScatteringFactor float64     `json:"scattering_factor"`
+	}
+	get := func(sets ...string) shot {
+		args := []string{"shot", "--scenario", "testdata/demo/demo.toml", "--json"}
+		for _, s := range sets {
+			args = append(args, "--set", s)
+		}
+		stdout, stderr, code := execute(t, args...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		var r shot
+		if err := json.Unmarshal([]byte(stdout), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	on := get("lattice.polarisation_plus=-1")
+	off := get("lattice.wavelength_nm=0")
+	if on.ScatteringPerS == nil || !(on.ScatteringPerS[0] > on.ScatteringPerS[1]) {
+		t.Fatalf("rates %v: want both arms, the sigma- arm's the larger here", on.ScatteringPerS)
+	}
+	if off.ScatteringPerS != nil || off.ScatteringFactor != 0 {
+		t.Errorf("no scattering: rates %v, factor %g; want none", off.ScatteringPerS, off.ScatteringFactor)
+	}
+	if got := on.Contrast / off.Contrast; math.Abs(got-on.ScatteringFactor) > 1e-9 {
+		t.Errorf("contrast ratio %.12f, reported factor %.12f", got, on.ScatteringFactor)
+	}
+}
