@@ -54,6 +54,13 @@ func addEnsembleFlags(cmd *cobra.Command, o *ensembleOptions, defaultSamples int
 }
 
 func (o *ensembleOptions) validate() error {
+	if o.shard != "" {
+		// Checked here, before any simulation, and again against the
+		// sample count where the job is made.
+		if _, err := mc.ParseShard(o.shard); err != nil {
+			return fmt.Errorf("--shard: %w", err)
+		}
+	}
 	switch {
 	case o.samples < 1:
 		return fmt.Errorf("--samples %d: need at least 1 realisation", o.samples)

@@ -99,7 +99,7 @@ func TestSpecialInputs(t *testing.T) {
 		}
 	}
 	_, stderr, code := execute(t, "qualify", "--scenario", ensembleScenario, "--spec", "nope.toml")
-	if code != 2 || !strings.Contains(stderr, `spec "nope.toml": cannot read the file: no such file or directory`) {
+	if code != 2 || !strings.Contains(stderr, `spec "nope.toml": cannot read the spec file (--spec; a TOML file of [contrast], [bias], [yield] or [scale_factor] criteria, README: Spec reference): no such file or directory`) {
 		t.Errorf("missing spec: exit %d, stderr %q", code, stderr)
 	}
 }

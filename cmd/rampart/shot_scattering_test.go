@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -43,5 +44,18 @@ func TestShotScatteringRows(t *testing.T) {
 	}
 	if got := on.Contrast / off.Contrast; math.Abs(got-on.ScatteringFactor) > 1e-9 {
 		t.Errorf("contrast ratio %.12f, reported factor %.12f", got, on.ScatteringFactor)
+	}
+}
+
+// TestShardCheckedFirst: a malformed --shard is refused before any
+// simulation (no physics warning of the nominal shot precedes it), with
+// or without --out.
+func TestShardCheckedFirst(t *testing.T) {
+	for _, extra := range [][]string{nil, {"--out", t.TempDir() + "/sh"}} {
+		args := append([]string{"run", "--scenario", "testdata/demo/demo.toml", "--shard", "3/2"}, extra...)
+		_, stderr, code := execute(t, args...)
+		if code != 2 || !strings.Contains(stderr, `--shard: shard "3/2" is not k/n`) || strings.Contains(stderr, "warning") {
+			t.Errorf("%v: exit %d, stderr %q; want 2 and the shard's message alone", args, code, stderr)
+		}
 	}
 }

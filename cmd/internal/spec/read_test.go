@@ -26,7 +26,7 @@ func TestReadRefuses(t *testing.T) {
 		{fifo, "it is a FIFO (named pipe), not a regular file"},
 		{huge, "1048577 bytes, beyond the cap of 1 MiB"},
 		{nested, `nested.toml" line 3: brackets nested 5 deep`},
-		{"nope.toml", `spec "nope.toml": cannot read the file: no such file or directory`},
+		{"nope.toml", `spec "nope.toml": cannot read the spec file (--spec; a TOML file of [contrast], [bias], [yield] or [scale_factor] criteria, README: Spec reference): no such file or directory`},
 	} {
 		_, err := Read(c.path)
 		if err == nil || !strings.Contains(err.Error(), c.want) {

@@ -130,7 +130,7 @@ func Read(path string) (mc.Requirements, error) {
 	if err != nil {
 		var pe *fs.PathError
 		if errors.As(err, &pe) {
-			err = fmt.Errorf("cannot read the file: %w", pe.Err)
+			err = fmt.Errorf("cannot read the spec file (--spec; a TOML file of [contrast], [bias], [yield] or [scale_factor] criteria, README: Spec reference): %w", pe.Err)
 		}
 		return mc.Requirements{}, &Error{File: path, Err: err}
 	}
