@@ -110,19 +110,9 @@ func TestFieldNoiseKernel(t *testing.T) {
 	const n = 800
 	mcb := Budget{FieldNoise: noise.White{Level: sb}}
 	mcb.Apparatus.Field.Zeeman.LinearHzPerG = lin
-	e.Budget, e.Samples = mcb, n
-	r, err := NewRealiser(e)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var bias []float64
-	if _, err := r.Run(context.Background(), 0, n, 2, func(rec Record) error { bias = append(bias, rec.BiasRad); return nil }); err != nil {
-		t.Fatal(err)
-	}
+	sd, se := monteCarloBiasStd(t, e, mcb, n)
 	pm, _ := mcb.Process(SourceFieldNoise, k.DurationS)
 	pred := k.PredictProcesses([]sim.Process{pm}).BiasStdRad
-	sd := stats.StdDev(bias)
-	se := sd / math.Sqrt(2*(n-1))
 	t.Logf("Monte Carlo bias std %.5g +- %.2g rad, predicted %.5g rad", sd, se, pred)
 	if math.Abs(sd-pred) > 3*se {
 		t.Errorf("Monte Carlo bias std %.5g rad, predicted %.5g (tol 3 x %.2g)", sd, pred, se)
@@ -215,6 +205,23 @@ func TestRotationNoiseKernel(t *testing.T) {
 	const n = 800
 	level := math.Pow(1e-3/perLevel.BiasStdRad, 2) // (rad/s)^2/Hz: a 1 mrad std
 	b := Budget{RotationNoise: noise.White{Level: level}}
+	sd, se := monteCarloBiasStd(t, e, b, n)
+	pm, _ := b.Process(SourceRotationPSD, k.DurationS)
+	pred := k.PredictProcesses([]sim.Process{pm}).BiasStdRad
+	full := pm
+	full.Band = noise.Band{}
+	t.Logf("level %.4g (urad/s)^2/Hz: Monte Carlo bias std %.5g +- %.2g rad, predicted %.5g rad (%.2f standard errors); from 0 Hz it would be %.5g rad",
+		RotationNoiseURad2S2Hz(level), sd, se, pred, (sd-pred)/se, k.PredictProcesses([]sim.Process{full}).BiasStdRad)
+	if math.Abs(sd-pred) > 3*se {
+		t.Errorf("Monte Carlo bias std %.5g rad, predicted %.5g (tol 3 x %.2g)", sd, pred, se)
+	}
+}
+
+// monteCarloBiasStd runs n realisations of ensemble e under budget b and
+// returns the bias's sample standard deviation and its standard error,
+// sd/sqrt(2(n-1)) (normal samples).
+func monteCarloBiasStd(t *testing.T, e Ensemble, b Budget, n int) (sd, se float64) {
+	t.Helper()
 	e.Budget, e.Samples = b, n
 	r, err := NewRealiser(e)
 	if err != nil {
@@ -224,15 +231,6 @@ func TestRotationNoiseKernel(t *testing.T) {
 	if _, err := r.Run(context.Background(), 0, n, 2, func(rec Record) error { bias = append(bias, rec.BiasRad); return nil }); err != nil {
 		t.Fatal(err)
 	}
-	pm, _ := b.Process(SourceRotationPSD, k.DurationS)
-	pred := k.PredictProcesses([]sim.Process{pm}).BiasStdRad
-	sd := stats.StdDev(bias)
-	se := sd / math.Sqrt(2*(n-1))
-	full := pm
-	full.Band = noise.Band{}
-	t.Logf("level %.4g (urad/s)^2/Hz: Monte Carlo bias std %.5g +- %.2g rad, predicted %.5g rad (%.2f standard errors); from 0 Hz it would be %.5g rad",
-		RotationNoiseURad2S2Hz(level), sd, se, pred, (sd-pred)/se, k.PredictProcesses([]sim.Process{full}).BiasStdRad)
-	if math.Abs(sd-pred) > 3*se {
-		t.Errorf("Monte Carlo bias std %.5g rad, predicted %.5g (tol 3 x %.2g)", sd, pred, se)
-	}
+	sd = stats.StdDev(bias)
+	return sd, sd / math.Sqrt(2*float64(n-1))
 }
