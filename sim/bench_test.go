@@ -68,3 +68,27 @@ func BenchmarkEstimateError(b *testing.B) {
 		}
 	}
 }
+
+// shapedKernels is the benchmark ring with a 150 us ramp of the given
+// shape to 500 rad/s and laps laps: its configuration, simulator and
+// noise kernels.
+func shapedKernels(tb testing.TB, shape string, laps float64) (Config, *Simulator, *Kernels) {
+	tb.Helper()
+	c := benchConfig(tb, laps)
+	up, err := NewShape(shape, 150e-6, 500, c.TrapRadS())
+	if err != nil {
+		tb.Fatal(err)
+	}
+	if c.Sequence, err = NewSequence(up, laps); err != nil {
+		tb.Fatal(err)
+	}
+	s, err := NewSimulator(c)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	k, err := s.Kernels(0)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return c, s, k
+}

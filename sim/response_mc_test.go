@@ -194,22 +194,7 @@ func TestResponseMonteCarlo(t *testing.T) {
 		{"inverse", noise.IntensityFromRIN(-80), 0, noise.PhaseFromDBc(-100)},
 		{"inverse", 0, noise.IntensityFromRIN(-100), 0},
 	} {
-		c := benchConfig(t, 0.5)
-		up, err := NewShape(tc.shape, 150e-6, 500, c.TrapRadS())
-		if err != nil {
-			t.Fatal(err)
-		}
-		if c.Sequence, err = NewSequence(up, 0.5); err != nil {
-			t.Fatal(err)
-		}
-		s, err := NewSimulator(c)
-		if err != nil {
-			t.Fatal(err)
-		}
-		k, err := s.Kernels(0)
-		if err != nil {
-			t.Fatal(err)
-		}
+		_, s, k := shapedKernels(t, tc.shape, 0.5)
 		loss, lossSE, std, stdSE, rec := ensembleStats(t, s, tc.rin, tc.rinDiff, tc.phase, n, 11)
 		p := predictWhite(k, rec, tc.rin, tc.rinDiff, tc.phase)
 		t.Logf("%s RIN %.3g differential %.3g phase %.3g: loss MC %.4g +- %.2g, predicted %.4g; bias std MC %.4g +- %.2g rad, predicted %.4g; warnings %v",

@@ -35,22 +35,8 @@ import (
 // kernel must be zero: a phase cannot change |z|.
 func TestRotationKernelParseval(t *testing.T) {
 	for _, shape := range []string{"sin2", "inverse"} {
-		c := benchConfig(t, 1)
-		up, err := NewShape(shape, 150e-6, 500, c.TrapRadS())
-		if err != nil {
-			t.Fatal(err)
-		}
-		if c.Sequence, err = NewSequence(up, 1); err != nil {
-			t.Fatal(err)
-		}
-		s, err := NewSimulator(c)
-		if err != nil {
-			t.Fatal(err)
-		}
-		k, err := s.Kernels(0)
-		if err != nil {
-			t.Fatal(err)
-		}
+		c, s, k := shapedKernels(t, shape, 1)
+		up := c.Sequence.Up
 		w0 := 2 * c.Ring.Inertia() / Hbar
 		tr, tc := up.Duration(), c.Sequence.CruiseS
 		var w2 float64
