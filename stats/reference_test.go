@@ -1,11 +1,9 @@
 package stats
 
 import (
-	"encoding/json"
-	"os"
-	"path/filepath"
-	"sync"
 	"testing"
+
+	"rampart/internal/reftest"
 )
 
 // statsReference is testdata/reference/stats_reference.json, written by
@@ -33,23 +31,11 @@ type statsReference struct {
 	} `json:"percentile_coverage_normal_mean"`
 }
 
-var loadReference = sync.OnceValues(func() (*statsReference, error) {
-	b, err := os.ReadFile(filepath.Join("..", "testdata", "reference", "stats_reference.json"))
-	if err != nil {
-		return nil, err
-	}
-	var r statsReference
-	if err := json.Unmarshal(b, &r); err != nil {
-		return nil, err
-	}
-	return &r, nil
-})
-
+// reference returns the SciPy reference numbers
+// (testdata/reference/stats_reference.py).
 func reference(t testing.TB) *statsReference {
 	t.Helper()
-	r, err := loadReference()
-	if err != nil {
-		t.Fatalf("read SciPy reference numbers: %v", err)
-	}
-	return r
+	var r statsReference
+	reftest.JSON(t, "stats_reference.json", &r)
+	return &r
 }
