@@ -265,18 +265,9 @@ func (s *Simulator) runEcho(sh Shot, obs Observer) Result {
 // sign, at the mean depth of the two lattices and without the skew (both
 // change the potential's phase at second order only).
 func (s *Simulator) packetDrives(sh Shot) [2]Drive {
-	var d [2]Drive
-	for a, sign := range [2]float64{1, -1} {
-		d[a] = Drive{
-			Seq:          s.cfg.Sequence,
-			Sign:         sign,
-			Rate:         1 + sh.ClockRel,
-			Scale:        1 + sh.SpeedRel,
-			RotationRadS: s.cfg.RotationRadS + sh.RotationOffsetRadS,
-			DepthRel:     (sh.DepthRel[0] + sh.DepthRel[1]) / 2,
-		}
-	}
-	return d
+	m := (sh.DepthRel[0] + sh.DepthRel[1]) / 2
+	return s.drives(Shot{ClockRel: sh.ClockRel, SpeedRel: sh.SpeedRel,
+		RotationOffsetRadS: sh.RotationOffsetRadS, DepthRel: [2]float64{m, m}})
 }
 
 // echoApparatus is apparatus for an echo shot: the differential shift
