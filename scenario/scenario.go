@@ -264,7 +264,15 @@ func (s *Scenario) ReadFile(name string) ([]byte, error) {
 	if s.fsys != nil {
 		return boundedread.ReadFS(s.fsys, name, boundedread.TableCap)
 	}
-	return boundedread.ReadFile(name, boundedread.TableCap)
+	data, err := boundedread.ReadFile(name, boundedread.TableCap)
+	if err != nil && !filepath.IsAbs(name) {
+		// A relative path is read from the working directory (a --set
+		// value) or the scenario file's (already joined): say where.
+		if abs, aerr := filepath.Abs(name); aerr == nil {
+			return nil, fmt.Errorf("%w (looked for %s)", readError(err), abs)
+		}
+	}
+	return data, err
 }
 
 // resolve joins a path written in the scenario file to the file's directory.

@@ -294,3 +294,20 @@ func TestBadScenario(t *testing.T) {
 		}
 	}
 }
+
+// TestRelativeTableMessage: a table given on the command line with a
+// relative path is read from the working directory; when it is missing the
+// message names the absolute path that was tried.
+func TestRelativeTableMessage(t *testing.T) {
+	dir := t.TempDir()
+	name := filepath.Join(dir, "s.toml")
+	if err := os.WriteFile(name, []byte(minimal), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Chdir(dir)
+	_, err := Load(name, []string{"noise.drive.phase_table=missing.csv"})
+	want := "(looked for " + filepath.Join(dir, "missing.csv") + ")"
+	if err == nil || !strings.Contains(err.Error(), want) {
+		t.Fatalf("error %v, want it to contain %q", err, want)
+	}
+}
