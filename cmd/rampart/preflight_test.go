@@ -41,6 +41,13 @@ func TestShotCheckExitCode(t *testing.T) {
 	if !strings.Contains(stderr, "numerics.step_us = 9.5") {
 		t.Errorf("stderr %q does not give the remedy numerics.step_us = 9.5", stderr)
 	}
+	// Without --check the tables are printed and the exit code is the same,
+	// with the remedy (a new user's hand-set grid gave a wrong contrast
+	// with exit 0 before).
+	stdout, stderr, code = execute(t, append(args[:len(args)-1:len(args)-1], "--set", "numerics.step_us=19")...)
+	if code != ExitCheckFailed || !strings.Contains(stderr, "numerics.step_us = 9.5") || !strings.Contains(stdout, "Contrast C = |z|") {
+		t.Errorf("fixed step 19 us without --check: exit %d (want %d), stderr %q, stdout:\n%s", code, ExitCheckFailed, stderr, stdout)
+	}
 	if _, stderr, code := execute(t, args...); code != 0 {
 		t.Errorf("automatic step: exit %d, stderr %q; want 0", code, stderr)
 	}

@@ -120,13 +120,19 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 	} else {
 		err = rep.Print(stdout, sc, run.Config)
 	}
-	if err == nil && o.check && !est.Met {
-		return &exitError{code: ExitCheckFailed, err: fmt.Errorf("--check: %s", est.Remedy)}
+	// A shot whose own error estimate misses the targets is printed (its
+	// tables may be what the user is studying) but never passes as a
+	// result: exit 3 with the remedy, with or without --check.
+	if err == nil && !est.Met {
+		if o.check {
+			return &exitError{code: ExitCheckFailed, err: fmt.Errorf("--check: %s", est.Remedy)}
+		}
+		return &exitError{code: ExitCheckFailed, err: fmt.Errorf("the numbers above are not to be trusted: %s (--check prints the comparison)", est.Remedy)}
 	}
 	return err
 }
 
-// ExitCheckFailed is the exit code of `shot --check` when the shot's
+// ExitCheckFailed is the exit code of `shot` (with or without --check) when the shot's
 // numerics miss their targets (the tables are printed all the same).
 const ExitCheckFailed = 3
 

@@ -102,6 +102,12 @@ func PrintQualification(w io.Writer, rep QualifyReport) error {
 	for _, line := range criteriaNotes(rep) {
 		fmt.Fprintln(w, line)
 	}
+	if s := rep.Summary; s.Lost > 0 {
+		fmt.Fprintf(w, "%d of %d shots were lost to photon scattering (z = 0, no bias; outside the yield; docs/model.md, Perturbations).\n", s.Lost, s.Samples)
+	}
+	if n := InvertedNote(rep.Summary); n != "" {
+		fmt.Fprintln(w, n)
+	}
 	fmt.Fprintln(w)
 	if err := GyroGrid(rep.Summary, rep.Gyro).Render(w); err != nil {
 		return err

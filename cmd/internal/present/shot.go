@@ -285,8 +285,15 @@ func (rep *ShotReport) Print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	t.Append("Interferometer phase arg z", Sci(rep.PhaseRad, 7), "rad")
 	t.Append("Sagnac phase 2 I phi(T) Omega_bg / hbar", Sci(rep.SagnacRad, 7), "rad")
 	t.Append("Bias at zero rotation b = phase - K_shot Omega", Sci(rep.BiasRad, 3), "rad")
-	t.Append("Bias as a rotation rate b / K", Sci(rep.BiasRadS, 3), "rad/s")
-	t.Append("Bias as a rotation rate b / K", Sci(rep.BiasDegPerH, 3), "deg/h")
+	inverted := math.Abs(rep.BiasRad) > math.Pi/2
+	rate := func(x float64) string {
+		if inverted {
+			return notARate
+		}
+		return Sci(x, 3)
+	}
+	t.Append("Bias as a rotation rate b / K", rate(rep.BiasRadS), "rad/s")
+	t.Append("Bias as a rotation rate b / K", rate(rep.BiasDegPerH), "deg/h")
 	t.Append("Scale factor K = 2 I phi(T) / hbar", Sig(rep.ScaleFactorS, 6), "s (rad per rad/s)")
 	if rep.ScaleFactorErrorPPM != nil {
 		t.Append("Scale-factor error K_shot / K - 1", Sci(*rep.ScaleFactorErrorPPM, 3), "ppm")
@@ -321,6 +328,9 @@ func (rep *ShotReport) Print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	}
 	if sc.Noise != (scenario.Noise{}) || len(sc.SourceNoise) > 0 {
 		fmt.Fprintln(w, "\nNote: the scenario's [noise.*] tables describe an ensemble; this shot is noise-free.")
+	}
+	if inverted {
+		fmt.Fprintln(w, "\nNote: the fringe is inverted (|bias| > pi/2): the arms' overlap has turned over, a defect of the sequence (an echo's packets left with odd parity, docs/model.md, Interferometer and signs, Echo sequences), not a rotation, so the bias is not given as a rate.")
 	}
 	if sc.Thermal() {
 		fmt.Fprintf(w, "\nThermal start at %s nK: the levels of the site\n", Sig(sc.Start.TemperatureNK, 6))

@@ -3,6 +3,7 @@ package present
 import (
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -68,13 +69,33 @@ func PrintSummary(w io.Writer, s mc.Summary) error {
 			return err
 		}
 	}
-	if notes := ResolutionNotes(s); len(notes) > 0 {
+	notes := ResolutionNotes(s)
+	if n := InvertedNote(s); n != "" {
+		notes = append(notes, n)
+	}
+	if len(notes) > 0 {
 		fmt.Fprintln(w)
 		for _, n := range notes {
 			fmt.Fprintln(w, n)
 		}
 	}
 	return nil
+}
+
+// notARate stands in a deg/h cell for a bias that is no rotation rate.
+const notARate = "n/a, inverted"
+
+// InvertedNote explains, when an ensemble has inverted shots, why some of
+// its biases are not converted to rotation rates; empty otherwise.
+func InvertedNote(s mc.Summary) string {
+	cb := s.BiasCircular
+	if cb.Inverted == 0 {
+		return ""
+	}
+	return fmt.Sprintf("%d of the shots with a fringe are inverted (|bias| > pi/2, a fringe read upside down, or contrast below %s): "+
+		"a sign flip, not a rotation, so the linear mean and std of the bias, quantiles beyond pi/2 and the mean bias as a rate are not given in deg/h (%q). "+
+		"The circular mean direction (%s rad) is the bias of the typical shot; the inverted ones are a defect of the sequence (docs/model.md, Interferometer and signs, Echo sequences).",
+		cb.Inverted, Sig(cb.ContrastFloor, 3), notARate, Sci(cb.MeanDirection, 3))
 }
 
 // ResolutionNotes says which of an ensemble's printed biases (the mean,
@@ -122,8 +143,16 @@ func summaryGrids(s mc.Summary) []*Grid {
 		{"p95", "p95", s.Contrast.P95, s.BiasRad.P95, s.BiasDegPerH.P95},
 		{"p99", "p99", s.Contrast.P99, s.BiasRad.P99, s.BiasDegPerH.P99},
 	}
+	inverted := s.BiasCircular.Inverted > 0
 	for _, r := range rows {
-		t.Append(r.name, c5(r.c), ciCell(s.Contrast, r.key, c5), b3(r.b), ciCell(s.BiasRad, r.key, b3), b3(r.d))
+		d := b3(r.d)
+		// An inverted fringe is a sign flip, not a rotation: with inverted
+		// shots among the realisations the linear mean and std, and any
+		// quantile beyond pi/2, are no rotation rate (InvertedNote).
+		if inverted && (r.key == "mean" || r.key == "std" || math.Abs(r.b) > math.Pi/2) {
+			d = notARate
+		}
+		t.Append(r.name, c5(r.c), ciCell(s.Contrast, r.key, c5), b3(r.b), ciCell(s.BiasRad, r.key, b3), d)
 	}
 	u := NewGrid("The averaged fringe, the bias spread and the yield", "Quantity", "Value", conf, "Unit")
 	u.Append("Averaged-fringe contrast |mean z|", c5(s.FringeContrast.Value), interval(s.FringeContrast.Lo, s.FringeContrast.Hi, c5), "")
@@ -192,8 +221,15 @@ func GyroGrid(s mc.Summary, g *mc.Gyro) *Grid {
 	b3 := func(x float64) string { return Sci(x, 3) }
 	t := NewGrid("Gyroscope figures", "Gyroscope figure", "Value", "Unit")
 	t.Append("Scale factor K = 2 I phi(T) / hbar", Sig(s.ScaleFactorS, 6), "s (rad per rad/s)")
-	t.Append("Mean bias as a rotation rate", b3(s.BiasDegPerH.Mean), "deg/h")
-	t.Append("|bias| p95 as a rotation rate", b3(AbsBiasP95DegPerH(s)), "deg/h")
+	mean, p95 := b3(s.BiasDegPerH.Mean), b3(AbsBiasP95DegPerH(s))
+	if s.BiasCircular.Inverted > 0 {
+		mean = notARate
+		if s.AbsBiasRad.P95 > math.Pi/2 {
+			p95 = notARate
+		}
+	}
+	t.Append("Mean bias as a rotation rate", mean, "deg/h")
+	t.Append("|bias| p95 as a rotation rate", p95, "deg/h")
 	if g != nil {
 		t.Append(fmt.Sprintf("Projection-noise limit per shot, %s atoms at contrast %s", Sig(g.Atoms, 6), Fixed(g.Contrast, 4)), b3(g.ShotNoiseDegPerH), "deg/h")
 		t.Append(fmt.Sprintf("Angle random walk, one shot per %s s", Sig(g.CycleS, 6)), b3(g.AngleRandomWalkDegPerSqrtH), "deg/sqrt(h)")

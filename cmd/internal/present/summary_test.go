@@ -54,3 +54,56 @@ func TestMeasuredRowsOnlyWithReadout(t *testing.T) {
 		}
 	}
 }
+
+// TestInvertedShotsAreNoRate: an inverted fringe (|bias| near pi) is a
+// sign flip, so with inverted shots among the realisations the mean, the
+// std and the quantiles beyond pi/2 get no rotation rate, the gyroscope
+// figures neither, and a note says why; quantiles of ordinary shots keep
+// theirs. Without inverted shots nothing changes.
+func TestInvertedShotsAreNoRate(t *testing.T) {
+	s := mc.Summary{Samples: 100, Confidence: 0.95, ScaleFactorS: 0.86,
+		BiasRad:     mc.Distribution{Mean: 0.19, Std: 1.17, P50: 8.2e-6, P95: 3.14},
+		BiasDegPerH: mc.Distribution{Mean: 4.56e4, Std: 2.81e5, P50: 1.97, P95: 7.53e5},
+		AbsBiasRad:  mc.Distribution{P95: 3.14}}
+	s.BiasCircular.Inverted = 16
+	var b bytes.Buffer
+	if err := PrintSummary(&b, s); err != nil {
+		t.Fatal(err)
+	}
+	out := b.String()
+	row := func(name string) string {
+		for _, l := range strings.Split(out, "\n") {
+			if strings.HasPrefix(l, "| "+name+" ") {
+				return l
+			}
+		}
+		t.Fatalf("no row %q in\n%s", name, out)
+		return ""
+	}
+	for _, name := range []string{"mean", "std", "p95"} {
+		if r := row(name); !strings.Contains(r, notARate) || strings.Contains(r, "e+05") || strings.Contains(r, "e+04") {
+			t.Errorf("row %q gives a rotation rate: %s", name, r)
+		}
+	}
+	if r := row("p50 (median)"); !strings.Contains(r, "1.97e+00") {
+		t.Errorf("the median of ordinary shots lost its rate: %s", r)
+	}
+	if !strings.Contains(out, "16 of the shots with a fringe are inverted") {
+		t.Errorf("no note on the inverted shots:\n%s", out)
+	}
+	var g bytes.Buffer
+	if err := GyroGrid(s, nil).Render(&g); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Count(g.String(), notARate) != 2 {
+		t.Errorf("gyroscope figures give the inverted biases as rates:\n%s", g.String())
+	}
+	s.BiasCircular.Inverted = 0
+	b.Reset()
+	if err := PrintSummary(&b, s); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(b.String(), notARate) || strings.Contains(b.String(), "inverted (") {
+		t.Errorf("without inverted shots the rates are withheld:\n%s", b.String())
+	}
+}
