@@ -217,7 +217,11 @@ func EnsembleSection(heading, idPrefix string, sum mc.Summary, recs []mc.Record,
 	if err != nil {
 		return report.Section{}, err
 	}
-	if notes := ResolutionNotes(sum); len(notes) > 0 {
+	notes := ResolutionNotes(sum)
+	if n := InvertedNote(sum); n != "" {
+		notes = append(notes, n)
+	}
+	if len(notes) > 0 {
 		text = strings.TrimSpace(text + "\n\n" + strings.Join(notes, "\n\n"))
 	}
 	sec := report.Section{Heading: heading, Text: text, Figures: []report.Figure{fc, fb}}
