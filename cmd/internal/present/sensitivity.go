@@ -39,8 +39,29 @@ func PrintSensitivity(w io.Writer, rep SensitivityReport) error {
 		return nil
 	}
 	fmt.Fprintln(w, derivativesLead)
-	return d.Render(w)
+	if err := d.Render(w); err != nil {
+		return err
+	}
+	if roundingCells(rep) {
+		fmt.Fprintln(w, roundingNote)
+	}
+	return nil
 }
+
+// roundingCells reports whether a derivative cell reads belowRounding.
+func roundingCells(rep SensitivityReport) bool {
+	for _, d := range rep.Derivatives {
+		for _, ch := range []float64{d.Contrast * d.Step, d.ContrastSecond * d.Step * d.Step, d.BiasRad * d.Step} {
+			if ch != 0 && math.Abs(ch) < roundingFloor {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// roundingNote explains the belowRounding cells.
+const roundingNote = "\"rounding\": the two shots differ by less than 1e-13 over the step, their rounding, not a sensitivity (--json keeps the value)."
 
 // sobolGrid returns the table of the Sobol' indices, a row per input. An
 // index is a share of a variance, in [0, 1]: estimates and bounds are shown
@@ -100,11 +121,30 @@ func derivativeGrid(rep SensitivityReport) *Grid {
 		"db/dx (rad per unit)", "Bias shift b' h (rad)", "Bias shift b' h (deg/h)")
 	for _, d := range rep.Derivatives {
 		shift := d.BiasRad * d.Step
-		t.Append(d.Input, Sig(d.Step, 4), d.Unit, Sci(d.Contrast, 3), Sci(d.ContrastSecond, 3), Sci(d.ContrastSecond*d.Step*d.Step/2, 3),
-			Sci(d.BiasRad, 3), Sci(shift, 3), Sci(mc.BiasDegPerH(shift, rep.ScaleFactorS), 3))
+		// Each derivative is a difference of shots over one step h: a
+		// difference below roundingFloor is the shots' rounding, not a
+		// sensitivity (the JSON keeps the value).
+		cell := func(x, change float64) string {
+			if change != 0 && math.Abs(change) < roundingFloor {
+				return belowRounding
+			}
+			return Sci(x, 3)
+		}
+		c1, c2 := d.Contrast*d.Step, d.ContrastSecond*d.Step*d.Step
+		t.Append(d.Input, Sig(d.Step, 4), d.Unit, cell(d.Contrast, c1), cell(d.ContrastSecond, c2), cell(c2/2, c2),
+			cell(d.BiasRad, shift), cell(shift, shift), cell(mc.BiasDegPerH(shift, rep.ScaleFactorS), shift))
 	}
 	return t
 }
+
+// roundingFloor is the change of a contrast or a phase (rad) over one step
+// below which a finite difference of two shots is rounding: about 500
+// units in the last place of numbers of order one, where the shots' own
+// rounding (a few hundred operations on each amplitude) lies.
+const roundingFloor = 1e-13
+
+// belowRounding stands in a derivative cell whose difference is rounding.
+const belowRounding = "rounding"
 
 // SensitivitySection takes what sensitivity --json prints and shows the
 // Sobol' index table with its bar charts and the local derivatives.
@@ -121,6 +161,9 @@ func SensitivitySection(rep SensitivityReport) (report.Section, error) {
 	}
 	if d := derivativeGrid(rep); d != nil {
 		sec.Tables = append(sec.Tables, d.Table())
+		if roundingCells(rep) {
+			sec.Text += "\n\n" + roundingNote
+		}
 	} else {
 		sec.Text += "\n\n" + noDerivatives
 	}

@@ -100,3 +100,39 @@ func TestClampNote(t *testing.T) {
 		}
 	}
 }
+
+// TestDerivativeRounding: a derivative whose difference over the step is
+// below the rounding floor reads "rounding" (a new user read 8.88e-16 as a
+// contrast change), an exact zero stays zero, a real change keeps its
+// digits, and the note appears only when a cell says rounding.
+func TestDerivativeRounding(t *testing.T) {
+	rep := SensitivityReport{ScaleFactorS: 1, Derivatives: []mc.Derivative{
+		{Input: "a", Step: 1e-6, Unit: "relative", Contrast: 3.8e-7, ContrastSecond: 1.57e3, BiasRad: 799},
+		{Input: "b", Step: 1, Unit: "ppm", Contrast: 0, ContrastSecond: 8.9e-16, BiasRad: 0},
+	}}
+	cells := derivativeGrid(rep).Table().Rows
+	if got := cells[0][3]; got != "3.80e-07" {
+		t.Errorf("a: dC/dx %q, want 3.80e-07 (change 3.8e-13, above the floor)", got)
+	}
+	if got := cells[1][4]; got != belowRounding {
+		t.Errorf("b: d2C/dx2 %q, want %q", got, belowRounding)
+	}
+	if got := cells[1][3]; got != "0.00e+00" {
+		t.Errorf("b: exact zero dC/dx %q, want 0.00e+00", got)
+	}
+	var w bytes.Buffer
+	if err := PrintSensitivity(&w, rep); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(w.String(), roundingNote) {
+		t.Errorf("no rounding note:\n%s", w.String())
+	}
+	rep.Derivatives = rep.Derivatives[:1]
+	w.Reset()
+	if err := PrintSensitivity(&w, rep); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(w.String(), roundingNote) {
+		t.Errorf("rounding note without a rounding cell:\n%s", w.String())
+	}
+}
