@@ -328,6 +328,15 @@ func responseMasks(k *sim.Kernels, nominal sim.Result, b mc.Budget, procs []sim.
 			psd = p.PSD
 		}
 		rm := present.NewResponseMask(t.name, t.kind, t.unit, room, m, psd, band)
+		// The budget's field and rotation-rate noise read in its lab
+		// units (mc.Sources: uG, urad/s), as tolerance gives them; the
+		// channels stay in SI.
+		switch {
+		case t.name == mc.ProcessField:
+			rm.InLabUnit("uG", 1e6)
+		case t.name == mc.ProcessRotation && ok:
+			rm.InLabUnit("urad/s", 1e6)
+		}
 		if ok {
 			g, bind := k.Growth(p.Load, p.PSD, p.Band, room)
 			rm.Growth, rm.GrowthBinding = finitePtr(g), bind

@@ -13,7 +13,7 @@ import (
 )
 
 // spectrumHelp describes --spectrum for the flag and its errors.
-const spectrumHelp = "PROCESS=TERM[+TERM...] with PROCESS rin, phase, field or rotation and each TERM white:S (S unit^2/Hz), powerlaw:H:ALPHA (H f^ALPHA unit^2/Hz, the IEEE Std 1139 form) or table:FILE (an intensity-noise table in dB/Hz for rin, an L(f) table in dBc/Hz for phase); units 1/Hz, rad^2/Hz (each arm's drive phase), G^2/Hz, (rad/s)^2/Hz (the platform's rotation rate)"
+const spectrumHelp = "PROCESS=TERM[+TERM...] with PROCESS rin, phase, field or rotation and each TERM white:S (S unit^2/Hz), powerlaw:H:ALPHA (H f^ALPHA unit^2/Hz, the IEEE Std 1139 form) or table:FILE (an intensity-noise table in dB/Hz for rin, an L(f) table in dBc/Hz for phase); units 1/Hz, rad^2/Hz (each arm's drive phase), uG^2/Hz, (urad/s)^2/Hz (the platform's rotation rate), the budget's units"
 
 // applySpectra replaces the PSD of each process named in specs (the
 // --spectrum values) in budget b, switching it on if it was off.
@@ -72,6 +72,12 @@ func parseTerm(name, term string) (noise.PSD, error) {
 		}
 		return x, nil
 	}
+	// A field and a rotation rate are given in the budget's lab units,
+	// uG and urad/s (mc.Sources), their PSDs in those units^2/Hz.
+	si := 1.0
+	if name == mc.ProcessField || name == mc.ProcessRotation {
+		si = 1e-12
+	}
 	switch kind {
 	case "white":
 		s, err := number(args, "level")
@@ -81,7 +87,7 @@ func parseTerm(name, term string) (noise.PSD, error) {
 		if !(s > 0) {
 			return nil, fmt.Errorf("term %q: a white level must be positive (unit^2/Hz)", term)
 		}
-		return noise.White{Level: s}, nil
+		return noise.White{Level: s * si}, nil
 	case "powerlaw":
 		hs, as, ok := strings.Cut(args, ":")
 		if !ok {
@@ -98,7 +104,7 @@ func parseTerm(name, term string) (noise.PSD, error) {
 		if !(h > 0) {
 			return nil, fmt.Errorf("term %q: the coefficient H must be positive (unit^2/Hz at 1 Hz)", term)
 		}
-		return noise.PowerLaw{H: h, Alpha: a}, nil
+		return noise.PowerLaw{H: h * si, Alpha: a}, nil
 	case "table":
 		if args == "" {
 			return nil, fmt.Errorf("term %q: want table:FILE", term)

@@ -47,10 +47,28 @@ func TestResponseSpectrum(t *testing.T) {
 	}
 	// The fast ensemble's budget has no other noise process: the
 	// prediction is the rotation noise's alone.
-	l1, s1 := run("rotation=white:1e-12")
-	l4, s4 := run("rotation=powerlaw:4e-12:0")
+	l1, s1 := run("rotation=white:1")
+	l4, s4 := run("rotation=powerlaw:4:0")
 	if l1 != 0 || l4 != 0 || !(s1 > 0) || math.Abs(s4/s1-2) > 2e-9 {
-		t.Errorf("rotation noise: losses %g and %g (want 0), bias std %.12g at 1e-12 and %.12g at 4e-12 (rad/s)^2/Hz (want twice)", l1, l4, s1, s4)
+		t.Errorf("rotation noise: losses %g and %g (want 0), bias std %.12g at 1 and %.12g at 4 (urad/s)^2/Hz (want twice)", l1, l4, s1, s4)
+	}
+	// --spectrum takes the budget's unit: 1 (urad/s)^2/Hz predicts what
+	// the scenario's rotation_noise_urad2_s2_hz = 1 does.
+	stdout, stderr, code := execute(t, "response", "--scenario", ensembleScenario, "--set", "ring.sites=10", "--set", "ring.radius_um=2.5",
+		"--set", "noise.platform.rotation_noise_urad2_s2_hz=1", "--json")
+	if code != 0 {
+		t.Fatalf("rotation_noise_urad2_s2_hz=1: exit %d: %s", code, stderr)
+	}
+	var rep struct {
+		Predicted struct {
+			BiasStdRad float64 `json:"bias_std_rad"`
+		}
+	}
+	if err := json.Unmarshal([]byte(stdout), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if b := rep.Predicted.BiasStdRad; math.Abs(b/s1-1) > 1e-9 {
+		t.Errorf("rotation noise 1 (urad/s)^2/Hz: --spectrum predicts %.12g rad, the scenario's key %.12g rad", s1, b)
 	}
 	for _, tc := range []struct{ spec, want string }{
 		{"laser=white:1", "unknown process"},

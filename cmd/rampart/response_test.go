@@ -318,3 +318,58 @@ func TestResponseRINTable(t *testing.T) {
 		t.Errorf("contrast loss of the flat table %.15g, of the white level %.15g (tol 1e-12 relative)", losses["table"], losses["white"])
 	}
 }
+
+// TestResponseMaskLabUnits: the masks of field and rotation-rate noise are
+// in the budget's lab units (uG, urad/s, as tolerance and the scenario
+// give them; a new user found G and rad/s). The check ties the units
+// together: for a white budget spectrum the mask's white level is the
+// growth factor times the budget's own level, as the scenario wrote it.
+func TestResponseMaskLabUnits(t *testing.T) {
+	if testing.Short() {
+		t.Skip("kernels of the demo")
+	}
+	stdout, stderr, code := execute(t, "response", "--scenario", "testdata/demo/demo.toml", "--spec", "testdata/demo/spec.toml",
+		"--set", "noise.field.noise_ug2_hz=1e-2", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d, stderr %q", code, stderr)
+	}
+	var rep struct {
+		Masks struct {
+			Targets []struct {
+				Name   string   `json:"name"`
+				Unit   string   `json:"unit"`
+				Growth *float64 `json:"growth"`
+				White  struct {
+					Level *float64 `json:"level"`
+				} `json:"white"`
+				GivenPSD []float64 `json:"given_psd"`
+			} `json:"targets"`
+		} `json:"masks"`
+	}
+	if err := json.Unmarshal([]byte(stdout), &rep); err != nil {
+		t.Fatal(err)
+	}
+	// The demo's rotation noise is 1 (urad/s)^2/Hz (testdata/demo/demo.toml).
+	want := map[string]struct {
+		unit  string
+		given float64
+	}{"field": {"uG", 1e-2}, "rotation": {"urad/s", 1}}
+	seen := 0
+	for _, m := range rep.Masks.Targets {
+		w, ok := want[m.Name]
+		if !ok {
+			continue
+		}
+		seen++
+		if m.Unit != w.unit || len(m.GivenPSD) == 0 || math.Abs(m.GivenPSD[0]/w.given-1) > 1e-12 {
+			t.Errorf("%s: unit %q, given PSD %v; want %q and %g", m.Name, m.Unit, m.GivenPSD[:min(1, len(m.GivenPSD))], w.unit, w.given)
+			continue
+		}
+		if m.Growth == nil || m.White.Level == nil || math.Abs(*m.White.Level/(*m.Growth*w.given)-1) > 1e-9 {
+			t.Errorf("%s: white level %v, growth %v: want level = growth x %g", m.Name, m.White.Level, m.Growth, w.given)
+		}
+	}
+	if seen != 2 {
+		t.Errorf("%d of the field and rotation masks found", seen)
+	}
+}

@@ -86,6 +86,29 @@ func NewResponseMask(name, kind, unit string, room sim.MaskRoom, m sim.Mask, giv
 	return out
 }
 
+// InLabUnit re-expresses m, computed for a signal in its SI unit, in the
+// lab unit the budget and tolerance use (uG for a field, urad/s for a
+// rotation rate), scale lab units per SI unit: its levels and the given
+// spectrum are PSDs, so they scale by scale^2; the growth factor is a
+// ratio and stays.
+func (m *ResponseMask) InLabUnit(unit string, scale float64) {
+	s2 := scale * scale
+	m.Unit = unit
+	mul := func(l *ResponseMaskLevel) {
+		if l.Level != nil {
+			v := *l.Level * s2
+			l.Level = &v
+		}
+	}
+	mul(&m.White)
+	for i := range m.Bands {
+		mul(&m.Bands[i])
+	}
+	for i := range m.GivenPSD {
+		m.GivenPSD[i] *= s2
+	}
+}
+
 // levelText formats a level: "none" without a limit.
 func levelText(l *float64) string {
 	if l == nil {
