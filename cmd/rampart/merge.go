@@ -1,8 +1,11 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
+	"os"
 
 	"github.com/spf13/cobra"
 
@@ -66,6 +69,15 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	spec, err := (&runOptions{minContrast: o.minContrast, maxBiasRad: o.maxBiasRad}).spec()
 	if err != nil {
 		return err
+	}
+	for _, d := range dirs {
+		if fi, err := os.Stat(d); errors.Is(err, fs.ErrNotExist) {
+			return fmt.Errorf("merge: %s does not exist: give the run directories of the shards", d)
+		} else if err != nil {
+			return fmt.Errorf("merge: %s: %v", d, pathErr(err))
+		} else if !fi.IsDir() {
+			return fmt.Errorf("merge: %s is not a directory: give the run directories of the shards", d)
+		}
 	}
 	out := outDir("--out", o.out, runFiles...)
 	out.want = "a new or empty directory"
