@@ -84,7 +84,7 @@ const (
 func (d *decoder) syntaxError(err error) error {
 	var pe toml.ParseError
 	if errors.As(err, &pe) {
-		return &Error{File: d.s.Name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, maxQuote))}
+		return &Error{File: d.s.Name, Line: tomlpos.ErrorLine(d.data, pe.Position), Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, maxQuote))}
 	}
 	return &Error{File: d.s.Name, Err: fmt.Errorf("not valid TOML: %w", err)}
 }

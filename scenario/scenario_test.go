@@ -216,7 +216,13 @@ func TestBadScenario(t *testing.T) {
 		key  string // want this key
 		msg  string // the message contains this
 	}{
-		{"syntax", minimal + "[ring\n", nil, 16, "", "not valid TOML: expected '.' or ']' to end table name"},
+		// The decoder reports an unexpected newline on the next line; the
+		// line is counted from its byte offset (tomlpos.ErrorLine).
+		{"syntax", minimal + "[ring\n", nil, 15, "", "not valid TOML: expected '.' or ']' to end table name"},
+		{"syntax on line 1", "[ring\n" + minimal, nil, 1, "", "not valid TOML: expected '.' or ']' to end table name, but got '\\n'"},
+		{"syntax after a UTF-8 byte-order mark", "\xef\xbb\xbf" + minimal + "[ring\n", nil, 15, "", "not valid TOML"},
+		{"UTF-16 byte-order mark", "\xff\xfe" + minimal, nil, 1, "", "the file starts with a UTF-16 byte-order mark (bytes 0xff 0xfe or 0xfe 0xff): save it as UTF-8"},
+		{"invalid UTF-8 in a comment", minimal + "# caf\xe9\n", nil, 15, "", "byte 0xe9 at column 6 is not UTF-8: save the file as UTF-8"},
 		{"unknown top-level key", "foo = 1\n" + minimal, nil, 1, "foo", "unknown key foo: a scenario holds only the tables atom, ring, lattice, motion, ramp, start, numerics, noise, readout"},
 		{"unknown table", minimal + "[rings]\nsites = 3\n", nil, 15, "rings", "unknown table [rings]: a scenario has the tables atom, ring,"},
 		{"unknown sub-table", minimal + "[noise.depht]\ncommon_rel = 0.1\n", nil, 15, "noise.depht", "unknown table [noise.depht]: [noise] takes depth, drive, timing, temperature, pulses"},
