@@ -90,6 +90,10 @@ func TestOutputPathsBeforeWork(t *testing.T) {
 		{"robust write under a file", with("robust", "--samples", "20", "--terms", "1", "--evals", "4", "--write", filepath.Join(file, "r.csv")),
 			"--write " + filepath.Join(file, "r.csv") + ": its directory " + file + ": it exists and is not a directory"},
 		{"merge out file", []string{"merge", "--out", file, dir}, notDir("--out")},
+		{"demo report FIFO", []string{"demo", "--report", rep}, fifoReport},
+		{"scan out file", with("scan", "--vary", "lattice.depth_khz=18,22", "--ensemble", "--out", file), notDir("--out")},
+		{"sbatch script in a missing directory", []string{"sbatch", "--script", filepath.Join(dir, "nodir", "x.sh"), "--rate", "100", "--", "run", "--scenario", "testdata/scenarios/ensemble.toml", "--out", filepath.Join(dir, "o")},
+			"--script " + filepath.Join(dir, "nodir", "x.sh") + ": its directory " + filepath.Join(dir, "nodir") + " does not exist"},
 	} {
 		before := listTree(t, dir)
 		checked = nil
