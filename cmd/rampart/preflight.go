@@ -230,7 +230,10 @@ func (o output) checkDir() error {
 		path := filepath.Join(o.path, name)
 		fi, err := os.Stat(path) // a link is judged by what it points to
 		if err != nil {
-			return fmt.Errorf("%s is a symbolic link that points to no file; remove it or give another directory", path)
+			if lfi, lerr := os.Lstat(path); lerr == nil && lfi.Mode().Type() == fs.ModeSymlink {
+				return fmt.Errorf("%s is a symbolic link that points to no file; remove it or give another directory", path)
+			}
+			return fmt.Errorf("%s: cannot use it: %v", path, pathErr(err))
 		}
 		if !fi.Mode().IsRegular() {
 			return fmt.Errorf("%s is %s; give a directory whose %s is a regular file or absent", path, atomicfile.Kind(fi.Mode()), name)
