@@ -395,6 +395,11 @@ func (w *Worker) RunShot(sh sim.Shot, rec Record) Record {
 	res := w.r.sim.Run(sh, nil)
 	rec.Contrast, rec.PhaseRad, rec.BiasRad = res.Contrast, res.PhaseRad, res.BiasRad
 	rec.Z = res.Z
+	if rec.Lost() {
+		// A lost shot has no phase: its phase and bias are held as 0, which
+		// no statistic reads (Record.Lost), and written as empty fields.
+		rec.PhaseRad, rec.BiasRad = 0, 0
+	}
 	rec.Ground = res.GroundAfterRampUp
 	if r := w.r; r.ens.ScaleFactor {
 		// K_shot from the central difference, as sim.Simulator.Gyro.

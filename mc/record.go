@@ -17,6 +17,8 @@ type Record struct {
 	RINRms   float64    // rms of the synthesised relative intensity noise
 	PhaseRms [2]float64 // rms of each arm's synthesised drive phase noise, rad
 	Contrast float64
+	// PhaseRad and BiasRad are 0 for a lost shot (Lost), which has no
+	// phase; its row in a records file leaves them empty.
 	PhaseRad float64
 	BiasRad  float64
 	Z        complex128
@@ -100,7 +102,16 @@ func (rec Record) format(rin, phase bool) string {
 		put(rec.PhaseRms[0])
 		put(rec.PhaseRms[1])
 	}
-	for _, x := range []float64{rec.Contrast, rec.PhaseRad, rec.BiasRad, real(rec.Z), imag(rec.Z), rec.Ground[0], rec.Ground[1]} {
+	put(rec.Contrast)
+	if rec.Lost() {
+		// No phase, hence no bias: the two fields are left empty, the
+		// files' convention for a value that is not defined.
+		b.WriteString(",,")
+	} else {
+		put(rec.PhaseRad)
+		put(rec.BiasRad)
+	}
+	for _, x := range []float64{real(rec.Z), imag(rec.Z), rec.Ground[0], rec.Ground[1]} {
 		put(x)
 	}
 	if rec.HasScaleFactor {
@@ -146,7 +157,21 @@ func parseRecord(line string, nInputs int, rin, phase bool) (Record, error) {
 		return Record{}, fmt.Errorf("index %q is not a non-negative integer", excerpt(f[0]))
 	}
 	v := make([]float64, len(f)-1)
+	// The phase and bias fields, empty in the row of a lost shot.
+	phaseField := nInputs
+	if rin {
+		phaseField++
+	}
+	if phase {
+		phaseField += 2
+	}
+	phaseField++ // after contrast
+	empty := 0
 	for i, s := range f[1:] {
+		if s == "" && (i == phaseField || i == phaseField+1) {
+			empty++
+			continue // read as 0, Record's value for a lost shot
+		}
 		if v[i], err = strconv.ParseFloat(s, 64); err != nil {
 			return Record{}, fmt.Errorf("field %d: %q is not a number", i+2, excerpt(s))
 		}
@@ -164,6 +189,9 @@ func parseRecord(line string, nInputs int, rin, phase bool) (Record, error) {
 	rec.Ground = [2]float64{v[5], v[6]}
 	if sf {
 		rec.ScaleFactorErrorPPM, rec.HasScaleFactor = v[7], true
+	}
+	if empty > 0 && (empty != 2 || !rec.Lost()) {
+		return Record{}, fmt.Errorf("phase_rad and bias_rad: %d of the two fields empty, in a row with contrast %g and z %g: only a lost shot (contrast and z exactly 0) leaves both empty", empty, rec.Contrast, rec.Z)
 	}
 	return rec, rec.check()
 }

@@ -88,6 +88,12 @@ func Resume(dir string, m Manifest) (_ *Store, _ []Record, err error) {
 	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
 		return nil, nil, fmt.Errorf("cannot resume %s: it is not an ensemble directory", dir)
 	}
+	if _, err := os.Lstat(filepath.Join(dir, LockFile)); err != nil && !HasRun(dir) {
+		// Neither a run nor one being started (whose writer holds the
+		// lock, and is named below): refused before the lock, which would
+		// leave a lock file in a directory that is not a run.
+		return nil, nil, fmt.Errorf("cannot resume %s: it is not an ensemble directory (no %s)", dir, ManifestFile)
+	}
 	unlock, err := LockDir(dir)
 	if err != nil {
 		return nil, nil, err

@@ -367,3 +367,16 @@ func FuzzReadRecords(f *testing.F) {
 		}
 	})
 }
+
+// TestResumeNotARunLeavesNoLock resumes a directory that holds no run: it
+// is refused, and no lock file is left in it (the lock is taken only on a
+// run directory).
+func TestResumeNotARunLeavesNoLock(t *testing.T) {
+	dir := t.TempDir()
+	if _, _, err := Resume(dir, testManifest(4)); err == nil || !strings.Contains(err.Error(), "not an ensemble directory (no manifest.json)") {
+		t.Errorf("resume of an empty directory: %v", err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, LockFile)); err == nil {
+		t.Errorf("the refused resume left %s in the directory", LockFile)
+	}
+}

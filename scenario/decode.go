@@ -84,7 +84,7 @@ const (
 func (d *decoder) syntaxError(err error) error {
 	var pe toml.ParseError
 	if errors.As(err, &pe) {
-		return &Error{File: d.s.Name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, maxQuote))}
+		return &Error{File: d.s.Name, Line: tomlpos.ErrorLine(d.data, pe.Position), Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, maxQuote))}
 	}
 	return &Error{File: d.s.Name, Err: fmt.Errorf("not valid TOML: %w", err)}
 }
@@ -215,7 +215,7 @@ func (d *decoder) check() error {
 		return &Error{File: s.Name, Key: k.name, Err: fmt.Errorf("missing %s, which shape %q needs: want %s", k.name, s.Ramp.Shape, k.want())}
 	}
 	if s.Ramp.Shape == "file" && s.Ramp.File == "" {
-		return d.fail("ramp.shape", fmt.Errorf(`ramp.shape = "file" needs ramp.file, the ramp table (a CSV file relative to the scenario file)`))
+		return d.fail("ramp.shape", fmt.Errorf(`ramp.shape = "file" needs ramp.file, the ramp table: %s`, d.giveFile("ramp.shape", "ramp.file")))
 	}
 	if s.Ramp.Shape != "file" && s.Ramp.File != "" {
 		return d.fail("ramp.file", fmt.Errorf(`ramp.file is given but ramp.shape = %q: set shape = "file" to use the table, or leave file out`, s.Ramp.Shape))
@@ -275,6 +275,18 @@ func (d *decoder) fail(name string, err error) error {
 	return e
 }
 
+// giveFile says how to give the table key file that the value of key (a
+// shape "file") needs, where key was given: in the scenario file a path is
+// relative to the scenario file's directory, on the command line (--set) to
+// the working directory (Scenario.resolve).
+func (d *decoder) giveFile(key, file string) string {
+	if x := d.byKey[key]; x != nil && x.flag != "" {
+		return fmt.Sprintf("give --set %s=PATH too, a CSV file (a path on the command line is relative to the working directory)", file)
+	}
+	table, name, _ := strings.Cut(file, ".")
+	return fmt.Sprintf("give %s = \"PATH\" in [%s], a CSV file (a path in the scenario file is relative to the scenario file's directory)", name, table)
+}
+
 // checkDown checks the keys of the ramp-down and of the echo against each
 // other, as check does for the ramp-up.
 func (d *decoder) checkDown() error {
@@ -289,7 +301,7 @@ func (d *decoder) checkDown() error {
 	switch {
 	case r.DownShape == "":
 	case r.DownShape == "file" && r.DownFile == "":
-		return d.fail("ramp.down_shape", fmt.Errorf(`ramp.down_shape = "file" needs ramp.down_file, the ramp-down table (a CSV file relative to the scenario file)`))
+		return d.fail("ramp.down_shape", fmt.Errorf(`ramp.down_shape = "file" needs ramp.down_file, the ramp-down table: %s`, d.giveFile("ramp.down_shape", "ramp.down_file")))
 	case r.DownShape != "file" && r.DownFile != "":
 		return d.fail("ramp.down_file", fmt.Errorf(`ramp.down_file is given but ramp.down_shape = %q: set down_shape = "file" to use the table, or leave down_file out`, r.DownShape))
 	case r.DownShape != "file" && d.byKey["ramp.down_duration_us"] == nil:

@@ -216,7 +216,13 @@ func TestBadScenario(t *testing.T) {
 		key  string // want this key
 		msg  string // the message contains this
 	}{
-		{"syntax", minimal + "[ring\n", nil, 16, "", "not valid TOML: expected '.' or ']' to end table name"},
+		// The decoder reports an unexpected newline on the next line; the
+		// line is counted from its byte offset (tomlpos.ErrorLine).
+		{"syntax", minimal + "[ring\n", nil, 15, "", "not valid TOML: expected '.' or ']' to end table name"},
+		{"syntax on line 1", "[ring\n" + minimal, nil, 1, "", "not valid TOML: expected '.' or ']' to end table name, but got '\\n'"},
+		{"syntax after a UTF-8 byte-order mark", "\xef\xbb\xbf" + minimal + "[ring\n", nil, 15, "", "not valid TOML"},
+		{"UTF-16 byte-order mark", "\xff\xfe" + minimal, nil, 1, "", "the file starts with a UTF-16 byte-order mark (bytes 0xff 0xfe or 0xfe 0xff): save it as UTF-8"},
+		{"invalid UTF-8 in a comment", minimal + "# caf\xe9\n", nil, 15, "", "byte 0xe9 at column 6 is not UTF-8: save the file as UTF-8"},
 		{"unknown top-level key", "foo = 1\n" + minimal, nil, 1, "foo", "unknown key foo: a scenario holds only the tables atom, ring, lattice, motion, ramp, start, numerics, noise, readout"},
 		{"unknown table", minimal + "[rings]\nsites = 3\n", nil, 15, "rings", "unknown table [rings]: a scenario has the tables atom, ring,"},
 		{"unknown sub-table", minimal + "[noise.depht]\ncommon_rel = 0.1\n", nil, 15, "noise.depht", "unknown table [noise.depht]: [noise] takes depth, drive, timing, temperature, pulses"},
@@ -246,7 +252,10 @@ func TestBadScenario(t *testing.T) {
 		{"read-out half given", minimal + "[readout]\ncycle_s = 1\n", nil, 16, "readout.cycle_s", "readout.cycle_s needs readout.atoms too: give both for gyroscope figures, or neither"},
 		{"missing required key", strings.Replace(minimal, "radius_um = 5.0\n", "", 1), nil, 0, "ring.radius_um", "missing ring.radius_um: want a finite number > 0 for the ring radius in um"},
 		{"missing duration", strings.Replace(minimal, "duration_us = 150.0\n", "", 1), nil, 0, "ramp.duration_us", `missing ramp.duration_us, which shape "sin2" needs`},
-		{"file shape without file", strings.Replace(minimal, `"sin2"`, `"file"`, 1), nil, 13, "ramp.shape", `ramp.shape = "file" needs ramp.file`},
+		{"file shape without file", strings.Replace(minimal, `"sin2"`, `"file"`, 1), nil, 13, "ramp.shape", `ramp.shape = "file" needs ramp.file, the ramp table: give file = "PATH" in [ramp], a CSV file (a path in the scenario file is relative to the scenario file's directory)`},
+		// On the command line a path is relative to the working directory
+		// (Scenario.resolve), and the message says so.
+		{"file shape without file, set", minimal, []string{"ramp.shape=file"}, -1, "ramp.shape", `ramp.shape = "file" needs ramp.file, the ramp table: give --set ramp.file=PATH too, a CSV file (a path on the command line is relative to the working directory)`},
 		{"file with another shape", minimal + "file = \"../ramps/up.csv\"\n", nil, 15, "ramp.file", `ramp.file is given but ramp.shape = "sin2"`},
 		{"design depth with another shape", minimal + "design_depth_khz = 18\n", nil, 15, "ramp.design_depth_khz", `ramp.design_depth_khz applies to shapes designed for a depth (inverse, inverse-gap) only, not "sin2"`},
 		{"ramp file missing", strings.Replace(minimal, `shape = "sin2"`, "shape = \"file\"\nfile = \"../ramps/down.csv\"", 1), nil, 14, "ramp.file", `ramp file "ramps/down.csv": cannot read the file: file does not exist`},
@@ -267,7 +276,7 @@ func TestBadScenario(t *testing.T) {
 		// The ramp-down and the echo (sim.NewSequenceDown, sim.NewEcho).
 		{"ramp-down time without a shape", minimal, []string{"ramp.down_duration_us=100"}, -1, "ramp.down_duration_us", "ramp.down_duration_us is given but ramp.down_shape is not"},
 		{"ramp-down shape without a time", minimal, []string{"ramp.down_shape=minjerk"}, -1, "ramp.down_shape", `ramp.down_shape = "minjerk" needs ramp.down_duration_us`},
-		{"ramp-down file without a table", minimal, []string{"ramp.down_shape=file"}, -1, "ramp.down_shape", `ramp.down_shape = "file" needs ramp.down_file`},
+		{"ramp-down file without a table", minimal, []string{"ramp.down_shape=file"}, -1, "ramp.down_shape", `ramp.down_shape = "file" needs ramp.down_file, the ramp-down table: give --set ramp.down_file=PATH too, a CSV file (a path on the command line is relative to the working directory)`},
 		{"ramp-down design depth for sin2", minimal, []string{"ramp.down_shape=sin2", "ramp.down_duration_us=100", "ramp.down_design_depth_khz=10"}, -1, "ramp.down_design_depth_khz", "applies to shapes designed for a depth"},
 		{"ramp-down table at another speed", minimal, []string{"motion.cruise_rad_s=400", "ramp.down_shape=file", "ramp.down_file=ramps/up.csv"}, -1, "ramp.down_file", "ramps/up.csv"},
 		{"echo hold without segments", minimal, []string{"motion.echo_hold_us=20"}, -1, "motion.echo_hold_us", "applies to echo sequences only"},

@@ -170,7 +170,7 @@ func (d *demo) writeReport() error {
 	r.Sections = append(append(append(secs, ranked...), qual, tol, resp), present.EdgeSections(d.design)...)
 	path, err := r.Write(d.opts.report)
 	if err != nil {
-		return err
+		return fmt.Errorf("--report %s: %w", d.opts.report, err)
 	}
 	fmt.Fprintf(d.out, "7. The report: %s (one self-contained page; open it in a browser)\n", path)
 	return nil

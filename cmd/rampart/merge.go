@@ -1,8 +1,11 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
+	"os"
 
 	"github.com/spf13/cobra"
 
@@ -67,6 +70,20 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	if err != nil {
 		return err
 	}
+	for _, d := range dirs {
+		if fi, err := os.Stat(d); errors.Is(err, fs.ErrNotExist) {
+			return fmt.Errorf("merge: %s does not exist: give the run directories of the shards", d)
+		} else if err != nil {
+			return fmt.Errorf("merge: %s: %v", d, pathErr(err))
+		} else if !fi.IsDir() {
+			return fmt.Errorf("merge: %s is not a directory: give the run directories of the shards", d)
+		}
+	}
+	out := outDir("--out", o.out, runFiles...)
+	out.want = "a new or empty directory"
+	if err := checkOutputPaths(out); err != nil {
+		return err
+	}
 	g, err := mc.OpenShards(dirs)
 	if err != nil {
 		return err
@@ -85,29 +102,29 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	}
 	// The rows stream from the shards (to --out, verified on the way);
 	// only the output columns of the summary are kept.
-	out := mc.NewOutcomes(m.Samples)
+	outcomes := mc.NewOutcomes(m.Samples)
 	if o.out != "" {
 		unlock, err := mc.LockDir(o.out) // held for the records, summary and figures
 		if err != nil {
 			return err
 		}
 		defer unlock()
-		if err := g.WriteRun(o.out, out.Add); err != nil {
+		if err := g.WriteRun(o.out, outcomes.Add); err != nil {
 			return err
 		}
-	} else if err := g.Scan(func(r mc.Record, _ string) error { out.Add(r); return nil }); err != nil {
+	} else if err := g.Scan(func(r mc.Record, _ string) error { outcomes.Add(r); return nil }); err != nil {
 		return err
 	}
-	sum := m.SummariseOutcomes(out, o.confidence, spec)
+	sum := m.SummariseOutcomes(outcomes, o.confidence, spec)
 	if o.out != "" {
-		if err := present.WriteOutcomeResults(o.out, sum, out, spec); err != nil {
+		if err := present.WriteOutcomeResults(o.out, sum, outcomes, spec); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "merged %d shards, %d realisations, into %s\n", len(dirs), out.Len(), o.out)
+		fmt.Fprintf(stderr, "merged %d shards, %d realisations, into %s\n", len(dirs), outcomes.Len(), o.out)
 	}
 	if o.json {
 		return present.WriteJSON(stdout, sum)
 	}
-	fmt.Fprintf(stdout, "Merged %d shards: %d realisations, seed %d, %s sampler\n\n", len(dirs), out.Len(), m.Seed, m.Sampler)
+	fmt.Fprintf(stdout, "Merged %d shards: %d realisations, seed %d, %s sampler\n\n", len(dirs), outcomes.Len(), m.Seed, m.Sampler)
 	return present.PrintSummary(stdout, sum)
 }

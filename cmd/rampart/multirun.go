@@ -26,6 +26,17 @@ func (o ensembleOptions) checkResumeDir() error {
 	return nil
 }
 
+// checkResumeRun refuses --resume DIR of a command that keeps one run in
+// DIR (run, qualify, sensitivity) when DIR holds no run, before anything
+// is written there: resuming takes the directory's lock, and a directory
+// that is not a run must not be left with a lock file in it.
+func (o ensembleOptions) checkResumeRun() error {
+	if err := o.checkResumeDir(); err != nil || o.resume == "" || mc.HasRun(o.resume) {
+		return err
+	}
+	return fmt.Errorf("--resume %s: it holds no run (no %s): give the directory of an interrupted run, or --out DIR with a new or empty directory to start one", o.resume, mc.ManifestFile)
+}
+
 // runPart runs the ensemble ens, one of several a command runs, in the
 // subdirectory sub of the options' directory (none without one). tag sets
 // its records apart from those of the others (see ensembleJob).

@@ -9,7 +9,9 @@ import (
 	"strings"
 	"syscall"
 
+	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/report"
+	"rampart/mc"
 )
 
 // Output paths are checked before any computation, so that a command never
@@ -18,19 +20,18 @@ import (
 
 // checkReportDir refuses --report DIR when report.html cannot be written
 // there: DIR (or the nearest part of it that exists) is not a directory,
-// or DIR/report.html is a directory.
+// or DIR/report.html is not a regular file (a directory, a FIFO, ...).
 func checkReportDir(dir string) error {
-	if dir == "" {
-		return nil
-	}
-	if err := checkDirPath(dir); err != nil {
-		return fmt.Errorf("--report %s: %w; give a directory for %s", dir, err, report.FileName)
-	}
-	if fi, err := os.Stat(filepath.Join(dir, report.FileName)); err == nil && fi.IsDir() {
-		return fmt.Errorf("--report %s: %s there is a directory; give another directory", dir, report.FileName)
-	}
-	return nil
+	o := outDir("--report", dir, report.FileName)
+	o.want = "a directory for " + report.FileName
+	return checkOutputPaths(o)
 }
+
+// runFiles are the files the ensemble commands write in a run directory
+// (and in the directory that holds the runs of rank, tolerance, scan and
+// edge): the store's, the summaries and the figures.
+var runFiles = []string{mc.ManifestFile, mc.RealisationsFile, mc.LockFile, present.SummaryFile, present.QualificationFile,
+	present.RankingFile, present.SensitivityFile, present.ToleranceCurvesFile, present.ScanCSVFile, present.ScanJSONFile, edgeFile, "*.png", "*.svg"}
 
 // checkDirPath checks that dir is a directory or can be made one: the
 // nearest ancestor that exists is a directory.
@@ -75,8 +76,10 @@ func checkOutDir(dir string) error {
 	if dir == "" {
 		return nil
 	}
-	if err := checkDirPath(dir); err != nil {
-		return fmt.Errorf("--out %s: %w; give a new or empty directory", dir, err)
+	o := outDir("--out", dir, runFiles...)
+	o.want = "a new or empty directory"
+	if err := checkOutputPaths(o); err != nil {
+		return err
 	}
 	entries, err := os.ReadDir(dir)
 	if err != nil || len(entries) == 0 {
@@ -110,7 +113,7 @@ func (o *ensembleOptions) checkOutputs() error {
 	if o.resume == "" {
 		return checkOutDir(o.out)
 	}
-	return nil
+	return checkOutputPaths(outDir("--resume", o.resume, runFiles...))
 }
 
 // checkNotInput refuses an output file (given by flag) that resolves to

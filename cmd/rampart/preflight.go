@@ -1,10 +1,17 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
 	"reflect"
+	"slices"
+	"syscall"
 
+	"rampart/internal/atomicfile"
 	"rampart/sim"
 )
 
@@ -99,4 +106,138 @@ func firstOrderModelBias(cfg sim.Config, base sim.Shot) (bias, ground float64) {
 	r := s.Run(sim.Shot{}, nil)
 	ground = min(r.GroundAfterRampUp[0], r.GroundAfterRampUp[1])
 	return pot.ExcitedBiasRad(cfg.Ring, cfg.TrapRadS(), ground), ground
+}
+
+// Output paths. Every path a command writes is checked here, before its
+// scenario is simulated, so that a run is never spent and then lost to an
+// output that cannot be written (README, exit codes: bad input exits 2
+// before anything runs). The messages name the flag that gave the path.
+
+// output is a path a command will write, named by the flag that gave it.
+type output struct {
+	flag string // such as "--report"
+	path string // the flag's value; "" when the flag is not given
+	// dir marks a directory, made if missing, into which the command
+	// writes files: the names in files, or filepath.Match patterns such as
+	// "*.png" for figures named after the results.
+	dir   bool
+	files []string
+	// beside are more files the flag's file brings along (a figure written
+	// beside a CSV file), checked as it is.
+	beside []string
+	// want says what the flag takes, for the message ("a directory for
+	// report.html"); empty for the default.
+	want string
+}
+
+// outFile is the output file path given by flag.
+func outFile(flag, path string) output { return output{flag: flag, path: path} }
+
+// outDir is the output directory given by flag, into which the command
+// writes files (names or patterns).
+func outDir(flag, dir string, files ...string) output {
+	return output{flag: flag, path: dir, dir: true, files: files}
+}
+
+// checkOutputPaths refuses the first output that cannot be written: a file
+// path that is a directory or a special file (FIFO, socket, device), or
+// whose directory is missing or not a directory; a directory path that is
+// not a directory (or lies under a file), or that holds a special file, or
+// a directory, where the command writes one of its files; two file flags
+// that name one file (the second write would replace the first).
+func checkOutputPaths(outs ...output) error {
+	for i, o := range outs {
+		if o.path == "" {
+			continue
+		}
+		var err error
+		if o.dir {
+			err = o.checkDir()
+		} else {
+			err = o.checkFile()
+			for _, b := range o.beside {
+				if err != nil {
+					break
+				}
+				if err = (output{path: b}).checkFile(); err != nil {
+					err = fmt.Errorf("%s, written beside it: %w", b, err)
+				}
+			}
+		}
+		if err != nil {
+			return fmt.Errorf("%s %s: %w", o.flag, o.path, err)
+		}
+		for _, p := range outs[:i] {
+			if !o.dir && !p.dir && p.path != "" && samePath(o.path, p.path) {
+				return fmt.Errorf("%s %s: the same file as %s %s; give each output its own file", o.flag, o.path, p.flag, p.path)
+			}
+		}
+	}
+	return nil
+}
+
+// checkFile checks an output file path (see checkOutputPaths); the error
+// does not repeat the flag and path.
+func (o output) checkFile() error {
+	target := o.path
+	fi, err := os.Lstat(target)
+	if err == nil && fi.Mode().Type() == fs.ModeSymlink {
+		if target, err = filepath.EvalSymlinks(o.path); err != nil {
+			return fmt.Errorf("a symbolic link that points to no file (%v); give the file itself", pathErr(err))
+		}
+		fi, err = os.Stat(target)
+	}
+	switch {
+	case err == nil && !fi.Mode().IsRegular():
+		return fmt.Errorf("it is %s, and rampart replaces only regular files; give a regular file or a new path", atomicfile.Kind(fi.Mode()))
+	case err == nil:
+		return nil
+	case !errors.Is(err, fs.ErrNotExist) && !errors.Is(err, syscall.ENOTDIR):
+		return fmt.Errorf("cannot use it: %v", pathErr(err))
+	}
+	parent := filepath.Dir(target)
+	if err := checkDirPath(parent); err != nil {
+		return fmt.Errorf("its directory %s: %w", parent, err)
+	}
+	if _, err := os.Stat(parent); err != nil {
+		return fmt.Errorf("its directory %s does not exist; create it first, or give a path in an existing directory", parent)
+	}
+	return nil
+}
+
+// checkDir checks an output directory and the files the command writes in
+// it (see checkOutputPaths); the error does not repeat the flag and path.
+func (o output) checkDir() error {
+	want := o.want
+	if want == "" {
+		want = "a directory"
+	}
+	if err := checkDirPath(o.path); err != nil {
+		return fmt.Errorf("%w; give %s", err, want)
+	}
+	entries, err := os.ReadDir(o.path)
+	if err != nil {
+		return nil // absent: it will be made
+	}
+	for _, e := range entries {
+		name := e.Name()
+		if !slices.ContainsFunc(o.files, func(pattern string) bool {
+			ok, _ := filepath.Match(pattern, name)
+			return ok
+		}) {
+			continue
+		}
+		path := filepath.Join(o.path, name)
+		fi, err := os.Stat(path) // a link is judged by what it points to
+		if err != nil {
+			if lfi, lerr := os.Lstat(path); lerr == nil && lfi.Mode().Type() == fs.ModeSymlink {
+				return fmt.Errorf("%s is a symbolic link that points to no file; remove it or give another directory", path)
+			}
+			return fmt.Errorf("%s: cannot use it: %v", path, pathErr(err))
+		}
+		if !fi.Mode().IsRegular() {
+			return fmt.Errorf("%s is %s; give a directory whose %s is a regular file or absent", path, atomicfile.Kind(fi.Mode()), name)
+		}
+	}
+	return nil
 }

@@ -109,6 +109,9 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 	if err := o.validate(); err != nil {
 		return err
 	}
+	if err := o.ens.checkResumeRun(); err != nil {
+		return err
+	}
 	req, err := readRequirements(o.spec, o.ens.confidence, confidenceGiven)
 	if err != nil {
 		return err

@@ -39,6 +39,9 @@ sequence's speed Omega(t) and angle phi(t) as CSV.`,
 }
 
 func runRamp(stdout, stderr io.Writer, o rampOptions) error {
+	if err := checkOutputPaths(outFile("--out", o.out)); err != nil {
+		return err
+	}
 	sc, cfg, err := scenario.LoadConfig(o.scenario, o.sets)
 	if err != nil {
 		return err

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -248,5 +249,25 @@ func TestRankMeasuredSignal(t *testing.T) {
 		if !strings.Contains(stdout, want) {
 			t.Errorf("output lacks %q", want)
 		}
+	}
+}
+
+// TestRankLostShots: with photon scattering at 20 /s per arm (set by
+// rate, the wavelength's rule off) many shots are lost, and the table
+// shows how many per ramp, the count the JSON summary carries.
+func TestRankLostShots(t *testing.T) {
+	args := append(append([]string{}, rankArgs[:len(rankArgs)-4]...), "--samples", "100", "--seed", "3",
+		"--set", "lattice.scattering_plus_per_s=20", "--set", "lattice.scattering_minus_per_s=20")
+	rep := rankJSON(t, args...)
+	lost := rep.Ramps[0].Summary.Lost
+	if lost == 0 || lost == 100 {
+		t.Fatalf("%d of 100 shots lost: the test needs some", lost)
+	}
+	stdout, stderr, code := execute(t, args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	if !strings.Contains(stdout, "Lost shots") || !strings.Contains(stdout, fmt.Sprintf(" %d (%s %%) |", lost, present.Sig(float64(lost), 2))) {
+		t.Errorf("the table does not show %d lost shots per ramp:\n%s", lost, stdout)
 	}
 }

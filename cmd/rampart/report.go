@@ -62,11 +62,11 @@ func commandLine(args []string) string {
 	return strings.Join(parts, " ")
 }
 
-// writeReport writes r to dir and says where.
+// writeReport writes r to dir, the value of --report, and says where.
 func writeReport(stderr io.Writer, r *report.Report, dir string) error {
 	path, err := r.Write(dir)
 	if err != nil {
-		return err
+		return fmt.Errorf("--report %s: %w", dir, err)
 	}
 	fmt.Fprintf(stderr, "wrote the report to %s\n", path)
 	return nil

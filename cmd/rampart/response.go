@@ -119,7 +119,12 @@ func (o responseOptions) validate() error {
 	case o.shares != nil && o.spec == "":
 		return errors.New("--band-share needs --spec (the shares split the spec's room)")
 	}
-	return nil
+	out := outDir("--out", o.out, present.ResponseKernelsFile, present.ResponseMaskFile, "*.png", "*.svg")
+	out.want = "a directory for the kernels and their figures"
+	if err := checkOutputPaths(out); err != nil {
+		return err
+	}
+	return checkReportDir(o.report)
 }
 
 func runResponse(e env, stdout, stderr io.Writer, o responseOptions) error {
@@ -153,10 +158,10 @@ func runResponse(e env, stdout, stderr io.Writer, o responseOptions) error {
 			fmt.Fprintln(stderr, "--confirm: the budget has no noise during the shot; nothing to confirm")
 		}
 	}
-	for _, dir := range []string{o.out, o.report} {
-		if dir != "" {
-			if err := os.MkdirAll(dir, 0o755); err != nil {
-				return fmt.Errorf("output directory: %w", err)
+	for _, out := range []struct{ flag, dir string }{{"--out", o.out}, {"--report", o.report}} {
+		if out.dir != "" {
+			if err := os.MkdirAll(out.dir, 0o755); err != nil {
+				return fmt.Errorf("%s %s: %w", out.flag, out.dir, pathErr(err))
 			}
 		}
 	}

@@ -126,6 +126,15 @@ func (o robustOptions) validate() error {
 	case o.objective == design.ObjectiveYield && o.spec == "":
 		return fmt.Errorf("--objective yield needs --spec FILE with yield limits")
 	}
+	history := outFile("--history", o.history)
+	if o.history != "" {
+		// The figure is written beside the history (RobustHistoryFigure).
+		base := strings.TrimSuffix(o.history, filepath.Ext(o.history))
+		history.beside = []string{base + ".svg", base + ".png"}
+	}
+	if err := checkOutputPaths(outFile("--write", o.write), history); err != nil {
+		return err
+	}
 	return checkReportDir(o.report)
 }
 
@@ -136,6 +145,11 @@ func runRobust(e env, stdout, stderr io.Writer, o robustOptions) error {
 	sc, cfg, budget, err := scenario.LoadBudget(o.scenario, o.sets)
 	if err != nil {
 		return err
+	}
+	for _, out := range []struct{ flag, path string }{{"--write", o.write}, {"--history", o.history}} {
+		if err := checkNotInput(out.flag, out.path, sc.Inputs()); err != nil {
+			return err
+		}
 	}
 	obj := design.Objective{Name: o.objective, K: o.k, Weight: o.weight}
 	if o.spec != "" {

@@ -70,6 +70,9 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 	if err := o.ens.validate(); err != nil {
 		return err
 	}
+	if err := o.ens.checkResumeRun(); err != nil {
+		return err
+	}
 	if err := checkReportDir(o.report); err != nil {
 		return err
 	}

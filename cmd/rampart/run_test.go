@@ -91,7 +91,7 @@ func TestRunBadInput(t *testing.T) {
 		{"bad confidence", []string{"run", "--scenario", ensembleScenario, "--confidence", "95", "--out", out}, "--confidence 95: want a level in (0, 1)"},
 		{"bad spec", []string{"run", "--scenario", ensembleScenario, "--min-contrast", "2", "--out", out}, "--min-contrast 2: want a contrast in [0, 1]"},
 		{"resume nothing", []string{"run", "--scenario", ensembleScenario, "--resume", out}, "no such directory, so nothing to resume; give --out "},
-		{"merge nothing", []string{"merge", out}, "is not an ensemble directory"},
+		{"merge nothing", []string{"merge", out}, out + " does not exist: give the run directories of the shards"},
 	} {
 		_, stderr, code := execute(t, row.args...)
 		if code != 2 {

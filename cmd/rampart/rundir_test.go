@@ -58,7 +58,7 @@ func TestSpecialOutputs(t *testing.T) {
 		args []string
 		want string
 	}{
-		{"ramp --out /dev/null", []string{"ramp", "--scenario", "testdata/scenarios/benchmark.toml", "--out", "/dev/null"}, `write "/dev/null": it is a device`},
+		{"ramp --out /dev/null", []string{"ramp", "--scenario", "testdata/scenarios/benchmark.toml", "--out", "/dev/null"}, `--out /dev/null: it is a device`},
 		{"ramp --out FIFO", []string{"ramp", "--scenario", "testdata/scenarios/benchmark.toml", "--out", fifo}, "a FIFO (named pipe)"},
 		{"ramp --out directory", []string{"ramp", "--scenario", "testdata/scenarios/benchmark.toml", "--out", dir}, "a directory"},
 		{"shot --trace FIFO", []string{"shot", "--scenario", "testdata/scenarios/benchmark.toml", "--trace", fifo}, "a FIFO (named pipe)"},

@@ -135,6 +135,9 @@ func runSbatch(e env, stdout, stderr io.Writer, line []string, o sbatchOptions) 
 	if _, err := os.Lstat(p.Script); err == nil {
 		return fmt.Errorf("--script %s: the file exists; remove it or name another", p.Script)
 	}
+	if err := checkOutputPaths(outFile("--script", p.Script)); err != nil {
+		return err
+	}
 	if p.Rate == 0 {
 		if o.probe < 1 {
 			return fmt.Errorf("--probe %d: want at least 1 realisation", o.probe)

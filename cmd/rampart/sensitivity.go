@@ -73,6 +73,9 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	if err := o.validate(); err != nil {
 		return err
 	}
+	if err := o.ens.checkResumeRun(); err != nil {
+		return err
+	}
 	if o.ens.scaleFactor {
 		return fmt.Errorf("--scale-factor: sensitivity apportions the contrast and the bias; measure the scale factor with run, qualify, rank or tolerance")
 	}

@@ -62,6 +62,9 @@ func addScenarioFlags(cmd *cobra.Command, path *string, sets *[]string) {
 }
 
 func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
+	if err := checkOutputPaths(outFile("--trace", o.trace)); err != nil {
+		return err
+	}
 	sc, cfg, err := scenario.LoadConfig(o.scenario, o.sets)
 	if err != nil {
 		return err

@@ -6,7 +6,11 @@
 // document nested deeper than a flat schema can use.
 package tomlguard
 
-import "fmt"
+import (
+	"bytes"
+	"fmt"
+	"unicode/utf8"
+)
 
 // MaxDepth is the deepest bracket nesting Check accepts: an array inside an
 // inline table inside an array ([[x]] headers count 2, a band [a, b] 1),
@@ -27,8 +31,15 @@ func (e *Error) Error() string { return fmt.Sprintf("line %d: %s", e.Line, e.Msg
 
 // Check scans data once, skipping strings and comments, and returns an
 // *Error at the first point where brackets ([ and {) nest deeper than
-// MaxDepth, or a line is longer than MaxLine bytes.
+// MaxDepth, or a line is longer than MaxLine bytes; before that, at the
+// first byte that is not UTF-8, which a TOML document must be (TOML 1.0,
+// "Spec": "A TOML file must be a valid UTF-8 encoded Unicode document").
+// The decoder would skip a UTF-16 byte-order mark and read on, and quote
+// invalid bytes elsewhere without their line.
 func Check(data []byte) error {
+	if err := checkUTF8(data); err != nil {
+		return err
+	}
 	line, lineStart, depth := 1, 0, 0
 	for i := 0; i < len(data); i++ {
 		c := data[i]
@@ -97,4 +108,24 @@ func skipString(data []byte, i int) (end, newlines int) {
 		j++
 	}
 	return len(data), newlines
+}
+
+// checkUTF8 returns an *Error at the first byte of data that is not UTF-8.
+func checkUTF8(data []byte) error {
+	if utf8.Valid(data) {
+		return nil
+	}
+	if bytes.HasPrefix(data, []byte("\xff\xfe")) || bytes.HasPrefix(data, []byte("\xfe\xff")) {
+		return &Error{1, "the file starts with a UTF-16 byte-order mark (bytes 0xff 0xfe or 0xfe 0xff): save it as UTF-8"}
+	}
+	for i := 0; i < len(data); {
+		r, n := utf8.DecodeRune(data[i:])
+		if r == utf8.RuneError && n <= 1 {
+			line := 1 + bytes.Count(data[:i], []byte("\n"))
+			col := i - (bytes.LastIndexByte(data[:i], '\n') + 1) + 1
+			return &Error{line, fmt.Sprintf("byte 0x%02x at column %d is not UTF-8: save the file as UTF-8", data[i], col)}
+		}
+		i += n
+	}
+	return nil
 }

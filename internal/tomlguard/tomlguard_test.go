@@ -17,6 +17,12 @@ func TestCheck(t *testing.T) {
 		{"nested inline tables", "a = {b = {c = {d = {e = {f = 1}}}}}\n", 1},
 		{"nested arrays after a multi-line string", "s = '''\n\n'''\nx = [[[[[1]]]]]\n", 4},
 		{"long line", "a = " + strings.Repeat("1", MaxLine+10) + "\n", 1},
+		// TOML 1.0: a document is valid UTF-8. A UTF-8 byte-order mark is
+		// UTF-8; a UTF-16 one, and a Latin-1 byte, are not.
+		{"UTF-8 byte-order mark", "\xef\xbb\xbfa = 1\n", 0},
+		{"UTF-16 byte-order mark", "\xff\xfea = 1\n", 1},
+		{"Latin-1 byte in a string", "a = 1\nb = 2\nc = \"caf\xe9\"\n", 3},
+		{"truncated sequence at the end", "a = 1\n# \xe2\x82", 2},
 	} {
 		err := Check([]byte(c.doc))
 		switch {

@@ -4,6 +4,7 @@
 package tomlpos
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"math"
@@ -15,6 +16,23 @@ import (
 
 	"github.com/BurntSushi/toml"
 )
+
+// ErrorLine returns the line of a decoding error of data. BurntSushi/toml
+// v1.6 reports an unexpected newline on the line after it ("[ring" on line
+// 1 came back as line 2, "got '\n'"), while its byte offset is right; the
+// line is counted here from the offset. The decoder drops a leading UTF-8
+// byte-order mark before counting offsets, which is added back. An offset
+// out of range keeps the decoder's line.
+func ErrorLine(data []byte, pos toml.Position) int {
+	start := pos.Start
+	if bytes.HasPrefix(data, []byte("\xef\xbb\xbf")) {
+		start += 3
+	}
+	if start < 0 || start >= len(data) {
+		return pos.Line
+	}
+	return 1 + bytes.Count(data[:start], []byte("\n"))
+}
 
 // Line returns the line of the key at path in data (decoded with metadata
 // md), or 0 if it cannot be told.

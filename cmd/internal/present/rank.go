@@ -88,10 +88,11 @@ func RankingGrid(rep RankReport) *Grid {
 	conf := fmt.Sprintf("%s %% interval", Sig(100*r.Confidence, 3))
 	f := metricFormat(r.Metric)
 	byName := map[string]RampReport{}
-	withGyro := false
+	withGyro, withLost := false, false
 	for _, rr := range rep.Ramps {
 		byName[rr.Name] = rr
 		withGyro = withGyro || rr.Gyro != nil
+		withLost = withLost || rr.Summary.Lost > 0
 	}
 	// The context columns, less the one the ranking's metric already is.
 	context := []string{"Mean contrast", "|bias| p95 (rad)", "|bias| p95 (deg/h)"}
@@ -101,6 +102,9 @@ func RankingGrid(rep RankReport) *Grid {
 		if keep[i] {
 			header = append(header, c)
 		}
+	}
+	if withLost {
+		header = append(header, "Lost shots")
 	}
 	if withGyro {
 		header = append(header, "ARW (deg/sqrt(h))")
@@ -118,6 +122,9 @@ func RankingGrid(rep RankReport) *Grid {
 			if keep[i] {
 				row = append(row, c)
 			}
+		}
+		if withLost {
+			row = append(row, lostCell(rr.Summary))
 		}
 		if withGyro {
 			arw := ""
@@ -141,10 +148,27 @@ func RankingNotes(rep RankReport) []string {
 	}
 	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %d realisations per ramp. Every statement holds simultaneously at %s %%: quantile and yield intervals are exact (order statistics, Clopper-Pearson) at 1 - (1 - c)/k for k ramps, and two ramps differ when their intervals do not overlap; mean differences are paired over the same noise draws with a max-type bootstrap over all pairs. A place is resolved when it is separated from every other ramp.",
 		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, Sig(100*r.Confidence, 3))}
+	for _, rr := range rep.Ramps {
+		if rr.Summary.Lost > 0 {
+			out = append(out, lostNote)
+			break
+		}
+	}
 	if g := rep.Ramps[0].Gyro; g != nil {
 		out = append(out, fmt.Sprintf("ARW: the angle random walk at each ramp's mean contrast, %s atoms per shot, one shot per %s s.", Sig(g.Atoms, 6), Sig(g.CycleS, 6)))
 	}
 	return out
+}
+
+// lostNote explains the lost-shots column of a ranking.
+const lostNote = "Lost shots: the realisations whose atom scattered a photon from the lattice light and left no fringe (docs/model.md, Perturbations); they count as contrast 0 in the contrast columns, which is why the mean contrast can lie below the 5th percentile, outside every yield, and not in the |bias| columns."
+
+// lostCell is the count of lost shots of an ensemble with its share.
+func lostCell(s mc.Summary) string {
+	if s.Samples == 0 {
+		return fmt.Sprint(s.Lost)
+	}
+	return fmt.Sprintf("%d (%s %%)", s.Lost, Sig(100*float64(s.Lost)/float64(s.Samples), 2))
 }
 
 // RampDefinition is what defined a ramp: its --ramp SPEC or its scenario

@@ -101,14 +101,16 @@ func (r *Report) HTML() ([]byte, error) {
 }
 
 // Write writes the page to dir/report.html, creating dir if needed, and
-// returns the file's path. The file is written whole or not at all.
+// returns the file's path. The file is written whole or not at all. An
+// error of the page is prefixed "report:"; one of the file system names
+// the path instead, for the caller to prefix with what gave dir.
 func (r *Report) Write(dir string) (string, error) {
 	html, err := r.HTML()
 	if err != nil {
 		return "", err
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return "", fmt.Errorf("report: %w", err)
+		return "", err
 	}
 	path := filepath.Join(dir, FileName)
 	err = atomicfile.Write(path, func(w io.Writer) error {
@@ -116,7 +118,7 @@ func (r *Report) Write(dir string) (string, error) {
 		return err
 	})
 	if err != nil {
-		return "", fmt.Errorf("report: %w", err)
+		return "", err
 	}
 	return path, nil
 }

@@ -149,7 +149,7 @@ func Parse(name string, data []byte) (mc.Requirements, error) {
 	if err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return mc.Requirements{}, &Error{File: name, Line: pe.Position.Line, Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, 80))}
+			return mc.Requirements{}, &Error{File: name, Line: tomlpos.ErrorLine(data, pe.Position), Err: fmt.Errorf("not valid TOML: %s", boundedread.Excerpt(pe.Message, 80))}
 		}
 		return mc.Requirements{}, &Error{File: name, Err: fmt.Errorf("not valid TOML: %w", err)}
 	}

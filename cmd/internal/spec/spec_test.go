@@ -85,6 +85,8 @@ func TestParseErrors(t *testing.T) {
 		{"no criterion", "confidence = 0.9\n", 0, "", []string{"no criterion", "scale_factor.abs_p95_max_ppm"}},
 		{"empty", "", 0, "", []string{"no criterion"}},
 		{"syntax", "[contrast]\np05_min = = 0.9\n", 2, "", []string{"not valid TOML"}},
+		{"unclosed table on line 1", "[contrast\np05_min = 0.9\n", 1, "", []string{"not valid TOML: expected '.' or ']' to end table name"}},
+		{"UTF-16 byte-order mark", "\xff\xfe[contrast]\np05_min = 0.9\n", 1, "", []string{"UTF-16 byte-order mark"}},
 		{"duplicate", "[contrast]\np05_min = 0.9\np05_min = 0.8\n", 3, "", []string{"not valid TOML"}},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
