@@ -60,10 +60,15 @@ func (o Objective) Validate() error {
 // Value returns the objective over the records (any order).
 func (o Objective) Value(recs []mc.Record) float64 {
 	c := make([]float64, len(recs))
-	b := make([]float64, len(recs))
+	b := make([]float64, 0, len(recs))
 	inside := 0
 	for i, r := range recs {
-		c[i], b[i] = r.Contrast, math.Abs(r.BiasRad)
+		// A lost shot (photon scattering) counts as contrast 0 and has no
+		// phase: it stays out of the bias quantile, as in mc.Summarise.
+		c[i] = r.Contrast
+		if !r.Lost() {
+			b = append(b, math.Abs(r.BiasRad))
+		}
 		if o.Spec.Inside(r) {
 			inside++
 		}
@@ -85,6 +90,9 @@ func (o Objective) Value(recs []mc.Record) float64 {
 	slices.Sort(c)
 	p05 := stats.QuantileSorted(c, 0.05)
 	if o.Name == ObjectiveBias {
+		if len(b) == 0 {
+			return p05 // every shot lost: no bias to weigh
+		}
 		slices.Sort(b)
 		return p05 - o.Weight*stats.QuantileSorted(b, 0.95)
 	}
