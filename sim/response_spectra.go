@@ -41,10 +41,11 @@ type opSpectra struct {
 	q2   [2]complex128
 }
 
-// spectra samples operator op (with optional second-order operator and
-// start kick, for the lattice displacement) along both arms and returns its
-// spectra.
-func (s *Simulator) spectra(rs *responseSetup, op responseOp, second, kick bool) *opSpectra {
+// spectraSampled samples operator op (with optional second-order operator
+// and start kick, for the lattice displacement) along both arms, cruise
+// included, and returns its spectra by FFTs of the samples: the reference
+// the closed form of the cruise (spectraClosed) is tested against.
+func (s *Simulator) spectraSampled(rs *responseSetup, op responseOp, second, kick bool) *opSpectra {
 	b := rs.b
 	dim := b.Size()
 	L, nt, h, M := rs.l, rs.nt, rs.h, rs.m

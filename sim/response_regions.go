@@ -1,0 +1,430 @@
+package sim
+
+import (
+	"math"
+)
+
+// rampSamples is one ramp's trapezoid rule: sample times and weights
+// (the step times 1/2 at both ends).
+type rampSamples struct {
+	t, w []float64
+}
+
+func newRampSamples(t0, t1, h float64) rampSamples {
+	var rs rampSamples
+	if t1 <= t0 {
+		return rs
+	}
+	n := max(2, int(math.Ceil((t1-t0)/h-1e-9)))
+	hr := (t1 - t0) / float64(n)
+	for j := 0; j <= n; j++ {
+		t := t0 + float64(j)*hr
+		if j == n {
+			t = t1
+		}
+		w := hr
+		if j == 0 || j == n {
+			w = hr / 2
+		}
+		rs.t = append(rs.t, t)
+		rs.w = append(rs.w, w)
+	}
+	return rs
+}
+
+// regionWalk propagates one arm's block unitary over its up ramp (samples
+// up.t), through the cruise in one exact step, and over its down ramp
+// (samples down.t), reporting U at each sample (region 0 up, 1 down). It
+// returns the cruise's frame and U(T).
+func (s *Simulator) regionWalk(p *propagator, d Drive, ramps [2]rampSamples, onRamp func(region, j int, u blockMat)) (*cruiseFrame, blockMat) {
+	b := s.basis
+	tm := d.times()
+	f := identityField(b)
+	tc := 0.0
+	to := func(t float64) {
+		if t > tc {
+			p.splitSteps(f, d, tc, t, max(1, s.steps(t-tc)))
+		}
+		tc = t
+	}
+	for j, t := range ramps[0].t {
+		to(t)
+		onRamp(0, j, unitaryOf(f))
+	}
+	to(tm[1])
+	es := diagonaliseFor(p, d.cruiseSpeed(), 1+d.DepthRel)
+	cf := newCruiseFrame(b, es, unitaryOf(f))
+	if tm[2] > tm[1] {
+		p.exactStep(f, cf.es, d.cruiseSpeed(), 1+d.DepthRel, tm[2]-tm[1])
+	}
+	tc = tm[2]
+	for j, t := range ramps[1].t {
+		to(t)
+		onRamp(1, j, unitaryOf(f))
+	}
+	to(tm[3])
+	return cf, unitaryOf(f)
+}
+
+// cruiseTerms are the terms A e^{i gap s} of a cruise series in the
+// cruise eigenbasis, component idx: A = (E^T W E)_{kk'} c_k', gap = g_k -
+// g_k', for the kept eigencomponents k' of the state c. Terms of one
+// component are contiguous; z = e^{i gap tau}.
+type cruiseTerms struct {
+	idx   []int
+	a     []complex128
+	gap   []float64
+	z     []complex128
+	start []int // per component, its first term; start[dim] = len(idx)
+}
+
+func newCruiseTerms(bs Basis, cf *cruiseFrame, we blockMat, c []complex128, keep []bool, tau float64) *cruiseTerms {
+	k, n := bs.Block, bs.Sites
+	ct := &cruiseTerms{start: make([]int, bs.Size()+1)}
+	for kk := range k {
+		for cl := range n {
+			i := n*kk + cl
+			ct.start[i] = len(ct.idx)
+			for kp := range k {
+				j := n*kp + cl
+				if !keep[j] {
+					continue
+				}
+				a := we[cl][kk*k+kp] * c[j]
+				if a == 0 {
+					continue
+				}
+				g := cf.es.vals[cl][kk] - cf.es.vals[cl][kp]
+				ct.idx = append(ct.idx, i)
+				ct.a = append(ct.a, a)
+				ct.gap = append(ct.gap, g)
+				ct.z = append(ct.z, cis(g*tau))
+			}
+		}
+	}
+	ct.start[bs.Size()] = len(ct.idx)
+	return ct
+}
+
+// transform sets out_k = sum A I1(gap - w) over the terms (the cruise's
+// transform int_0^tau e^{-i w s} y(s) ds), ew = e^{-i w tau}.
+func (ct *cruiseTerms) transform(w, tau float64, ew complex128, out []complex128) {
+	clear(out)
+	for t, i := range ct.idx {
+		x := ct.gap[t] - w
+		out[i] += ct.a[t] * phaseInt(x, tau, ct.z[t]*ew)
+	}
+}
+
+// armLevel is what one arm and start level contribute, in the arm's
+// cruise eigenbasis: the ramps' series of Y = W~ psi0 and Lambda = W~ m
+// (compressed), their ordered lag sums, the cruise's terms and the kick.
+type armLevel struct {
+	ramps   [2]rampSamples
+	y, l    [2]lowRank      // [region]
+	lagYY   [2][]complex128 // [region][lag] ordered lag sums of <Lambda|Y>
+	lkick   [2][]complex128 // [region][j] <Lambda_j|kick>
+	q       []complex128    // B^dagger m
+	ty, tl  *cruiseTerms
+	cc      []complex128 // per Y term: sum over Lambda terms of its component of conj(A) I1(g_k'' - g_k')
+	kick    []complex128 // B^dagger l psi0 (nil without a kick)
+	kick0   complex128   // <l m|l psi0>/2
+	t1, tau float64
+	q2      complex128
+	weight  float64
+}
+
+// spectraClosed returns the spectra of operator op as spectra does, with
+// the cruise in closed form (docs/model.md, "Noise transfer functions",
+// Computation): only the ramps are sampled, on their own trapezoid grids.
+func (s *Simulator) spectraClosed(rs *responseSetup, op responseOp, second, kick bool) *opSpectra {
+	b := rs.b
+	dim := b.Size()
+	lev := len(rs.starts)
+	M := rs.m
+	out := &opSpectra{}
+	for a := range 2 {
+		for sg := range 2 {
+			out.r[a][sg] = make([]complex128, M+1)
+			out.j[a][sg] = make([]complex128, M+1)
+		}
+	}
+	for sg := range 2 {
+		out.x[sg] = make([]complex128, M+1)
+	}
+	var arms [2][]*armLevel
+	var frames [2]*cruiseFrame
+	for a := range 2 {
+		arms[a], frames[a] = s.prepareArm(rs, a, op, second, kick)
+		for _, al := range arms[a] {
+			out.q2[a] += complex(al.weight, 0) * al.q2
+		}
+	}
+	mp := rs.mapBetween(frames)
+	dw := 2 * math.Pi / (float64(rs.l) * rs.h)
+	var ys [2][]complex128
+	for a := range 2 {
+		ys[a] = make([]complex128, dim)
+	}
+	ev := newArmEval(dim)
+	tmp := make([]complex128, dim)
+	for n := range lev {
+		pw := complex(rs.weights[n], 0)
+		for m := 0; m <= M; m++ {
+			for sg, w := range [2]float64{float64(m) * dw, -float64(m) * dw} {
+				for a := range 2 {
+					r, j := ev.eval(arms[a][n], w, ys[a])
+					out.r[a][sg][m] += pw * r
+					out.j[a][sg][m] += pw * j
+				}
+				mp.mul(b, ys[0], tmp)
+				out.x[sg][m] += pw * dot(ys[1], tmp)
+			}
+		}
+	}
+	return out
+}
+
+// mapBetween returns M' = B_-^dagger U_-(T)^dagger D U_+(T) B_+, the map M
+// between the two arms' cruise eigenbases.
+func (rs *responseSetup) mapBetween(cf [2]*cruiseFrame) blockMat {
+	b := rs.b
+	k, n, dim := b.Block, b.Sites, b.Size()
+	out := make(blockMat, n)
+	for c := range n {
+		out[c] = make([]complex128, k*k)
+	}
+	v, x, y := make([]complex128, dim), make([]complex128, dim), make([]complex128, dim)
+	for kk := range k {
+		clear(v)
+		for c := range n {
+			v[n*kk+c] = 1
+		}
+		cf[0].b.mul(b, v, x)
+		rs.ut[0].mul(b, x, y)
+		for i := range y {
+			y[i] *= cis(-float64(b.LMin()+i) * rs.da)
+		}
+		rs.ut[1].mulH(b, y, x)
+		cf[1].b.mulH(b, x, y)
+		for c := range n {
+			for i := range k {
+				out[c][i*k+kk] = y[n*i+c]
+			}
+		}
+	}
+	return out
+}
+
+// prepareArm samples arm a's ramps and sets up its cruise terms for every
+// start level.
+func (s *Simulator) prepareArm(rs *responseSetup, a int, op responseOp, second, kick bool) ([]*armLevel, *cruiseFrame) {
+	b := rs.b
+	dim := b.Size()
+	lev := len(rs.starts)
+	d := rs.drives[a]
+	tm := d.times()
+	ramps := [2]rampSamples{newRampSamples(0, tm[1], rs.h), newRampSamples(tm[2], tm[3], rs.h)}
+	// raw[n][region][which][j]: Y (which 0) and Lambda (1) in the time-0 picture.
+	raw := make([][2][2][][]complex128, lev)
+	q2r := make([]complex128, lev)
+	phi, wv := make([]complex128, dim), make([]complex128, dim)
+	cf, _ := s.regionWalk(rs.props[a], d, ramps, func(region, j int, u blockMat) {
+		for n := range lev {
+			for which, v := range [2][]complex128{rs.starts[n], rs.partner[a][n]} {
+				y := make([]complex128, dim)
+				u.mul(b, v, phi)
+				op.apply(b, rs.v0, phi, wv)
+				u.mulH(b, wv, y)
+				raw[n][region][which] = append(raw[n][region][which], y)
+			}
+			if second {
+				y := make([]complex128, dim)
+				u.mul(b, rs.starts[n], phi)
+				opCurvature.apply(b, rs.v0, phi, wv)
+				u.mul(b, rs.partner[a][n], y)
+				q2r[n] += complex(ramps[region].w[j], 0) * dot(y, wv)
+			}
+		}
+	})
+	t1, tau := tm[1], tm[2]-tm[1]
+	we := cf.operatorInEigenbasis(b, op, rs.v0)
+	var w2e blockMat
+	if second {
+		w2e = cf.operatorInEigenbasis(b, opCurvature, rs.v0)
+	}
+	var out []*armLevel
+	for n := range lev {
+		al := &armLevel{ramps: ramps, t1: t1, tau: tau, weight: rs.weights[n], q2: q2r[n]}
+		p := cf.eigenCoefficients(b, rs.starts[n])
+		al.q = cf.eigenCoefficients(b, rs.partner[a][n])
+		al.ty = newCruiseTerms(b, cf, we, p, pruneMask(p, responsePruneTol), tau)
+		al.tl = newCruiseTerms(b, cf, we, al.q, pruneMask(al.q, responsePruneTol), tau)
+		if kick {
+			yi, li := make([]complex128, dim), make([]complex128, dim)
+			opMomentum.apply(b, 0, rs.starts[n], yi)
+			opMomentum.apply(b, 0, rs.partner[a][n], li)
+			al.kick0 = 0.5 * dot(li, yi)
+			al.kick = make([]complex128, dim)
+			cf.b.mulH(b, yi, al.kick)
+		}
+		for region := range 2 {
+			var cols [2][][]complex128
+			for which := range 2 {
+				for _, v := range raw[n][region][which] {
+					e := make([]complex128, dim)
+					cf.b.mulH(b, v, e)
+					cols[which] = append(cols[which], e)
+				}
+			}
+			al.lagYY[region] = lagSums(cols[1], cols[0], ramps[region].w)
+			if kick {
+				for _, v := range cols[1] {
+					al.lkick[region] = append(al.lkick[region], dot(v, al.kick))
+				}
+			}
+			al.y[region] = lowRankOf(cols[0], responseRampTol)
+			al.l[region] = lowRankOf(cols[1], responseRampTol)
+		}
+		// cc per Y term (k, k'): sum over the Lambda terms (k, k'') of
+		// conj(A_L) I1(g_k'' - g_k') = conj(A_L) I1(gapY - gapL).
+		al.cc = make([]complex128, len(al.ty.idx))
+		for t, i := range al.ty.idx {
+			for u := al.tl.start[i]; u < al.tl.start[i+1]; u++ {
+				x := al.ty.gap[t] - al.tl.gap[u]
+				al.cc[t] += complexConj(al.tl.a[u]) * phaseInt(x, tau, cis(x*tau))
+			}
+		}
+		if second {
+			// int_0^tau <m|U^+ W2 U|psi0> ds = sum conj(q_k) W2_kk' p_k' I1(g_k - g_k').
+			k, nn := b.Block, b.Sites
+			for c := range nn {
+				for kk := range k {
+					for kp := range k {
+						x := cf.es.vals[c][kk] - cf.es.vals[c][kp]
+						al.q2 += complexConj(al.q[nn*kk+c]) * w2e[c][kk*k+kp] * p[nn*kp+c] * phaseInt(x, tau, cis(x*tau))
+					}
+				}
+			}
+		}
+		out = append(out, al)
+	}
+	return out, cf
+}
+
+// lagSums returns c(k) = sum_j w_{j+k} w_j <l_{j+k}|y_j>, k = 0 .. n-1,
+// c(0) halved: the trapezoid rule of the ordered double integral over one
+// ramp at lag k (the reference's rule, spectra).
+func lagSums(l, y [][]complex128, w []float64) []complex128 {
+	n := len(y)
+	out := make([]complex128, n)
+	for k := range n {
+		for j := 0; j+k < n; j++ {
+			out[k] += complex(w[j+k]*w[j], 0) * dot(l[j+k], y[j])
+		}
+	}
+	if n > 0 {
+		out[0] /= 2
+	}
+	return out
+}
+
+// armEval holds the work vectors of one evaluation.
+type armEval struct {
+	sy, sl, yu, yd, ld []complex128
+	z                  []complex128
+}
+
+func newArmEval(dim int) *armEval {
+	mk := func() []complex128 { return make([]complex128, dim) }
+	return &armEval{sy: mk(), sl: mk(), yu: mk(), yd: mk(), ld: mk()}
+}
+
+// rampTransform sets out = sum_j w_j e^{-i w t_j} v_j for the compressed
+// samples v.
+func (ev *armEval) rampTransform(lr lowRank, rp rampSamples, w float64, out []complex128) {
+	clear(out)
+	if len(lr.q) == 0 {
+		return
+	}
+	if cap(ev.z) < len(rp.t) {
+		ev.z = make([]complex128, len(rp.t))
+	}
+	z := ev.z[:len(rp.t)]
+	for j, t := range rp.t {
+		z[j] = complex(rp.w[j], 0) * cis(-w*t)
+	}
+	for i, row := range lr.r {
+		var c complex128
+		for j, x := range row {
+			c += x * z[j]
+		}
+		axpy(c, lr.q[i], out)
+	}
+}
+
+// eval returns R(w) = <m|Yhat(w)> and J(w) for one arm and level and sets
+// y to the arm's Yhat(w) (the kick included) in its cruise eigenbasis.
+func (ev *armEval) eval(al *armLevel, w float64, y []complex128) (complex128, complex128) {
+	tau := al.tau
+	ew := cis(-w * tau)
+	al.ty.transform(w, tau, ew, ev.sy)
+	al.tl.transform(w, tau, ew, ev.sl)
+	// J over cruise x cruise: A_Y (cc - conj(S_L,k)) / (i beta) far from
+	// resonance, the ordered integral I2 summed over the Lambda terms near it.
+	var jcc complex128
+	for t, i := range al.ty.idx {
+		beta := al.ty.gap[t] - w
+		if math.Abs(beta*tau) >= 0.5 {
+			jcc += al.ty.a[t] * (al.cc[t] - complexConj(ev.sl[i])) * complex(0, -1/beta)
+			continue
+		}
+		var s complex128
+		for u := al.tl.start[i]; u < al.tl.start[i+1]; u++ {
+			s += complexConj(al.tl.a[u]) * orderedPhaseInt(w-al.tl.gap[u], beta, tau)
+		}
+		jcc += al.ty.a[t] * s
+	}
+	e1 := cis(-w * al.t1)
+	ev.rampTransform(al.y[0], al.ramps[0], w, ev.yu)
+	ev.rampTransform(al.y[1], al.ramps[1], w, ev.yd)
+	ev.rampTransform(al.l[1], al.ramps[1], w, ev.ld)
+	var j complex128
+	// Same-region ramp pairs: their ordered lag sums.
+	for region := range 2 {
+		rp := al.ramps[region]
+		if len(rp.t) < 2 {
+			continue
+		}
+		hr := rp.t[1] - rp.t[0]
+		for k, c := range al.lagYY[region] {
+			j += cis(w*float64(k)*hr) * c
+		}
+	}
+	// Cross-region pairs (t later than t'): products of the transforms.
+	var jc, jd, jdc complex128
+	for i := range y {
+		scr := e1 * ev.sy[i]
+		lcr := e1 * ev.sl[i]
+		jc += complexConj(lcr) * ev.yu[i]
+		jd += complexConj(ev.ld[i]) * ev.yu[i]
+		jdc += complexConj(ev.ld[i]) * scr
+		y[i] = ev.yu[i] + scr + ev.yd[i]
+	}
+	j += jcc + jc + jd + jdc
+	if al.kick != nil {
+		// The kick at t = 0 precedes every sample: <Lambdahat(w)|kick>, and
+		// its own ordered square <l m|l psi0>/2.
+		var lk complex128
+		for region := range 2 {
+			for jj, v := range al.lkick[region] {
+				rp := al.ramps[region]
+				lk += complex(rp.w[jj], 0) * cis(w*rp.t[jj]) * v
+			}
+		}
+		lk += complexConj(e1) * dot(ev.sl, al.kick)
+		j += lk + al.kick0
+		axpy(1, al.kick, y)
+	}
+	return dot(al.q, y), j
+}
