@@ -146,13 +146,13 @@ func (k *Kernels) Channel(c Channel) *ChannelKernel {
 //	heating in far-off resonance optical traps", Phys. Rev. A 56, R1095
 //	(1997).
 func (s *Simulator) Kernels(maxHz float64) (*Kernels, error) {
-	return s.kernels(maxHz, s.spectraClosed)
+	return s.kernels(maxHz, s.closedSpectra)
 }
 
 // kernels is Kernels with the operators' spectra from spectra: the closed
-// form of the cruise (spectraClosed), or the sampled reference
+// form of the cruise (closedSpectra), or the sampled reference
 // (spectraSampled) the tests compare it with.
-func (s *Simulator) kernels(maxHz float64, spectra func(*responseSetup, responseOp, bool, bool) *opSpectra) (*Kernels, error) {
+func (s *Simulator) kernels(maxHz float64, spectra func(*responseSetup) [2]*opSpectra) (*Kernels, error) {
 	if maxHz < 0 || math.IsNaN(maxHz) || math.IsInf(maxHz, 0) {
 		return nil, fmt.Errorf("kernel band %g Hz is not a finite non-negative frequency (0 means the simulator's noise band)", maxHz)
 	}
@@ -175,8 +175,8 @@ func (s *Simulator) kernels(maxHz float64, spectra func(*responseSetup, response
 	for m := 0; m <= rs.m; m++ {
 		k.FrequencyHz = append(k.FrequencyHz, float64(m)*k.StepHz)
 	}
-	lattice := spectra(rs, opLattice, false, false)
-	slope := spectra(rs, opSlope, true, true)
+	sp := spectra(rs)
+	lattice, slope := sp[0], sp[1]
 	shift := rs.shiftSpectra()
 	n := float64(s.cfg.Ring.Sites)
 	for c := range numChannels {

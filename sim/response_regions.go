@@ -75,7 +75,8 @@ type cruiseTerms struct {
 	a     []complex128
 	gap   []float64
 	z     []complex128
-	start []int // per component, its first term; start[dim] = len(idx)
+	az    []complex128 // A z
+	start []int        // per component, its first term; start[dim] = len(idx)
 }
 
 func newCruiseTerms(bs Basis, cf *cruiseFrame, we blockMat, c []complex128, keep []bool, tau float64) *cruiseTerms {
@@ -99,6 +100,7 @@ func newCruiseTerms(bs Basis, cf *cruiseFrame, we blockMat, c []complex128, keep
 				ct.a = append(ct.a, a)
 				ct.gap = append(ct.gap, g)
 				ct.z = append(ct.z, cis(g*tau))
+				ct.az = append(ct.az, a*cis(g*tau))
 			}
 		}
 	}
@@ -110,9 +112,19 @@ func newCruiseTerms(bs Basis, cf *cruiseFrame, we blockMat, c []complex128, keep
 // transform int_0^tau e^{-i w s} y(s) ds), ew = e^{-i w tau}.
 func (ct *cruiseTerms) transform(w, tau float64, ew complex128, out []complex128) {
 	clear(out)
-	for t, i := range ct.idx {
-		x := ct.gap[t] - w
-		out[i] += ct.a[t] * phaseInt(x, tau, ct.z[t]*ew)
+	small := 1e-2 / tau
+	a := ct.a
+	az, gap := ct.az[:len(a)], ct.gap[:len(a)]
+	for t, i := range ct.idx[:len(a)] {
+		x := gap[t] - w
+		if math.Abs(x) < small {
+			out[i] += a[t] * phaseInt(x, tau, ct.z[t]*ew)
+			continue
+		}
+		// A (e^{i x tau} - 1) / (i x)
+		v := az[t]*ew - a[t]
+		r := 1 / x
+		out[i] += complex(imag(v)*r, -real(v)*r)
 	}
 }
 
@@ -134,31 +146,18 @@ type armLevel struct {
 	weight  float64
 }
 
-// spectraClosed returns the spectra of operator op as spectra does, with
-// the cruise in closed form (docs/model.md, "Noise transfer functions",
-// Computation): only the ramps are sampled, on their own trapezoid grids.
-func (s *Simulator) spectraClosed(rs *responseSetup, op responseOp, second, kick bool) *opSpectra {
+// closedSpectra returns the spectra of responseOps as spectraSampled
+// does, with the cruise in closed form (docs/model.md, "Noise transfer
+// functions", Computation): only the ramps are sampled, on their own
+// trapezoid grids.
+func (s *Simulator) closedSpectra(rs *responseSetup) [2]*opSpectra {
 	b := rs.b
 	dim := b.Size()
-	lev := len(rs.starts)
 	M := rs.m
-	out := &opSpectra{}
-	for a := range 2 {
-		for sg := range 2 {
-			out.r[a][sg] = make([]complex128, M+1)
-			out.j[a][sg] = make([]complex128, M+1)
-		}
-	}
-	for sg := range 2 {
-		out.x[sg] = make([]complex128, M+1)
-	}
-	var arms [2][]*armLevel
+	var arms [2][len(responseOps)][]*armLevel
 	var frames [2]*cruiseFrame
 	for a := range 2 {
-		arms[a], frames[a] = s.prepareArm(rs, a, op, second, kick)
-		for _, al := range arms[a] {
-			out.q2[a] += complex(al.weight, 0) * al.q2
-		}
+		arms[a], frames[a] = s.prepareArm(rs, a)
 	}
 	mp := rs.mapBetween(frames)
 	dw := 2 * math.Pi / (float64(rs.l) * rs.h)
@@ -168,21 +167,38 @@ func (s *Simulator) spectraClosed(rs *responseSetup, op responseOp, second, kick
 	}
 	ev := newArmEval(dim)
 	tmp := make([]complex128, dim)
-	for n := range lev {
-		pw := complex(rs.weights[n], 0)
-		for m := 0; m <= M; m++ {
-			for sg, w := range [2]float64{float64(m) * dw, -float64(m) * dw} {
-				for a := range 2 {
-					r, j := ev.eval(arms[a][n], w, ys[a])
-					out.r[a][sg][m] += pw * r
-					out.j[a][sg][m] += pw * j
-				}
-				mp.mul(b, ys[0], tmp)
-				out.x[sg][m] += pw * dot(ys[1], tmp)
+	var res [2]*opSpectra
+	for o := range responseOps {
+		out := &opSpectra{}
+		for a := range 2 {
+			for sg := range 2 {
+				out.r[a][sg] = make([]complex128, M+1)
+				out.j[a][sg] = make([]complex128, M+1)
+			}
+			for _, al := range arms[a][o] {
+				out.q2[a] += complex(al.weight, 0) * al.q2
 			}
 		}
+		for sg := range 2 {
+			out.x[sg] = make([]complex128, M+1)
+		}
+		for n, w0 := range rs.weights {
+			pw := complex(w0, 0)
+			for m := 0; m <= M; m++ {
+				for sg, w := range [2]float64{float64(m) * dw, -float64(m) * dw} {
+					for a := range 2 {
+						r, j := ev.eval(arms[a][o][n], w, ys[a])
+						out.r[a][sg][m] += pw * r
+						out.j[a][sg][m] += pw * j
+					}
+					mp.mul(b, ys[0], tmp)
+					out.x[sg][m] += pw * dot(ys[1], tmp)
+				}
+			}
+		}
+		res[o] = out
 	}
-	return out
+	return res
 }
 
 // mapBetween returns M' = B_-^dagger U_-(T)^dagger D U_+(T) B_+, the map M
@@ -216,100 +232,117 @@ func (rs *responseSetup) mapBetween(cf [2]*cruiseFrame) blockMat {
 	return out
 }
 
-// prepareArm samples arm a's ramps and sets up its cruise terms for every
-// start level.
-func (s *Simulator) prepareArm(rs *responseSetup, a int, op responseOp, second, kick bool) ([]*armLevel, *cruiseFrame) {
+// prepareArm samples arm a's ramps once and sets up, for every operator
+// of responseOps and every start level, its ramp series and cruise terms.
+func (s *Simulator) prepareArm(rs *responseSetup, a int) ([len(responseOps)][]*armLevel, *cruiseFrame) {
 	b := rs.b
 	dim := b.Size()
 	lev := len(rs.starts)
 	d := rs.drives[a]
 	tm := d.times()
 	ramps := [2]rampSamples{newRampSamples(0, tm[1], rs.h), newRampSamples(tm[2], tm[3], rs.h)}
-	// raw[n][region][which][j]: Y (which 0) and Lambda (1) in the time-0 picture.
-	raw := make([][2][2][][]complex128, lev)
-	q2r := make([]complex128, lev)
+	// raw[o][n][region][which][j]: Y (which 0) and Lambda (1) in the time-0 picture.
+	nops := len(responseOps)
+	raw := make([][][2][2][][]complex128, nops)
+	q2r := make([][]complex128, nops)
+	for o := range nops {
+		raw[o] = make([][2][2][][]complex128, lev)
+		q2r[o] = make([]complex128, lev)
+	}
 	phi, wv := make([]complex128, dim), make([]complex128, dim)
 	cf, _ := s.regionWalk(rs.props[a], d, ramps, func(region, j int, u blockMat) {
 		for n := range lev {
 			for which, v := range [2][]complex128{rs.starts[n], rs.partner[a][n]} {
-				y := make([]complex128, dim)
 				u.mul(b, v, phi)
-				op.apply(b, rs.v0, phi, wv)
-				u.mulH(b, wv, y)
-				raw[n][region][which] = append(raw[n][region][which], y)
+				for o, spec := range responseOps {
+					y := make([]complex128, dim)
+					spec.op.apply(b, rs.v0, phi, wv)
+					u.mulH(b, wv, y)
+					raw[o][n][region][which] = append(raw[o][n][region][which], y)
+				}
 			}
-			if second {
-				y := make([]complex128, dim)
-				u.mul(b, rs.starts[n], phi)
-				opCurvature.apply(b, rs.v0, phi, wv)
-				u.mul(b, rs.partner[a][n], y)
-				q2r[n] += complex(ramps[region].w[j], 0) * dot(y, wv)
+			for o, spec := range responseOps {
+				if spec.second {
+					y := make([]complex128, dim)
+					u.mul(b, rs.starts[n], phi)
+					opCurvature.apply(b, rs.v0, phi, wv)
+					u.mul(b, rs.partner[a][n], y)
+					q2r[o][n] += complex(ramps[region].w[j], 0) * dot(y, wv)
+				}
 			}
 		}
 	})
-	t1, tau := tm[1], tm[2]-tm[1]
-	we := cf.operatorInEigenbasis(b, op, rs.v0)
-	var w2e blockMat
-	if second {
-		w2e = cf.operatorInEigenbasis(b, opCurvature, rs.v0)
-	}
-	var out []*armLevel
-	for n := range lev {
-		al := &armLevel{ramps: ramps, t1: t1, tau: tau, weight: rs.weights[n], q2: q2r[n]}
-		p := cf.eigenCoefficients(b, rs.starts[n])
-		al.q = cf.eigenCoefficients(b, rs.partner[a][n])
-		al.ty = newCruiseTerms(b, cf, we, p, pruneMask(p, responsePruneTol), tau)
-		al.tl = newCruiseTerms(b, cf, we, al.q, pruneMask(al.q, responsePruneTol), tau)
-		if kick {
-			yi, li := make([]complex128, dim), make([]complex128, dim)
-			opMomentum.apply(b, 0, rs.starts[n], yi)
-			opMomentum.apply(b, 0, rs.partner[a][n], li)
-			al.kick0 = 0.5 * dot(li, yi)
-			al.kick = make([]complex128, dim)
-			cf.b.mulH(b, yi, al.kick)
+	var out [len(responseOps)][]*armLevel
+	for o, spec := range responseOps {
+		for n := range lev {
+			out[o] = append(out[o], prepareLevel(rs, a, n, cf, spec, ramps, raw[o][n], q2r[o][n]))
 		}
-		for region := range 2 {
-			var cols [2][][]complex128
-			for which := range 2 {
-				for _, v := range raw[n][region][which] {
-					e := make([]complex128, dim)
-					cf.b.mulH(b, v, e)
-					cols[which] = append(cols[which], e)
-				}
-			}
-			al.lagYY[region] = lagSums(cols[1], cols[0], ramps[region].w)
-			if kick {
-				for _, v := range cols[1] {
-					al.lkick[region] = append(al.lkick[region], dot(v, al.kick))
-				}
-			}
-			al.y[region] = lowRankOf(cols[0], responseRampTol)
-			al.l[region] = lowRankOf(cols[1], responseRampTol)
-		}
-		// cc per Y term (k, k'): sum over the Lambda terms (k, k'') of
-		// conj(A_L) I1(g_k'' - g_k') = conj(A_L) I1(gapY - gapL).
-		al.cc = make([]complex128, len(al.ty.idx))
-		for t, i := range al.ty.idx {
-			for u := al.tl.start[i]; u < al.tl.start[i+1]; u++ {
-				x := al.ty.gap[t] - al.tl.gap[u]
-				al.cc[t] += complexConj(al.tl.a[u]) * phaseInt(x, tau, cis(x*tau))
-			}
-		}
-		if second {
-			// int_0^tau <m|U^+ W2 U|psi0> ds = sum conj(q_k) W2_kk' p_k' I1(g_k - g_k').
-			k, nn := b.Block, b.Sites
-			for c := range nn {
-				for kk := range k {
-					for kp := range k {
-						x := cf.es.vals[c][kk] - cf.es.vals[c][kp]
-						al.q2 += complexConj(al.q[nn*kk+c]) * w2e[c][kk*k+kp] * p[nn*kp+c] * phaseInt(x, tau, cis(x*tau))
-					}
-				}
-			}
-		}
-		out = append(out, al)
 	}
 	return out, cf
+}
+
+// prepareLevel sets up one operator's terms for arm a and start level n
+// from the ramps' samples raw[region][which][j] (Y, Lambda).
+func prepareLevel(rs *responseSetup, a, n int, cf *cruiseFrame, spec opSpec, ramps [2]rampSamples, raw [2][2][][]complex128, q2 complex128) *armLevel {
+	b := rs.b
+	dim := b.Size()
+	tm := rs.drives[a].times()
+	t1, tau := tm[1], tm[2]-tm[1]
+	we := cf.operatorInEigenbasis(b, spec.op, rs.v0)
+	al := &armLevel{ramps: ramps, t1: t1, tau: tau, weight: rs.weights[n], q2: q2}
+	p := cf.eigenCoefficients(b, rs.starts[n])
+	al.q = cf.eigenCoefficients(b, rs.partner[a][n])
+	al.ty = newCruiseTerms(b, cf, we, p, pruneMask(p, responsePruneTol), tau)
+	al.tl = newCruiseTerms(b, cf, we, al.q, pruneMask(al.q, responsePruneTol), tau)
+	if spec.kick {
+		yi, li := make([]complex128, dim), make([]complex128, dim)
+		opMomentum.apply(b, 0, rs.starts[n], yi)
+		opMomentum.apply(b, 0, rs.partner[a][n], li)
+		al.kick0 = 0.5 * dot(li, yi)
+		al.kick = make([]complex128, dim)
+		cf.b.mulH(b, yi, al.kick)
+	}
+	for region := range 2 {
+		var cols [2][][]complex128
+		for which := range 2 {
+			for _, v := range raw[region][which] {
+				e := make([]complex128, dim)
+				cf.b.mulH(b, v, e)
+				cols[which] = append(cols[which], e)
+			}
+		}
+		al.lagYY[region] = lagSums(cols[1], cols[0], ramps[region].w)
+		if spec.kick {
+			for _, v := range cols[1] {
+				al.lkick[region] = append(al.lkick[region], dot(v, al.kick))
+			}
+		}
+		al.y[region] = lowRankOf(cols[0], responseRampTol)
+		al.l[region] = lowRankOf(cols[1], responseRampTol)
+	}
+	// cc per Y term (k, k'): sum over the Lambda terms (k, k'') of
+	// conj(A_L) I1(g_k'' - g_k') = conj(A_L) I1(gapY - gapL).
+	al.cc = make([]complex128, len(al.ty.idx))
+	for t, i := range al.ty.idx {
+		for u := al.tl.start[i]; u < al.tl.start[i+1]; u++ {
+			x := al.ty.gap[t] - al.tl.gap[u]
+			al.cc[t] += complexConj(al.tl.a[u]) * phaseInt(x, tau, cis(x*tau))
+		}
+	}
+	if spec.second {
+		// int_0^tau <m|U^+ W2 U|psi0> ds = sum conj(q_k) W2_kk' p_k' I1(g_k - g_k').
+		w2e := cf.operatorInEigenbasis(b, opCurvature, rs.v0)
+		k, nn := b.Block, b.Sites
+		for c := range nn {
+			for kk := range k {
+				for kp := range k {
+					x := cf.es.vals[c][kk] - cf.es.vals[c][kp]
+					al.q2 += complexConj(al.q[nn*kk+c]) * w2e[c][kk*k+kp] * p[nn*kp+c] * phaseInt(x, tau, cis(x*tau))
+				}
+			}
+		}
+	}
+	return al
 }
 
 // lagSums returns c(k) = sum_j w_{j+k} w_j <l_{j+k}|y_j>, k = 0 .. n-1,
