@@ -8,13 +8,17 @@ import (
 // responseRampTol is the relative truncation of a ramp's sampled series
 // (pivoted Gram-Schmidt, lowRankOf): every sample is kept to within this
 // share of the largest sample's norm.
-var responseRampTol = 1e-7
+var responseRampTol = 1e-5
 
 // responsePruneTol is the share of the norm of the state entering the
 // cruise (and of its partner) whose eigencomponents are dropped from the
 // cruise's closed forms (pruneMask): the smallest components whose
 // squared norms sum to at most responsePruneTol^2 of the total.
-var responsePruneTol = 1e-7
+var responsePruneTol = 1e-6
+
+// responseRampRefine is the number of ramp samples per sample step h of
+// the kernels' grid.
+var responseRampRefine = 1
 
 // lowRank is a set of n vectors v_j = sum_i q_i r[i][j] with orthonormal
 // q_i: a ramp's samples in few directions.

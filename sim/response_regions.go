@@ -240,7 +240,8 @@ func (s *Simulator) prepareArm(rs *responseSetup, a int) ([len(responseOps)][]*a
 	lev := len(rs.starts)
 	d := rs.drives[a]
 	tm := d.times()
-	ramps := [2]rampSamples{newRampSamples(0, tm[1], rs.h), newRampSamples(tm[2], tm[3], rs.h)}
+	hr := rs.h / float64(responseRampRefine)
+	ramps := [2]rampSamples{newRampSamples(0, tm[1], hr), newRampSamples(tm[2], tm[3], hr)}
 	// raw[o][n][region][which][j]: Y (which 0) and Lambda (1) in the time-0 picture.
 	nops := len(responseOps)
 	raw := make([][][2][2][][]complex128, nops)
@@ -365,7 +366,7 @@ func lagSums(l, y [][]complex128, w []float64) []complex128 {
 // armEval holds the work vectors of one evaluation.
 type armEval struct {
 	sy, sl, yu, yd, ld []complex128
-	z                  []complex128
+	c                  [2][]complex128 // per ramp, w_j e^{-i w t_j}
 }
 
 func newArmEval(dim int) *armEval {
@@ -373,26 +374,42 @@ func newArmEval(dim int) *armEval {
 	return &armEval{sy: mk(), sl: mk(), yu: mk(), yd: mk(), ld: mk()}
 }
 
-// rampTransform sets out = sum_j w_j e^{-i w t_j} v_j for the compressed
-// samples v.
-func (ev *armEval) rampTransform(lr lowRank, rp rampSamples, w float64, out []complex128) {
-	clear(out)
-	if len(lr.q) == 0 {
-		return
-	}
-	if cap(ev.z) < len(rp.t) {
-		ev.z = make([]complex128, len(rp.t))
-	}
-	z := ev.z[:len(rp.t)]
-	for j, t := range rp.t {
-		z[j] = complex(rp.w[j], 0) * cis(-w*t)
-	}
-	for i, row := range lr.r {
-		var c complex128
-		for j, x := range row {
-			c += x * z[j]
+// rampWeights sets ev.c[region] to the trapezoid weights of each ramp
+// times e^{-i w t_j} (by the recurrence e^{-i w t_{j+1}} = e^{-i w t_j}
+// e^{-i w h_r}, renewed every 64 samples).
+func (ev *armEval) rampWeights(rp [2]rampSamples, w float64) {
+	for region, r := range rp {
+		n := len(r.t)
+		if cap(ev.c[region]) < n {
+			ev.c[region] = make([]complex128, n)
 		}
-		axpy(c, lr.q[i], out)
+		c := ev.c[region][:n]
+		if n == 0 {
+			ev.c[region] = c
+			continue
+		}
+		step := cis(-w * (r.t[min(1, n-1)] - r.t[0]))
+		var e complex128
+		for j, t := range r.t {
+			if j%64 == 0 {
+				e = cis(-w * t)
+			}
+			c[j] = complex(r.w[j], 0) * e
+			e *= step
+		}
+		ev.c[region] = c
+	}
+}
+
+// rampTransform sets out = sum_j c_j v_j for the compressed samples v.
+func rampTransform(lr lowRank, c, out []complex128) {
+	clear(out)
+	for i, row := range lr.r {
+		var s complex128
+		for j, x := range row[:len(c)] {
+			s += x * c[j]
+		}
+		axpy(s, lr.q[i], out)
 	}
 }
 
@@ -419,9 +436,10 @@ func (ev *armEval) eval(al *armLevel, w float64, y []complex128) (complex128, co
 		jcc += al.ty.a[t] * s
 	}
 	e1 := cis(-w * al.t1)
-	ev.rampTransform(al.y[0], al.ramps[0], w, ev.yu)
-	ev.rampTransform(al.y[1], al.ramps[1], w, ev.yd)
-	ev.rampTransform(al.l[1], al.ramps[1], w, ev.ld)
+	ev.rampWeights(al.ramps, w)
+	rampTransform(al.y[0], ev.c[0], ev.yu)
+	rampTransform(al.y[1], ev.c[1], ev.yd)
+	rampTransform(al.l[1], ev.c[1], ev.ld)
 	var j complex128
 	// Same-region ramp pairs: their ordered lag sums.
 	for region := range 2 {
@@ -451,8 +469,7 @@ func (ev *armEval) eval(al *armLevel, w float64, y []complex128) (complex128, co
 		var lk complex128
 		for region := range 2 {
 			for jj, v := range al.lkick[region] {
-				rp := al.ramps[region]
-				lk += complex(rp.w[jj], 0) * cis(w*rp.t[jj]) * v
+				lk += complexConj(ev.c[region][jj]) * v
 			}
 		}
 		lk += complexConj(e1) * dot(ev.sl, al.kick)
