@@ -69,15 +69,16 @@ func absIntegral(x []float64, step float64) float64 {
 // with an adiabatic sin2 ramp of 150 us, the inverse-engineered ramp, and
 // a non-adiabatic sin2 ramp of 30 us (a quarter of a trap period, which
 // leaves the atoms spread over many bands: most eigenstates of the cruise
-// carry weight). Both are trapezoid rules on the ramps at the same step;
-// the reference's also crosses the cruise, which the closed form
-// integrates exactly. Measured: up to 8.6e-5 of a kernel's peak and
-// 1.9e-4 of its integral (the sin2 ramp's intensity contrast kernels;
-// 3.3e-5 and 2.6e-5 for the inverse ramp, 3.6e-6 and 1.1e-5 for the short
-// one). Halving and quartering the closed form's ramp step moved it by
-// 3.7e-5 of the peak (its own error, falling as h^2), and left it 5e-5
-// from the reference (the reference's error). Tolerances 2e-4 of the peak
-// and 4e-4 of the integral.
+// carry weight). The closed form integrates the cruise exactly and the
+// ramps by Gregory's end-corrected trapezoid rule (gregoryWeights); the
+// reference uses the trapezoid rule across the whole sequence, with an
+// error of order (omega h)^2/12 on each Bohr component. Measured: up to
+// 5.3e-5 of a kernel's peak and 1.9e-4 of its integral (the sin2 ramp's
+// intensity contrast kernels; 3.3e-6 and 2.6e-5 for the 30 us ramp).
+// Halving and quartering the closed form's ramp step moved it by at most
+// 1.1e-6 of the peak and left it 2.9e-5 to 5.1e-5 from the reference: the
+// difference is the reference's error. Tolerances 2e-4 of the peak and
+// 4e-4 of the integral.
 func TestKernelsClosedAgreeSampled(t *testing.T) {
 	for _, tc := range []struct {
 		shape string
