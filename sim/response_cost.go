@@ -16,8 +16,10 @@ import (
 //     Block^2 per class (index, amplitude, gap and two phases, 64 bytes,
 //     plus 16 for the cross sums of the ordered integral);
 //   - the spectra on the frequency grid: 10 complex values per frequency
-//     and operator (R and J per arm and sign, X per sign), and the kernels
-//     themselves (two real values per channel and frequency).
+//     and operator (R and J per arm and sign, X per sign; the two sampled
+//     operators and the closed-form shift), the rotation's transform (one
+//     complex value) and the kernels themselves (two real values per
+//     channel and the frequency).
 //
 // Only the last grows with the sequence's duration T (the grid's M+1
 // frequencies, M about 4 T times the band); the ramps' part grows with the
@@ -57,6 +59,6 @@ func (s *Simulator) KernelsBytes(maxHz float64) int64 {
 	}
 	ramps := 3 * nops * lev * 2 * samples * dim * c
 	terms := 2 * nops * lev * 2 * int64(b.Block) * dim * 80
-	grid := (m+1)*(10*nops*c) + (m+1)*8*(2*int64(numChannels)+1)
+	grid := (m+1)*(10*(nops+1)*c+c) + (m+1)*8*(2*int64(numChannels)+1)
 	return ramps + terms + grid
 }
