@@ -192,3 +192,49 @@ func TestKernelsTruncation(t *testing.T) {
 		}
 	}
 }
+
+// TestKernelsHundredLaps computes the kernels of 100 laps of the
+// benchmark ring (T = 1.26 s), whose sampled series would have needed
+// about 29 GB, and checks them at zero frequency against static depth
+// errors as TestResponseStaticLimit does: |H(0)| against the finite
+// difference of the phase in a differential depth error eps, and the
+// contrast kernel at 0 against -C''(eps)/2, by shots with eps = +-d/2
+// (Run, independent of the kernels). The slope grows with T (1.5e5 rad
+// per unit), so d = 3e-7: the difference quotient's truncation, measured
+// by its growth as d^2 (6e-3 at d = 4e-6, 3.8e-4 at 1e-6), is then 3e-5
+// of the curvature. Measured: 5e-8 relative in the slope and 7.7e-5 in the
+// curvature; tolerances 5e-7 and 3e-4. The band is cut at 50 Hz: the
+// grid's length, not the memory, is what grows with the laps
+// (KernelsBytes, checked below 150 MiB for the whole noise band).
+func TestKernelsHundredLaps(t *testing.T) {
+	if testing.Short() {
+		t.Skip("100 laps: about 0.3 s")
+	}
+	s, err := NewSimulator(benchConfig(t, 100))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if est := s.KernelsBytes(0); est > 150<<20 {
+		t.Errorf("100 laps: kernels estimated at %d MiB, want below 150", est>>20)
+	}
+	k, err := s.Kernels(50)
+	if err != nil {
+		t.Fatal(err)
+	}
+	nom := s.Run(Shot{}, nil)
+	const d = 3e-7
+	p := s.Run(Shot{DepthRel: [2]float64{d / 2, -d / 2}}, nil)
+	m := s.Run(Shot{DepthRel: [2]float64{-d / 2, d / 2}}, nil)
+	slope := math.Abs(Wrap(p.PhaseRad-m.PhaseRad) / (2 * d))
+	curv := (p.Contrast + m.Contrast - 2*nom.Contrast) / (d * d)
+	kd := k.Channel(IntensityDifferential)
+	g0 := math.Sqrt(kd.Bias[0])
+	t.Logf("100 laps, %d frequencies: |dPhi/deps| %.8g, kernel %.8g (%.2g); -C''/2 %.8g, kernel %.8g (%.2g); KernelsBytes(0) %d MiB",
+		len(k.FrequencyHz), slope, g0, g0/slope-1, -curv/2, kd.Contrast[0], -kd.Contrast[0]/(curv/2)-1, s.KernelsBytes(0)>>20)
+	if math.Abs(g0-slope) > 5e-7*slope {
+		t.Errorf("|H(0)| = %.8g, finite difference %.8g (tol 5e-7 relative)", g0, slope)
+	}
+	if math.Abs(kd.Contrast[0]+curv/2) > 3e-4*math.Abs(curv/2) {
+		t.Errorf("contrast kernel at 0 %.8g, -C''/2 = %.8g (tol 3e-4 relative)", kd.Contrast[0], -curv/2)
+	}
+}
