@@ -198,7 +198,7 @@ func TestKernelsTruncation(t *testing.T) {
 // about 29 GB, and checks them at zero frequency against static depth
 // errors as TestResponseStaticLimit does: |H(0)| against the finite
 // difference of the phase in a differential depth error eps, and the
-// contrast kernel at 0 against -C”(eps)/2, by shots with eps = +-d/2
+// contrast kernel at 0 against -(d^2 C/d eps^2)/2, by shots with eps = +-d/2
 // (Run, independent of the kernels). The slope grows with T (1.5e5 rad
 // per unit), so d = 3e-7: the difference quotient's truncation, measured
 // by its growth as d^2 (6e-3 at d = 4e-6, 3.8e-4 at 1e-6), is then 3e-5
