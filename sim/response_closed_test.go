@@ -238,3 +238,33 @@ func TestKernelsHundredLaps(t *testing.T) {
 		t.Errorf("contrast kernel at 0 %.8g, -C''/2 = %.8g (tol 3e-4 relative)", kd.Contrast[0], -curv/2)
 	}
 }
+
+// TestGregoryWeights checks the ramps' quadrature weights (gregoryWeights)
+// by the property that defines them: on n+1 equally spaced points of
+// [0, n] they integrate 1, x, x^2 and x^3 exactly (int_0^n x^p dx =
+// n^{p+1}/(p+1); Simpson's 3/8, Boole's and Gregory's end-corrected
+// trapezoid rules are exact for cubics, W. H. Press et al., Numerical
+// Recipes, 3rd ed., sec. 4.1, from memory), except n = 1 (the trapezoid
+// rule: exact for lines only). Tolerance 1e-12 relative (rounding).
+func TestGregoryWeights(t *testing.T) {
+	for n := 1; n <= 12; n++ {
+		w := gregoryWeights(n)
+		if len(w) != n+1 {
+			t.Fatalf("n = %d: %d weights, want %d", n, len(w), n+1)
+		}
+		top := 3
+		if n == 1 {
+			top = 1
+		}
+		for p := 0; p <= top; p++ {
+			var got float64
+			for j, x := range w {
+				got += x * math.Pow(float64(j), float64(p))
+			}
+			want := math.Pow(float64(n), float64(p+1)) / float64(p+1)
+			if math.Abs(got-want) > 1e-12*want {
+				t.Errorf("n = %d: sum w_j j^%d = %.15g, want %.15g", n, p, got, want)
+			}
+		}
+	}
+}
