@@ -169,7 +169,7 @@ type armLevel struct {
 	lkick   [2][]complex128 // [region][j] <Lambda_j|kick>
 	q       []complex128    // B^dagger m
 	ty, tl  *cruiseTerms
-	cc      []complex128 // per Y term: sum over Lambda terms of its component of conj(A) I1(g_k'' - g_k')
+	acc     []complex128 // per Y term A: A times the sum over the Lambda terms of its component of conj(A_L) I1(g_k'' - g_k')
 	kick    []complex128 // B^dagger l psi0 (nil without a kick)
 	kick0   complex128   // <l m|l psi0>/2
 	t1, tau float64
@@ -352,14 +352,16 @@ func prepareLevel(rs *responseSetup, a, n int, cf *cruiseFrame, spec opSpec, ram
 		al.y[region] = lowRankOf(cols[0], responseRampTol)
 		al.l[region] = lowRankOf(cols[1], responseRampTol)
 	}
-	// cc per Y term (k, k'): sum over the Lambda terms (k, k'') of
-	// conj(A_L) I1(g_k'' - g_k') = conj(A_L) I1(gapY - gapL).
-	al.cc = make([]complex128, len(al.ty.idx))
+	// acc per Y term (k, k'): A times the sum over the Lambda terms (k, k'')
+	// of conj(A_L) I1(g_k'' - g_k') = conj(A_L) I1(gapY - gapL).
+	al.acc = make([]complex128, len(al.ty.idx))
 	for t, i := range al.ty.idx {
+		var cc complex128
 		for u := al.tl.start[i]; u < al.tl.start[i+1]; u++ {
 			x := al.ty.gap[t] - al.tl.gap[u]
-			al.cc[t] += complexConj(al.tl.a[u]) * phaseInt(x, tau, cis(x*tau))
+			cc += complexConj(al.tl.a[u]) * phaseInt(x, tau, cis(x*tau))
 		}
+		al.acc[t] = al.ty.a[t] * cc
 	}
 	if spec.second {
 		// int_0^tau <m|U^+ W2 U|psi0> ds = sum conj(q_k) W2_kk' p_k' I1(g_k - g_k').
@@ -464,7 +466,10 @@ func (ev *armEval) eval(al *armLevel, w float64, y []complex128) (complex128, co
 	for t, i := range al.ty.idx {
 		beta := al.ty.gap[t] - w
 		if math.Abs(beta*tau) >= 0.5 {
-			jcc += al.ty.a[t] * (al.cc[t] - complexConj(ev.sl[i])) * complex(0, -1/beta)
+			// (A cc - A conj(S_L)) (-i/beta)
+			v := al.acc[t] - al.ty.a[t]*complexConj(ev.sl[i])
+			r := 1 / beta
+			jcc += complex(imag(v)*r, -real(v)*r)
 			continue
 		}
 		var s complex128
