@@ -350,7 +350,11 @@ func prepareLevel(rs *responseSetup, a, n int, cf *cruiseFrame, spec opSpec, ram
 			}
 		}
 		al.y[region] = lowRankOf(cols[0], responseRampTol)
-		al.l[region] = lowRankOf(cols[1], responseRampTol)
+		if region == 1 {
+			// Lambda's transform is needed on the down ramp only (J_du, J_dc);
+			// on the up ramp its ordered lag sums and the kick's overlaps do.
+			al.l[region] = lowRankOf(cols[1], responseRampTol)
+		}
 	}
 	// acc per Y term (k, k'): A times the sum over the Lambda terms (k, k'')
 	// of conj(A_L) I1(g_k'' - g_k') = conj(A_L) I1(gapY - gapL).
