@@ -2,7 +2,6 @@ package sim
 
 import (
 	"math"
-	"sort"
 )
 
 // responseRampTol is the relative truncation of a ramp's sampled series
@@ -10,10 +9,11 @@ import (
 // share of the largest sample's norm.
 var responseRampTol = 1e-5
 
-// responsePruneTol is the share of the norm of the state entering the
-// cruise (and of its partner) whose eigencomponents are dropped from the
-// cruise's closed forms (pruneMask): the smallest components whose
-// squared norms sum to at most responsePruneTol^2 of the total.
+// responsePruneTol prunes the cruise's closed forms: of the terms
+// A_kk' e^{i (g_k - g_k') s} of a cruise series (newCruiseTerms), the
+// smallest whose moduli add up to at most responsePruneTol times the
+// terms' root-sum-square are dropped, which moves the series by at most
+// that at every instant.
 var responsePruneTol = 1e-6
 
 // responseRampRefine is the number of ramp samples per sample step h of
@@ -94,33 +94,6 @@ func axpy(a complex128, x, y []complex128) {
 	for i, v := range x {
 		y[i] += a * v
 	}
-}
-
-// pruneMask reports which entries of v are kept: all but the smallest,
-// whose squared moduli sum to at most tol^2 |v|^2.
-func pruneMask(v []complex128, tol float64) []bool {
-	idx := make([]int, len(v))
-	a := make([]float64, len(v))
-	var total float64
-	for i, x := range v {
-		idx[i] = i
-		a[i] = real(x)*real(x) + imag(x)*imag(x)
-		total += a[i]
-	}
-	sort.Slice(idx, func(i, j int) bool { return a[idx[i]] < a[idx[j]] })
-	keep := make([]bool, len(v))
-	for i := range keep {
-		keep[i] = true
-	}
-	var cum float64
-	for _, i := range idx {
-		if cum+a[i] > tol*tol*total {
-			break
-		}
-		cum += a[i]
-		keep[i] = false
-	}
-	return keep
 }
 
 // phaseInt returns I1(x) = int_0^tau e^{i x s} ds given e = e^{i x tau}, by

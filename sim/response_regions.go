@@ -2,6 +2,7 @@ package sim
 
 import (
 	"math"
+	"sort"
 )
 
 // rampSamples is one ramp's quadrature: sample times t_j = t0 + j h_r,
@@ -99,8 +100,9 @@ func (s *Simulator) regionWalk(p *propagator, d Drive, ramps [2]rampSamples, onR
 
 // cruiseTerms are the terms A e^{i gap s} of a cruise series in the
 // cruise eigenbasis, component idx: A = (E^T W E)_{kk'} c_k', gap = g_k -
-// g_k', for the kept eigencomponents k' of the state c. Terms of one
-// component are contiguous; z = e^{i gap tau}.
+// g_k', for the state c's eigencomponents k', the smallest pruned (see
+// responsePruneTol). Terms of one component are contiguous; z = e^{i gap
+// tau}.
 type cruiseTerms struct {
 	idx   []int
 	a     []complex128
@@ -110,20 +112,40 @@ type cruiseTerms struct {
 	start []int        // per component, its first term; start[dim] = len(idx)
 }
 
-func newCruiseTerms(bs Basis, cf *cruiseFrame, we blockMat, c []complex128, keep []bool, tau float64) *cruiseTerms {
+func newCruiseTerms(bs Basis, cf *cruiseFrame, we blockMat, c []complex128, tol, tau float64) *cruiseTerms {
 	k, n := bs.Block, bs.Sites
+	// The smallest terms whose moduli add up to at most tol times the
+	// terms' root-sum-square are dropped: the series moves by at most that
+	// at every instant of the cruise.
+	var mods []float64
+	var ss float64
+	for cl := range n {
+		for kk := range k {
+			for kp := range k {
+				if a := cmplxAbs(we[cl][kk*k+kp] * c[n*kp+cl]); a > 0 {
+					mods = append(mods, a)
+					ss += a * a
+				}
+			}
+		}
+	}
+	sort.Float64s(mods)
+	cut, cum := 0.0, 0.0
+	for _, a := range mods {
+		cut = a
+		if cum+a > tol*math.Sqrt(ss) {
+			break
+		}
+		cum += a
+	}
 	ct := &cruiseTerms{start: make([]int, bs.Size()+1)}
 	for kk := range k {
 		for cl := range n {
 			i := n*kk + cl
 			ct.start[i] = len(ct.idx)
 			for kp := range k {
-				j := n*kp + cl
-				if !keep[j] {
-					continue
-				}
-				a := we[cl][kk*k+kp] * c[j]
-				if a == 0 {
+				a := we[cl][kk*k+kp] * c[n*kp+cl]
+				if a == 0 || cmplxAbs(a) < cut {
 					continue
 				}
 				g := cf.es.vals[cl][kk] - cf.es.vals[cl][kp]
@@ -324,8 +346,8 @@ func prepareLevel(rs *responseSetup, a, n int, cf *cruiseFrame, spec opSpec, ram
 	al := &armLevel{ramps: ramps, t1: t1, tau: tau, weight: rs.weights[n], q2: q2}
 	p := cf.eigenCoefficients(b, rs.starts[n])
 	al.q = cf.eigenCoefficients(b, rs.partner[a][n])
-	al.ty = newCruiseTerms(b, cf, we, p, pruneMask(p, responsePruneTol), tau)
-	al.tl = newCruiseTerms(b, cf, we, al.q, pruneMask(al.q, responsePruneTol), tau)
+	al.ty = newCruiseTerms(b, cf, we, p, responsePruneTol, tau)
+	al.tl = newCruiseTerms(b, cf, we, al.q, responsePruneTol, tau)
 	if spec.kick {
 		yi, li := make([]complex128, dim), make([]complex128, dim)
 		opMomentum.apply(b, 0, rs.starts[n], yi)
