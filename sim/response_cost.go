@@ -23,8 +23,11 @@ import (
 //
 // Only the last grows with the sequence's duration T (the grid's M+1
 // frequencies, M about 4 T times the band); the ramps' part grows with the
-// ramps' duration. It costs two diagonalisations of the cruise
-// Hamiltonian (to find the sample step) and the start levels.
+// ramps' duration. On the benchmark ring the peak live heap (sampled every
+// 20 ms at GOGC=10) was 0.59, 0.52, 0.54, 0.42 and 0.82 of this estimate
+// at 0.5, 1, 2, 10 and 100 laps (8.4, 7.7, 8.3, 9.3 and 84.9 MB). It
+// costs two diagonalisations of the cruise Hamiltonian (to find the sample
+// step) and the start levels.
 func (s *Simulator) KernelsBytes(maxHz float64) int64 {
 	cfg, b := s.cfg, s.basis
 	v0 := 2 * math.Pi * cfg.DepthHz
