@@ -16,10 +16,6 @@ var responseRampTol = 1e-5
 // that at every instant.
 var responsePruneTol = 1e-6
 
-// responseRampRefine is the number of ramp samples per sample step h of
-// the kernels' grid.
-var responseRampRefine = 1
-
 // lowRank is a set of n vectors v_j = sum_i q_i r[i][j] with orthonormal
 // q_i: a ramp's samples in few directions.
 type lowRank struct {

@@ -57,8 +57,7 @@ func (s *Simulator) KernelsBytes(maxHz float64) int64 {
 	var samples int64
 	for _, d := range drives {
 		t := d.times()
-		hr := h / float64(responseRampRefine)
-		samples += int64(len(newRampSamples(0, t[1], hr).t) + len(newRampSamples(t[2], t[3], hr).t))
+		samples += int64(len(newRampSamples(0, t[1], h).t) + len(newRampSamples(t[2], t[3], h).t))
 	}
 	ramps := 3 * nops * lev * 2 * samples * dim * c
 	terms := 2 * nops * lev * 2 * int64(b.Block) * dim * 80

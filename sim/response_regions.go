@@ -293,8 +293,7 @@ func (s *Simulator) prepareArm(rs *responseSetup, a int) ([len(responseOps)][]*a
 	lev := len(rs.starts)
 	d := rs.drives[a]
 	tm := d.times()
-	hr := rs.h / float64(responseRampRefine)
-	ramps := [2]rampSamples{newRampSamples(0, tm[1], hr), newRampSamples(tm[2], tm[3], hr)}
+	ramps := [2]rampSamples{newRampSamples(0, tm[1], rs.h), newRampSamples(tm[2], tm[3], rs.h)}
 	// raw[o][n][region][which][j]: Y (which 0) and Lambda (1) in the time-0 picture.
 	nops := len(responseOps)
 	raw := make([][][2][2][][]complex128, nops)
