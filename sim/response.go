@@ -129,10 +129,13 @@ func (k *Kernels) Channel(c Channel) *ChannelKernel {
 //	Bias(f)     = |H(f)|^2,  H = int e^{-i w t} Im(u* rho(t))/C0 dt
 //	Contrast(f) = -Re(u* dz2(f)) - C0 Bias(f)/2
 //
-// with dz2(f) the coefficient of S(f) in E[dz2]. The ordered double
-// integrals are lag correlations of the sampled W~(t) psi0 and W~(t) m_a,
-// computed with FFTs; the cross-arm term factorises. The derivation is in
-// docs/model.md, section "Noise transfer functions".
+// with dz2(f) the coefficient of S(f) in E[dz2]. Only the ramps are
+// sampled: in the cruise W~(t) psi0 and W~(t) m_a are sums of exponentials
+// over the cruise Hamiltonian's eigenstates, whose transforms and ordered
+// double integrals are closed forms (closedSpectra); pairs of times in
+// different regions (ramp up, cruise, ramp down) factorise, and so does the
+// cross-arm term. The derivation is in docs/model.md, section "Noise
+// transfer functions", Computation.
 //
 // References:
 //
