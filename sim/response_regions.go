@@ -16,6 +16,8 @@ type rampSamples struct {
 // end corrections of gregoryWeights need at least 5).
 const minRampIntervals = 8
 
+// newRampSamples returns the quadrature of [t0, t1] with a step at most h
+// (none if the interval is empty).
 func newRampSamples(t0, t1, h float64) rampSamples {
 	var rs rampSamples
 	if t1 <= t0 {
@@ -65,9 +67,11 @@ func gregoryWeights(n int) []float64 {
 }
 
 // regionWalk propagates one arm's block unitary over its up ramp (samples
-// up.t), through the cruise in one exact step, and over its down ramp
-// (samples down.t), reporting U at each sample (region 0 up, 1 down). It
-// returns the cruise's frame and U(T).
+// ramps[0].t), through the cruise in one exact step, and over its down
+// ramp (samples ramps[1].t), reporting U at each sample (region 0 up, 1
+// down); the ramps are split as in responseWalk, at least one step per
+// sample interval and none longer than the simulator's step. It returns
+// the cruise's frame and U(T).
 func (s *Simulator) regionWalk(p *propagator, d Drive, ramps [2]rampSamples, onRamp func(region, j int, u blockMat)) (*cruiseFrame, blockMat) {
 	b := s.basis
 	tm := d.times()
@@ -112,6 +116,8 @@ type cruiseTerms struct {
 	start []int        // per component, its first term; start[dim] = len(idx)
 }
 
+// newCruiseTerms returns the terms of the cruise series W~ v for the
+// state v's eigen coefficients c (E^T F1 v) and the operator we = E^T W E.
 func newCruiseTerms(bs Basis, cf *cruiseFrame, we blockMat, c []complex128, tol, tau float64) *cruiseTerms {
 	k, n := bs.Block, bs.Sites
 	// The smallest terms whose moduli add up to at most tol times the
@@ -202,7 +208,7 @@ type armLevel struct {
 // closedSpectra returns the spectra of responseOps as spectraSampled
 // does, with the cruise in closed form (docs/model.md, "Noise transfer
 // functions", Computation): only the ramps are sampled, on their own
-// trapezoid grids.
+// grids with Gregory's end-corrected weights.
 func (s *Simulator) closedSpectra(rs *responseSetup) [2]*opSpectra {
 	b := rs.b
 	dim := b.Size()
