@@ -129,10 +129,13 @@ func (k *Kernels) Channel(c Channel) *ChannelKernel {
 //	Bias(f)     = |H(f)|^2,  H = int e^{-i w t} Im(u* rho(t))/C0 dt
 //	Contrast(f) = -Re(u* dz2(f)) - C0 Bias(f)/2
 //
-// with dz2(f) the coefficient of S(f) in E[dz2]. The ordered double
-// integrals are lag correlations of the sampled W~(t) psi0 and W~(t) m_a,
-// computed with FFTs; the cross-arm term factorises. The derivation is in
-// docs/model.md, section "Noise transfer functions".
+// with dz2(f) the coefficient of S(f) in E[dz2]. Only the ramps are
+// sampled: in the cruise W~(t) psi0 and W~(t) m_a are sums of exponentials
+// over the cruise Hamiltonian's eigenstates, whose transforms and ordered
+// double integrals are closed forms (closedSpectra); pairs of times in
+// different regions (ramp up, cruise, ramp down) factorise, and so does the
+// cross-arm term. The derivation is in docs/model.md, section "Noise
+// transfer functions", Computation.
 //
 // References:
 //
@@ -146,6 +149,13 @@ func (k *Kernels) Channel(c Channel) *ChannelKernel {
 //	heating in far-off resonance optical traps", Phys. Rev. A 56, R1095
 //	(1997).
 func (s *Simulator) Kernels(maxHz float64) (*Kernels, error) {
+	return s.kernels(maxHz, s.closedSpectra)
+}
+
+// kernels is Kernels with the operators' spectra from spectra: the closed
+// form of the cruise (closedSpectra), or the sampled reference
+// (spectraSampled) the tests compare it with.
+func (s *Simulator) kernels(maxHz float64, spectra func(*responseSetup) [2]*opSpectra) (*Kernels, error) {
 	if maxHz < 0 || math.IsNaN(maxHz) || math.IsInf(maxHz, 0) {
 		return nil, fmt.Errorf("kernel band %g Hz is not a finite non-negative frequency (0 means the simulator's noise band)", maxHz)
 	}
@@ -168,8 +178,8 @@ func (s *Simulator) Kernels(maxHz float64) (*Kernels, error) {
 	for m := 0; m <= rs.m; m++ {
 		k.FrequencyHz = append(k.FrequencyHz, float64(m)*k.StepHz)
 	}
-	lattice := s.spectra(rs, opLattice, false, false)
-	slope := s.spectra(rs, opSlope, true, true)
+	sp := spectra(rs)
+	lattice, slope := sp[0], sp[1]
 	shift := rs.shiftSpectra()
 	n := float64(s.cfg.Ring.Sites)
 	for c := range numChannels {

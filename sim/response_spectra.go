@@ -41,10 +41,32 @@ type opSpectra struct {
 	q2   [2]complex128
 }
 
-// spectra samples operator op (with optional second-order operator and
-// start kick, for the lattice displacement) along both arms and returns its
-// spectra.
-func (s *Simulator) spectra(rs *responseSetup, op responseOp, second, kick bool) *opSpectra {
+// responseOps are the operators whose spectra the kernels need: the depth
+// modulation V, and the lattice displacement -V' with its second order
+// V”/2 and its kick of the start state.
+var responseOps = [2]opSpec{{op: opLattice}, {op: opSlope, second: true, kick: true}}
+
+// opSpec is an operator with its optional second-order operator (V”/2)
+// and start kick (l).
+type opSpec struct {
+	op           responseOp
+	second, kick bool
+}
+
+// sampledSpectra returns the spectra of responseOps by spectraSampled.
+func (s *Simulator) sampledSpectra(rs *responseSetup) [2]*opSpectra {
+	var out [2]*opSpectra
+	for i, o := range responseOps {
+		out[i] = s.spectraSampled(rs, o.op, o.second, o.kick)
+	}
+	return out
+}
+
+// spectraSampled samples operator op (with optional second-order operator
+// and start kick, for the lattice displacement) along both arms, cruise
+// included, and returns its spectra by FFTs of the samples: the reference
+// the closed form of the cruise (closedSpectra) is tested against.
+func (s *Simulator) spectraSampled(rs *responseSetup, op responseOp, second, kick bool) *opSpectra {
 	b := rs.b
 	dim := b.Size()
 	L, nt, h, M := rs.l, rs.nt, rs.h, rs.m

@@ -162,11 +162,12 @@ func TestResponseRefused(t *testing.T) {
 		args []string
 		msg  []string
 	}{
-		// 100 laps of the benchmark ring: about 72 GiB with the headroom.
-		{"100 laps", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--set", "motion.laps=100", "--out", out},
-			[]string{"100 laps", "more than --memory-mib 3072", "--set motion.laps=", "raise --memory-mib"}},
-		{"small cap", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--memory-mib", "16", "--out", out},
-			[]string{"more than --memory-mib 16", "even half a lap would not fit"}},
+		// 10000 laps of the benchmark ring: about 12 GiB with the headroom
+		// (the frequency grid's 13 million points).
+		{"10000 laps", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--set", "motion.laps=10000", "--out", out},
+			[]string{"10000 laps", "more than --memory-mib 3072", "--set motion.laps=", "raise --memory-mib"}},
+		{"small cap", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--memory-mib", "4", "--out", out},
+			[]string{"more than --memory-mib 4", "even half a lap would not fit"}},
 		{"confirm 1", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--confirm", "1"}, []string{"--confirm 1: need 0 (none) or from 2"}},
 		{"bands", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--bands", "third"}, []string{`--bands "third": want decade or octave`}},
 		{"shares without spec", []string{"response", "--scenario", "testdata/scenarios/benchmark.toml", "--band-share", "0.5,0.5"}, []string{"--band-share needs --spec"}},
