@@ -145,7 +145,18 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 	rep.Points = make([]present.ScanPoint, len(pts))
 	if !o.ensemble {
 		bar := newProgress(stderr, len(pts), 0, "scan")
-		nom, err := design.ScanNominal(ctx, cfgs, o.ens.workers, func() { bar.Add(1) })
+		// Each point is the shot rampart shot simulates: the apparatus's
+		// effects (field offset, scattering, radius error, ring potential)
+		// from the one builder shot uses, scenario.Scenario.Apparatus.
+		shots := make([]design.NominalShot, len(pts))
+		for i := range pts {
+			app, err := scs[i].Apparatus()
+			if err != nil {
+				return err
+			}
+			shots[i] = design.NominalShot{Config: cfgs[i], Apparatus: app}
+		}
+		nom, err := design.ScanNominal(ctx, shots, o.ens.workers, func() { bar.Add(1) })
 		bar.Finish()
 		if err != nil {
 			if ctx.Err() != nil {
