@@ -3,10 +3,12 @@ package scenario
 import (
 	"fmt"
 	"math"
+	"reflect"
+	"strings"
+
 	"rampart/internal/tomlpos"
 	"rampart/mc"
 	"rampart/sim"
-	"strings"
 )
 
 // kind is the TOML type a key takes.
@@ -386,6 +388,15 @@ func (k *key) set(s *Scenario, v any) {
 	default:
 		panic("scenario: unsupported field type")
 	}
+}
+
+// value returns the key's value in s (a source key that s does not set
+// is 0, as Number has it).
+func (k *key) value(s *Scenario) any {
+	if k.source {
+		return s.SourceNoise[k.name]
+	}
+	return reflect.ValueOf(k.field(s)).Elem().Interface()
 }
 
 // Number returns the value of the number key name ("noise.timing.skew_ns")
