@@ -175,7 +175,7 @@ func criteriaGrid(q mc.Qualification, s mc.Summary, title string) *Grid {
 		if c.Unit == "rad" {
 			degPerH = Sci(mc.BiasDegPerH(c.Value, s.ScaleFactorS), 3)
 		}
-		t.Append(c.Name, limit, c.Unit, f(c.Value), f(c.Lo), f(c.Hi), f(c.Margin), c.Verdict.String(), toDecide(c, q.LookConfidence), degPerH)
+		t.Append(c.Name, limit, c.Unit, f(c.Value), boundCell(c.Lo, c.NoLo, f), boundCell(c.Hi, c.NoHi, f), f(c.Margin), c.Verdict.String(), toDecide(c, q.LookConfidence), degPerH)
 	}
 	return t
 }

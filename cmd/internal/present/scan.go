@@ -86,7 +86,7 @@ func values(p ScanPoint) []string {
 // boundedCell shows an interval, or the size that would have one.
 func boundedCell(b design.Bounded, f func(float64) string) string {
 	if b.CI == nil {
-		return fmt.Sprintf("none below %d", b.NoBoundBelow)
+		return noneBelow(b.NoBoundBelow)
 	}
 	return interval(b.CI[0], b.CI[1], f)
 }

@@ -49,7 +49,7 @@ func ToleranceGrid(rep ToleranceReport) *Grid {
 			}
 			if c, ok := res.Binding(*res.At); ok {
 				f := criterionFormat(c)
-				value, bounds = f(c.Value), interval(c.Lo, c.Hi, f)
+				value, bounds = f(c.Value), criterionBounds(c, f)
 				if c.Unit == "rad" {
 					degPerH = Sci(mc.BiasDegPerH(c.Value, rep.ScaleFactorS), 3)
 				}
