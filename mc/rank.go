@@ -6,6 +6,8 @@ import (
 	"math"
 	"slices"
 	"strings"
+
+	"rampart/internal/plural"
 )
 
 // Ranking metrics: the statistic of an ensemble by which Rank orders ramps.
@@ -295,7 +297,7 @@ func pairRecords(names []string, recs [][]Record) ([][]Record, error) {
 	for r := 1; r < len(out); r++ {
 		a, b := out[0], out[r]
 		if len(a) != len(b) {
-			return nil, fmt.Errorf("ramp %q has %d realisations and ramp %q %d: ramps are compared on the same realisations", names[0], len(a), names[r], len(b))
+			return nil, fmt.Errorf("ramp %q has %s and ramp %q %d: ramps are compared on the same realisations", names[0], plural.Count(len(a), "realisation"), names[r], len(b))
 		}
 		for i := range a {
 			if a[i].Index != b[i].Index {

@@ -9,6 +9,7 @@ import (
 	"strconv"
 	"strings"
 
+	"rampart/internal/plural"
 	"rampart/sim"
 )
 
@@ -74,7 +75,7 @@ func Contestants(base *Scenario, baseCfg sim.Config, ramps, files, sets []string
 		}
 	}
 	if len(out) < 2 {
-		return nil, fmt.Errorf("%d ramp to rank: give at least two, as --ramp NAME=SPEC or as scenario files after the flags", len(out))
+		return nil, fmt.Errorf("%s to rank: give at least two, as --ramp NAME=SPEC or as scenario files after the flags", plural.Count(len(out), "ramp"))
 	}
 	return out, nil
 }

@@ -280,7 +280,9 @@ func TestBadScenario(t *testing.T) {
 		{"ramp-down design depth for sin2", minimal, []string{"ramp.down_shape=sin2", "ramp.down_duration_us=100", "ramp.down_design_depth_khz=10"}, -1, "ramp.down_design_depth_khz", "applies to shapes designed for a depth"},
 		{"ramp-down table at another speed", minimal, []string{"motion.cruise_rad_s=400", "ramp.down_shape=file", "ramp.down_file=ramps/up.csv"}, -1, "ramp.down_file", "ramps/up.csv"},
 		{"echo hold without segments", minimal, []string{"motion.echo_hold_us=20"}, -1, "motion.echo_hold_us", "applies to echo sequences only"},
-		{"too many echo segments", minimal, []string{"motion.echo_segments=1001"}, -1, "motion.echo_segments", "want an integer from 0 (no echo) to 1000"},
+		{"too many echo segments", minimal, []string{"motion.echo_segments=1001"}, -1, "motion.echo_segments", "want an integer 0 (no echo) or from 2 to 1000"},
+		{"one echo segment", minimal, []string{"motion.echo_segments=1"}, -1, "motion.echo_segments", "motion.echo_segments = 1 is out of range: want an integer 0 (no echo) or from 2 to 1000 (an echo swaps the states between segments, so it needs at least 2; 1 would be no echo)"},
+		{"one echo segment in the file", strings.Replace(minimal, "laps = 1\n", "laps = 1\necho_segments = 1\n", 1), nil, 11, "motion.echo_segments", "motion.echo_segments = 1 is out of range"},
 		{"echo segments that do not close", minimal, []string{"motion.laps=1", "motion.echo_segments=2", "motion.laps=0.25"}, -1, "motion.laps", "the arms do not recombine: with laps = 0.25"},
 	} {
 		_, err := parse(fsys, "s/s.toml", []byte(row.doc), row.set)

@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"math"
 	"rampart/internal/boundedread"
+	"rampart/internal/plural"
 	"reflect"
 	"strconv"
 	"strings"
@@ -97,7 +98,7 @@ func Show(v any) string {
 		var parts []string
 		for i, e := range x {
 			if i == 4 {
-				parts = append(parts, fmt.Sprintf("... (%d elements)", len(x)))
+				parts = append(parts, fmt.Sprintf("... (%s)", plural.Count(len(x), "element")))
 				break
 			}
 			parts = append(parts, Show(e))

@@ -10,6 +10,7 @@ import (
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/sim"
 )
@@ -143,8 +144,8 @@ func RankingNotes(rep RankReport) []string {
 	if !r.HigherBetter {
 		better = "lower"
 	}
-	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %d realisations per ramp. Every statement holds simultaneously at %s %%: quantile and yield intervals are exact (order statistics, Clopper-Pearson) at 1 - (1 - c)/k for k ramps, and two ramps differ when their intervals do not overlap; mean differences are paired over the same noise draws with a max-type bootstrap over all pairs. A place is resolved when it is separated from every other ramp.",
-		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, Sig(100*r.Confidence, 3))}
+	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %s per ramp. Every statement holds simultaneously at %s %%: quantile and yield intervals are exact (order statistics, Clopper-Pearson) at 1 - (1 - c)/k for k ramps, and two ramps differ when their intervals do not overlap; mean differences are paired over the same noise draws with a max-type bootstrap over all pairs. A place is resolved when it is separated from every other ramp.",
+		strings.ToLower(metricLabels[r.Metric]), better, plural.Count(r.Samples, "realisation"), Sig(100*r.Confidence, 3))}
 	for _, p := range r.Ranking {
 		if p.NoLo || p.NoHi {
 			out = append(out, fmt.Sprintf("none below %d: no order statistic bounds the quantile at the simultaneous confidence from fewer than %d realisations per ramp, so no place can be resolved by it.", p.NoBoundBelow, p.NoBoundBelow))
@@ -183,7 +184,7 @@ func rankingFigure(rep RankReport) ([]namedFigure, error) {
 		items[i] = plots.Estimate{Name: p.Name, Value: p.Value, Lo: p.Lo, Hi: p.Hi}
 	}
 	fig, err := plots.Ranking(items, plots.RankingOptions{
-		Title:      fmt.Sprintf("Ramps ranked by %s, %d realisations each", strings.ToLower(metricLabels[rep.Metric]), rep.Samples),
+		Title:      fmt.Sprintf("Ramps ranked by %s, %s each", strings.ToLower(metricLabels[rep.Metric]), plural.Count(rep.Samples, "realisation")),
 		ValueLabel: metricLabels[rep.Metric],
 	})
 	if err != nil {

@@ -11,6 +11,7 @@ import (
 	"rampart/cmd/internal/plots"
 	"rampart/design"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 )
 
 // Files a scan writes to its output directory.
@@ -61,7 +62,7 @@ func ScanGrid(rep ScanReport) *Grid {
 		return g
 	}
 	conf := Sig(100*rep.Confidence, 3) + " %"
-	g := NewGrid(fmt.Sprintf("Ensemble of %d realisations at each point (seed %d at every point: common random numbers)", rep.Samples, rep.Seed),
+	g := NewGrid(fmt.Sprintf("Ensemble of %s at each point (seed %d at every point: common random numbers)", plural.Count(rep.Samples, "realisation"), rep.Seed),
 		append(header, "Mean contrast", "Contrast p05", conf+" interval", "|Bias| p95 (rad)", conf+" interval", "Yield", conf+" interval")...)
 	for _, p := range rep.Points {
 		m := p.Ensemble
