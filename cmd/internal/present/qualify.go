@@ -67,7 +67,7 @@ func toDecide(c mc.Criterion, conf float64) string {
 	case c.OutOfReach:
 		return "out of reach: the value sits on the limit"
 	}
-	return fmt.Sprintf("about %s more", plural.Count(c.Extra, "realisation"))
+	return fmt.Sprintf("about %d more %s", c.Extra, plural.Noun(c.Extra, "realisation"))
 }
 
 // criterionLabels name the statistics of the criteria in figures.

@@ -95,7 +95,7 @@ func boundedCell(b design.Bounded, f func(float64) string) string {
 // ScanNotes explain the scan table.
 func ScanNotes(rep ScanReport) []string {
 	if !rep.Ensemble {
-		return []string{"Each point is the noise-free shot rampart shot simulates, the apparatus's field offset, scattering, radius error and ring potential included. Phase - K Omega: the bias against the nominal scale factor K = 2 I phi(T) / hbar (CSV and JSON bias_rad); rampart shot's zero-rate bias subtracts the shot's own K_shot Omega instead and differs from it by (K_shot - K) Omega.",
+		return []string{"Each point is the noise-free shot rampart shot simulates, the apparatus's field offset and gradient, scattering, radius error and ring potential included. Phase - K Omega: the bias against the nominal scale factor K = 2 I phi(T) / hbar (CSV and JSON bias_rad); rampart shot's zero-rate bias subtracts the shot's own K_shot Omega instead and differs from it by (K_shot - K) Omega.",
 			"Ground +/-: each arm's ground-band population after the ramp-up. Peak speed: the largest |Omega| of the ramp-up (above the cruise speed when the ramp overshoots)."}
 	}
 	return []string{"Intervals are two-sided at the stated confidence: exact order-statistic intervals for the quantiles (\"none below N\": no interval exists from fewer than N realisations), Clopper-Pearson for the yield. They hold point by point, not jointly over the scan; use rampart edge for a decision over a range."}
