@@ -38,9 +38,10 @@ func checkGrid(cfg sim.Config, thermal bool) *keyError {
 	}
 	speed := 2 * cfg.Ring.Inertia() * (peak + math.Abs(cfg.RotationRadS)) / sim.Hbar
 	packet := float64(grid) - speed
-	key, remedy := "lattice.depth_khz", "lower the lattice depth (lattice.depth_khz)"
+	key, remedy, levels := "lattice.depth_khz", "lower the lattice depth (lattice.depth_khz)", ""
 	if thermal {
 		remedy += " or the temperature (start.temperature_nk)"
+		levels = " and with a thermal start's levels"
 	}
 	if speed > packet {
 		key, remedy = "motion.cruise_rad_s", "lower the cruise speed (motion.cruise_rad_s)"
@@ -49,6 +50,5 @@ func checkGrid(cfg sim.Config, thermal bool) *keyError {
 		"the momentum grid would need %d states, more than the %d rampart handles (memory and time grow as grid^2 / sites): "+
 			"about %.0f of them hold the arms' momentum at the peak speed %.4g rad/s, %.0f the site's wave packet, which widens with the depth as V0^(1/4)%s: "+
 			"%s, or set numerics.grid (at most %d, a multiple of 2*sites) and check its error with rampart shot --check",
-		grid, sim.MaxGrid, speed, peak+math.Abs(cfg.RotationRadS), packet, map[bool]string{true: " and with a thermal start's levels"}[thermal],
-		remedy, sim.MaxGrid)}
+		grid, sim.MaxGrid, speed, peak+math.Abs(cfg.RotationRadS), packet, levels, remedy, sim.MaxGrid)}
 }
