@@ -5,6 +5,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"rampart/internal/plural"
 )
 
 // Axis is one scanned scenario key and the values it takes, in the key's
@@ -34,7 +36,7 @@ func ParseAxis(s string) (Axis, error) {
 	if strings.Contains(spec, ":") {
 		parts := strings.Split(spec, ":")
 		if len(parts) != 3 {
-			return Axis{}, fmt.Errorf("axis %q: range %q has %d parts: want FROM:TO:N", s, spec, len(parts))
+			return Axis{}, fmt.Errorf("axis %q: range %q has %s: want FROM:TO:N", s, spec, plural.Count(len(parts), "part"))
 		}
 		from, err1 := parseFinite(parts[0])
 		to, err2 := parseFinite(parts[1])

@@ -6,11 +6,10 @@ import (
 
 	"rampart/mc"
 	"rampart/scenario"
-	"rampart/sim"
 )
 
 // BenchmarkScan2D is the scan target: a 20 x 20 scan of the demo's
-// nominal shot over the ramp time (50 to 300 us) and the depth (10 to 30
+// nominal shot (its apparatus included) over the ramp time (50 to 300 us) and the depth (10 to 30
 // kHz), loading the scenario at each point as rampart scan does (goal: at
 // most 5 s on a 2-core machine).
 func BenchmarkScan2D(b *testing.B) {
@@ -19,13 +18,19 @@ func BenchmarkScan2D(b *testing.B) {
 		b.Fatal(err)
 	}
 	for b.Loop() {
-		cfgs := make([]sim.Config, len(pts))
+		shots := make([]NominalShot, len(pts))
 		for i, p := range pts {
-			if _, cfgs[i], err = scenario.LoadConfig(demo, p.Sets); err != nil {
+			sc, cfg, err := scenario.LoadConfig(demo, p.Sets)
+			if err != nil {
 				b.Fatal(err)
 			}
+			app, err := sc.Apparatus()
+			if err != nil {
+				b.Fatal(err)
+			}
+			shots[i] = NominalShot{Config: cfg, Apparatus: app}
 		}
-		if _, err := ScanNominal(context.Background(), cfgs, 0, nil); err != nil {
+		if _, err := ScanNominal(context.Background(), shots, 0, nil); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -9,6 +9,7 @@ import (
 
 	"gonum.org/v1/gonum/integrate/quad"
 
+	"rampart/internal/plural"
 	"rampart/sim"
 )
 
@@ -46,7 +47,7 @@ type Corrected struct {
 // MaxTerms coefficients).
 func NewCorrected(ref sim.Ramp, coef []float64, label string) (*Corrected, error) {
 	if len(coef) > MaxTerms {
-		return nil, fmt.Errorf("%d correction terms: at most %d", len(coef), MaxTerms)
+		return nil, fmt.Errorf("%s: at most %d", plural.Count(len(coef), "correction term"), MaxTerms)
 	}
 	for i, c := range coef {
 		if math.IsNaN(c) || math.IsInf(c, 0) {

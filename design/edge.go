@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 
+	"rampart/internal/plural"
 	"rampart/mc"
 )
 
@@ -124,7 +125,7 @@ func (e Edge) Validate() error {
 	case math.IsNaN(e.Lo) || math.IsNaN(e.Hi) || math.IsInf(e.Lo, 0) || math.IsInf(e.Hi, 0) || !(e.Lo < e.Hi):
 		return fmt.Errorf("range [%g, %g]: want finite ends, the first below the second", e.Lo, e.Hi)
 	case e.Steps < 0 || e.Steps > MaxSteps:
-		return fmt.Errorf("%d bisection steps: want 0 to %d", e.Steps, MaxSteps)
+		return fmt.Errorf("%s: want 0 to %d", plural.Count(e.Steps, "bisection step"), MaxSteps)
 	case e.Requirements.Look > 1:
 		return fmt.Errorf("look %d: a search qualifies fresh ensembles and spends its confidence over its own points", e.Requirements.Look)
 	}

@@ -8,6 +8,7 @@ import (
 
 	"gonum.org/v1/gonum/optimize"
 
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/sim"
 	"rampart/stats"
@@ -191,9 +192,9 @@ func RunRamp(ctx context.Context, ens mc.Ensemble, ramp sim.Ramp, workers int) (
 func (r Robust) Validate() error {
 	switch {
 	case r.Terms < 1 || r.Terms > MaxTerms:
-		return fmt.Errorf("%d correction terms: want 1 to %d", r.Terms, MaxTerms)
+		return fmt.Errorf("%s: want 1 to %d", plural.Count(r.Terms, "correction term"), MaxTerms)
 	case r.MaxEvals < r.Terms+2:
-		return fmt.Errorf("%d evaluations for %d terms: want at least %d (the first simplex)", r.MaxEvals, r.Terms, r.Terms+2)
+		return fmt.Errorf("%s for %s: want at least %d (the first simplex)", plural.Count(r.MaxEvals, "evaluation"), plural.Count(r.Terms, "term"), r.Terms+2)
 	case r.InitialStep < 0 || math.IsNaN(r.InitialStep) || math.IsInf(r.InitialStep, 0):
 		return fmt.Errorf("initial step %g: want a finite number >= 0", r.InitialStep)
 	}

@@ -24,37 +24,51 @@ type Nominal struct {
 	Reverses      bool    `json:"reverses,omitempty"`
 }
 
-// NominalOf returns the scan figures of one noise-free shot of cfg.
-func NominalOf(cfg sim.Config) (Nominal, error) {
+// NominalShot is the noise-free shot at one point of a scan: the
+// configuration and the shot its apparatus makes without noise (the field
+// offset, photon scattering, radius error and ring potential of
+// scenario.Scenario.Apparatus, docs/model.md, Perturbations), the shot
+// rampart shot simulates.
+type NominalShot struct {
+	Config    sim.Config
+	Apparatus sim.Shot
+}
+
+// NominalOf returns the scan figures of the noise-free shot n. BiasRad is
+// that of sim.Result, wrap(phase - K Omega) with K the nominal scale factor
+// 2 I phi(T) / hbar (docs/model.md, Gyroscope figures), not the zero-rate
+// bias phase - K_shot Omega of sim.Simulator.Gyro, which measures the
+// shot's own scale factor with two more shots; the two agree at Omega = 0.
+func NominalOf(n NominalShot) (Nominal, error) {
+	cfg := n.Config
 	s, err := sim.NewSimulator(cfg)
 	if err != nil {
 		return Nominal{}, err
 	}
-	r := s.Run(sim.Shot{}, nil)
+	r := s.Run(n.Apparatus, nil)
 	peak, rev := sim.PeakSpeed(cfg.Sequence.Up)
 	return Nominal{Contrast: r.Contrast, PhaseRad: r.PhaseRad, BiasRad: r.BiasRad,
 		Ground: r.GroundAfterRampUp, PeakSpeedRadS: peak, Reverses: rev}, nil
 }
 
-// ScanNominal runs the noise-free shot of every configuration on workers
-// goroutines (all cores if workers < 1) and returns the results in the
-// order of cfgs; done, if not nil, is called after each shot (from any
+// ScanNominal runs every noise-free shot on workers goroutines (all cores
+// if workers < 1) and returns the results in the order of shots; done, if not nil, is called after each shot (from any
 // goroutine, one call at a time). The points are independent, so the
 // result does not depend on workers. On an error, or the cancellation of
 // ctx, it returns the first error met.
-func ScanNominal(ctx context.Context, cfgs []sim.Config, workers int, done func()) ([]Nominal, error) {
+func ScanNominal(ctx context.Context, shots []NominalShot, workers int, done func()) ([]Nominal, error) {
 	if workers < 1 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	out := make([]Nominal, len(cfgs))
-	errs := make([]error, len(cfgs))
+	out := make([]Nominal, len(shots))
+	errs := make([]error, len(shots))
 	next := make(chan int)
 	var wg sync.WaitGroup
 	var mu sync.Mutex
-	for range min(workers, len(cfgs)) {
+	for range min(workers, len(shots)) {
 		wg.Go(func() {
 			for i := range next {
-				out[i], errs[i] = NominalOf(cfgs[i])
+				out[i], errs[i] = NominalOf(shots[i])
 				if done != nil {
 					mu.Lock()
 					done()
@@ -64,7 +78,7 @@ func ScanNominal(ctx context.Context, cfgs []sim.Config, workers int, done func(
 		})
 	}
 feed:
-	for i := range cfgs {
+	for i := range shots {
 		select {
 		case next <- i:
 		case <-ctx.Done():

@@ -9,27 +9,32 @@ import (
 
 	"rampart/mc"
 	"rampart/scenario"
-	"rampart/sim"
 	"rampart/stats"
 )
 
 const demo = "../testdata/demo/demo.toml"
 
-// configs loads the demo at each point of the axes.
-func configs(t testing.TB, axes []Axis, sets ...string) ([]Point, []sim.Config) {
+// configs loads the demo at each point of the axes: its configuration
+// and its apparatus's noise-free shot, as rampart scan does.
+func configs(t testing.TB, axes []Axis, sets ...string) ([]Point, []NominalShot) {
 	t.Helper()
 	pts, err := Grid(axes)
 	if err != nil {
 		t.Fatal(err)
 	}
-	cfgs := make([]sim.Config, len(pts))
+	shots := make([]NominalShot, len(pts))
 	for i, p := range pts {
-		_, cfgs[i], err = scenario.LoadConfig(demo, append(slices.Clone(sets), p.Sets...))
+		sc, cfg, err := scenario.LoadConfig(demo, append(slices.Clone(sets), p.Sets...))
 		if err != nil {
 			t.Fatal(err)
 		}
+		app, err := sc.Apparatus()
+		if err != nil {
+			t.Fatal(err)
+		}
+		shots[i] = NominalShot{Config: cfg, Apparatus: app}
 	}
-	return pts, cfgs
+	return pts, shots
 }
 
 // TestScanNominalSagnac scans the background rotation: the phase of the

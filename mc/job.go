@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"runtime"
 
+	"rampart/internal/plural"
 	"rampart/sim"
 )
 
@@ -139,13 +140,13 @@ func (j Job) records() int {
 func (j Job) Execute(ctx context.Context) (*JobResult, error) {
 	m := j.Manifest()
 	if m.Samples > MaxSamples {
-		return nil, fmt.Errorf("%d shots in one run, more than the %d a run directory holds: use fewer realisations or base rows", m.Samples, MaxSamples)
+		return nil, fmt.Errorf("%s in one run, more than the %d a run directory holds: use fewer realisations or base rows", plural.Count(m.Samples, "shot"), MaxSamples)
 	}
 	if j.Shard != nil && j.Shard.Count > m.Samples {
-		return nil, fmt.Errorf("shard %d/%d: more shards than the %d realisations", j.Shard.Index, j.Shard.Count, m.Samples)
+		return nil, fmt.Errorf("shard %d/%d: more shards than the %s", j.Shard.Index, j.Shard.Count, plural.Count(m.Samples, "realisation"))
 	}
 	if from, to := m.Range(); to-from > MaxInProcess {
-		return nil, fmt.Errorf("%d realisations in one process, more than the %d it holds in memory (about 200 bytes each): run it in slices with --shard k/n and combine them with rampart merge, which streams", to-from, MaxInProcess)
+		return nil, fmt.Errorf("%s in one process, more than the %d it holds in memory (about 200 bytes each): run it in slices with --shard k/n and combine them with rampart merge, which streams", plural.Count(to-from, "realisation"), MaxInProcess)
 	}
 	res := &JobResult{Manifest: m}
 	emit := func(rec Record) error { res.Records = append(res.Records, rec); return nil }

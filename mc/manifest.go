@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 
+	"rampart/internal/plural"
 	"rampart/internal/version"
 	"rampart/sim"
 )
@@ -146,7 +147,7 @@ func (m Manifest) NextLook(given int) (int, error) {
 		return m.Looks + 1, nil
 	}
 	if given < m.Looks {
-		return 0, fmt.Errorf("--look %d: this ensemble was already qualified %d times; give --look %d (or leave --look out), since a look number spent again would break the confidence of the sequence", given, m.Looks, m.Looks+1)
+		return 0, fmt.Errorf("--look %d: this ensemble was already qualified %s; give --look %d (or leave --look out), since a look number spent again would break the confidence of the sequence", given, plural.Count(m.Looks, "time"), m.Looks+1)
 	}
 	return given, nil
 }
@@ -159,11 +160,11 @@ func (m Manifest) NextLook(given int) (int, error) {
 func canTopUp(old, m Manifest) error {
 	switch {
 	case m.Samples < old.Samples:
-		return fmt.Errorf("%d samples, not %d (an ensemble grows, it does not shrink)", old.Samples, m.Samples)
+		return fmt.Errorf("%s, not %d (an ensemble grows, it does not shrink)", plural.Count(old.Samples, "sample"), m.Samples)
 	case old.Shard != nil || m.Shard != nil:
-		return fmt.Errorf("%d samples, not %d: a shard is not topped up (merge the shards, then top up the merged run)", old.Samples, m.Samples)
+		return fmt.Errorf("%s, not %d: a shard is not topped up (merge the shards, then top up the merged run)", plural.Count(old.Samples, "sample"), m.Samples)
 	case old.Sampler != "random":
-		return fmt.Errorf("%d samples of a %s design, not %d: its points depend on its size, so only a random-sampler ensemble is topped up", old.Samples, old.Sampler, m.Samples)
+		return fmt.Errorf("%s of a %s design, not %d: its points depend on its size, so only a random-sampler ensemble is topped up", plural.Count(old.Samples, "sample"), old.Sampler, m.Samples)
 	}
 	return nil
 }
@@ -187,7 +188,7 @@ func (m Manifest) validate() error {
 	case m.Samples < 1 || m.Samples > MaxSamples:
 		return fmt.Errorf("samples = %d, outside [1, %d]", m.Samples, MaxSamples)
 	case m.Shard != nil && (m.Shard.Count < 1 || m.Shard.Index < 1 || m.Shard.Index > m.Shard.Count || m.Shard.Count > m.Samples):
-		return fmt.Errorf("shard %d/%d of %d samples is not a shard", m.Shard.Index, m.Shard.Count, m.Samples)
+		return fmt.Errorf("shard %d/%d of %s is not a shard", m.Shard.Index, m.Shard.Count, plural.Count(m.Samples, "sample"))
 	}
 	return nil
 }
@@ -225,7 +226,7 @@ func (m Manifest) sameEnsemble(o Manifest) error {
 	case m.Seed != o.Seed:
 		return fmt.Errorf("seed %d, not %d", o.Seed, m.Seed)
 	case m.Samples != o.Samples:
-		return fmt.Errorf("%d samples, not %d", o.Samples, m.Samples)
+		return fmt.Errorf("%s, not %d", plural.Count(o.Samples, "sample"), m.Samples)
 	case m.Sampler != o.Sampler:
 		return fmt.Errorf("sampler %q, not %q", o.Sampler, m.Sampler)
 	case slices.Contains(m.Columns, ScaleFactorColumn) != slices.Contains(o.Columns, ScaleFactorColumn):
@@ -242,5 +243,5 @@ func (n *Numerics) String() string {
 	if n == nil {
 		return "not recorded"
 	}
-	return fmt.Sprintf("grid %d, step %g s, %d levels, %s", n.Grid, n.StepS, n.Levels, n.Scheme)
+	return fmt.Sprintf("grid %d, step %g s, %s, %s", n.Grid, n.StepS, plural.Count(n.Levels, "level"), n.Scheme)
 }

@@ -14,6 +14,7 @@ import (
 	"strings"
 
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 )
 
 // Merged is the set of shard directories of one ensemble, their manifests
@@ -83,7 +84,7 @@ func OpenShards(dirs []string) (*Merged, error) {
 	}
 	first := shards[0].m
 	if next != first.Samples {
-		return nil, fmt.Errorf("realisation %d is in none of the shards (they hold %d of %d realisations)", next, next, first.Samples)
+		return nil, fmt.Errorf("realisation %d is in none of the shards (they hold %d of %s)", next, next, plural.Count(first.Samples, "realisation"))
 	}
 	first.Shard = nil
 	first.RecordsSHA256 = ""
@@ -100,7 +101,7 @@ func unsealed(dir string, m Manifest) error {
 		f.Close()
 	}
 	if n != to-from {
-		return fmt.Errorf("%s is incomplete: %d of %d realisations (resume it first)", dir, n, to-from)
+		return fmt.Errorf("%s is incomplete: %d of %s (resume it first)", dir, n, plural.Count(to-from, "realisation"))
 	}
 	return fmt.Errorf("%s holds every realisation but was not sealed with the digest of its records (the run stopped before it closed): resume it once to seal it", dir)
 }

@@ -1,6 +1,7 @@
 package mc
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 
@@ -155,7 +156,8 @@ type Criterion struct {
 	// upper confidence bounds at the look's confidence
 	// (Qualification.LookConfidence). A quantile bound that does not exist
 	// at this ensemble size is the end of the statistic's range (0 or 1
-	// for contrast, 0 or pi rad for |bias|), a bound that always holds.
+	// for contrast, 0 or pi rad for |bias|), a bound that always holds,
+	// marked by NoLo or NoHi.
 	Value float64 `json:"value"`
 	Lo    float64 `json:"lo"`
 	Hi    float64 `json:"hi"`
@@ -176,12 +178,28 @@ type Criterion struct {
 	// confidence from so few realisations: the smallest ensemble that has
 	// such a bound (59 for a 5th percentile at 95 %, Wilks 1941).
 	NoBoundBelow int `json:"no_bound_below,omitempty"`
+	// NoLo and NoHi, when not 0, mark a quantile bound that does not exist
+	// at this ensemble size (Lo or Hi then holds the end of the
+	// statistic's range, which bounds nothing; the JSON writes null): the
+	// smallest ensemble that has it.
+	NoLo int `json:"-"`
+	NoHi int `json:"-"`
 	// Extra is, for an undecided verdict, the estimated number of
 	// realisations beyond those measured that would decide it at the next
 	// look's confidence; OutOfReach reports that none would under that
 	// estimate (the value sits on the limit).
 	Extra      int  `json:"extra_realisations,omitempty"`
 	OutOfReach bool `json:"out_of_reach,omitempty"`
+}
+
+// MarshalJSON writes a bound that does not exist (NoLo, NoHi) as null.
+func (c Criterion) MarshalJSON() ([]byte, error) {
+	type plain Criterion
+	return json.Marshal(struct {
+		plain
+		Lo *float64 `json:"lo"`
+		Hi *float64 `json:"hi"`
+	}{plain(c), end(c.Lo, c.NoLo > 0), end(c.Hi, c.NoHi > 0)})
 }
 
 // Qualification is the verdict of an ensemble against Requirements.

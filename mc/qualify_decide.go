@@ -190,9 +190,13 @@ func (t qualifyTests) quantile(cr Criterion, sorted []float64, p float64, suppor
 	cr.Lo, cr.Hi = k*support[0], k*support[1]
 	if lo.OK {
 		cr.Lo = k * lo.Value
+	} else {
+		cr.NoLo = lo.MinSamples
 	}
 	if hi.OK {
 		cr.Hi = k * hi.Value
+	} else {
+		cr.NoHi = hi.MinSamples
 	}
 	// count is of the realisations on the bad side of the limit for "at
 	// least", on the good side for "at most"; the advice treats it as a

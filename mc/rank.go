@@ -1,10 +1,13 @@
 package mc
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
 	"strings"
+
+	"rampart/internal/plural"
 )
 
 // Ranking metrics: the statistic of an ensemble by which Rank orders ramps.
@@ -40,17 +43,66 @@ type Place struct {
 	Value float64 `json:"value"`
 	Lo    float64 `json:"lo"`
 	Hi    float64 `json:"hi"`
+	// NoLo and NoHi mark an end of [Lo, Hi] that does not exist: no order
+	// statistic bounds the quantile at the simultaneous confidence from so
+	// few realisations, and the end of the metric's range (0 or 1, 0 or pi
+	// rad) stands in, a bound that always holds and says nothing (the JSON
+	// writes null). NoBoundBelow is then the smallest ensemble with both
+	// ends.
+	NoLo         bool `json:"-"`
+	NoHi         bool `json:"-"`
+	NoBoundBelow int  `json:"no_bound_below,omitempty"`
 	// DiffToBest is this ramp's metric less the best ramp's, with its
 	// simultaneous interval (zero for the best itself). It is negative for
 	// a worse ramp when higher is better, positive when lower is better.
-	DiffToBest Interval `json:"diff_to_best"`
+	DiffToBest PartialInterval `json:"diff_to_best"`
 	// DiffToNext is this ramp's metric less that of the ramp in the next
 	// place, with its simultaneous interval; nil for the last place.
-	DiffToNext *Interval `json:"diff_to_next,omitempty"`
+	DiffToNext *PartialInterval `json:"diff_to_next,omitempty"`
 	// Resolved reports whether the place is settled: the simultaneous
 	// intervals of the differences to every other ramp exclude zero, so
 	// no ramp placed above could be below it nor any placed below above it.
 	Resolved bool `json:"resolved"`
+}
+
+// MarshalJSON writes a missing end of the place's interval as null.
+func (p Place) MarshalJSON() ([]byte, error) {
+	type plain Place
+	return json.Marshal(struct {
+		plain
+		Lo *float64 `json:"lo"`
+		Hi *float64 `json:"hi"`
+	}{plain(p), end(p.Lo, p.NoLo), end(p.Hi, p.NoHi)})
+}
+
+// PartialInterval is an Interval an end of which may not exist (NoLo,
+// NoHi): an end made from a quantile bound that no order statistic gives
+// at this ensemble size, which holds the end of the statistic's range in
+// its stead; NoBoundBelow is then the smallest ensemble with both ends.
+// The JSON writes a missing end as null.
+type PartialInterval struct {
+	Interval
+	NoLo         bool `json:"-"`
+	NoHi         bool `json:"-"`
+	NoBoundBelow int  `json:"no_bound_below,omitempty"`
+}
+
+// MarshalJSON writes a missing end as null.
+func (p PartialInterval) MarshalJSON() ([]byte, error) {
+	return json.Marshal(struct {
+		Value        float64  `json:"value"`
+		Lo           *float64 `json:"lo"`
+		Hi           *float64 `json:"hi"`
+		NoBoundBelow int      `json:"no_bound_below,omitempty"`
+	}{p.Value, end(p.Lo, p.NoLo), end(p.Hi, p.NoHi), p.NoBoundBelow})
+}
+
+// end returns a pointer to v, or nil for an end that does not exist.
+func end(v float64, none bool) *float64 {
+	if none {
+		return nil
+	}
+	return &v
 }
 
 // Rank orders ramps by a metric of their ensembles. recs[r] holds the
@@ -184,11 +236,17 @@ func Rank(names []string, recs [][]Record, metric string, spec Spec, confidence 
 		}
 		return strings.Compare(names[a], names[b])
 	})
-	excludesZero := func(d Interval) bool { return d.Lo > 0 || d.Hi < 0 }
+	excludesZero := func(d PartialInterval) bool { return d.Lo > 0 || d.Hi < 0 }
 	out := Ranking{Metric: metric, HigherBetter: higher, Confidence: confidence, Samples: n, Ranking: make([]Place, k)}
 	best := order[0]
 	for pl, r := range order {
 		p := Place{Place: pl + 1, Name: names[r], Value: cmp.value[r], Lo: cmp.interval[r][0], Hi: cmp.interval[r][1], Resolved: true}
+		if cmp.none != nil {
+			p.NoLo, p.NoHi = cmp.none[r][0], cmp.none[r][1]
+			if p.NoLo || p.NoHi {
+				p.NoBoundBelow = cmp.need[r]
+			}
+		}
 		if pl > 0 {
 			p.DiffToBest = cmp.diff(r, best)
 		}
@@ -239,7 +297,7 @@ func pairRecords(names []string, recs [][]Record) ([][]Record, error) {
 	for r := 1; r < len(out); r++ {
 		a, b := out[0], out[r]
 		if len(a) != len(b) {
-			return nil, fmt.Errorf("ramp %q has %d realisations and ramp %q %d: ramps are compared on the same realisations", names[0], len(a), names[r], len(b))
+			return nil, fmt.Errorf("ramp %q has %s and ramp %q %d: ramps are compared on the same realisations", names[0], plural.Count(len(a), "realisation"), names[r], len(b))
 		}
 		for i := range a {
 			if a[i].Index != b[i].Index {

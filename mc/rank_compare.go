@@ -20,15 +20,31 @@ const DecisionResamples = 1000
 type comparison struct {
 	value    []float64
 	interval [][2]float64
-	diff     func(a, b int) Interval
+	// none marks the ends of interval that do not exist (a quantile no
+	// order statistic bounds at this size: the end of the metric's range
+	// stands in); need is then the smallest ensemble with both ends.
+	none [][2]bool
+	need []int
+	diff func(a, b int) PartialInterval
 }
 
 // boundsComparison compares ramps by non-overlap of simultaneous
-// intervals: the difference a - b lies in [Lo_a - Hi_b, Hi_a - Lo_b].
-func boundsComparison(value []float64, interval [][2]float64) comparison {
-	return comparison{value: value, interval: interval, diff: func(a, b int) Interval {
-		return Interval{Value: value[a] - value[b], Lo: interval[a][0] - interval[b][1], Hi: interval[a][1] - interval[b][0]}
-	}}
+// intervals: the difference a - b lies in [Lo_a - Hi_b, Hi_a - Lo_b], an
+// end missing when an end it is made of is (none, nil when every end
+// exists).
+func boundsComparison(value []float64, interval [][2]float64, none [][2]bool, need []int) comparison {
+	c := comparison{value: value, interval: interval, none: none, need: need}
+	c.diff = func(a, b int) PartialInterval {
+		d := PartialInterval{Interval: Interval{Value: value[a] - value[b], Lo: interval[a][0] - interval[b][1], Hi: interval[a][1] - interval[b][0]}}
+		if none != nil {
+			d.NoLo, d.NoHi = none[a][0] || none[b][1], none[a][1] || none[b][0]
+			if d.NoLo || d.NoHi {
+				d.NoBoundBelow = max(need[a], need[b])
+			}
+		}
+		return d
+	}
+	return c
 }
 
 // quantileComparison gives each ramp the exact order-statistic interval of
@@ -39,19 +55,25 @@ func quantileComparison(xs [][]float64, p, confidence float64, support [2]float6
 	c := 1 - (1-confidence)/float64(k)
 	value := make([]float64, k)
 	interval := make([][2]float64, k)
+	none := make([][2]bool, k)
+	need := make([]int, k)
 	for r, x := range xs {
 		s := slices.Sorted(slices.Values(x))
 		value[r] = stats.QuantileSorted(s, p)
 		lo, hi := stats.QuantileInterval(s, p, c)
 		interval[r] = support
+		none[r] = [2]bool{!lo.OK, !hi.OK}
 		if lo.OK {
 			interval[r][0] = lo.Value
 		}
 		if hi.OK {
 			interval[r][1] = hi.Value
 		}
+		if !lo.OK || !hi.OK {
+			need[r] = max(lo.MinSamples, hi.MinSamples)
+		}
 	}
-	return boundsComparison(value, interval)
+	return boundsComparison(value, interval, none, need)
 }
 
 // yieldComparison gives each ramp the Clopper-Pearson interval of its yield
@@ -71,7 +93,7 @@ func yieldComparison(xs [][]float64, confidence float64) comparison {
 		e := stats.ClopperPearson(inside, len(x), c)
 		value[r], interval[r] = e.Value, [2]float64{e.Lo, e.Hi}
 	}
-	return boundsComparison(value, interval)
+	return boundsComparison(value, interval, nil, nil)
 }
 
 // meanComparison compares the means of paired samples with the max-type
@@ -141,8 +163,8 @@ func meanComparison(xs [][]float64, confidence float64, rng *rand.Rand) comparis
 		slices.Sort(tmax)
 		q = stats.QuantileSorted(tmax, confidence)
 	}
-	return comparison{value: value, interval: interval, diff: func(a, b int) Interval {
+	return comparison{value: value, interval: interval, diff: func(a, b int) PartialInterval {
 		d := value[a] - value[b]
-		return Interval{Value: d, Lo: d - q*se[a][b], Hi: d + q*se[a][b]}
+		return PartialInterval{Interval: Interval{Value: d, Lo: d - q*se[a][b], Hi: d + q*se[a][b]}}
 	}}
 }

@@ -108,7 +108,7 @@ func TestRankKnownOrder(t *testing.T) {
 					t.Errorf("place %d: difference to the best %+v: want the worse side with the value inside its interval", k+1, p.DiffToBest)
 				}
 			}
-			if got.Ranking[0].DiffToBest != (Interval{}) || got.Ranking[2].DiffToNext != nil {
+			if got.Ranking[0].DiffToBest != (PartialInterval{}) || got.Ranking[2].DiffToNext != nil {
 				t.Errorf("best's difference to itself %+v, last's difference to next %v: want zero and nil", got.Ranking[0].DiffToBest, got.Ranking[2].DiffToNext)
 			}
 			if tt.metric == MetricYield {

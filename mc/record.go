@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+
+	"rampart/internal/plural"
 )
 
 // Record is the outcome of one realisation with the inputs it drew.
@@ -150,7 +152,7 @@ func parseRecord(line string, nInputs int, rin, phase bool) (Record, error) {
 	// the scale factor out, see Summarise).
 	sf := len(f) == want+1
 	if len(f) != want && !sf {
-		return Record{}, fmt.Errorf("%d fields, want %d", len(f), want)
+		return Record{}, fmt.Errorf("%s, want %d", plural.Count(len(f), "field"), want)
 	}
 	idx, err := strconv.Atoi(f[0])
 	if err != nil || idx < 0 {

@@ -6,6 +6,7 @@ import (
 	"slices"
 	"strings"
 
+	"rampart/internal/plural"
 	"rampart/sim"
 	"rampart/stats"
 )
@@ -45,7 +46,7 @@ const (
 // active source or n < 2.
 func NewSensitivityDesign(r *Realiser, n int) (*SensitivityDesign, error) {
 	if n < 2 {
-		return nil, fmt.Errorf("sensitivity design of %d base rows: want at least 2", n)
+		return nil, fmt.Errorf("sensitivity design of %s: want at least 2", plural.Count(n, "base row"))
 	}
 	e := r.Ensemble()
 	d := &SensitivityDesign{r: r}

@@ -7,6 +7,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"rampart/internal/plural"
 )
 
 // levelTable describes a CSV table of a noise level in decibels against
@@ -56,7 +58,7 @@ func parseLevelTable(r io.Reader, name string, t levelTable) (*Table, error) {
 			continue
 		}
 		if len(fields) != 2 {
-			return nil, fail("%d fields, want 2 (%s)", len(fields), t.header)
+			return nil, fail("%s, want 2 (%s)", plural.Count(len(fields), "field"), t.header)
 		}
 		if len(freq) == MaxPhaseNoiseRows {
 			return nil, fail("more than %d rows, the cap for a %s", MaxPhaseNoiseRows, t.what)

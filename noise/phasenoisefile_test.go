@@ -67,7 +67,7 @@ func TestParsePhaseNoiseErrors(t *testing.T) {
 		{"wrong header", "freq,dbc\n10,-80\n", `phase-noise table "t.csv" line 1: the first line that is not blank or a comment is not the header: want "f_hz,l_dbc_hz"`},
 		{"missing header", "10,-80\n", `line 1: the first line that is not blank or a comment is not the header`},
 		{"header only", h, `phase-noise table "t.csv": no rows after the header`},
-		{"one field", h + "10\n", `line 2: 1 fields, want 2 (f_hz,l_dbc_hz)`},
+		{"one field", h + "10\n", `line 2: 1 field, want 2 (f_hz,l_dbc_hz)`},
 		{"three fields", h + "10,-80,3\n", `line 2: 3 fields, want 2`},
 		{"bad frequency", h + "ten,-80\n", `line 2: frequency "ten" is not a number`},
 		{"empty frequency", h + ",-80\n", `line 2: frequency "" is not a number`},

@@ -123,20 +123,9 @@ func LoadBudget(path string, sets []string) (*Scenario, sim.Config, mc.Budget, e
 // where those files are, so that shards run from different directories
 // merge. It also returns the canonical text recorded in a run's manifest.
 func (sc *Scenario) Fingerprint() (hash, text string, err error) {
-	c := *sc
-	c.Name = ""
-	files := map[string]string{}
-	for _, p := range []*string{&c.Ramp.File, &c.Ramp.DownFile, &c.Noise.Drive.PhaseTable, &c.Noise.Depth.RINTable} {
-		if *p == "" {
-			continue
-		}
-		data, err := sc.ReadFile(*p)
-		if err != nil {
-			return "", "", err
-		}
-		sum := sha256.Sum256(data)
-		files[*p] = hex.EncodeToString(sum[:])
-		*p = "sha256:" + files[*p]
+	c, err := sc.canonical()
+	if err != nil {
+		return "", "", err
 	}
 	b, err := json.Marshal(c)
 	if err != nil {
@@ -144,6 +133,25 @@ func (sc *Scenario) Fingerprint() (hash, text string, err error) {
 	}
 	sum := sha256.Sum256(b)
 	return hex.EncodeToString(sum[:]), string(b), nil
+}
+
+// canonical returns the scenario as its fingerprint sees it: without its
+// name, each file it refers to replaced by the SHA-256 of its contents.
+func (sc *Scenario) canonical() (Scenario, error) {
+	c := *sc
+	c.Name = ""
+	for _, p := range []*string{&c.Ramp.File, &c.Ramp.DownFile, &c.Noise.Drive.PhaseTable, &c.Noise.Depth.RINTable} {
+		if *p == "" {
+			continue
+		}
+		data, err := sc.ReadFile(*p)
+		if err != nil {
+			return Scenario{}, err
+		}
+		sum := sha256.Sum256(data)
+		*p = "sha256:" + hex.EncodeToString(sum[:])
+	}
+	return c, nil
 }
 
 // WithTag extends a scenario's fingerprint and text by a tag: what, beside

@@ -69,7 +69,7 @@ func parse(fsys fs.FS, name string, data []byte, overrides []string) (*Scenario,
 		return nil, err
 	}
 	if _, kerr := d.s.config(); kerr != nil {
-		return nil, d.fail(kerr.key, kerr.err)
+		return nil, d.fail(d.blame(kerr), kerr.err)
 	}
 	return d.s, nil
 }
@@ -285,6 +285,23 @@ func (d *decoder) giveFile(key, file string) string {
 	}
 	table, name, _ := strings.Cut(file, ".")
 	return fmt.Sprintf("give %s = \"PATH\" in [%s], a CSV file (a path in the scenario file is relative to the scenario file's directory)", name, table)
+}
+
+// blame returns the key to attach kerr's error to: its own key, unless
+// that comes from the file and one of the other keys that take part in the
+// error (kerr.also) was set by --set: then that override's key, so that the
+// message points at the change that caused it rather than at a line the
+// user did not touch.
+func (d *decoder) blame(kerr *keyError) string {
+	if e := d.byKey[kerr.key]; e != nil && e.flag != "" {
+		return kerr.key
+	}
+	for _, k := range kerr.also {
+		if e := d.byKey[k]; e != nil && e.flag != "" {
+			return k
+		}
+	}
+	return kerr.key
 }
 
 // checkDown checks the keys of the ramp-down and of the echo against each

@@ -3,10 +3,12 @@ package scenario
 import (
 	"fmt"
 	"math"
+	"reflect"
+	"strings"
+
 	"rampart/internal/tomlpos"
 	"rampart/mc"
 	"rampart/sim"
-	"strings"
 )
 
 // kind is the TOML type a key takes.
@@ -51,10 +53,13 @@ const (
 )
 
 var (
-	sitesBound    = bound{func(x float64) bool { return x >= 1 && x <= maxSites }, fmt.Sprintf("from 1 to %d", maxSites)}
-	lapsBound     = bound{func(x float64) bool { return x > 0 && x <= maxLaps }, "> 0 and at most 1e6"}
-	segmentsBound = bound{func(x float64) bool { return x >= 0 && x <= maxSegments }, fmt.Sprintf("from 0 (no echo) to %d", maxSegments)}
-	gridBound     = bound{func(x float64) bool { return x >= 0 && x <= sim.MaxGrid }, fmt.Sprintf("from 0 (automatic) to %d", sim.MaxGrid)}
+	sitesBound = bound{func(x float64) bool { return x >= 1 && x <= maxSites }, fmt.Sprintf("from 1 to %d", maxSites)}
+	lapsBound  = bound{func(x float64) bool { return x > 0 && x <= maxLaps }, "> 0 and at most 1e6"}
+	// One segment would be no echo at all (no swap pulse): refused rather
+	// than run silently as the plain sequence.
+	segmentsBound = bound{func(x float64) bool { return x == 0 || x >= 2 && x <= maxSegments },
+		fmt.Sprintf("0 (no echo) or from 2 to %d (an echo swaps the states between segments, so it needs at least 2; 1 would be no echo)", maxSegments)}
+	gridBound = bound{func(x float64) bool { return x >= 0 && x <= sim.MaxGrid }, fmt.Sprintf("from 0 (automatic) to %d", sim.MaxGrid)}
 	// The ring potential is applied at first order, tested to a tilt of
 	// 10 mrad and harmonics of 1e-2 (sim.RingPotential.Validate).
 	tiltBound     = bound{func(x float64) bool { return math.Abs(x) <= 10 }, "from -10 to 10"}
@@ -139,7 +144,7 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Motion.Laps }},
 	{name: "motion.rotation_rad_s", kind: number, bound: anyFinite, meaning: "the background rotation in rad/s",
 		field: func(s *Scenario) any { return &s.Motion.RotationRadS }},
-	{name: "motion.echo_segments", kind: integer, bound: segmentsBound, meaning: "the number of echo segments, each ending where the arms meet with a swap pulse and the drives reversed (0 or 1: no echo)",
+	{name: "motion.echo_segments", kind: integer, bound: segmentsBound, meaning: "the number of echo segments, each ending where the arms meet with a swap pulse and the drives reversed (0: no echo; an echo needs 2 or more)",
 		field: func(s *Scenario) any { return &s.Motion.EchoSegments }},
 	{name: "motion.echo_hold_us", kind: number, bound: zeroOrAbove("none"), meaning: "the rest between echo segments in us, the swap pulse at its middle",
 		field: func(s *Scenario) any { return &s.Motion.EchoHoldUS }},
@@ -386,6 +391,15 @@ func (k *key) set(s *Scenario, v any) {
 	default:
 		panic("scenario: unsupported field type")
 	}
+}
+
+// value returns the key's value in s (a source key that s does not set
+// is 0, as Number has it).
+func (k *key) value(s *Scenario) any {
+	if k.source {
+		return s.SourceNoise[k.name]
+	}
+	return reflect.ValueOf(k.field(s)).Elem().Interface()
 }
 
 // Number returns the value of the number key name ("noise.timing.skew_ns")

@@ -8,11 +8,12 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+
 	"rampart/internal/boundedread"
+	"rampart/internal/plural"
+	"rampart/sim"
 	"strconv"
 	"strings"
-
-	"rampart/sim"
 )
 
 // Ramp file columns.
@@ -97,7 +98,7 @@ func ParseRamp(r io.Reader, name string, sites int, cruiseRadS float64) (*sim.Ta
 		var err error
 		switch {
 		case longField(fields) > 0:
-			err = fmt.Errorf("field %d is %d bytes long: want a number or a column name", longField(fields), len(fields[longField(fields)-1]))
+			err = fmt.Errorf("field %d is %s long: want a number or a column name", longField(fields), plural.Count(len(fields[longField(fields)-1]), "byte"))
 		case strings.Contains(text, ";"):
 			err = fmt.Errorf("the columns are separated by semicolons: rampart reads comma-separated values with decimal points (%s,%s as 1.5e-4,250.5); export the table with commas between columns and points in numbers", timeColumn, omegaColumn)
 		case p.speedColumn == "":
@@ -140,7 +141,7 @@ func (p *rampParser) header(fields []string) error {
 		return fmt.Errorf("no header row before the numbers: the first row must name the columns, %s", want)
 	}
 	if len(fields) != 2 {
-		return fmt.Errorf("the header names %d columns: %s", len(fields), want)
+		return fmt.Errorf("the header names %s: %s", plural.Count(len(fields), "column"), want)
 	}
 	seen := map[string]bool{}
 	for i, f := range fields {
@@ -225,8 +226,8 @@ func (p *rampParser) finish() (*sim.Tabulated, error) {
 		msg := fmt.Errorf("the ramp ends at %s = %s but the cruise speed (motion.cruise_rad_s) is %.9g rad/s: the last row must match it within a relative %g",
 			p.speedColumn, p.speedText, p.cruise, sim.CruiseTolerance)
 		if p.speedColumn == driveColumn {
-			msg = fmt.Errorf("the ramp ends at %s = %s (%.9g rad/s on %d sites) but the cruise speed (motion.cruise_rad_s) is %.9g rad/s, drive_hz = %.9g: the last row must match it within a relative %g",
-				driveColumn, p.speedText, last, p.sites, p.cruise, p.cruise*float64(p.sites)/(2*math.Pi), sim.CruiseTolerance)
+			msg = fmt.Errorf("the ramp ends at %s = %s (%.9g rad/s on %s) but the cruise speed (motion.cruise_rad_s) is %.9g rad/s, drive_hz = %.9g: the last row must match it within a relative %g",
+				driveColumn, p.speedText, last, plural.Count(p.sites, "site"), p.cruise, p.cruise*float64(p.sites)/(2*math.Pi), sim.CruiseTolerance)
 		}
 		return nil, &RampError{File: p.name, Line: p.lastLine, Err: msg}
 	}

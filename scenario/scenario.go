@@ -334,15 +334,24 @@ func (s *Scenario) designDepthHz() float64 {
 	return s.Lattice.DepthKHz * 1e3
 }
 
-// keyError is an error attached to the key whose value caused it.
+// keyError is an error attached to the key whose value caused it. also
+// lists the other keys whose values take part in it: when key comes from
+// the file and one of them from --set, the message points at that flag
+// (decoder.blame).
 type keyError struct {
-	key string
-	err error
+	key  string
+	err  error
+	also []string
 }
+
+// sequenceKeys are the keys that set the angle of the ramps and the cruise
+// (sim.NewSequenceDown), beside motion.laps.
+var sequenceKeys = []string{"motion.cruise_rad_s", "ramp.shape", "ramp.duration_us", "ramp.file", "ramp.design_depth_khz",
+	"ramp.down_shape", "ramp.down_duration_us", "ramp.down_file", "ramp.down_design_depth_khz"}
 
 func (s *Scenario) config() (sim.Config, *keyError) {
 	if err := sim.CheckClosure(s.Motion.Laps, s.Ring.Sites); err != nil {
-		return sim.Config{}, &keyError{"motion.laps", err}
+		return sim.Config{}, &keyError{key: "motion.laps", err: err}
 	}
 	up, kerr := s.rampUp()
 	if kerr != nil {
@@ -357,11 +366,11 @@ func (s *Scenario) config() (sim.Config, *keyError) {
 	}
 	seq, err := sim.NewSequenceDown(up, down, s.Motion.Laps)
 	if err != nil {
-		return sim.Config{}, &keyError{"motion.laps", err}
+		return sim.Config{}, &keyError{key: "motion.laps", err: err, also: sequenceKeys}
 	}
 	if n := s.Motion.EchoSegments; n >= 2 {
 		if seq, err = sim.NewEcho(seq, n, s.Motion.EchoHoldUS*1e-6); err != nil {
-			return sim.Config{}, &keyError{"motion.echo_segments", err}
+			return sim.Config{}, &keyError{key: "motion.echo_segments", err: err}
 		}
 	}
 	cfg := sim.Config{
@@ -376,9 +385,12 @@ func (s *Scenario) config() (sim.Config, *keyError) {
 	if err := cfg.Validate(); err != nil {
 		var ce *sim.ClosureError
 		if errors.As(err, &ce) {
-			return sim.Config{}, &keyError{"motion.laps", err}
+			return sim.Config{}, &keyError{key: "motion.laps", err: err}
 		}
-		return sim.Config{}, &keyError{"", err}
+		return sim.Config{}, &keyError{key: "", err: err}
+	}
+	if kerr := checkGrid(cfg, s.Start.TemperatureNK > 0); kerr != nil {
+		return sim.Config{}, kerr
 	}
 	return cfg, nil
 }
@@ -409,14 +421,14 @@ func (s *Scenario) ramp(k rampKeys) (sim.Ramp, *keyError) {
 	case "file":
 		data, err := s.ReadFile(k.file)
 		if err != nil {
-			return nil, &keyError{k.prefix + "file", fmt.Errorf("ramp file %q: %w", boundedread.Excerpt(k.file, maxPath), readError(err))}
+			return nil, &keyError{key: k.prefix + "file", err: fmt.Errorf("ramp file %q: %w", boundedread.Excerpt(k.file, maxPath), readError(err))}
 		}
 		tab, err := ParseRamp(bytes.NewReader(data), k.file, s.Ring.Sites, cruise)
 		if err != nil {
-			return nil, &keyError{k.prefix + "file", err}
+			return nil, &keyError{key: k.prefix + "file", err: err}
 		}
 		if dur != 0 && math.Abs(tab.Duration()-dur) > durationAgreement*tab.Duration() {
-			return nil, &keyError{k.prefix + "duration_us", fmt.Errorf(
+			return nil, &keyError{key: k.prefix + "duration_us", err: fmt.Errorf(
 				"%sduration_us = %g but the ramp file %q ends at t = %g s (%g us): give that time or leave duration_us out",
 				k.prefix, k.durationUS, k.file, tab.Duration(), tab.Duration()*1e6)}
 		}
@@ -424,7 +436,7 @@ func (s *Scenario) ramp(k rampKeys) (sim.Ramp, *keyError) {
 	}
 	shape, err := sim.LookupShape(k.shape)
 	if err != nil {
-		return nil, &keyError{strings.TrimSuffix(strings.TrimSuffix(k.prefix, "."), "_"), err}
+		return nil, &keyError{key: strings.TrimSuffix(strings.TrimSuffix(k.prefix, "."), "_"), err: err}
 	}
 	depth := s.designDepthHz()
 	if k.prefix != "ramp." {
@@ -435,7 +447,7 @@ func (s *Scenario) ramp(k rampKeys) (sim.Ramp, *keyError) {
 	}
 	r, err := shape.New(s.simRing(), dur, cruise, depth)
 	if err != nil {
-		return nil, &keyError{strings.TrimSuffix(strings.TrimSuffix(k.prefix, "."), "_"), err}
+		return nil, &keyError{key: strings.TrimSuffix(strings.TrimSuffix(k.prefix, "."), "_"), err: err}
 	}
 	return r, nil
 }

@@ -262,7 +262,16 @@ func TestBadScenario(t *testing.T) {
 		{"ramp file ends below cruise", strings.Replace(strings.Replace(minimal, `shape = "sin2"`, "shape = \"file\"\nfile = \"../ramps/up.csv\"", 1), "duration_us = 150.0\n", "", 1) + "", []string{"motion.cruise_rad_s=400"}, 14, "ramp.file", `ramp file "ramps/up.csv" line 3: the ramp ends at omega_rad_s = 500 but the cruise speed (motion.cruise_rad_s) is 400 rad/s`},
 		{"duration disagrees with file", strings.Replace(minimal, `shape = "sin2"`, "shape = \"file\"\nfile = \"../ramps/up.csv\"", 1), nil, 15, "ramp.duration_us", `ramp.duration_us = 150 but the ramp file "ramps/up.csv" ends at t = 0.0001 s (100 us): give that time or leave duration_us out`},
 		{"arms do not close", strings.Replace(minimal, "laps = 1", "laps = 0.7", 1), nil, 10, "motion.laps", "the arms do not recombine: with laps = 0.7 they end 8 sites apart on the 20-site ring"},
-		{"ramps longer than the laps", strings.Replace(minimal, "laps = 1", "laps = 0.5", 1), []string{"ramp.duration_us=1e5"}, 10, "motion.laps", "the two ramps alone turn each arm by"},
+		{"ramps longer than the laps", strings.Replace(minimal, "laps = 1", "laps = 0.5", 1), []string{"ramp.duration_us=1e5"}, -1, "ramp.duration_us", "the two ramps alone turn each arm by"},
+		// The ramps' angle: 2 x 50000 rad/s x 150 us / 2 = 7.5 rad = 1.19366 turns.
+		{"ramps too fast for the laps", minimal, []string{"motion.cruise_rad_s=50000"}, -1, "motion.cruise_rad_s", "the two ramps alone turn each arm by 1.19366 turns, more than laps = 1: raise laps, lower the cruise speed or shorten the ramp"},
+		{"ramps longer than the laps in the file", strings.Replace(minimal, "cruise_rad_s = 500.0", "cruise_rad_s = 50000.0", 1), nil, 10, "motion.laps", "the two ramps alone turn each arm by"},
+		// The momentum grid (sim.AutoNumerics, sim.MaxGrid): the packet at
+		// 1e9 kHz needs 31366 states, the speed 34; at 1e6 rad/s the speed
+		// needs 2 I Omega / hbar = 68000 (34 x 2000).
+		{"grid too large for the depth", minimal, []string{"lattice.depth_khz=1e9"}, -1, "lattice.depth_khz", "the momentum grid would need 31400 states, more than the 16384 rampart handles (memory and time grow as grid^2 / sites): about 34 of them hold the arms' momentum at the peak speed 500 rad/s, 31366 the site's wave packet, which widens with the depth as V0^(1/4): lower the lattice depth (lattice.depth_khz), or set numerics.grid"},
+		{"grid too large for the depth in the file", strings.Replace(minimal, "depth_khz = 20.0", "depth_khz = 1e9", 1), nil, 6, "lattice.depth_khz", "lower the lattice depth (lattice.depth_khz)"},
+		{"grid too large for the speed", minimal, []string{"motion.cruise_rad_s=1e6", "motion.laps=30"}, -1, "motion.cruise_rad_s", "lower the cruise speed (motion.cruise_rad_s)"},
 		// Overrides.
 		{"override without =", minimal, []string{"ring.sites"}, -1, "", "want table.key=value, for example ring.sites=24"},
 		{"override of an unknown key", minimal, []string{"ring.radius=3"}, -1, "ring.radius", "unknown key ring.radius: [ring] takes radius_um, sites"},
@@ -280,7 +289,9 @@ func TestBadScenario(t *testing.T) {
 		{"ramp-down design depth for sin2", minimal, []string{"ramp.down_shape=sin2", "ramp.down_duration_us=100", "ramp.down_design_depth_khz=10"}, -1, "ramp.down_design_depth_khz", "applies to shapes designed for a depth"},
 		{"ramp-down table at another speed", minimal, []string{"motion.cruise_rad_s=400", "ramp.down_shape=file", "ramp.down_file=ramps/up.csv"}, -1, "ramp.down_file", "ramps/up.csv"},
 		{"echo hold without segments", minimal, []string{"motion.echo_hold_us=20"}, -1, "motion.echo_hold_us", "applies to echo sequences only"},
-		{"too many echo segments", minimal, []string{"motion.echo_segments=1001"}, -1, "motion.echo_segments", "want an integer from 0 (no echo) to 1000"},
+		{"too many echo segments", minimal, []string{"motion.echo_segments=1001"}, -1, "motion.echo_segments", "want an integer 0 (no echo) or from 2 to 1000"},
+		{"one echo segment", minimal, []string{"motion.echo_segments=1"}, -1, "motion.echo_segments", "motion.echo_segments = 1 is out of range: want an integer 0 (no echo) or from 2 to 1000 (an echo swaps the states between segments, so it needs at least 2; 1 would be no echo)"},
+		{"one echo segment in the file", strings.Replace(minimal, "laps = 1\n", "laps = 1\necho_segments = 1\n", 1), nil, 11, "motion.echo_segments", "motion.echo_segments = 1 is out of range"},
 		{"echo segments that do not close", minimal, []string{"motion.laps=1", "motion.echo_segments=2", "motion.laps=0.25"}, -1, "motion.laps", "the arms do not recombine: with laps = 0.25"},
 	} {
 		_, err := parse(fsys, "s/s.toml", []byte(row.doc), row.set)

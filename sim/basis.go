@@ -1,6 +1,10 @@
 package sim
 
-import "fmt"
+import (
+	"fmt"
+
+	"rampart/internal/plural"
+)
 
 // Basis is the truncated angular-momentum basis on the ring: Block states in
 // each of the Sites quasi-momentum classes c = l mod N, so Sites*Block states
@@ -20,7 +24,7 @@ type Basis struct {
 // a positive multiple of 2*sites.
 func NewBasis(sites, grid int) (Basis, error) {
 	if sites < 1 {
-		return Basis{}, fmt.Errorf("ring has %d sites, need at least 1", sites)
+		return Basis{}, fmt.Errorf("ring has %s, need at least 1", plural.Count(sites, "site"))
 	}
 	if grid < 2*sites || grid%(2*sites) != 0 {
 		return Basis{}, fmt.Errorf("grid %d is not a positive multiple of 2*sites = %d", grid, 2*sites)

@@ -3,6 +3,8 @@ package sim
 import (
 	"fmt"
 	"math"
+
+	"rampart/internal/plural"
 )
 
 // Ring is the geometry of a ring lattice: Sites bright sites equally spaced on
@@ -17,7 +19,7 @@ type Ring struct {
 func (r Ring) Validate() error {
 	switch {
 	case r.Sites < 1:
-		return fmt.Errorf("ring has %d sites, need at least 1", r.Sites)
+		return fmt.Errorf("ring has %s, need at least 1", plural.Count(r.Sites, "site"))
 	case !(r.RadiusM > 0) || math.IsInf(r.RadiusM, 0):
 		return fmt.Errorf("ring radius %g m is not a positive finite length", r.RadiusM)
 	case !(r.MassKg > 0) || math.IsInf(r.MassKg, 0):

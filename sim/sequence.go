@@ -54,7 +54,7 @@ func NewSequenceDown(up, down Ramp, laps float64) (Sequence, error) {
 	ramps := up.Angle(up.Duration()) + q.down().Angle(q.down().Duration())
 	rest := 2*math.Pi*laps - ramps
 	if rest < -1e-12*ramps {
-		return Sequence{}, fmt.Errorf("the two ramps alone turn each arm by %.6g turns, more than laps = %g: raise laps or the cruise speed, or shorten the ramp", ramps/(2*math.Pi), laps)
+		return Sequence{}, fmt.Errorf("the two ramps alone turn each arm by %.6g turns, more than laps = %g: raise laps, lower the cruise speed or shorten the ramp (a ramp's angle grows with its cruise speed and its duration: a sin2 ramp to Omega0 over t_r turns Omega0 t_r / 2)", ramps/(2*math.Pi), laps)
 	}
 	q.CruiseS = math.Max(rest, 0) / w
 	return q, nil

@@ -109,7 +109,7 @@ func TestNewSequenceErrors(t *testing.T) {
 		laps float64
 		want string
 	}{
-		{"ramps exceed laps", Sin2{DurationS: 0.1, CruiseRadS: 500}, 1, "the two ramps alone turn each arm by 7.95775 turns"}, // 500 rad/s * 0.1 s / (2 pi)
+		{"ramps exceed laps", Sin2{DurationS: 0.1, CruiseRadS: 500}, 1, "the two ramps alone turn each arm by 7.95775 turns, more than laps = 1: raise laps, lower the cruise speed or shorten the ramp"}, // 2 x 500 rad/s * 0.1 s / 2 / (2 pi)
 		{"zero laps", Sin2{DurationS: 1e-4, CruiseRadS: 500}, 0, "laps = 0"},
 		{"negative cruise", Sin2{DurationS: 1e-4, CruiseRadS: -500}, 1, "must be positive"},
 		{"infinite laps", Sin2{DurationS: 1e-4, CruiseRadS: 500}, math.Inf(1), "positive finite"},

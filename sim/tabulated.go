@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"rampart/internal/plural"
 )
 
 // Tabulated is a ramp given by samples (t_i, Omega_i), for example from a
@@ -36,7 +38,7 @@ func NewTabulated(label string, t, omega []float64, cruise float64) (*Tabulated,
 		panic("sim: NewTabulated: len(t) != len(omega)")
 	}
 	if n < 2 {
-		return nil, fmt.Errorf("ramp table has %d rows, need at least 2", n)
+		return nil, fmt.Errorf("ramp table has %s, need at least 2", plural.Count(n, "row"))
 	}
 	if t[0] != 0 {
 		return nil, fmt.Errorf("ramp table starts at t = %g s, want 0", t[0])

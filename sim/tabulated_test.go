@@ -158,7 +158,7 @@ func TestNewTabulatedErrors(t *testing.T) {
 		cruise    float64
 		wantParts []string
 	}{
-		{"one row", []float64{0}, []float64{0}, 1, []string{"1 rows", "at least 2"}},
+		{"one row", []float64{0}, []float64{0}, 1, []string{"1 row,", "at least 2"}},
 		{"late start", []float64{1e-6, 2e-6}, []float64{0, 1}, 1, []string{"starts at t = 1e-06"}},
 		{"time not increasing", []float64{0, 2e-6, 2e-6}, []float64{0, 1, 2}, 2, []string{"row 3", "not after"}},
 		{"time decreasing", []float64{0, 2e-6, 1e-6}, []float64{0, 1, 2}, 2, []string{"row 3", "not after"}},

@@ -16,6 +16,7 @@ import (
 	"github.com/spf13/cobra"
 	"golang.org/x/term"
 
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/scenario"
 	"rampart/sim"
@@ -129,7 +130,7 @@ func (run *ensembleRun) summarise(confidence float64, spec mc.Spec) mc.Summary {
 // interruptedError reports an ensemble stopped by a signal; its exit code is
 // 130, the shell's convention for SIGINT.
 func interruptedError(done, total int, dir string) error {
-	msg := fmt.Sprintf("interrupted after %d of %d realisations", done, total)
+	msg := fmt.Sprintf("interrupted after %d of %s", done, plural.Count(total, "realisation"))
 	if dir != "" {
 		msg += fmt.Sprintf("; they are kept in %s: continue with the same command and --resume %s", dir, dir)
 	} else {
@@ -208,7 +209,7 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 			return nil, fmt.Errorf("--shard: %w", err)
 		}
 		if sh.Count > job.records {
-			return nil, fmt.Errorf("--shard %s: more shards than the %d realisations", o.shard, job.records)
+			return nil, fmt.Errorf("--shard %s: more shards than the %s", o.shard, plural.Count(job.records, "realisation"))
 		}
 		j.Shard = &sh
 	}

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"rampart/cmd/internal/present"
+	"rampart/internal/plural"
 	"time"
 )
 
@@ -26,8 +27,8 @@ func durationNote(done int, elapsed time.Duration, left int, dir string) string 
 	if dir != "" {
 		keep = "Ctrl-C stops cleanly and --resume " + dir + " continues"
 	}
-	return fmt.Sprintf("note: at the measured %s shots/s the %d realisations left take about %s; %s\n",
-		present.Sig(rate, 3), left, roughDuration(est), keep)
+	return fmt.Sprintf("note: at the measured %s shots/s the %s left take about %s; %s\n",
+		present.Sig(rate, 3), plural.Count(left, "realisation"), roughDuration(est), keep)
 }
 
 // roughDuration formats a long duration in hours or days to two figures.

@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/present"
+	"rampart/internal/plural"
 	"rampart/mc"
 )
 
@@ -120,11 +121,11 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 		if err := present.WriteOutcomeResults(o.out, sum, outcomes, spec); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "merged %d shards, %d realisations, into %s\n", len(dirs), outcomes.Len(), o.out)
+		fmt.Fprintf(stderr, "merged %s, %s, into %s\n", plural.Count(len(dirs), "shard"), plural.Count(outcomes.Len(), "realisation"), o.out)
 	}
 	if o.json {
 		return present.WriteJSON(stdout, sum)
 	}
-	fmt.Fprintf(stdout, "Merged %d shards: %d realisations, seed %d, %s sampler\n\n", len(dirs), outcomes.Len(), m.Seed, m.Sampler)
+	fmt.Fprintf(stdout, "Merged %s: %s, seed %d, %s sampler\n\n", plural.Count(len(dirs), "shard"), plural.Count(outcomes.Len(), "realisation"), m.Seed, m.Sampler)
 	return present.PrintSummary(stdout, sum)
 }

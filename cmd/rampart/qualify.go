@@ -11,6 +11,7 @@ import (
 	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/spec"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/scenario"
 )
@@ -184,7 +185,7 @@ func runQualify(e env, stdout, stderr io.Writer, o qualifyOptions, confidenceGiv
 		if err := atomicfile.Write(filepath.Join(dir, present.QualificationFile), func(w io.Writer) error { return present.WriteJSON(w, rep) }); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %d realisations, %s and %s to %s (look %d recorded)\n", len(run.records), present.SummaryFile, present.QualificationFile, dir, q.Look)
+		fmt.Fprintf(stderr, "wrote %s, %s and %s to %s (look %d recorded)\n", plural.Count(len(run.records), "realisation"), present.SummaryFile, present.QualificationFile, dir, q.Look)
 	}
 	cfg = run.realiser.Config()
 	ramp, specLine := cfg.Sequence.Up.Name()+" ramp", "Spec: "+o.spec

@@ -8,6 +8,7 @@ import (
 
 	"rampart/cmd/internal/present"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 	"rampart/scenario"
 )
 
@@ -58,7 +59,7 @@ func runRamp(stdout, stderr io.Writer, o rampOptions) error {
 		}); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %d samples of Omega(t) and phi(t) to %s\n", n, o.out)
+		fmt.Fprintf(stderr, "wrote %s of Omega(t) and phi(t) to %s\n", plural.Count(n, "sample"), o.out)
 	}
 	return present.PrintDrive(stdout, sc, cfg)
 }

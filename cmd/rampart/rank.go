@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/present"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/scenario"
 	"rampart/sim"
@@ -122,9 +123,9 @@ func runRank(e env, stdout, stderr io.Writer, o rankOptions, files []string) err
 		ramps = append(ramps, fmt.Sprintf("%s = %s (%s us)", r.Name, present.RampDefinition(r), present.Sig(r.RampUpS*1e6, 6)))
 	}
 	rampsLine := "Ramps: " + strings.Join(ramps, ", ")
-	workLine := work.Line(fmt.Sprintf("%d ramps x %d realisations on common random numbers", len(cs), o.ens.samples), o.ens.seed, o.ens.sampler, o.ens.shard)
+	workLine := work.Line(fmt.Sprintf("%s x %s on common random numbers", plural.Count(len(cs), "ramp"), plural.Count(o.ens.samples, "realisation")), o.ens.seed, o.ens.sampler, o.ens.shard)
 	numLines := present.RampNumericsLines(rep)
-	what := fmt.Sprintf("%d ramps", len(cs))
+	what := plural.Count(len(cs), "ramp")
 	if o.report != "" {
 		if err := writeRankReport(e, stderr, o, sc, cs, recs, rep, spec, present.SetupText(sc, cfg, what, budget, append([]string{rampsLine, workLine}, numLines...)...)); err != nil {
 			return err
@@ -229,5 +230,5 @@ func writeRankReport(e env, stderr io.Writer, o rankOptions, sc *scenario.Scenar
 	if err != nil {
 		return err
 	}
-	return writeDecisionReport(e, stderr, o.decisionOptions, fmt.Sprintf("Ranking of %d ramps on %s", len(cs), sc.Name), sc, cfgs, rep.Ranking.Ranking[0].Name, setup, secs...)
+	return writeDecisionReport(e, stderr, o.decisionOptions, fmt.Sprintf("Ranking of %s on %s", plural.Count(len(cs), "ramp"), sc.Name), sc, cfgs, rep.Ranking.Ranking[0].Name, setup, secs...)
 }

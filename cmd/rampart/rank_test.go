@@ -172,8 +172,8 @@ func TestRankScenarioFiles(t *testing.T) {
 		t.Errorf("places %s, want inverse,ensemble", got)
 	}
 	_, stderr, code := execute(t, "rank", "--scenario", ensembleScenario, deeper, "--samples", "4")
-	if code != 2 || !strings.Contains(stderr, "differs from \""+ensembleScenario+"\" in [lattice]") {
-		t.Errorf("a file differing in [lattice]: exit %d, stderr %q", code, stderr)
+	if code != 2 || !strings.Contains(stderr, "differs from \""+ensembleScenario+"\" in lattice.depth_khz:") {
+		t.Errorf("a file differing in lattice.depth_khz: exit %d, stderr %q", code, stderr)
 	}
 }
 

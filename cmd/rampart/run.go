@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/present"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/scenario"
 )
@@ -106,7 +107,7 @@ func runRun(e env, stdout, stderr io.Writer, o runOptions) error {
 		if err := present.WriteResults(dir, sum, run.records, spec); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %d realisations, %s and contrast and bias histograms (PNG, SVG) to %s\n", len(run.records), present.SummaryFile, dir)
+		fmt.Fprintf(stderr, "wrote %s, %s and contrast and bias histograms (PNG, SVG) to %s\n", plural.Count(len(run.records), "realisation"), present.SummaryFile, dir)
 	}
 	if o.report != "" {
 		if err := writeRunReport(e, stderr, o, sc, run, budget, sum, spec, ro); err != nil {

@@ -12,6 +12,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 	"rampart/internal/version"
 	"rampart/mc"
 )
@@ -156,8 +157,8 @@ func runSbatch(e env, stdout, stderr io.Writer, line []string, o sbatchOptions) 
 	if err := atomicfile.Write(p.Script, func(w io.Writer) error { return writeSbatch(w, p) }); err != nil {
 		return err
 	}
-	fmt.Fprintf(stdout, "Wrote %s: %d tasks of %s, time limit %s each (a shard of %d realisations estimated at %s).\nSubmit both stages from this directory:\n  %s\n  %s\n",
-		p.Script, p.Shards, cpusText(p.CPUs), slurmTime(p.Time), int(math.Ceil(float64(p.Units)/float64(p.Shards))), roundEstimate(est), submitLine(p), mergeLine(p))
+	fmt.Fprintf(stdout, "Wrote %s: %s of %s, time limit %s each (a shard of %s estimated at %s).\nSubmit both stages from this directory:\n  %s\n  %s\n",
+		p.Script, plural.Count(p.Shards, "task"), cpusText(p.CPUs), slurmTime(p.Time), plural.Count(int(math.Ceil(float64(p.Units)/float64(p.Shards))), "realisation"), roundEstimate(est), submitLine(p), mergeLine(p))
 	return nil
 }
 
@@ -207,7 +208,7 @@ func planSbatch(line []string, o sbatchOptions) (sbatchPlan, *pflag.FlagSet, err
 	fmt.Sscan(get(sizeFlag), &units)
 	fmt.Sscan(get("workers"), &cpus)
 	if perShard := (units + o.shards - 1) / o.shards; sizeFlag == "samples" && perShard > mc.MaxInProcess {
-		return sbatchPlan{}, nil, fmt.Errorf("--shards %d: shards of %d realisations, more than the %d one process holds; give --shards %d or more", o.shards, perShard, mc.MaxInProcess, (units+mc.MaxInProcess-1)/mc.MaxInProcess)
+		return sbatchPlan{}, nil, fmt.Errorf("--shards %d: shards of %s, more than the %d one process holds; give --shards %d or more", o.shards, plural.Count(perShard, "realisation"), mc.MaxInProcess, (units+mc.MaxInProcess-1)/mc.MaxInProcess)
 	}
 	if o.shards > units {
 		return sbatchPlan{}, nil, fmt.Errorf("--shards %d: more tasks than the %d %s of the command line", o.shards, units, map[string]string{"samples": "realisations", "base": "base rows"}[sizeFlag])
@@ -283,7 +284,7 @@ func probeRate(e env, p sbatchPlan, fs *pflag.FlagSet, m int) (float64, string, 
 		t0 := time.Now()
 		code := run(args, io.Discard, &errs, env{now: e.now})
 		if code != 0 && code != 1 && code != 3 { // 1 and 3: a verdict, not an error
-			return 0, fmt.Errorf("sbatch: measuring the rate with %d realisations: %s", n, strings.TrimSpace(errs.String()))
+			return 0, fmt.Errorf("sbatch: measuring the rate with %s: %s", plural.Count(n, "realisation"), strings.TrimSpace(errs.String()))
 		}
 		return time.Since(t0), nil
 	}

@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"time"
+
+	"rampart/internal/plural"
 )
 
 // writeSbatch writes the job-array script of the plan: tasks 1 to N run
@@ -30,7 +32,7 @@ func writeSbatch(w io.Writer, p sbatchPlan) error {
 	pr("# run directories into %s and runs the command on the merged set, which gives", p.Out)
 	pr("# the files of one unsharded run. A task that stopped continues when resubmitted.")
 	pr("#")
-	pr("# Time limit: a shard of %d realisations on %s at %.4g realisations per", perShard, cpusText(p.CPUs), p.Rate)
+	pr("# Time limit: a shard of %s on %s at %.4g realisations per", plural.Count(perShard, "realisation"), cpusText(p.CPUs), p.Rate)
 	pr("# core-second (%s) takes about %s;", p.RateFrom, roundEstimate(p.Estimate()))
 	pr("# the limit is twice that plus 10 minutes.")
 	pr("#SBATCH --job-name=rampart-%s", p.Command)

@@ -38,8 +38,10 @@ func newScanCmd(e env, run func(e env, stdout, stderr io.Writer, o scanOptions) 
 		Long: `Scan one or two number keys of the scenario over a grid (KEY=FROM:TO:N, N
 values evenly spaced, both ends included) or a list (KEY=V1,V2,...), each
 value applied as --set KEY=VALUE is. At each point it simulates the
-noise-free shot (contrast, phase, bias, ground-band populations, the ramp's
-peak speed), or with --ensemble the ensemble under the noise budget: the
+noise-free shot that rampart shot simulates, the apparatus's effects
+included (contrast, phase, phase - K Omega with K the nominal scale factor,
+ground-band populations, the ramp's peak speed), or with --ensemble the
+ensemble under the noise budget: the
 5th-percentile contrast and the 95th percentile of |bias| with their exact
 intervals, and with --spec the yield inside the spec's yield limits with
 its Clopper-Pearson interval. Every point's ensemble starts from the same
@@ -145,7 +147,19 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 	rep.Points = make([]present.ScanPoint, len(pts))
 	if !o.ensemble {
 		bar := newProgress(stderr, len(pts), 0, "scan")
-		nom, err := design.ScanNominal(ctx, cfgs, o.ens.workers, func() { bar.Add(1) })
+		// Each point is the shot rampart shot simulates: the apparatus's
+		// effects (field offset and gradient, scattering, radius error,
+		// ring potential)
+		// from the one builder shot uses, scenario.Scenario.Apparatus.
+		shots := make([]design.NominalShot, len(pts))
+		for i := range pts {
+			app, err := scs[i].Apparatus()
+			if err != nil {
+				return err
+			}
+			shots[i] = design.NominalShot{Config: cfgs[i], Apparatus: app}
+		}
+		nom, err := design.ScanNominal(ctx, shots, o.ens.workers, func() { bar.Add(1) })
 		bar.Finish()
 		if err != nil {
 			if ctx.Err() != nil {

@@ -80,6 +80,58 @@ func TestScanNominal(t *testing.T) {
 	}
 }
 
+// TestScanNominalApparatus checks that a noise-free scan point is the shot
+// rampart shot simulates, the apparatus's effects included: the demo (its
+// photon scattering from the 785 nm lattice, field gradient, tilt and
+// depth harmonic) with a field offset, over the ring's tilt and radius
+// error, on half a lap so that the tilt is not cancelled by a whole lap.
+// Each point's contrast and phase must equal shot's to the last bit (the
+// same simulation), and the tilt must move the phase (by about 1.7 rad at
+// 5 mrad in the benchmark; here checked only to differ), so the check
+// cannot pass on a scan that leaves the apparatus out.
+func TestScanNominalApparatus(t *testing.T) {
+	const sc = "testdata/demo/demo.toml"
+	sets := []string{"--set", "motion.laps=0.5", "--set", "atom.field_offset_ug=500"}
+	stdout, stderr, code := execute(t, append(append([]string{"scan", "--scenario", sc}, sets...),
+		"--vary", "ring.tilt_mrad=0,5", "--vary", "ring.radius_error_ppm=0,1000", "--json")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	s := readScan(t, stdout)
+	if len(s.Points) != 4 {
+		t.Fatalf("%d points, want 4", len(s.Points))
+	}
+	for _, p := range s.Points {
+		args := append([]string{"shot", "--scenario", sc, "--json"}, sets...)
+		for k, key := range s.Keys {
+			args = append(args, "--set", key+"="+strconv.FormatFloat(p.Values[k], 'g', -1, 64))
+		}
+		shot, stderr, code := execute(t, args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, stderr)
+		}
+		var r struct {
+			Contrast float64 `json:"contrast"`
+			PhaseRad float64 `json:"phase_rad"`
+		}
+		if err := json.Unmarshal([]byte(shot), &r); err != nil {
+			t.Fatal(err)
+		}
+		if p.Nominal == nil || p.Nominal.Contrast != r.Contrast || p.Nominal.PhaseRad != r.PhaseRad {
+			t.Errorf("%v %v: scan %+v, shot contrast %v phase %v rad: want the same", s.Keys, p.Values, p.Nominal, r.Contrast, r.PhaseRad)
+		}
+	}
+	phase := map[[2]float64]float64{}
+	for _, p := range s.Points {
+		if p.Nominal != nil {
+			phase[[2]float64{p.Values[0], p.Values[1]}] = p.Nominal.PhaseRad
+		}
+	}
+	if a, b := phase[[2]float64{0, 0}], phase[[2]float64{5, 0}]; a == b {
+		t.Errorf("tilt 0 and 5 mrad: phases %v and %v rad, want them to differ", a, b)
+	}
+}
+
 // TestScanEnsembleCommonRandomNumbers scans a key that the shot ignores
 // (the readout's atom number): with common random numbers every point draws
 // the same realisations, so every point's figures must agree exactly; and

@@ -8,6 +8,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/present"
+	"rampart/internal/plural"
 	"rampart/mc"
 )
 
@@ -100,7 +101,7 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 	if o.ens.resume != "" {
 		if m, _, err := mc.Read(o.ens.resume); err == nil && m.Samples != design.Len() {
 			d := len(design.Inputs()) + 2
-			return fmt.Errorf("--resume %s holds a design of %d shots, %d base rows for these %d inputs, not %d: give --base %d", o.ens.resume, m.Samples, m.Samples/d, d-2, o.base, m.Samples/d)
+			return fmt.Errorf("--resume %s holds a design of %s, %s for these %s, not %d: give --base %d", o.ens.resume, plural.Count(m.Samples, "shot"), plural.Count(m.Samples/d, "base row"), plural.Count(d-2, "input"), o.base, m.Samples/d)
 		}
 	}
 	ctx, stop := signalContext()
@@ -129,12 +130,12 @@ func runSensitivity(e env, stdout, stderr io.Writer, o sensitivityOptions) error
 		if err := present.WriteSensitivity(dir, rep); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %d shots, %s and the bar charts to %s\n", len(run.records), present.SensitivityFile, dir)
+		fmt.Fprintf(stderr, "wrote %s, %s and the bar charts to %s\n", plural.Count(len(run.records), "shot"), present.SensitivityFile, dir)
 	}
 	cfg, ramp := r.Config(), r.Config().Sequence.Up.Name()+" ramp"
 	var work present.Work
 	work.Add(run.fresh, len(run.records), run.elapsed)
-	what := fmt.Sprintf("Saltelli design of %d base rows x (%d inputs + 2) = %d shots", o.base, len(rep.Inputs), rep.Shots)
+	what := fmt.Sprintf("Saltelli design of %s x (%s + 2) = %s", plural.Count(o.base, "base row"), plural.Count(len(rep.Inputs), "input"), plural.Count(rep.Shots, "shot"))
 	designLine := strings.Replace(work.Line(what, o.ens.seed, o.ens.sampler, o.ens.shard), "Ensembles: ", "Design: ", 1)
 	if o.report != "" {
 		sens, err := present.SensitivitySection(rep)

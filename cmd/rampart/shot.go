@@ -8,6 +8,7 @@ import (
 
 	"rampart/cmd/internal/present"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 	"rampart/scenario"
 	"rampart/sim"
 )
@@ -116,7 +117,7 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 		if err := atomicfile.Write(o.trace, func(w io.Writer) error { return present.WriteTrace(w, trace) }); err != nil {
 			return err
 		}
-		fmt.Fprintf(stderr, "wrote %d rows of diagnostics to %s\n", len(trace), o.trace)
+		fmt.Fprintf(stderr, "wrote %s of diagnostics to %s\n", plural.Count(len(trace), "row"), o.trace)
 	}
 	if o.json {
 		err = present.WriteJSON(stdout, rep)

@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"rampart/cmd/internal/present"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/scenario"
 	"rampart/sim"
@@ -105,8 +106,8 @@ as a job array (rampart sbatch).`,
 func searchTolerances(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req mc.Requirements, names []string, o ensembleOptions, precision float64, ro mc.Readout, kernels bool) (present.ToleranceReport, present.Work, error) {
 	var work present.Work
 	if n := req.MinSamples(); o.samples < n {
-		return present.ToleranceReport{}, work, fmt.Errorf("%d realisations per amplitude cannot pass the spec at %g %% confidence even if every one is far inside its limits (no exact bound on its quantiles or yield from so few); give at least %d",
-			o.samples, 100*req.Confidence, n)
+		return present.ToleranceReport{}, work, fmt.Errorf("%s per amplitude cannot pass the spec at %g %% confidence even if every one is far inside its limits (no exact bound on its quantiles or yield from so few); give at least %d",
+			plural.Count(o.samples, "realisation"), 100*req.Confidence, n)
 	}
 	search := mc.ToleranceSearch{
 		Budget: budget, Requirements: req, Seed: o.seed,
@@ -221,7 +222,7 @@ func runTolerance(e env, stdout, stderr io.Writer, o toleranceOptions, confidenc
 		fmt.Fprintf(stderr, "wrote %s, a figure per source and every ensemble of the search to %s\n", present.ToleranceCurvesFile, dir)
 	}
 	ramp := cfg.Sequence.Up.Name() + " ramp"
-	workLine := work.Line(fmt.Sprintf("%d realisations at each amplitude tried, on common random numbers", o.ens.samples), o.ens.seed, o.ens.sampler, o.ens.shard)
+	workLine := work.Line(fmt.Sprintf("%s at each amplitude tried, on common random numbers", plural.Count(o.ens.samples, "realisation")), o.ens.seed, o.ens.sampler, o.ens.shard)
 	specLine := fmt.Sprintf("Spec: %s, at %s %% confidence", o.spec, present.Sig(100*req.Confidence, 3))
 	if o.report != "" {
 		tol, err := present.ToleranceSection(rep)

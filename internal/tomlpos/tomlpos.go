@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"math"
 	"rampart/internal/boundedread"
+	"rampart/internal/plural"
 	"reflect"
 	"strconv"
 	"strings"
@@ -115,7 +116,7 @@ func Show(v any) string {
 		var parts []string
 		for i, e := range x {
 			if i == 4 {
-				parts = append(parts, fmt.Sprintf("... (%d elements)", len(x)))
+				parts = append(parts, fmt.Sprintf("... (%s)", plural.Count(len(x), "element")))
 				break
 			}
 			parts = append(parts, Show(e))

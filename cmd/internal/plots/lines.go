@@ -7,6 +7,8 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg/draw"
+
+	"rampart/internal/plural"
 )
 
 // A Series is one named curve of a line plot, drawn through its points in
@@ -54,7 +56,7 @@ func Lines(series []Series, opts LinesOptions) (*Figure, error) {
 			return nil, fmt.Errorf("plots: %s has %d x values and %d y values: want as many of each", what, len(s.X), len(s.Y))
 		}
 		if len(s.X) < 2 {
-			return nil, fmt.Errorf("plots: %s has %d points: want at least 2", what, len(s.X))
+			return nil, fmt.Errorf("plots: %s has %s: want at least 2", what, plural.Count(len(s.X), "point"))
 		}
 		if err := errors.Join(checkAxis(what+" x", s.X, opts.LogX), checkAxis(what+" y", s.Y, opts.LogY)); err != nil {
 			return nil, err
@@ -66,7 +68,7 @@ func Lines(series []Series, opts LinesOptions) (*Figure, error) {
 			return nil, fmt.Errorf("plots: %s has %d x, %d lo and %d hi values: want as many of each", what, len(b.X), len(b.Lo), len(b.Hi))
 		}
 		if len(b.X) < 2 {
-			return nil, fmt.Errorf("plots: %s has %d points: want at least 2", what, len(b.X))
+			return nil, fmt.Errorf("plots: %s has %s: want at least 2", what, plural.Count(len(b.X), "point"))
 		}
 		if err := errors.Join(checkAxis(what+" x", b.X, opts.LogX), checkAxis(what+" lo", b.Lo, opts.LogY), checkAxis(what+" hi", b.Hi, opts.LogY)); err != nil {
 			return nil, err

@@ -68,7 +68,7 @@ func TestLinesErrors(t *testing.T) {
 	}{
 		{"no series", nil, LinesOptions{}, []string{"without series"}},
 		{"lengths", []Series{{Name: "arm +1", X: []float64{0, 1, 2}, Y: []float64{0, 1}}}, LinesOptions{}, []string{`"arm +1"`, "3 x values and 2 y values"}},
-		{"one point", []Series{{Name: "a", X: []float64{0}, Y: []float64{0}}}, LinesOptions{}, []string{"1 points", "at least 2"}},
+		{"one point", []Series{{Name: "a", X: []float64{0}, Y: []float64{0}}}, LinesOptions{}, []string{"1 point:", "at least 2"}},
 		{"NaN", []Series{good, {Name: "b", X: []float64{0, 1}, Y: []float64{0, math.NaN()}}}, LinesOptions{}, []string{`series 1 ("b") y[1]`, "NaN"}},
 		{"log x", []Series{good}, LinesOptions{LogX: true}, []string{`series 0 ("a") x[0]`, "log axis"}},
 		{"log y marker", []Series{{X: []float64{1, 2}, Y: []float64{1, 2}}}, LinesOptions{LogY: true, HLines: []Marker{{Label: "zero", Value: 0}}}, []string{"horizontal line 0", "log axis"}},

@@ -6,6 +6,7 @@ import (
 
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
+	"rampart/internal/plural"
 )
 
 // ScanSections returns the report section of a scan: its table, notes and
@@ -17,9 +18,9 @@ func ScanSections(rep ScanReport) ([]report.Section, error) {
 	}
 	what := "noise-free shot"
 	if rep.Ensemble {
-		what = fmt.Sprintf("ensemble of %d realisations from seed %d at every point (common random numbers)", rep.Samples, rep.Seed)
+		what = fmt.Sprintf("ensemble of %s from seed %d at every point (common random numbers)", plural.Count(rep.Samples, "realisation"), rep.Seed)
 	}
-	text := fmt.Sprintf("A scan of %s over %d points, the %s.\n\n%s", strings.Join(rep.Keys, " and "), len(rep.Points), what, strings.Join(ScanNotes(rep), "\n\n"))
+	text := fmt.Sprintf("A scan of %s over %s, the %s.\n\n%s", strings.Join(rep.Keys, " and "), plural.Count(len(rep.Points), "point"), what, strings.Join(ScanNotes(rep), "\n\n"))
 	return []report.Section{{
 		Heading: "Scan of " + strings.Join(rep.Keys, " and "),
 		Text:    text,
@@ -71,8 +72,8 @@ func RobustSections(rep RobustReport) ([]report.Section, error) {
 	}
 	return append(out, report.Section{
 		Heading: "Ranking on the fresh ensemble",
-		Text: fmt.Sprintf("%d realisations per ramp, seed %d (independent of the tuning draws).\n\n%s",
-			rep.FreshShots, rep.FreshSeed, strings.Join(RankingNotes(*rep.Fresh), "\n\n")),
+		Text: fmt.Sprintf("%s per ramp, seed %d (independent of the tuning draws).\n\n%s",
+			plural.Count(rep.FreshShots, "realisation"), rep.FreshSeed, strings.Join(RankingNotes(*rep.Fresh), "\n\n")),
 		Tables:  []report.Table{RankingGrid(*rep.Fresh).Table()},
 		Figures: rfigs,
 	}), nil

@@ -47,7 +47,7 @@ func EdgeLines(rep EdgeReport) []string {
 		which, rep.Key, rep.Spec, Sig(rep.Value, 6), Sig(rep.Bracket[0], 6), Sig(rep.Bracket[1], 6), rep.At.Verdict)}
 	for _, c := range rep.At.Criteria {
 		f := criterionFormat(c)
-		out = append(out, fmt.Sprintf("  %s: %s, one-sided bounds [%s, %s], limit %s", c.Name, f(c.Value), f(c.Lo), f(c.Hi), f(c.Limit)))
+		out = append(out, fmt.Sprintf("  %s: %s, one-sided bounds %s, limit %s", c.Name, f(c.Value), criterionBounds(c, f), f(c.Limit)))
 	}
 	return append(out, "Confidence: "+conf+".",
 		"Fail and undecided both count as not meeting the spec, so the bracket leans to the safe side; the range is assumed to hold one edge.")

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"rampart/cmd/internal/report"
+	"rampart/internal/plural"
 	"rampart/mc"
 )
 
@@ -66,7 +67,7 @@ func toDecide(c mc.Criterion, conf float64) string {
 	case c.OutOfReach:
 		return "out of reach: the value sits on the limit"
 	}
-	return fmt.Sprintf("about %d more realisations", c.Extra)
+	return fmt.Sprintf("about %d more %s", c.Extra, plural.Noun(c.Extra, "realisation"))
 }
 
 // criterionLabels name the statistics of the criteria in figures.
@@ -181,7 +182,7 @@ func criteriaGrid(q mc.Qualification, s mc.Summary, title string) *Grid {
 		if c.Unit == "rad" {
 			degPerH = Sci(mc.BiasDegPerH(c.Value, s.ScaleFactorS), 3)
 		}
-		t.Append(c.Name, limit, c.Unit, f(c.Value), f(c.Lo), f(c.Hi), f(c.Margin), c.Verdict.String(), toDecide(c, q.LookConfidence), degPerH)
+		t.Append(c.Name, limit, c.Unit, f(c.Value), boundCell(c.Lo, c.NoLo, f), boundCell(c.Hi, c.NoHi, f), f(c.Margin), c.Verdict.String(), toDecide(c, q.LookConfidence), degPerH)
 	}
 	return t
 }
@@ -191,7 +192,7 @@ func criteriaGrid(q mc.Qualification, s mc.Summary, title string) *Grid {
 func criteriaNotes(rep QualifyReport) []string {
 	var out []string
 	if s := rep.Summary; s.Yield != nil {
-		out = append(out, fmt.Sprintf("Yield: %d of %d realisations inside %s.", s.Yield.Inside, s.Samples, yieldLimits(s.Yield.Spec, s.ScaleFactorS)))
+		out = append(out, fmt.Sprintf("Yield: %d of %s inside %s.", s.Yield.Inside, plural.Count(s.Samples, "realisation"), yieldLimits(s.Yield.Spec, s.ScaleFactorS)))
 	}
 	q := rep.Qualification
 	out = append(out, "A limit \"at least\" passes when the lower bound clears it and fails when the upper bound misses it; \"at most\" the other way round.")
@@ -213,11 +214,11 @@ func verdictLine(q mc.Qualification) string {
 	conf := Sig(100*q.Confidence, 3) + " %"
 	switch q.Verdict {
 	case mc.Pass:
-		return fmt.Sprintf("Verdict: pass. Every criterion is met with %s confidence over %d realisations.", conf, q.Samples)
+		return fmt.Sprintf("Verdict: pass. Every criterion is met with %s confidence over %s.", conf, plural.Count(q.Samples, "realisation"))
 	case mc.Fail:
 		return fmt.Sprintf("Verdict: fail. Missed with %s confidence: %s.", conf, strings.Join(Deciding(q), ", "))
 	}
-	return fmt.Sprintf("Verdict: undecided. Not decided at %s confidence over %d realisations: %s.", conf, q.Samples, strings.Join(Deciding(q), ", "))
+	return fmt.Sprintf("Verdict: undecided. Not decided at %s confidence over %s: %s.", conf, plural.Count(q.Samples, "realisation"), strings.Join(Deciding(q), ", "))
 }
 
 // QualifySection takes what qualify --json prints and shows the verdict,

@@ -1,6 +1,7 @@
 package present
 
 import (
+	"encoding/json"
 	"fmt"
 	"strings"
 )
@@ -16,8 +17,20 @@ type KernelPrediction struct {
 	ByProcess    []KernelProcessEffect `json:"by_process"`
 	Warnings     []string              `json:"warnings"`
 	// Skipped says why there is no prediction (the kernels would not fit
-	// in memory); the other fields are then zero.
+	// in memory); the other fields are then zero and left out of the JSON.
 	Skipped string `json:"skipped,omitempty"`
+}
+
+// MarshalJSON writes a skipped prediction as its reason alone: the
+// figures it does not have are absent, not 0.
+func (p KernelPrediction) MarshalJSON() ([]byte, error) {
+	if p.Skipped != "" {
+		return json.Marshal(struct {
+			Skipped string `json:"skipped"`
+		}{p.Skipped})
+	}
+	type plain KernelPrediction
+	return json.Marshal(plain(p))
 }
 
 // KernelProcessEffect is one process's predicted effect.

@@ -7,6 +7,7 @@ import (
 	"math"
 	"strconv"
 
+	"rampart/internal/plural"
 	"rampart/scenario"
 	"rampart/sim"
 )
@@ -69,7 +70,7 @@ func shapeName(r sim.Ramp) string {
 	case sim.Inverse:
 		return fmt.Sprintf("inverse-engineered for %s kHz (trap %s kHz)", Sig(r.DesignDepth/1e3, 6), Sig(r.TrapRadS/(2*math.Pi)/1e3, 4))
 	case *sim.Tabulated:
-		return fmt.Sprintf("table %s, %d rows, PCHIP between rows", r.Name(), r.Rows())
+		return fmt.Sprintf("table %s, %s, PCHIP between rows", r.Name(), plural.Count(r.Rows(), "row"))
 	}
 	return r.Name()
 }

@@ -10,6 +10,7 @@ import (
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/sim"
 )
@@ -114,10 +115,14 @@ func RankingGrid(rep RankReport) *Grid {
 		rr := byName[p.Name]
 		next, nextCI := "", ""
 		if d := p.DiffToNext; d != nil {
-			next, nextCI = f(d.Value), interval(d.Lo, d.Hi, f)
+			next, nextCI = f(d.Value), partialCell(*d, f)
 		}
-		row := []string{fmt.Sprintf("%d. %s", p.Place, p.Name), f(p.Value), interval(p.Lo, p.Hi, f),
-			f(p.DiffToBest.Value), interval(p.DiffToBest.Lo, p.DiffToBest.Hi, f), next, nextCI, YesNo(p.Resolved)}
+		own := interval(p.Lo, p.Hi, f)
+		if p.NoLo || p.NoHi {
+			own = noneBelow(p.NoBoundBelow)
+		}
+		row := []string{fmt.Sprintf("%d. %s", p.Place, p.Name), f(p.Value), own,
+			f(p.DiffToBest.Value), partialCell(p.DiffToBest, f), next, nextCI, YesNo(p.Resolved)}
 		for i, c := range []string{Fixed(rr.ContrastMean, 5), Sci(rr.AbsBiasP95Rad, 3), Sci(rr.AbsBiasP95DegPerH, 3)} {
 			if keep[i] {
 				row = append(row, c)
@@ -146,8 +151,14 @@ func RankingNotes(rep RankReport) []string {
 	if !r.HigherBetter {
 		better = "lower"
 	}
-	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %d realisations per ramp. Every statement holds simultaneously at %s %%: quantile and yield intervals are exact (order statistics, Clopper-Pearson) at 1 - (1 - c)/k for k ramps, and two ramps differ when their intervals do not overlap; mean differences are paired over the same noise draws with a max-type bootstrap over all pairs. A place is resolved when it is separated from every other ramp.",
-		strings.ToLower(metricLabels[r.Metric]), better, r.Samples, Sig(100*r.Confidence, 3))}
+	out := []string{fmt.Sprintf("Best first by %s (%s is better), over %s per ramp. Every statement holds simultaneously at %s %%: quantile and yield intervals are exact (order statistics, Clopper-Pearson) at 1 - (1 - c)/k for k ramps, and two ramps differ when their intervals do not overlap; mean differences are paired over the same noise draws with a max-type bootstrap over all pairs. A place is resolved when it is separated from every other ramp.",
+		strings.ToLower(metricLabels[r.Metric]), better, plural.Count(r.Samples, "realisation"), Sig(100*r.Confidence, 3))}
+	for _, p := range r.Ranking {
+		if p.NoLo || p.NoHi {
+			out = append(out, fmt.Sprintf("none below %d: no order statistic bounds the quantile at the simultaneous confidence from fewer than %d realisations per ramp, so no place can be resolved by it.", p.NoBoundBelow, p.NoBoundBelow))
+			break
+		}
+	}
 	for _, rr := range rep.Ramps {
 		if rr.Summary.Lost > 0 {
 			out = append(out, lostNote)
@@ -197,7 +208,7 @@ func rankingFigure(rep RankReport) ([]namedFigure, error) {
 		items[i] = plots.Estimate{Name: p.Name, Value: p.Value, Lo: p.Lo, Hi: p.Hi}
 	}
 	fig, err := plots.Ranking(items, plots.RankingOptions{
-		Title:      fmt.Sprintf("Ramps ranked by %s, %d realisations each", strings.ToLower(metricLabels[rep.Metric]), rep.Samples),
+		Title:      fmt.Sprintf("Ramps ranked by %s, %s each", strings.ToLower(metricLabels[rep.Metric]), plural.Count(rep.Samples, "realisation")),
 		ValueLabel: metricLabels[rep.Metric],
 	})
 	if err != nil {
@@ -272,4 +283,14 @@ func rankingTables(rep RankReport) []report.Table {
 		out = append(out, g.Table())
 	}
 	return out
+}
+
+// partialCell formats a ranking's difference interval, or noneBelow when
+// an end of it does not exist (a quantile no order statistic bounds at
+// this ensemble size).
+func partialCell(d mc.PartialInterval, f func(float64) string) string {
+	if d.NoLo || d.NoHi {
+		return noneBelow(d.NoBoundBelow)
+	}
+	return interval(d.Lo, d.Hi, f)
 }

@@ -11,6 +11,7 @@ import (
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/sim"
 )
@@ -228,7 +229,7 @@ func ResponsePredictionNotes(rep ResponseReport) []string {
 // ResponseConfirmGrid puts the Monte Carlo beside the prediction.
 func ResponseConfirmGrid(rep ResponseReport) *Grid {
 	c := rep.Confirm
-	t := NewGrid(fmt.Sprintf("Prediction and Monte Carlo (%d shots, seed %d, the budget's noise processes only)", c.Samples, c.Seed),
+	t := NewGrid(fmt.Sprintf("Prediction and Monte Carlo (%s, seed %d, the budget's noise processes only)", plural.Count(c.Samples, "shot"), c.Seed),
 		"Quantity", "Predicted", "Monte Carlo", "Standard error", "(MC - predicted)/s.e.")
 	z := func(mcv, se, pred float64) string {
 		if se == 0 {

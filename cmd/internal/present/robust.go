@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"rampart/design"
+	"rampart/internal/plural"
 )
 
 // RobustReport is the result of rampart robust: the optimisation on its
@@ -53,7 +54,7 @@ func PrintRobust(w io.Writer, rep RobustReport) error {
 	if rep.Fresh == nil {
 		return nil
 	}
-	fmt.Fprintf(w, "\nFresh ensemble: %d realisations per ramp, seed %d (independent of the tuning draws)\n", rep.FreshShots, rep.FreshSeed)
+	fmt.Fprintf(w, "\nFresh ensemble: %s per ramp, seed %d (independent of the tuning draws)\n", plural.Count(rep.FreshShots, "realisation"), rep.FreshSeed)
 	return RankingGrid(*rep.Fresh).RenderNoted(w, RankingNotes(*rep.Fresh))
 }
 

@@ -11,6 +11,7 @@ import (
 	"rampart/cmd/internal/plots"
 	"rampart/design"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 )
 
 // Files a scan writes to its output directory.
@@ -49,7 +50,7 @@ type ScanPoint struct {
 func ScanGrid(rep ScanReport) *Grid {
 	header := append([]string{}, rep.Keys...)
 	if !rep.Ensemble {
-		g := NewGrid("Noise-free shot at each point", append(header, "Contrast", "Phase (rad)", "Bias (rad)", "Ground +", "Ground -", "Peak speed (rad/s)")...)
+		g := NewGrid("Noise-free shot at each point", append(header, "Contrast", "Phase (rad)", "Phase - K Omega (rad)", "Ground +", "Ground -", "Peak speed (rad/s)")...)
 		for _, p := range rep.Points {
 			n := p.Nominal
 			peak := Sig(n.PeakSpeedRadS, 5)
@@ -61,7 +62,7 @@ func ScanGrid(rep ScanReport) *Grid {
 		return g
 	}
 	conf := Sig(100*rep.Confidence, 3) + " %"
-	g := NewGrid(fmt.Sprintf("Ensemble of %d realisations at each point (seed %d at every point: common random numbers)", rep.Samples, rep.Seed),
+	g := NewGrid(fmt.Sprintf("Ensemble of %s at each point (seed %d at every point: common random numbers)", plural.Count(rep.Samples, "realisation"), rep.Seed),
 		append(header, "Mean contrast", "Contrast p05", conf+" interval", "|Bias| p95 (rad)", conf+" interval", "Yield", conf+" interval")...)
 	for _, p := range rep.Points {
 		m := p.Ensemble
@@ -86,7 +87,7 @@ func values(p ScanPoint) []string {
 // boundedCell shows an interval, or the size that would have one.
 func boundedCell(b design.Bounded, f func(float64) string) string {
 	if b.CI == nil {
-		return fmt.Sprintf("none below %d", b.NoBoundBelow)
+		return noneBelow(b.NoBoundBelow)
 	}
 	return interval(b.CI[0], b.CI[1], f)
 }
@@ -94,7 +95,8 @@ func boundedCell(b design.Bounded, f func(float64) string) string {
 // ScanNotes explain the scan table.
 func ScanNotes(rep ScanReport) []string {
 	if !rep.Ensemble {
-		return []string{"Ground +/-: each arm's ground-band population after the ramp-up. Peak speed: the largest |Omega| of the ramp-up (above the cruise speed when the ramp overshoots)."}
+		return []string{"Each point is the noise-free shot rampart shot simulates, the apparatus's field offset and gradient, scattering, radius error and ring potential included. Phase - K Omega: the bias against the nominal scale factor K = 2 I phi(T) / hbar (CSV and JSON bias_rad); rampart shot's zero-rate bias subtracts the shot's own K_shot Omega instead and differs from it by (K_shot - K) Omega.",
+			"Ground +/-: each arm's ground-band population after the ramp-up. Peak speed: the largest |Omega| of the ramp-up (above the cruise speed when the ramp overshoots)."}
 	}
 	return []string{"Intervals are two-sided at the stated confidence: exact order-statistic intervals for the quantiles (\"none below N\": no interval exists from fewer than N realisations), Clopper-Pearson for the yield. They hold point by point, not jointly over the scan; use rampart edge for a decision over a range."}
 }
@@ -181,7 +183,7 @@ func ScanFigures(rep ScanReport) ([]namedFigure, error) {
 		}
 		return math.Abs(p.Nominal.BiasRad), math.NaN(), math.NaN()
 	}
-	cLabel, bLabel := "contrast", "|bias| (rad)"
+	cLabel, bLabel := "contrast", "|phase - K Omega| (rad)"
 	if rep.Ensemble {
 		cLabel, bLabel = "contrast p05", "|bias| p95 (rad)"
 	}

@@ -10,6 +10,7 @@ import (
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/sim"
 )
@@ -70,7 +71,7 @@ const roundingNote = "\"rounding\": the two shots differ by less than 1e-13 over
 // values).
 func sobolGrid(rep SensitivityReport) *Grid {
 	conf := Sig(100*rep.Indices.Confidence, 3) + " % interval"
-	t := NewGrid(fmt.Sprintf("Sobol' indices of contrast and bias, %d shots", rep.Shots), "Input", "Contrast S1", conf, "Contrast ST", conf, "Bias S1", conf, "Bias ST", conf)
+	t := NewGrid(fmt.Sprintf("Sobol' indices of contrast and bias, %s", plural.Count(rep.Shots, "shot")), "Input", "Contrast S1", conf, "Contrast ST", conf, "Bias S1", conf, "Bias ST", conf)
 	for _, in := range rep.Indices.Inputs {
 		row := []string{in.Name}
 		for _, i := range []mc.Interval{in.ContrastFirst, in.ContrastTotal, in.BiasFirst, in.BiasTotal} {
@@ -205,7 +206,7 @@ func sensitivityFigures(rep SensitivityReport) ([]namedFigure, error) {
 			}
 		}
 		fig, err := plots.Bars(rep.Inputs, []plots.BarSeries{first, total}, plots.BarsOptions{
-			Title:      fmt.Sprintf("Sobol' indices of the %s, %d shots", output.label, rep.Shots),
+			Title:      fmt.Sprintf("Sobol' indices of the %s, %s", output.label, plural.Count(rep.Shots, "shot")),
 			ValueLabel: "share of the variance of the " + output.label,
 			Horizontal: true,
 		})

@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"time"
 
+	"rampart/internal/plural"
 	"rampart/internal/version"
 	"rampart/mc"
 	"rampart/scenario"
@@ -38,8 +39,8 @@ func Describe(sc *scenario.Scenario, cfg sim.Config, ramp string) string {
 	if q.Segments >= 2 {
 		laps += fmt.Sprintf(" in each of %d echo segments (swap pulses between, hold %s us)", q.Segments, Sig(q.HoldS*1e6, 6))
 	}
-	return fmt.Sprintf("%s, %d sites of radius %s um, %s kHz deep (trap %s kHz); %s of %s us to %s rad/s%s, %s %s; rotation %s rad/s; %s",
-		atom, sc.Ring.Sites, Sig(sc.Ring.RadiusUM, 6), Sig(sc.Lattice.DepthKHz, 6), Sig(cfg.Ring.TrapHz(cfg.DepthHz)/1e3, 4),
+	return fmt.Sprintf("%s, %s of radius %s um, %s kHz deep (trap %s kHz); %s of %s us to %s rad/s%s, %s %s; rotation %s rad/s; %s",
+		atom, plural.Count(sc.Ring.Sites, "site"), Sig(sc.Ring.RadiusUM, 6), Sig(sc.Lattice.DepthKHz, 6), Sig(cfg.Ring.TrapHz(cfg.DepthHz)/1e3, 4),
 		ramp, Sig(q.Up.Duration()*1e6, 6), Sig(sc.Motion.CruiseRadS, 6), down, Sig(sc.Motion.Laps, 6), laps,
 		Sig(sc.Motion.RotationRadS, 6), start)
 }

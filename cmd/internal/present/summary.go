@@ -51,13 +51,33 @@ func interval(lo, hi float64, f func(float64) string) string {
 	return "[" + f(lo) + ", " + f(hi) + "]"
 }
 
+// noneBelow is the cell of a bound or interval that does not exist at this
+// ensemble size, with the smallest size n that has it (as run prints a
+// quantile's missing interval).
+func noneBelow(n int) string { return fmt.Sprintf("none below %d", n) }
+
+// boundCell formats one bound, or noneBelow(none) when it does not exist
+// (none > 0, mc.Criterion.NoLo and NoHi).
+func boundCell(v float64, none int, f func(float64) string) string {
+	if none > 0 {
+		return noneBelow(none)
+	}
+	return f(v)
+}
+
+// criterionBounds formats a criterion's lower and upper bounds as an
+// interval, a missing one as noneBelow.
+func criterionBounds(c mc.Criterion, f func(float64) string) string {
+	return "[" + boundCell(c.Lo, c.NoLo, f) + ", " + boundCell(c.Hi, c.NoHi, f) + "]"
+}
+
 // ciCell formats the interval of a distribution's entry, or says how many
 // realisations would give one.
 func ciCell(d mc.Distribution, key string, f func(float64) string) string {
 	if ci, ok := d.CI[key]; ok {
 		return interval(ci[0], ci[1], f)
 	}
-	return fmt.Sprintf("none below %d", d.NoBoundBelow[key])
+	return noneBelow(d.NoBoundBelow[key])
 }
 
 func PrintSummary(w io.Writer, s mc.Summary) error {

@@ -11,6 +11,7 @@ import (
 	"rampart/cmd/internal/plots"
 	"rampart/cmd/internal/report"
 	"rampart/internal/atomicfile"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/sim"
 	"rampart/stats"
@@ -49,7 +50,7 @@ func ToleranceGrid(rep ToleranceReport) *Grid {
 			}
 			if c, ok := res.Binding(*res.At); ok {
 				f := criterionFormat(c)
-				value, bounds = f(c.Value), interval(c.Lo, c.Hi, f)
+				value, bounds = f(c.Value), criterionBounds(c, f)
 				if c.Unit == "rad" {
 					degPerH = Sci(mc.BiasDegPerH(c.Value, rep.ScaleFactorS), 3)
 				}
@@ -138,7 +139,7 @@ func yieldBySampling(rep ToleranceReport) string {
 	if found == 0 {
 		return ""
 	}
-	return fmt.Sprintf("Warning: every tolerance is bound by the yield at %d of %d realisations: one realisation leaving the yield's window fails the bound, so the tolerances are set by the ensemble size, not by the physics; run with more --samples.", rep.Samples, rep.Samples)
+	return fmt.Sprintf("Warning: every tolerance is bound by the yield at %d of %s: one realisation leaving the yield's window fails the bound, so the tolerances are set by the ensemble size, not by the physics; run with more --samples.", rep.Samples, plural.Count(rep.Samples, "realisation"))
 }
 
 // ToleranceSection takes what tolerance --json prints and shows the

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"time"
 
+	"rampart/internal/plural"
 	"rampart/mc"
 )
 
@@ -14,7 +15,7 @@ import (
 // seed and sampler, its shard, and the realisations simulated (in elapsed)
 // and resumed of its records.
 func EnsembleLine(m mc.Manifest, records, fresh int, elapsed time.Duration) string {
-	s := fmt.Sprintf("Ensemble: %d realisations, seed %d, %s sampler", records, m.Seed, m.Sampler)
+	s := fmt.Sprintf("Ensemble: %s, seed %d, %s sampler", plural.Count(records, "realisation"), m.Seed, m.Sampler)
 	if m.Shard != nil {
 		from, to := m.Range()
 		s += fmt.Sprintf(", shard %d/%d (realisations %d to %d of %d; merge the shards for the whole ensemble)", m.Shard.Index, m.Shard.Count, from, to-1, m.Samples)
