@@ -90,6 +90,43 @@ func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es
 	if t1 <= t0 {
 		return es
 	}
+	if p.ring == nil {
+		return p.stretchFree(f, d, w, t0, t1, noiseStep, es)
+	}
+	if es == nil {
+		e := diagonalise(p.b, p.rot, w, g0*p.v0)
+		es = &e
+	}
+	if n := p.ring.pieces(w-d.RotationRadS, t1-t0); n > 1 && !d.noisy() {
+		h := (t1 - t0) / float64(n)
+		for i := range n {
+			es = p.stretchRing(f, d, w, t0+float64(i)*h, t0+float64(i+1)*h, noiseStep, es)
+		}
+		return es
+	}
+	return p.stretchRing(f, d, w, t0, t1, noiseStep, es)
+}
+
+// stretchRing is stretch with the ring potential over [t0, t1]: the first
+// Magnus term before the exact step, or in halves around a noisy stretch
+// (sim/ringexact.go).
+func (p *propagator) stretchRing(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem) *eigensystem {
+	g0 := 1 + d.DepthRel
+	tau := t1 - t0
+	p.ring.build(p.b, es, d.Angle(t0)-d.RotationRadS*t0, w-d.RotationRadS, g0, tau)
+	if !d.noisy() || !(noiseStep > 0) {
+		p.ring.applyMagnus(f, es, 1, 0)
+		return p.exactStep(f, es, w, g0, tau)
+	}
+	p.ring.applyMagnus(f, es, 0.5, 0)
+	es = p.stretchFree(f, d, w, t0, t1, noiseStep, es)
+	p.ring.applyMagnus(f, es, 0.5, tau)
+	return es
+}
+
+// stretchFree is stretch without the ring potential.
+func (p *propagator) stretchFree(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem) *eigensystem {
+	g0 := 1 + d.DepthRel
 	if !d.noisy() || !(noiseStep > 0) {
 		return p.exactStep(f, es, w, g0, t1-t0)
 	}
