@@ -127,7 +127,7 @@ type ringOp struct {
 	omega float64 // the apparatus' rotation Omega, rad/s: alpha = a - Omega t
 
 	x, acc, term, next []complex128 // scratch, one level in the momentum layout
-	u                  []complex128
+	u, cu              []complex128
 	mag                ringMagnus
 
 	// pieceRad, if positive, cuts every constant stretch into pieces over
@@ -172,15 +172,22 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 		norm += cmplxAbs(c)
 	}
 	r.u = u
+	if len(r.cu) < len(u) {
+		r.cu = make([]complex128, len(u))
+	}
 	norm *= math.Abs(tau)
 	if norm == 0 {
 		return
 	}
 	sub := max(1, int(math.Ceil(norm)))
 	h := tau / float64(sub)
+	cu := r.cu[:len(u)]
+	mmax := 0
+	for _, w := range r.waves {
+		mmax = max(mmax, w.m, -w.m)
+	}
 	// The rest of the series after a term t is at most t (e^{h|U|} - 1).
 	tail := math.Expm1(norm / float64(sub))
-	size := f.b.Size()
 	for lev := range f.levels {
 		gatherLevel(f, lev, r.x)
 		xn := cnorm1(r.x)
@@ -190,16 +197,10 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 			for kk := 1; kk < 60; kk++ {
 				// next = (-i h / kk) U term
 				s := complex(0, -h/float64(kk))
-				clear(r.next)
-				for wi, w := range r.waves {
-					cu := s * u[wi]
-					lo, hi := max(0, w.m), min(size, size+w.m)
-					src := r.term[lo-w.m : hi-w.m]
-					dst := r.next[lo:hi]
-					for i, v := range src {
-						dst[i] += cu * v
-					}
+				for wi := range r.waves {
+					cu[wi] = s * u[wi]
 				}
+				r.toeplitz(r.next, r.term, cu, mmax)
 				r.term, r.next = r.next, r.term
 				for i, v := range r.term {
 					r.acc[i] += v
@@ -214,10 +215,41 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 	}
 }
 
+// toeplitz sets y_i = sum_w u_w x_{i - m_w} over the basis (terms that
+// would leave it dropped), |m_w| <= mmax.
+func (r *ringOp) toeplitz(y, x, u []complex128, mmax int) {
+	size := len(x)
+	lo, hi := min(mmax, size), max(size-mmax, min(mmax, size))
+	edge := func(i int) complex128 {
+		var z complex128
+		for wi, w := range r.waves {
+			if j := i - w.m; j >= 0 && j < size {
+				z += u[wi] * x[j]
+			}
+		}
+		return z
+	}
+	for i := 0; i < lo; i++ {
+		y[i] = edge(i)
+	}
+	for i := hi; i < size; i++ {
+		y[i] = edge(i)
+	}
+	clear(y[lo:hi])
+	for wi, w := range r.waves {
+		c := u[wi]
+		src := x[lo-w.m : hi-w.m]
+		dst := y[lo:hi]
+		for i, v := range src {
+			dst[i] += c * v
+		}
+	}
+}
+
 // splitTol bounds the Taylor series' rest in each split-step factor of
 // the potential, relative to the state: a shot takes a few hundred such
-// factors, so their truncation moves the phase by below 1e-11 rad.
-const splitTol = 1e-14
+// factors, so their truncation moves the phase by below 1e-10 rad.
+const splitTol = 1e-13
 
 // gatherLevel copies level lev of f into x in the momentum layout
 // (x[N j + c] the amplitude of l = LMin + N j + c).
@@ -266,7 +298,11 @@ type ringMagnus struct {
 	term   []complex128
 	next   []complex128
 	ph     []complex128 // e^{i E tau} of every eigenstate, index c*K + n
-	shift  []float64    // K x K overlaps <c'n| e^{i m phi} |cp>
+	// shifts[i*N + c] is the K x K overlap <c'n| e^{i m_i phi} |cp> of the
+	// i-th distinct shift m_i in shiftMs, kept for the next build on the
+	// same eigensystem (the pieces of a stretch).
+	shifts  [][]float64
+	shiftMs []int
 	col    []float64
 }
 
@@ -285,15 +321,15 @@ func (w ringWave) upper(n int) bool {
 
 // build fills r.mag with the first Magnus term of a stretch of length
 // tau under H0 (eigensystem es) during which alpha(s) = alpha0 + wa s and
-// the relative depth is g.
-func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
+// the relative depth is g. With reuse, es is the eigensystem of the last
+// build, whose overlaps are kept.
+func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64, reuse bool) {
 	n, k := b.Sites, b.Block
 	mg := &r.mag
 	if len(mg.coef) != b.Size() {
 		size := b.Size()
 		mg.coef, mg.acc, mg.term, mg.next = make([]complex128, size), make([]complex128, size), make([]complex128, size), make([]complex128, size)
 		mg.ph, mg.col = make([]complex128, size), make([]float64, size)
-		mg.shift = make([]float64, k*k)
 	}
 	for c := range n {
 		for p, e := range es.vals[c] {
@@ -342,7 +378,17 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
 	}
 	var amp, rot [16]complex128
 	var kw [16]float64
-	for _, m := range ms {
+	reuse = reuse && len(mg.shiftMs) == len(ms)
+	for i := range ms {
+		reuse = reuse && mg.shiftMs[i] == ms[i]
+	}
+	if !reuse {
+		mg.shiftMs = append(mg.shiftMs[:0], ms...)
+		for len(mg.shifts) < len(ms)*n {
+			mg.shifts = append(mg.shifts, nil)
+		}
+	}
+	for mi, m := range ms {
 		na := 0
 		for _, w := range r.waves {
 			if w.m != m || !w.upper(n) {
@@ -363,14 +409,20 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
 			vf, vt := es.vecs[c], es.vecs[to]
 			ef, et := es.vals[c], es.vals[to]
 			// sh[nn*k + p] = sum_j vt[j+q][nn] vf[j][p].
-			sh := mg.shift
-			clear(sh)
-			for j := max(0, -q); j < min(k, k-q); j++ {
-				rt, rf := vt[(j+q)*k:(j+q+1)*k], vf[j*k:(j+1)*k]
-				for nn, a := range rt {
-					row := sh[nn*k : (nn+1)*k]
-					for p, x := range rf {
-						row[p] += a * x
+			sh := mg.shifts[mi*n+c]
+			if !reuse {
+				if len(sh) != k*k {
+					sh = make([]float64, k*k)
+					mg.shifts[mi*n+c] = sh
+				}
+				clear(sh)
+				for j := max(0, -q); j < min(k, k-q); j++ {
+					rt, rf := vt[(j+q)*k:(j+q+1)*k], vf[j*k:(j+1)*k]
+					for nn, a := range rt {
+						row := sh[nn*k : (nn+1)*k]
+						for p, x := range rf {
+							row[p] += a * x
+						}
 					}
 				}
 			}

@@ -100,20 +100,20 @@ func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es
 	if n := p.ring.pieces(w-d.RotationRadS, t1-t0); n > 1 && !d.noisy() {
 		h := (t1 - t0) / float64(n)
 		for i := range n {
-			es = p.stretchRing(f, d, w, t0+float64(i)*h, t0+float64(i+1)*h, noiseStep, es)
+			es = p.stretchRing(f, d, w, t0+float64(i)*h, t0+float64(i+1)*h, noiseStep, es, i > 0)
 		}
 		return es
 	}
-	return p.stretchRing(f, d, w, t0, t1, noiseStep, es)
+	return p.stretchRing(f, d, w, t0, t1, noiseStep, es, false)
 }
 
 // stretchRing is stretch with the ring potential over [t0, t1]: the first
 // Magnus term before the exact step, or in halves around a noisy stretch
 // (sim/ringexact.go).
-func (p *propagator) stretchRing(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem) *eigensystem {
+func (p *propagator) stretchRing(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem, reuse bool) *eigensystem {
 	g0 := 1 + d.DepthRel
 	tau := t1 - t0
-	p.ring.build(p.b, es, d.Angle(t0)-d.RotationRadS*t0, w-d.RotationRadS, g0, tau)
+	p.ring.build(p.b, es, d.Angle(t0)-d.RotationRadS*t0, w-d.RotationRadS, g0, tau, reuse)
 	if !d.noisy() || !(noiseStep > 0) {
 		p.ring.applyMagnus(f, es, 1, 0)
 		return p.exactStep(f, es, w, g0, tau)
