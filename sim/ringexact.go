@@ -303,7 +303,7 @@ type ringMagnus struct {
 	// same eigensystem (the pieces of a stretch).
 	shifts  [][]float64
 	shiftMs []int
-	col    []float64
+	col     []float64
 }
 
 // upper reports whether w belongs to the upper half B of H1 on a ring of
