@@ -45,7 +45,7 @@ import "math"
 // taken through the whole sequence (sim/ringexact_test.go), it stays below
 // 1e-7 rad at the demo's 0.5 mrad tilt and 1e-3 second harmonic, and grows
 // as the cube of the tilt and the square of a harmonic's amplitude
-// (RingMagnusError measures it for a given shot).
+// (Simulator.RingErrorRad estimates it for a given shot).
 //
 // A noisy stretch (jitter, depth noise) runs the grid's interval method
 // (propagator.stretch), and exp(-i U tau) joins each interval's noise
@@ -159,10 +159,10 @@ func newRingOp(b Basis, waves []ringWave, omega float64) *ringOp {
 }
 
 // split applies exp(-i U(alpha, g) tau) to every level of f by its Taylor
-// series, summed until a term falls below 1e-17 of the state (1-norm)
-// while tau |U| / (index + 1) is below 1/2, which bounds the rest of the
-// series by that term (tau |U| is below 1e-2 on a split step; larger
-// products are cut into sub-steps of at most 2).
+// series, summed until a term t satisfies |t| (e^{h|U|} - 1) <= splitTol
+// |x| (1-norms), a bound on the rest of the series (each term is at most
+// h|U| / (index + 1) times the last); tau |U| is below 1e-2 on a split
+// step, and larger products are cut into sub-steps h of h|U| <= 1.
 func (r *ringOp) split(f *field, alpha, g, tau float64) {
 	u := r.u[:0]
 	var norm float64
@@ -525,10 +525,11 @@ func cnorm1(x []complex128) float64 {
 // eigencoefficients x after taking out the c-number mu = <x|H1|x>/<x|x>,
 // exp(-i H1) x = e^{-i mu} exp(-i (H1 - mu)) x, exact for any number mu:
 // on a packet in its site the potential is nearly that number, so the
-// series of the rest converges in a few terms. Terms are summed until one
-// falls below 1e-17 of x (1-norm) while the norm bound of H1 - mu over
-// the term's index is below 1/2, which bounds the rest of the series by
-// that term; sub-steps keep the bound of each below 2.
+// series of the rest converges in a few terms. Terms are summed until a
+// term t satisfies |t| (e^{B} - 1) <= 1e-16 |x| (1-norms), B the sub-step's
+// bound on the 1-norm of H1 - mu, which bounds the rest of the series;
+// sub-steps keep B at most 5, so that no term exceeds e^5 |x| and rounding
+// costs at most 1.5e-14 of x.
 func (r *ringOp) applyMagnus(f *field, es *eigensystem, frac float64) {
 	mg := &r.mag
 	b := f.b
