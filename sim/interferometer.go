@@ -256,7 +256,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		p.ring = nil
 		if !pot.zero() {
 			// The ring potential in the propagation (sim/ringexact.go).
-			p.ring = wk.ringOp(a, b, pot.waves(cfg.Ring, v0, d.Sign), d.RotationRadS)
+			p.ring = wk.ringOp(a, pot.waves(cfg.Ring, v0, d.Sign), d.RotationRadS)
 			p.ring.pieceRad = s.ringPieceRad
 		}
 		tm := d.times()

@@ -1,6 +1,10 @@
 package sim
 
-import "math"
+import (
+	"math"
+
+	"gonum.org/v1/gonum/floats"
+)
 
 // The ring potential in the propagation (docs/model.md, Perturbations,
 // the ring potential).
@@ -129,9 +133,12 @@ type ringOp struct {
 	waves []ringWave
 	omega float64 // the apparatus' rotation Omega, rad/s: alpha = a - Omega t
 
-	x, acc, term, next []complex128 // scratch, one level in the momentum layout
-	u, cu              []complex128
-	mag                ringMagnus
+	u   []complex128
+	mag ringMagnus
+
+	// scratch of split: the state, sum, term and next term of one level,
+	// real and imaginary parts.
+	xr, xi, ar, ai, tr, ti, nr, ni []float64
 
 	// pieceRad, if positive, cuts every constant stretch into pieces over
 	// which the potential's fastest term turns by at most pieceRad, each
@@ -152,10 +159,8 @@ func (r *ringOp) pieces(wa, tau float64) int {
 	return max(1, int(math.Ceil(kmax*math.Abs(wa)*tau/r.pieceRad)))
 }
 
-func newRingOp(b Basis, waves []ringWave, omega float64) *ringOp {
-	m := b.Size()
-	return &ringOp{waves: waves, omega: omega,
-		x: make([]complex128, m), acc: make([]complex128, m), term: make([]complex128, m), next: make([]complex128, m)}
+func newRingOp(waves []ringWave, omega float64) *ringOp {
+	return &ringOp{waves: waves, omega: omega}
 }
 
 // split applies exp(-i U(alpha, g) tau) to every level of f by its Taylor
@@ -175,77 +180,60 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 		norm += cmplxAbs(c)
 	}
 	r.u = u
-	if len(r.cu) < len(u) {
-		r.cu = make([]complex128, len(u))
-	}
 	norm *= math.Abs(tau)
 	if norm == 0 {
 		return
 	}
 	sub := max(1, int(math.Ceil(norm)))
 	h := tau / float64(sub)
-	cu := r.cu[:len(u)]
-	mmax := 0
-	for _, w := range r.waves {
-		mmax = max(mmax, w.m, -w.m)
-	}
 	// The rest of the series after a term t is at most t (e^{h|U|} - 1).
 	tail := math.Expm1(norm / float64(sub))
+	size := f.b.Size()
+	if len(r.xr) != size {
+		r.xr, r.xi = make([]float64, size), make([]float64, size)
+		r.ar, r.ai = make([]float64, size), make([]float64, size)
+		r.tr, r.ti = make([]float64, size), make([]float64, size)
+		r.nr, r.ni = make([]float64, size), make([]float64, size)
+	}
 	for lev := range f.levels {
-		gatherLevel(f, lev, r.x)
-		xn := cnorm1(r.x)
+		gatherLevelRI(f, lev, r.xr, r.xi)
+		xn := floats.Norm(r.xr, 1) + floats.Norm(r.xi, 1)
 		for range sub {
-			copy(r.acc, r.x)
-			copy(r.term, r.x)
+			copy(r.ar, r.xr)
+			copy(r.ai, r.xi)
+			copy(r.tr, r.xr)
+			copy(r.ti, r.xi)
 			for kk := 1; kk < 60; kk++ {
-				// next = (-i h / kk) U term
+				// next = (-i h / kk) U term, by shifted real axpys (the
+				// terms that would leave the basis dropped).
 				s := complex(0, -h/float64(kk))
-				for wi := range r.waves {
-					cu[wi] = s * u[wi]
+				clear(r.nr)
+				clear(r.ni)
+				for wi, w := range r.waves {
+					c := s * u[wi]
+					lo, hi := max(0, w.m), min(size, size+w.m)
+					if hi <= lo {
+						continue
+					}
+					sr, si := r.tr[lo-w.m:hi-w.m], r.ti[lo-w.m:hi-w.m]
+					dr, di := r.nr[lo:hi], r.ni[lo:hi]
+					floats.AddScaled(dr, real(c), sr)
+					floats.AddScaled(dr, -imag(c), si)
+					floats.AddScaled(di, real(c), si)
+					floats.AddScaled(di, imag(c), sr)
 				}
-				r.toeplitz(r.next, r.term, cu, mmax)
-				r.term, r.next = r.next, r.term
-				for i, v := range r.term {
-					r.acc[i] += v
-				}
-				if cnorm1(r.term)*tail <= splitTol*xn {
+				r.tr, r.nr = r.nr, r.tr
+				r.ti, r.ni = r.ni, r.ti
+				floats.Add(r.ar, r.tr)
+				floats.Add(r.ai, r.ti)
+				if (floats.Norm(r.tr, 1)+floats.Norm(r.ti, 1))*tail <= splitTol*xn {
 					break
 				}
 			}
-			copy(r.x, r.acc)
+			copy(r.xr, r.ar)
+			copy(r.xi, r.ai)
 		}
-		scatterLevel(f, lev, r.x)
-	}
-}
-
-// toeplitz sets y_i = sum_w u_w x_{i - m_w} over the basis (terms that
-// would leave it dropped), |m_w| <= mmax.
-func (r *ringOp) toeplitz(y, x, u []complex128, mmax int) {
-	size := len(x)
-	lo, hi := min(mmax, size), max(size-mmax, min(mmax, size))
-	edge := func(i int) complex128 {
-		var z complex128
-		for wi, w := range r.waves {
-			if j := i - w.m; j >= 0 && j < size {
-				z += u[wi] * x[j]
-			}
-		}
-		return z
-	}
-	for i := 0; i < lo; i++ {
-		y[i] = edge(i)
-	}
-	for i := hi; i < size; i++ {
-		y[i] = edge(i)
-	}
-	clear(y[lo:hi])
-	for wi, w := range r.waves {
-		c := u[wi]
-		src := x[lo-w.m : hi-w.m]
-		dst := y[lo:hi]
-		for i, v := range src {
-			dst[i] += c * v
-		}
+		scatterLevelRI(f, lev, r.xr, r.xi)
 	}
 }
 
@@ -254,30 +242,24 @@ func (r *ringOp) toeplitz(y, x, u []complex128, mmax int) {
 // factors, so their truncation moves the phase by below 1e-10 rad.
 const splitTol = 1e-13
 
-// gatherLevel copies level lev of f into x in the momentum layout
-// (x[N j + c] the amplitude of l = LMin + N j + c).
-func gatherLevel(f *field, lev int, x []complex128) {
+// gatherLevelRI copies level lev of f into xr, xi in the momentum layout
+// (index N j + c the amplitude of l = LMin + N j + c).
+func gatherLevelRI(f *field, lev int, xr, xi []float64) {
 	n, w := f.b.Sites, f.width()
 	for j := range f.b.Block {
 		row := f.x[2*w*j:]
-		re, im := row[lev*n:lev*n+n], row[w+lev*n:w+lev*n+n]
-		xs := x[n*j : n*j+n]
-		for c := range n {
-			xs[c] = complex(re[c], im[c])
-		}
+		copy(xr[n*j:n*j+n], row[lev*n:lev*n+n])
+		copy(xi[n*j:n*j+n], row[w+lev*n:w+lev*n+n])
 	}
 }
 
-// scatterLevel is the inverse of gatherLevel.
-func scatterLevel(f *field, lev int, x []complex128) {
+// scatterLevelRI is the inverse of gatherLevelRI.
+func scatterLevelRI(f *field, lev int, xr, xi []float64) {
 	n, w := f.b.Sites, f.width()
 	for j := range f.b.Block {
 		row := f.x[2*w*j:]
-		re, im := row[lev*n:lev*n+n], row[w+lev*n:w+lev*n+n]
-		xs := x[n*j : n*j+n]
-		for c := range n {
-			re[c], im[c] = real(xs[c]), imag(xs[c])
-		}
+		copy(row[lev*n:lev*n+n], xr[n*j:n*j+n])
+		copy(row[w+lev*n:w+lev*n+n], xi[n*j:n*j+n])
 	}
 }
 
@@ -526,7 +508,7 @@ func cnorm1(x []complex128) float64 {
 // exp(-i H1) x = e^{-i mu} exp(-i (H1 - mu)) x, exact for any number mu:
 // on a packet in its site the potential is nearly that number, so the
 // series of the rest converges in a few terms. Terms are summed until a
-// term t satisfies |t| (e^{B} - 1) <= 1e-16 |x| (1-norms), B the sub-step's
+// term t satisfies |t| (e^{B} - 1) <= magnusTol |x| (1-norms), B the sub-step's
 // bound on the 1-norm of H1 - mu, which bounds the rest of the series;
 // sub-steps keep B at most 5, so that no term exceeds e^5 |x| and rounding
 // costs at most 1.5e-14 of x.
@@ -618,7 +600,7 @@ func (r *ringOp) expTaylor(k int, frac float64) {
 			for i, v := range mg.term {
 				mg.acc[i] += v
 			}
-			if cnorm1(mg.term)*tail <= 1e-16*xn {
+			if cnorm1(mg.term)*tail <= magnusTol*xn {
 				break
 			}
 		}
@@ -655,3 +637,8 @@ func (s *Simulator) RingErrorRad(sh Shot) float64 {
 	r.ringPieceRad = RingRefineRad
 	return math.Abs(Wrap(r.Run(sh, nil).PhaseRad - base.PhaseRad))
 }
+
+// magnusTol bounds the Taylor series' rest of exp(-i H1) relative to the
+// state: a shot applies a few such factors (one per constant stretch and
+// arm), so their truncation moves the phase by below 1e-12 rad.
+const magnusTol = 1e-13

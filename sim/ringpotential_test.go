@@ -132,9 +132,7 @@ func BenchmarkShotRingPotential(b *testing.B) {
 				if tilted {
 					sh.Potential = RingPotential{TiltRad: 1e-3, LowRad: 1, Harmonics: []DepthHarmonic{{Order: 2, Rel: 1e-3}}}
 				}
-				for b.Loop() {
-					s.Run(sh, nil)
-				}
+				reportCPU(b, func() { s.Run(sh, nil) })
 			})
 		}
 	}

@@ -26,10 +26,10 @@ type shotWork struct {
 
 // ringOp returns arm a's ring potential operator for the terms waves,
 // reusing its scratch.
-func (w *shotWork) ringOp(a int, b Basis, waves []ringWave, omega float64) *ringOp {
+func (w *shotWork) ringOp(a int, waves []ringWave, omega float64) *ringOp {
 	r := w.rings[a]
-	if r == nil || len(r.x) != b.Size() {
-		r = newRingOp(b, waves, omega)
+	if r == nil {
+		r = newRingOp(waves, omega)
 		w.rings[a] = r
 	}
 	r.waves, r.omega = waves, omega
