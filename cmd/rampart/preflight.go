@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"reflect"
+	"sync"
 
 	"rampart/sim"
 )
@@ -94,6 +95,33 @@ func warnRingModel(stderr io.Writer, what string, cfg sim.Config, base sim.Shot)
 // (sim.Simulator.RingErrorRad). Zero without a potential. The commands
 // carry it beside the numerical error (sim.ErrorEstimate.ModelBiasRad).
 func ringModelError(cfg sim.Config, base sim.Shot) (bias float64, firstOrder bool, ground float64) {
+	// A command runs many ensembles of one configuration and apparatus
+	// (the tolerance searches: tens of them), and the estimate costs a
+	// refined shot: it is computed once per configuration.
+	key := fmt.Sprintf("%+v|%+v|%+v", cfg, base.Potential, base.Field)
+	ringModelMu.Lock()
+	defer ringModelMu.Unlock()
+	if v, ok := ringModelCache[key]; ok {
+		return v.bias, v.firstOrder, v.ground
+	}
+	bias, firstOrder, ground = ringModelErrorOf(cfg, base)
+	ringModelCache[key] = ringModel{bias, firstOrder, ground}
+	return bias, firstOrder, ground
+}
+
+type ringModel struct {
+	bias       float64
+	firstOrder bool
+	ground     float64
+}
+
+var (
+	ringModelMu    sync.Mutex
+	ringModelCache = map[string]ringModel{}
+)
+
+// ringModelErrorOf is ringModelError without the cache.
+func ringModelErrorOf(cfg sim.Config, base sim.Shot) (bias float64, firstOrder bool, ground float64) {
 	s, err := sim.NewSimulator(cfg)
 	if err != nil {
 		return 0, false, 1 // the run itself reports it
