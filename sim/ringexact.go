@@ -3,7 +3,9 @@ package sim
 import (
 	"math"
 
-	"gonum.org/v1/gonum/floats"
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/cmplxs"
 )
 
 // The ring potential in the propagation (docs/model.md, Perturbations,
@@ -136,9 +138,8 @@ type ringOp struct {
 	u   []complex128
 	mag ringMagnus
 
-	// scratch of split: the state, sum, term and next term of one level,
-	// real and imaginary parts.
-	xr, xi, ar, ai, tr, ti, nr, ni []float64
+	// scratch of split: the state, sum, term and next term of one level.
+	xc, ac, tc, nc []complex128
 
 	// pieceRad, if positive, cuts every constant stretch into pieces over
 	// which the potential's fastest term turns by at most pieceRad, each
@@ -189,51 +190,37 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 	// The rest of the series after a term t is at most t (e^{h|U|} - 1).
 	tail := math.Expm1(norm / float64(sub))
 	size := f.b.Size()
-	if len(r.xr) != size {
-		r.xr, r.xi = make([]float64, size), make([]float64, size)
-		r.ar, r.ai = make([]float64, size), make([]float64, size)
-		r.tr, r.ti = make([]float64, size), make([]float64, size)
-		r.nr, r.ni = make([]float64, size), make([]float64, size)
+	if len(r.xc) != size {
+		r.xc, r.ac = make([]complex128, size), make([]complex128, size)
+		r.tc, r.nc = make([]complex128, size), make([]complex128, size)
 	}
 	for lev := range f.levels {
-		gatherLevelRI(f, lev, r.xr, r.xi)
-		xn := floats.Norm(r.xr, 1) + floats.Norm(r.xi, 1)
+		gatherLevel(f, lev, r.xc)
+		xn := cnorm1(r.xc)
 		for range sub {
-			copy(r.ar, r.xr)
-			copy(r.ai, r.xi)
-			copy(r.tr, r.xr)
-			copy(r.ti, r.xi)
+			copy(r.ac, r.xc)
+			copy(r.tc, r.xc)
 			for kk := 1; kk < 60; kk++ {
-				// next = (-i h / kk) U term, by shifted real axpys (the
+				// next = (-i h / kk) U term, by shifted complex axpys (the
 				// terms that would leave the basis dropped).
 				s := complex(0, -h/float64(kk))
-				clear(r.nr)
-				clear(r.ni)
+				clear(r.nc)
 				for wi, w := range r.waves {
-					c := s * u[wi]
 					lo, hi := max(0, w.m), min(size, size+w.m)
 					if hi <= lo {
 						continue
 					}
-					sr, si := r.tr[lo-w.m:hi-w.m], r.ti[lo-w.m:hi-w.m]
-					dr, di := r.nr[lo:hi], r.ni[lo:hi]
-					floats.AddScaled(dr, real(c), sr)
-					floats.AddScaled(dr, -imag(c), si)
-					floats.AddScaled(di, real(c), si)
-					floats.AddScaled(di, imag(c), sr)
+					cmplxs.AddScaled(r.nc[lo:hi], s*u[wi], r.tc[lo-w.m:hi-w.m])
 				}
-				r.tr, r.nr = r.nr, r.tr
-				r.ti, r.ni = r.ni, r.ti
-				floats.Add(r.ar, r.tr)
-				floats.Add(r.ai, r.ti)
-				if (floats.Norm(r.tr, 1)+floats.Norm(r.ti, 1))*tail <= splitTol*xn {
+				r.tc, r.nc = r.nc, r.tc
+				cmplxs.Add(r.ac, r.tc)
+				if cnorm1(r.tc)*tail <= splitTol*xn {
 					break
 				}
 			}
-			copy(r.xr, r.ar)
-			copy(r.xi, r.ai)
+			copy(r.xc, r.ac)
 		}
-		scatterLevelRI(f, lev, r.xr, r.xi)
+		scatterLevel(f, lev, r.xc)
 	}
 }
 
@@ -242,24 +229,30 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 // factors, so their truncation moves the phase by below 1e-10 rad.
 const splitTol = 1e-13
 
-// gatherLevelRI copies level lev of f into xr, xi in the momentum layout
-// (index N j + c the amplitude of l = LMin + N j + c).
-func gatherLevelRI(f *field, lev int, xr, xi []float64) {
+// gatherLevel copies level lev of f into x in the momentum layout
+// (x[N j + c] the amplitude of l = LMin + N j + c).
+func gatherLevel(f *field, lev int, x []complex128) {
 	n, w := f.b.Sites, f.width()
 	for j := range f.b.Block {
 		row := f.x[2*w*j:]
-		copy(xr[n*j:n*j+n], row[lev*n:lev*n+n])
-		copy(xi[n*j:n*j+n], row[w+lev*n:w+lev*n+n])
+		re, im := row[lev*n:lev*n+n], row[w+lev*n:w+lev*n+n]
+		xs := x[n*j : n*j+n]
+		for c := range n {
+			xs[c] = complex(re[c], im[c])
+		}
 	}
 }
 
-// scatterLevelRI is the inverse of gatherLevelRI.
-func scatterLevelRI(f *field, lev int, xr, xi []float64) {
+// scatterLevel is the inverse of gatherLevel.
+func scatterLevel(f *field, lev int, x []complex128) {
 	n, w := f.b.Sites, f.width()
 	for j := range f.b.Block {
 		row := f.x[2*w*j:]
-		copy(row[lev*n:lev*n+n], xr[n*j:n*j+n])
-		copy(row[w+lev*n:w+lev*n+n], xi[n*j:n*j+n])
+		re, im := row[lev*n:lev*n+n], row[w+lev*n:w+lev*n+n]
+		xs := x[n*j : n*j+n]
+		for c := range n {
+			re[c], im[c] = real(xs[c]), imag(xs[c])
+		}
 	}
 }
 
@@ -400,15 +393,15 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64, reu
 					sh = make([]float64, k*k)
 					mg.shifts[mi*n+c] = sh
 				}
+				// sh = A^T B with A the rows j + q of vt and B the rows j of
+				// vf, j0 <= j < j1 (BLAS dgemm).
+				j0, j1 := max(0, -q), min(k, k-q)
 				clear(sh)
-				for j := max(0, -q); j < min(k, k-q); j++ {
-					rt, rf := vt[(j+q)*k:(j+q+1)*k], vf[j*k:(j+1)*k]
-					for nn, a := range rt {
-						row := sh[nn*k : (nn+1)*k]
-						for p, x := range rf {
-							row[p] += a * x
-						}
-					}
+				if j1 > j0 {
+					blas64.Gemm(blas.Trans, blas.NoTrans, 1,
+						blas64.General{Rows: j1 - j0, Cols: k, Stride: k, Data: vt[(j0+q)*k : (j1+q)*k]},
+						blas64.General{Rows: j1 - j0, Cols: k, Stride: k, Data: vf[j0*k : j1*k]},
+						0, blas64.General{Rows: k, Cols: k, Stride: k, Data: sh})
 				}
 			}
 			blk := mg.blocks[sl*n+c].h
