@@ -82,10 +82,11 @@ func TestEnsembleRadius(t *testing.T) {
 // towards its lowest point, and at first order (docs/model.md,
 // Perturbations, gravity and an imperfect ring) the phase it adds is
 // proportional to sin(tilt): the bias change per unit sin(tilt) is the
-// same for every draw. The first-order phase is linear in the amplitude
-// by construction, so the tolerance is rounding, 1e-9 relative; the
-// phase must also not vanish on this half-lap sequence (issue 12: the
-// arms visit the sites at different times).
+// same for every draw. The shot has the potential in its Hamiltonian, so
+// second-order terms remain (seen 1.6e-7 relative between draws of 1e-4
+// to 3e-4 rad); tolerance 1e-6 relative. The phase must also not vanish
+// on this half-lap sequence (issue 12: the arms visit the sites at
+// different times).
 func TestEnsembleTilt(t *testing.T) {
 	b := Budget{TiltRad: 2e-4}
 	b.Apparatus.Potential = sim.RingPotential{TiltRad: 1e-4, LowRad: 0.3}
@@ -110,8 +111,8 @@ func TestEnsembleTilt(t *testing.T) {
 		t.Errorf("tilt phase %g rad per rad of tilt on a half-lap sequence: want it clearly non-zero", slope[0])
 	}
 	for i, x := range slope[1:] {
-		if math.Abs(x-slope[0]) > 1e-9*math.Abs(slope[0]) {
-			t.Errorf("realisation %d: %g rad per unit sin(tilt), realisation 0 %g: not first order", i+1, x, slope[0])
+		if math.Abs(x-slope[0]) > 1e-6*math.Abs(slope[0]) {
+			t.Errorf("realisation %d: %g rad per unit sin(tilt), realisation 0 %g: not first order (tol 1e-6 relative)", i+1, x, slope[0])
 		}
 	}
 }
@@ -383,8 +384,8 @@ func TestSensitivityApparatus(t *testing.T) {
 // one sim runs with that gradient (sim.TestFieldGradientFirstOrder checks
 // the physics against the full-grid integration). On a whole lap it leaves
 // a bias linear in the gradient (the arms add; the half lap cancels it):
-// the phase per unit gradient is the same for every draw (first order,
-// exact to rounding: tolerance 1e-9 relative).
+// the phase per unit gradient is the same for every draw (first order; the
+// shot keeps the second-order terms of the potential in its Hamiltonian).
 func TestEnsembleGradient(t *testing.T) {
 	const lin, g0, az = -2.1e6, 0.05, 0.4
 	b := Budget{GradientGPerM: 0.02}
@@ -420,9 +421,11 @@ func TestEnsembleGradient(t *testing.T) {
 	if math.Abs(slope[0]) < 1e-3 {
 		t.Errorf("gradient phase %g rad per G/m on a whole lap: want it clearly non-zero", slope[0])
 	}
+	// The potential is in the shot's Hamiltonian: second-order terms
+	// remain (seen 1.1e-6 relative between draws); tolerance 5e-6.
 	for i, x := range slope[1:] {
-		if math.Abs(x-slope[0]) > 1e-9*math.Abs(slope[0]) {
-			t.Errorf("realisation %d: %g rad per G/m, realisation 0 %g: not first order", i+1, x, slope[0])
+		if math.Abs(x-slope[0]) > 5e-6*math.Abs(slope[0]) {
+			t.Errorf("realisation %d: %g rad per G/m, realisation 0 %g: not first order (tol 5e-6 relative)", i+1, x, slope[0])
 		}
 	}
 }

@@ -322,3 +322,6 @@ func (q Sequence) WithUp(up Ramp) (Sequence, error) {
 	}
 	return NewEcho(s, q.Segments, q.HoldS)
 }
+
+// Echo reports whether q is an echo sequence (two segments or more).
+func (q Sequence) Echo() bool { return q.echo() }

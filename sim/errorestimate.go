@@ -29,11 +29,13 @@ type ErrorEstimate struct {
 	Met            bool    `json:"met"`
 	// Remedy says what to change when Met is false; empty otherwise.
 	Remedy string `json:"remedy,omitempty"`
-	// ModelBiasRad is the scale of the bias the first-order treatment of
-	// the ring's tilt leaves out when the ramps excite the packets
-	// (RingPotential.ExcitedBiasRad; docs/model.md, Perturbations): a
-	// model error, not part of PhaseErrorRad or Met, carried beside them
-	// by the commands; zero without a tilt.
+	// ModelBiasRad is the model error of the ring potential's treatment in
+	// the bias (docs/model.md, Perturbations): the estimate of what the
+	// first Magnus term over the cruise leaves out (Simulator.RingErrorRad),
+	// or in an echo sequence, which applies the potential at first order,
+	// the scale of the excited packets' bias that leaves out
+	// (RingPotential.ExcitedBiasRad). Not part of PhaseErrorRad or Met,
+	// carried beside them by the commands; zero without a potential.
 	ModelBiasRad float64 `json:"first_order_model_bias_rad,omitempty"`
 }
 

@@ -82,7 +82,8 @@ type Shot struct {
 	Scattering Scattering // photon scattering of each arm
 	RadiusRel  float64    // true radius R (1 + r) against the nominal R
 	// Potential is a static potential around the ring in the apparatus frame
-	// (tilt, depth harmonics), applied at first order (sim/ringpotential.go).
+	// (tilt, depth harmonics), in both arms' Hamiltonians (sim/ringexact.go;
+	// at first order in echo sequences, sim/ringpotential.go).
 	Potential RingPotential
 	// RotationOffsetRadS is the platform's rotation rate in this shot less
 	// the nominal Config.RotationRadS: the arms move in a frame turning at
@@ -139,6 +140,9 @@ type Simulator struct {
 	// gridCruise makes noisy constant stretches run on the full grid
 	// rather than in the cut band basis (sim/reduced.go).
 	gridCruise bool
+	// ringPieceRad, if positive, cuts the constant stretches of a shot
+	// with a ring potential into pieces (ringOp.pieceRad).
+	ringPieceRad float64
 }
 
 // MaxRampSteps bounds the split steps of a shot's two ramps: at about a
@@ -240,6 +244,8 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 
 	var res Result
 	var fields [2]*field
+	pot := sh.Potential.withGradient(sh.Field, cfg.Ring)
+	v0 := 2 * math.Pi * cfg.DepthHz
 	for a, d := range drives {
 		f := newField(b, lev)
 		for n, st := range starts {
@@ -247,6 +253,12 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		}
 		p := wk.props[a]
 		p.gridCruise = s.gridCruise
+		p.ring = nil
+		if !pot.zero() {
+			// The ring potential in the propagation (sim/ringexact.go).
+			p.ring = wk.ringOp(a, pot.waves(cfg.Ring, v0, d.Sign), d.RotationRadS)
+			p.ring.pieceRad = s.ringPieceRad
+		}
 		tm := d.times()
 		var rest *eigensystem // of the lattice at rest, diagonalised if a rest stretch needs it
 		stretch := func(w, t0, t1 float64, es *eigensystem) *eigensystem {
@@ -280,21 +292,15 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 		if end > tm[3] {
 			p.observe(obs, a, end, f, d, rest)
 		}
+		p.ring = nil
 		fields[a] = f
 	}
 
 	// Lab frame: psi_l = chi_l exp(-i l a(T)).
 	da := drives[0].Angle(end) - drives[1].Angle(end)
 	pulse := math.Sin(math.Pi/2*(1+sh.PulseAreaRel[0])) * math.Sin(math.Pi/2*(1+sh.PulseAreaRel[1]))
-	var ring []complex128
-	if pot := sh.Potential.withGradient(sh.Field, cfg.Ring); !pot.zero() {
-		ring = s.ringFactors(pot, drives, end, starts)
-	}
 	for n := range lev {
 		z := overlap(b, fields[0].get(n), fields[1].get(n), da)
-		if ring != nil {
-			z *= ring[n]
-		}
 		res.Levels = append(res.Levels, Level{Band: n, Weight: st.weights[n], EnergyHz: st.means[n] / (2 * math.Pi), Z: z})
 		res.Z += complex(st.weights[n]*pulse, 0) * z
 	}

@@ -48,6 +48,10 @@ type propagator struct {
 	s, d []float64     // scratch: even and odd halves, K/2 x 2W
 	y    []float64     // scratch: K x 2W
 
+	// ring, if not nil, is the arm's ring potential, applied with every
+	// lattice factor and over every constant stretch (sim/ringexact.go).
+	ring *ringOp
+
 	ops    []splitOp             // scratch: the factors of a split-step pass
 	cr, ci [chainBatch][]float64 // scratch: e^{i l da} of a batch of kinetic factors
 }
@@ -254,6 +258,7 @@ var (
 // i l da), and, if lattice, the lattice factor exp(-i g V tau) after it.
 type splitOp struct {
 	h, da, g, tau float64
+	alpha         float64 // the lattice's angle relative to the apparatus (ring potential)
 	lattice       bool
 }
 
@@ -283,6 +288,9 @@ func (p *propagator) splitSteps(f *field, m motion, t0, t1 float64, n int) {
 			t, a, pending = tn, an, 0
 			op := &ops[len(ops)-1]
 			op.g, op.tau, op.lattice = m.depth(t), bw*dt, true
+			if p.ring != nil {
+				op.alpha = an - p.ring.omega*t
+			}
 		}
 		pending = sch.a[len(sch.b)] * dt
 		t += pending
@@ -300,6 +308,11 @@ func (p *propagator) splitSteps(f *field, m motion, t0, t1 float64, n int) {
 			p.kineticStep(f, op.h, k)
 			if op.lattice {
 				p.latticeStep(f, op.g, op.tau)
+				if p.ring != nil {
+					// U commutes with the lattice factor (both diagonal in
+					// angle): together exp(-i (gV + U) tau).
+					p.ring.split(f, op.alpha, op.g, op.tau)
+				}
 			}
 		}
 	}

@@ -21,17 +21,15 @@ const StandardGravity = 9.80665
 // Phase_k)), which move with nothing: they belong to the beams' imperfect
 // ring, while the sites move. The zero value is the perfect ring.
 //
-// A shot (Shot.Potential) applies it at first order: each arm's packet
-// picks up the phase -integral <U>/hbar dt along its nominal path (see
-// phase), a factor on each level's overlap. Checked against a full-grid
-// split-step integration with U in the Hamiltonian
-// (sim/ringpotential_test.go): 4e-5 relative on adiabatic and 9e-5 on
-// strongly non-adiabatic ramps; the contrast is left unchanged (the full
-// integration moves it by below 1e-8 at these amplitudes). It misses the
-// whole-lap bias of packets that fast ramps leave excited (ExcitedBiasRad
-// gives its scale): on a whole lap of symmetric ramps it cancels exactly,
-// and the full integration does not (1.2e-5 rad at 0.5 mrad on the demo's
-// ring with 150 us sin2 ramps).
+// A shot (Shot.Potential) puts it in both arms' Hamiltonians
+// (sim/ringexact.go): exactly on the ramps, by the first Magnus term over
+// the cruise and rests, so that the bias of packets the ramps leave
+// excited comes out of the propagation (Simulator.RingErrorRad estimates
+// what the Magnus term leaves out: 3e-8 rad on the demo's ring with 150 us
+// sin2 ramps). Echo sequences still apply it at first order: each arm's
+// packet picks up the phase -integral <U>/hbar dt along its nominal path
+// (see phase), a factor on each level's overlap, which misses that
+// excited-packet bias (ExcitedBiasRad gives its scale).
 type RingPotential struct {
 	TiltRad   float64
 	LowRad    float64
@@ -63,13 +61,12 @@ type DepthHarmonic struct {
 	PhaseRad float64
 }
 
-// Validate reports whether p lies where the first-order treatment was
-// checked against the full-grid integration (tilts to 10 mrad, harmonics
-// to 1e-3 and accepted to 1e-2: the first order's relative error, 4e-5,
-// did not grow with the amplitude over the range tested).
+// Validate reports whether p lies where its treatment was checked against
+// the split-step and full-grid integrations (tilts to 10 mrad, harmonics
+// to 1e-3 and accepted to 1e-2; sim/ringexact_test.go).
 func (p RingPotential) Validate() error {
 	if math.IsNaN(p.TiltRad) || math.Abs(p.TiltRad) > 0.01 {
-		return fmt.Errorf("ring tilt %g rad is outside [-0.01, 0.01] rad, where the first-order treatment of gravity is tested", p.TiltRad)
+		return fmt.Errorf("ring tilt %g rad is outside [-0.01, 0.01] rad, where the treatment of gravity is tested", p.TiltRad)
 	}
 	for i, h := range p.Harmonics {
 		if h.Order < 1 {
@@ -240,7 +237,8 @@ func (p RingPotential) phase(r Ring, v0, trap float64, d Drive, w State, end flo
 }
 
 // ringFactors returns, for each level's start state, the factor
-// e^{i (phi_+ - phi_-)} the ring potential puts on z at first order.
+// e^{i (phi_+ - phi_-)} the ring potential puts on z at first order (echo
+// sequences; Run puts the potential in the Hamiltonian, sim/ringexact.go).
 func (s *Simulator) ringFactors(p RingPotential, drives [2]Drive, end float64, starts []State) []complex128 {
 	f := make([]complex128, len(starts))
 	v0 := 2 * math.Pi * s.cfg.DepthHz
@@ -263,9 +261,9 @@ var (
 	gl8w = [8]float64{0.1012285362903763, 0.2223810344533745, 0.3137066458778873, 0.3626837833783620, 0.3626837833783620, 0.3137066458778873, 0.2223810344533745, 0.1012285362903763}
 )
 
-// ExcitedBiasRad returns the scale of the bias that the first order
-// misses when the ramps leave the packet excited (docs/model.md,
-// Perturbations). That bias is physical, linear in the tilt and odd in the
+// ExcitedBiasRad returns the scale of the bias that the first order (used
+// for echo sequences only) misses when the ramps leave the packet excited
+// (docs/model.md, Perturbations). That bias is physical, linear in the tilt and odd in the
 // lowest point's azimuth. The first order follows the adiabatic path, so
 // on a whole lap of symmetric ramps it cancels exactly, but a packet left
 // sloshing in its site with angular amplitude

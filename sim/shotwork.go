@@ -20,6 +20,20 @@ type shotWork struct {
 
 	cruiseKey [2][2]float64 // w, g of each arm's cruise
 	cruise    [2]*eigensystem
+
+	rings [2]*ringOp // each arm's ring potential operator and scratch
+}
+
+// ringOp returns arm a's ring potential operator for the terms waves,
+// reusing its scratch.
+func (w *shotWork) ringOp(a int, waves []ringWave, omega float64) *ringOp {
+	r := w.rings[a]
+	if r == nil {
+		r = newRingOp(waves, omega)
+		w.rings[a] = r
+	}
+	r.waves, r.omega = waves, omega
+	return r
 }
 
 // shotWork returns a shotWork from the simulator's pool; the caller puts

@@ -90,6 +90,42 @@ func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es
 	if t1 <= t0 {
 		return es
 	}
+	if p.ring == nil {
+		return p.stretchFree(f, d, w, t0, t1, noiseStep, es)
+	}
+	if es == nil {
+		e := diagonalise(p.b, p.rot, w, g0*p.v0)
+		es = &e
+	}
+	if n := p.ring.pieces(w-d.RotationRadS, t1-t0); n > 1 && !d.noisy() {
+		h := (t1 - t0) / float64(n)
+		for i := range n {
+			es = p.stretchRing(f, d, w, t0+float64(i)*h, t0+float64(i+1)*h, noiseStep, es, i > 0)
+		}
+		return es
+	}
+	return p.stretchRing(f, d, w, t0, t1, noiseStep, es, false)
+}
+
+// stretchRing is stretch with the ring potential over [t0, t1]: the first
+// Magnus term before the exact step, or a noisy stretch on the grid with
+// the potential in every interval (sim/ringexact.go).
+func (p *propagator) stretchRing(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem, reuse bool) *eigensystem {
+	if d.noisy() && noiseStep > 0 {
+		// A noisy stretch: the potential joins the noise factor of every
+		// interval of the grid's interval method (stretchFree).
+		return p.stretchFree(f, d, w, t0, t1, noiseStep, es)
+	}
+	g0 := 1 + d.DepthRel
+	tau := t1 - t0
+	p.ring.build(p.b, es, d.Angle(t0)-d.RotationRadS*t0, w-d.RotationRadS, g0, tau, reuse)
+	p.ring.applyMagnus(f, es, 1)
+	return p.exactStep(f, es, w, g0, tau)
+}
+
+// stretchFree is stretch without the ring potential.
+func (p *propagator) stretchFree(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem) *eigensystem {
+	g0 := 1 + d.DepthRel
 	if !d.noisy() || !(noiseStep > 0) {
 		return p.exactStep(f, es, w, g0, t1-t0)
 	}
@@ -98,7 +134,7 @@ func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es
 		es = &e
 	}
 	n := int(math.Ceil((t1 - t0) / noiseStep))
-	if !p.gridCruise {
+	if !p.gridCruise && p.ring == nil {
 		ok, est := p.stretchReduced(f, d, es, t0, t1, n)
 		p.tailEst = math.Max(p.tailEst, est)
 		if reducedTrace != nil {
@@ -120,6 +156,12 @@ func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es
 		p.kick(f, dd/2)
 		if d.DepthNoise != nil {
 			p.latticeStep(f, d.DepthNoise.At((ta+tb)/2), tau)
+		}
+		if p.ring != nil {
+			// The ring potential at the interval's midpoint, beside the
+			// depth noise (both diagonal in angle).
+			tm := (ta + tb) / 2
+			p.ring.split(f, d.Angle(tm)-d.RotationRadS*tm, d.Depth(tm), tau)
 		}
 		p.kick(f, dd/2)
 		if i < n-1 {

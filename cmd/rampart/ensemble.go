@@ -188,9 +188,9 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 	if err != nil {
 		return nil, err
 	}
-	// The first-order tilt's model error travels with the numerical error
+	// The ring potential's model error travels with the numerical error
 	// into the summaries, reports and JSON.
-	est.ModelBiasRad = warnFirstOrder(stderr, what, job.realiser.Config(), job.realiser.Ensemble().Budget.Apparatus)
+	est.ModelBiasRad = warnRingModel(stderr, what, job.realiser.Config(), job.realiser.Ensemble().Budget.Apparatus)
 	hash, text, err := sc.Fingerprint()
 	if err != nil {
 		return nil, err

@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"reflect"
 	"slices"
+	"sync"
 	"syscall"
 
 	"rampart/internal/atomicfile"
@@ -69,43 +70,79 @@ func warnValidity(stderr io.Writer, cfg sim.Config) {
 	}
 }
 
-// warned holds the first-order notes this process has written, so that a
-// command running many ensembles of one configuration says it once.
+// warned holds the ring-potential notes this process has written, so
+// that a command running many ensembles of one configuration says it once.
 var warned = map[string]bool{}
 
-// warnFirstOrder writes a note, and returns the bias scale, when the ring potential of base (tilt) is
-// applied at first order along the adiabatic path but the ramp excites
-// the packets enough that the bias this leaves out
-// (sim.RingPotential.ExcitedBiasRad, a scale measured against the full-grid
-// integration, docs/model.md, Perturbations) exceeds the phase target.
-func warnFirstOrder(stderr io.Writer, what string, cfg sim.Config, base sim.Shot) float64 {
-	e, ground := firstOrderModelBias(cfg, base)
+// warnRingModel writes a note, and returns the model error, when the ring
+// potential of base leaves a model error above the phase target in the
+// bias (ringModelError).
+func warnRingModel(stderr io.Writer, what string, cfg sim.Config, base sim.Shot) float64 {
+	e, firstOrder, ground := ringModelError(cfg, base)
 	if e <= sim.PhaseTargetRad || warned[what] {
 		return e
 	}
 	warned[what] = true
-	fmt.Fprintf(stderr, "rampart: warning: %s: the ring's tilt is applied at first order along the adiabatic path; with %.2g of the atoms left outside the ground band after the ramp-up, that leaves out a bias of order %.1g rad (above the %g rad phase target), so the bias figures carry this model error; a gentler ramp reduces it (docs/model.md, Perturbations)\n",
-		what, 1-ground, e, sim.PhaseTargetRad)
+	if firstOrder {
+		fmt.Fprintf(stderr, "rampart: warning: %s: the ring's tilt is applied at first order along the adiabatic path in an echo sequence; with %.2g of the atoms left outside the ground band after the ramp-up, that leaves out a bias of order %.1g rad (above the %g rad phase target), so the bias figures carry this model error; a gentler ramp reduces it (docs/model.md, Perturbations)\n",
+			what, 1-ground, e, sim.PhaseTargetRad)
+		return e
+	}
+	fmt.Fprintf(stderr, "rampart: warning: %s: the ring potential's first Magnus term over the cruise leaves an estimated %.1g rad out of the bias (above the %g rad phase target), so the bias figures carry this model error; a smaller tilt or depth harmonic, or a gentler ramp, reduces it (docs/model.md, Perturbations)\n",
+		what, e, sim.PhaseTargetRad)
 	return e
 }
 
-// firstOrderModelBias returns the scale of the bias the first-order
-// treatment of the tilt of base leaves out (sim.RingPotential.ExcitedBiasRad
-// at the nominal shot's ground-band population, which it returns too);
-// zero without a tilt. warnFirstOrder returns it too, and the commands
+// ringModelError returns the model error of the ring potential of base in
+// the bias: for an echo sequence, which applies it at first order, the
+// scale of the excited-packet bias that leaves out
+// (sim.RingPotential.ExcitedBiasRad at the nominal shot's ground-band
+// population, which it returns too, with firstOrder set); otherwise the
+// estimate of what the first Magnus term over the cruise leaves out
+// (sim.Simulator.RingErrorRad). Zero without a potential. The commands
 // carry it beside the numerical error (sim.ErrorEstimate.ModelBiasRad).
-func firstOrderModelBias(cfg sim.Config, base sim.Shot) (bias, ground float64) {
-	pot := base.Potential
-	if pot.TiltRad == 0 {
-		return 0, 1
+func ringModelError(cfg sim.Config, base sim.Shot) (bias float64, firstOrder bool, ground float64) {
+	// A command runs many ensembles of one configuration and apparatus
+	// (the tolerance searches: tens of them), and the estimate costs a
+	// refined shot: it is computed once per configuration.
+	key := fmt.Sprintf("%+v|%+v|%+v", cfg, base.Potential, base.Field)
+	ringModelMu.Lock()
+	defer ringModelMu.Unlock()
+	if v, ok := ringModelCache[key]; ok {
+		return v.bias, v.firstOrder, v.ground
 	}
+	bias, firstOrder, ground = ringModelErrorOf(cfg, base)
+	ringModelCache[key] = ringModel{bias, firstOrder, ground}
+	return bias, firstOrder, ground
+}
+
+type ringModel struct {
+	bias       float64
+	firstOrder bool
+	ground     float64
+}
+
+var (
+	ringModelMu    sync.Mutex
+	ringModelCache = map[string]ringModel{}
+)
+
+// ringModelErrorOf is ringModelError without the cache.
+func ringModelErrorOf(cfg sim.Config, base sim.Shot) (bias float64, firstOrder bool, ground float64) {
 	s, err := sim.NewSimulator(cfg)
 	if err != nil {
-		return 0, 1 // the run itself reports it
+		return 0, false, 1 // the run itself reports it
+	}
+	if !cfg.Sequence.Echo() {
+		return s.RingErrorRad(base), false, 1
+	}
+	pot := base.Potential
+	if pot.TiltRad == 0 {
+		return 0, true, 1
 	}
 	r := s.Run(sim.Shot{}, nil)
 	ground = min(r.GroundAfterRampUp[0], r.GroundAfterRampUp[1])
-	return pot.ExcitedBiasRad(cfg.Ring, cfg.TrapRadS(), ground), ground
+	return pot.ExcitedBiasRad(cfg.Ring, cfg.TrapRadS(), ground), true, ground
 }
 
 // Output paths. Every path a command writes is checked here, before its

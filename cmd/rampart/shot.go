@@ -100,7 +100,7 @@ func runShot(e env, stdout, stderr io.Writer, o shotOptions) error {
 		return err
 	}
 	rep.SetGyro(g)
-	model := warnFirstOrder(stderr, fmt.Sprintf("scenario %q", sc.Name), run.Config, base)
+	model := warnRingModel(stderr, fmt.Sprintf("scenario %q", sc.Name), run.Config, base)
 	// The shot on the refined numerics tells how far the bias is resolved
 	// (and, with --check, whether the numerics meet their targets).
 	f, err := simulate(e, sc, sim.Refine(run.Config), nil)

@@ -325,7 +325,7 @@ func (rep *ShotReport) Print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 		fmt.Fprintln(w, "\n"+ResolutionNote("the bias at zero rotation", rep.BiasRad, rep.Numerics))
 	}
 	if est := rep.Numerics; est != nil && est.ModelBiasRad > 0 {
-		fmt.Fprintf(w, "\nNote: the ring's tilt is applied at first order along the adiabatic path, which leaves out a bias of order %s rad for packets the ramps excite (docs/model.md, Perturbations): the bias carries this model error beside the numerical one.\n", Sci(est.ModelBiasRad, 1))
+		fmt.Fprintf(w, "\nNote: the ring potential's treatment leaves out a bias of order %s rad (the Magnus terms beyond the first over the cruise; in an echo sequence, the excited packets' bias of the first order; docs/model.md, Perturbations): the bias carries this model error beside the numerical one.\n", Sci(est.ModelBiasRad, 1))
 	}
 	if sc.Noise != (scenario.Noise{}) || len(sc.SourceNoise) > 0 {
 		fmt.Fprintln(w, "\nNote: the scenario's [noise.*] tables describe an ensemble; this shot is noise-free.")

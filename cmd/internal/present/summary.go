@@ -274,8 +274,8 @@ func NumericsLine(est *sim.ErrorEstimate) string {
 		est.Grid, Sig(est.StepS*1e6, 4), est.RefinedGrid, Sig(est.RefinedStepS*1e6, 4),
 		Sci(est.ContrastError, 2), Sci(est.PhaseErrorRad, 2), Sci(est.ContrastTarget, 1), Sci(est.PhaseTargetRad, 1))
 	if est.ModelBiasRad > 0 {
-		// docs/model.md, Perturbations: the first-order tilt.
-		line += fmt.Sprintf("; first-order tilt model: bias left out of order %s rad", Sci(est.ModelBiasRad, 1))
+		// docs/model.md, Perturbations: the ring potential's treatment.
+		line += fmt.Sprintf("; ring potential model: bias left out of order %s rad", Sci(est.ModelBiasRad, 1))
 	}
 	return line
 }
