@@ -224,12 +224,7 @@ func TestKernelsHundredLaps(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	nom := s.Run(Shot{}, nil)
-	const d = 3e-7
-	p := s.Run(Shot{DepthRel: [2]float64{d / 2, -d / 2}}, nil)
-	m := s.Run(Shot{DepthRel: [2]float64{-d / 2, d / 2}}, nil)
-	slope := math.Abs(Wrap(p.PhaseRad-m.PhaseRad) / (2 * d))
-	curv := (p.Contrast + m.Contrast - 2*nom.Contrast) / (d * d)
+	_, slope, curv := staticDifferentialDepth(s, 3e-7)
 	kd := k.Channel(IntensityDifferential)
 	g0 := math.Sqrt(kd.Bias[0])
 	t.Logf("100 laps, %d frequencies: |dPhi/deps| %.8g, kernel %.8g (%.2g); -C''/2 %.8g, kernel %.8g (%.2g); KernelsBytes(0) %d MiB",

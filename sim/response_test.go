@@ -193,12 +193,7 @@ func TestResponseStaticLimit(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		nom := s.Run(Shot{}, nil)
-		const d = 1e-4
-		p := s.Run(Shot{DepthRel: [2]float64{d / 2, -d / 2}}, nil)
-		m := s.Run(Shot{DepthRel: [2]float64{-d / 2, d / 2}}, nil)
-		slope := math.Abs(Wrap(p.PhaseRad-m.PhaseRad) / (2 * d))
-		curv := (p.Contrast + m.Contrast - 2*nom.Contrast) / (d * d)
+		nom, slope, curv := staticDifferentialDepth(s, 1e-4)
 		kd := k.Channel(IntensityDifferential)
 		g0 := math.Sqrt(kd.Bias[0])
 		t.Logf("%s %g laps %g K (%d levels): |dPhi/deps| %.8g, kernel %.8g; -C''/2 %.8g, kernel %.8g", tc.shape, tc.laps, tc.temperatureK, len(nom.Levels), slope, g0, -curv/2, kd.Contrast[0])
@@ -259,4 +254,15 @@ func BenchmarkPredict(b *testing.B) {
 			}
 		})
 	}
+}
+
+// staticDifferentialDepth returns the nominal shot and, by central
+// differences over a static differential depth error d, |dPhi/deps| and
+// d2C/deps2: the zero-frequency limits the differential intensity kernels
+// must meet (Bias(0) = (dPhi/deps)^2, Contrast(0) = -C''/2).
+func staticDifferentialDepth(s *Simulator, d float64) (nom Result, slope, curv float64) {
+	nom = s.Run(Shot{}, nil)
+	p := s.Run(Shot{DepthRel: [2]float64{d / 2, -d / 2}}, nil)
+	m := s.Run(Shot{DepthRel: [2]float64{-d / 2, d / 2}}, nil)
+	return nom, math.Abs(Wrap(p.PhaseRad-m.PhaseRad) / (2 * d)), (p.Contrast + m.Contrast - 2*nom.Contrast) / (d * d)
 }
