@@ -259,7 +259,7 @@ func BenchmarkPredict(b *testing.B) {
 // staticDifferentialDepth returns the nominal shot and, by central
 // differences over a static differential depth error d, |dPhi/deps| and
 // d2C/deps2: the zero-frequency limits the differential intensity kernels
-// must meet (Bias(0) = (dPhi/deps)^2, Contrast(0) = -C”/2).
+// must meet (Bias(0) = (dPhi/deps)^2, Contrast(0) = -(d2C/deps2)/2).
 func staticDifferentialDepth(s *Simulator, d float64) (nom Result, slope, curv float64) {
 	nom = s.Run(Shot{}, nil)
 	p := s.Run(Shot{DepthRel: [2]float64{d / 2, -d / 2}}, nil)
