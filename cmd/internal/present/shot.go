@@ -278,6 +278,11 @@ func NewCheckReport(est sim.ErrorEstimate) *CheckReport {
 	}
 }
 
+// NotCarriedBelow is the ground-band population after the ramp-up below
+// which shot says the lattice does not carry the atom: half the atom, a
+// choice of ours (the demo's fastest ramp keeps 0.92).
+const NotCarriedBelow = 0.5
+
 // Print writes the shot report as the terminal tables of rampart shot.
 func (rep *ShotReport) Print(w io.Writer, sc *scenario.Scenario, cfg sim.Config) error {
 	fmt.Fprintf(w, "Scenario %s\n%s\n\n", sc.Name, Describe(sc, cfg, cfg.Sequence.Up.Name()+" ramp"))
@@ -329,6 +334,9 @@ func (rep *ShotReport) Print(w io.Writer, sc *scenario.Scenario, cfg sim.Config)
 	}
 	if sc.Noise != (scenario.Noise{}) || len(sc.SourceNoise) > 0 {
 		fmt.Fprintln(w, "\nNote: the scenario's [noise.*] tables describe an ensemble; this shot is noise-free.")
+	}
+	if g := math.Min(rep.GroundBand[0], rep.GroundBand[1]); g < NotCarriedBelow {
+		fmt.Fprintf(w, "\nNote: only %s of the atom is in the moving lattice's ground band after the ramp-up: the lattice does not carry it (a ramp too fast, or a cruise speed too high, for this depth), so the interferometer's numbers describe an atom left behind; lengthen the ramp, lower the cruise speed or deepen the lattice.\n", Fixed(g, 5))
 	}
 	if inverted {
 		fmt.Fprintln(w, "\nNote: the fringe is inverted (|bias| > pi/2): the arms' overlap has turned over, a defect of the sequence (an echo's packets left with odd parity, docs/model.md, Interferometer and signs, Echo sequences), not a rotation, so the bias is not given as a rate.")
