@@ -317,10 +317,37 @@ type ringMagnus struct {
 	ph     []complex128 // e^{i E tau} of every eigenstate, index c*K + n
 	// shifts[i*N + c] is the K x K overlap <c'n| e^{i m_i phi} |cp> of the
 	// i-th distinct shift m_i in shiftMs, kept for the next build on the
-	// same eigensystem (the pieces of a stretch).
-	shifts  [][]float64
-	shiftMs []int
-	col     []float64
+	// same eigensystem (shiftGen: the pieces of a stretch, the next shot's
+	// cruise when shotWork reuses its eigensystem).
+	shifts   [][]float64
+	shiftMs  []int
+	shiftGen uint64
+	col      []float64
+
+	// key and keyWaves are the inputs of the last build: a build with the
+	// same ones (a repeated shot) keeps blocks and norm as they are.
+	built    bool
+	key      magnusKey
+	keyWaves []ringWave
+}
+
+// magnusKey is what a build depends on besides the waves.
+type magnusKey struct {
+	gen                uint64
+	alpha0, wa, g, tau float64
+}
+
+// sameWaves reports whether a and b hold the same terms in the same order.
+func sameWaves(a, b []ringWave) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
 }
 
 // upper reports whether w belongs to the upper half B of H1 on a ring of
@@ -338,11 +365,19 @@ func (w ringWave) upper(n int) bool {
 
 // build fills r.mag with the first Magnus term of a stretch of length
 // tau under H0 (eigensystem es) during which alpha(s) = alpha0 + wa s and
-// the relative depth is g. With reuse, es is the eigensystem of the last
-// build, whose overlaps are kept.
-func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64, reuse bool) {
+// the relative depth is g. The overlaps of the shifts depend on es alone
+// and are kept while its gen is unchanged; the whole term is kept when
+// es's gen, the waves, alpha0, wa, g and tau are those of the last build
+// (equal inputs, equal bits: a repeated shot, as shotWork reuses the
+// eigensystems).
+func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
 	n, k := b.Sites, b.Block
 	mg := &r.mag
+	key := magnusKey{es.gen, alpha0, wa, g, tau}
+	if es.gen != 0 && mg.built && mg.key == key && len(mg.coef) == b.Size() && sameWaves(mg.keyWaves, r.waves) {
+		return
+	}
+	mg.built = false
 	if len(mg.coef) != b.Size() {
 		size := b.Size()
 		mg.coef, mg.acc, mg.term, mg.next = make([]complex128, size), make([]complex128, size), make([]complex128, size), make([]complex128, size)
@@ -395,12 +430,12 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64, reu
 	}
 	var amp, rot [16]complex128
 	var kw [16]float64
-	reuse = reuse && len(mg.shiftMs) == len(ms)
+	reuse := es.gen != 0 && mg.shiftGen == es.gen && len(mg.shiftMs) == len(ms)
 	for i := range ms {
 		reuse = reuse && mg.shiftMs[i] == ms[i]
 	}
 	if !reuse {
-		mg.shiftMs = append(mg.shiftMs[:0], ms...)
+		mg.shiftMs, mg.shiftGen = append(mg.shiftMs[:0], ms...), es.gen
 		for len(mg.shifts) < len(ms)*n {
 			mg.shifts = append(mg.shifts, nil)
 		}
@@ -477,6 +512,7 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64, reu
 	for _, v := range mg.col {
 		mg.norm = math.Max(mg.norm, v)
 	}
+	mg.built, mg.key, mg.keyWaves = true, key, append(mg.keyWaves[:0], r.waves...)
 }
 
 // magnusJ returns integral_0^tau e^{i nu s} ds.
