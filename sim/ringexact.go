@@ -6,6 +6,8 @@ import (
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
 	"gonum.org/v1/gonum/cmplxs"
+
+	"rampart/internal/kernel"
 )
 
 // The ring potential in the propagation (docs/model.md, Perturbations,
@@ -324,6 +326,13 @@ type ringMagnus struct {
 	shiftGen uint64
 	col      []float64
 
+	// stack[c] holds the blocks of H1 into class c as real rows for
+	// kernel.Combine (stackRows), srcs[c] the class each pair of K-row
+	// groups takes its coefficients from; xs and ys are mulH1's scratch.
+	stack  [][]float64
+	srcs   [][]int
+	xs, ys []float64
+
 	// key and keyWaves are the inputs of the last build: a build with the
 	// same ones (a repeated shot) keeps blocks and norm as they are.
 	built    bool
@@ -512,7 +521,68 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
 	for _, v := range mg.col {
 		mg.norm = math.Max(mg.norm, v)
 	}
+	mg.stackRows(n, k)
 	mg.built, mg.key, mg.keyWaves = true, key, append(mg.keyWaves[:0], r.waves...)
+}
+
+// stackRows lays the blocks of H1 = B + B^dagger out as real rows, per
+// destination class c, for y_c = sum_j coef[j] row_j (kernel.Combine,
+// rows of 2K: real parts, then imaginary parts, of y_c). A block h of B
+// from class f to class t gives class t the rows, for each band p of f,
+//
+//	[Re h[:,p] | Im h[:,p]]   (coefficient Re x_f[p]),
+//	[-Im h[:,p] | Re h[:,p]]  (coefficient Im x_f[p]),
+//
+// and class f, for B^dagger, the rows, for each band n of t,
+//
+//	[Re h[n,:] | -Im h[n,:]]  (coefficient Re x_t[n]),
+//	[Im h[n,:] | Re h[n,:]]   (coefficient Im x_t[n]).
+func (mg *ringMagnus) stackRows(n, k int) {
+	if len(mg.stack) != n {
+		mg.stack, mg.srcs = make([][]float64, n), make([][]int, n)
+	}
+	for c := range n {
+		mg.srcs[c] = mg.srcs[c][:0]
+	}
+	for _, blk := range mg.blocks {
+		mg.srcs[blk.to] = append(mg.srcs[blk.to], blk.from)
+		mg.srcs[blk.from] = append(mg.srcs[blk.from], blk.to)
+	}
+	for c := range n {
+		need := len(mg.srcs[c]) * 2 * k * 2 * k
+		if cap(mg.stack[c]) < need {
+			mg.stack[c] = make([]float64, need)
+		}
+		mg.stack[c] = mg.stack[c][:need]
+		mg.srcs[c] = mg.srcs[c][:0]
+	}
+	w := 2 * k
+	put := func(c, src int) []float64 {
+		i := len(mg.srcs[c])
+		mg.srcs[c] = append(mg.srcs[c], src)
+		return mg.stack[c][i*2*k*w : (i+1)*2*k*w]
+	}
+	for _, blk := range mg.blocks {
+		h := blk.h
+		rows := put(blk.to, blk.from)
+		for p := range k {
+			r1, r2 := rows[p*w:(p+1)*w], rows[(k+p)*w:(k+p+1)*w]
+			for nn := range k {
+				z := h[nn*k+p]
+				r1[nn], r1[k+nn] = real(z), imag(z)
+				r2[nn], r2[k+nn] = -imag(z), real(z)
+			}
+		}
+		rows = put(blk.from, blk.to)
+		for nn := range k {
+			r1, r2 := rows[nn*w:(nn+1)*w], rows[(k+nn)*w:(k+nn+1)*w]
+			for p := range k {
+				z := h[nn*k+p]
+				r1[p], r1[k+p] = real(z), -imag(z)
+				r2[p], r2[k+p] = imag(z), real(z)
+			}
+		}
+	}
 }
 
 // magnusJ returns integral_0^tau e^{i nu s} ds.
@@ -540,23 +610,33 @@ func floorDiv(a, n int) int {
 	return q
 }
 
-// mulH1 sets y = H1 x = B x + B^dagger x.
+// mulH1 sets y = H1 x = B x + B^dagger x, from the rows of stackRows.
 func (mg *ringMagnus) mulH1(y, x []complex128, k int) {
-	clear(y)
-	for _, blk := range mg.blocks {
-		src := x[blk.from*k : (blk.from+1)*k]
-		dst := y[blk.to*k : (blk.to+1)*k]
-		bsrc := x[blk.to*k : (blk.to+1)*k]
-		bdst := y[blk.from*k : (blk.from+1)*k]
-		for nn := range k {
-			row := blk.h[nn*k : (nn+1)*k]
-			var z complex128
-			xn := bsrc[nn]
-			for p, a := range row {
-				z += a * src[p]
-				bdst[p] += complexConj(a) * xn
+	n := len(mg.stack)
+	w := 2 * k
+	if len(mg.ys) != w {
+		mg.ys = make([]float64, w)
+	}
+	for c := range n {
+		srcs := mg.srcs[c]
+		if len(srcs) == 0 {
+			clear(y[c*k : (c+1)*k])
+			continue
+		}
+		if cap(mg.xs) < len(srcs)*w {
+			mg.xs = make([]float64, len(srcs)*w)
+		}
+		xs := mg.xs[:len(srcs)*w]
+		for i, f := range srcs {
+			re, im := xs[i*w:i*w+k], xs[i*w+k:(i+1)*w]
+			for p, v := range x[f*k : (f+1)*k] {
+				re[p], im[p] = real(v), imag(v)
 			}
-			dst[nn] += z
+		}
+		kernel.Combine(mg.ys, mg.stack[c], w, xs)
+		yc := y[c*k : (c+1)*k]
+		for nn := range yc {
+			yc[nn] = complex(mg.ys[nn], mg.ys[k+nn])
 		}
 	}
 }
