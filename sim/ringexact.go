@@ -141,8 +141,10 @@ type ringOp struct {
 	u   []complex128
 	mag ringMagnus
 
-	// scratch of split: the distinct shifts and the state of one level.
+	// scratch of split: the distinct shifts, their taps and the state of
+	// one level.
 	ms     []int
+	taps   []splitTap
 	xc, ac []complex128
 
 	// pieceRad, if positive, cuts every constant stretch into pieces over
@@ -180,8 +182,12 @@ func newRingOp(waves []ringWave, omega float64) *ringOp {
 // (Abramowitz and Stegun 9.1.41, z = -x), a banded Toeplitz operator with
 // taps at multiples of m, cut where sum_{|n| > nmax} |J_n(x)| <= 2
 // (x/2)^(nmax+1) / (nmax+1)! falls below splitTol (x is below 1e-2 on a
-// split step: five to seven taps). In the truncated basis the taps that
-// would leave it are dropped, where the state holds no amplitude.
+// split step: five to seven taps). Each factor is applied as J_0(x) (1 +
+// sum_{n != 0} t_n S_{n m}), the first tap's pass adding the state itself,
+// and the J_0 of every factor and the c-number phase as one scalar at the
+// end; J_n(x) by its power series (besselJ), e^{i n theta} as powers of
+// e^{i theta}. In the truncated basis the taps that would leave it are
+// dropped, where the state holds no amplitude.
 func (r *ringOp) split(f *field, alpha, g, tau float64) {
 	// u_m at alpha and g, per distinct m (m >= 0).
 	u := r.u[:0]
@@ -218,48 +224,118 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 			phase *= cis(-2 * real(u[i]) * tau)
 		}
 	}
+	// The taps of every shift, as factor_m = a0_m (1 + sum_n t_n S_{n m}):
+	// the scalars a0_m and the phase are applied once, at the end.
+	scale := phase
+	taps := r.taps[:0]
+	for i, m := range ms {
+		if m == 0 || u[i] == 0 {
+			continue
+		}
+		x, theta := 2*math.Abs(tau)*cmplxAbs(u[i]), math.Atan2(imag(u[i]), real(u[i]))
+		if tau < 0 {
+			// exp(-i tau U) for tau < 0 is exp(+i |tau| U): x cos(psi)
+			// with psi shifted by pi.
+			theta += math.Pi
+		}
+		// Above x = 1 the factor is applied as reps factors of x/reps
+		// (J_0 stays above 0.7, the taps' division by it harmless).
+		reps := max(1, int(math.Ceil(x)))
+		x /= float64(reps)
+		// nmax: the tail bound 2 (x/2)^(n+1)/(n+1)! below splitTol.
+		nmax, t := 0, 2*x/2
+		for t > splitTol && nmax < 40 {
+			nmax++
+			t *= x / 2 / float64(nmax+1)
+		}
+		var jn [41]float64
+		besselJ(jn[:nmax+1], x)
+		a0 := jn[0]
+		for range reps {
+			scale *= complex(a0, 0)
+		}
+		if nmax == 0 {
+			continue
+		}
+		// (-i)^n J_n e^{+-i n theta} on S_{+-n m}, divided by J_0.
+		e1 := cis(theta)
+		start := len(taps)
+		en := complex(1, 0)
+		for n := 1; n <= nmax; n++ {
+			en *= e1
+			in := [4]complex128{1, -1i, -1, 1i}[n%4]
+			c := in * complex(jn[n]/a0, 0)
+			taps = append(taps, splitTap{n * m, c * en}, splitTap{-n * m, c * complexConj(en)})
+		}
+		taps = append(taps, splitTap{}) // the end of shift m's taps
+		for range reps - 1 {
+			taps = append(taps, taps[start:start+2*nmax+1]...)
+		}
+	}
+	r.taps = taps
 	for lev := range f.levels {
 		gatherLevel(f, lev, r.xc)
-		for i, m := range ms {
-			if m == 0 || u[i] == 0 {
+		first := true
+		for _, tp := range taps {
+			if tp.shift == 0 {
+				// Shift m done: its result becomes the next one's input.
+				r.xc, r.ac = r.ac, r.xc
+				first = true
 				continue
 			}
-			x, theta := 2*math.Abs(tau)*cmplxAbs(u[i]), math.Atan2(imag(u[i]), real(u[i]))
-			if tau < 0 {
-				// exp(-i tau U) for tau < 0 is exp(+i |tau| U): x cos(psi)
-				// with psi shifted by pi.
-				theta += math.Pi
-			}
-			// nmax: the tail bound 2 (x/2)^(n+1)/(n+1)! below splitTol.
-			nmax, t := 0, 2*x/2
-			for t > splitTol && nmax < 40 {
-				nmax++
-				t *= x / 2 / float64(nmax+1)
-			}
-			a0 := complex(math.J0(x), 0)
-			for j, v := range r.xc {
-				r.ac[j] = a0 * v
-			}
-			for n := 1; n <= nmax; n++ {
-				jn := math.Jn(n, x)
-				// (-i)^n J_n e^{i n theta} on S_{n m}; n -> -n: (-i)^{-n}
-				// J_{-n} e^{-i n theta} = (-i)^n J_n e^{-i n theta}.
-				in := cis(-math.Pi / 2 * float64(n))
-				for _, sgn := range [2]int{1, -1} {
-					c := in * complex(jn, 0) * cis(float64(sgn*n)*theta)
-					sh := sgn * n * m
-					lo, hi := max(0, sh), min(size, size+sh)
-					if hi > lo {
-						cmplxs.AddScaled(r.ac[lo:hi], c, r.xc[lo-sh:hi-sh])
-					}
+			sh := tp.shift
+			lo, hi := min(size, max(0, sh)), max(0, min(size, size+sh))
+			if first {
+				// ac = xc + c S xc in one pass (and xc where S leaves nothing).
+				copy(r.ac[:lo], r.xc[:lo])
+				copy(r.ac[hi:], r.xc[hi:])
+				if hi > lo {
+					cmplxs.AddScaledTo(r.ac[lo:hi], r.xc[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
 				}
+				first = false
+				continue
 			}
-			r.xc, r.ac = r.ac, r.xc
+			if hi > lo {
+				cmplxs.AddScaled(r.ac[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
+			}
 		}
-		if phase != 1 {
-			cmplxs.Scale(phase, r.xc)
+		scatterLevelScaled(f, lev, r.xc, scale)
+	}
+}
+
+// splitTap is one term c S_shift of a potential factor in split; a zero
+// shift ends a shift's terms.
+type splitTap struct {
+	shift int
+	c     complex128
+}
+
+// besselJ sets j[n] = J_n(x), n < len(j): for x below 0.1 by the power
+// series J_n(x) = sum_k (-x^2/4)^k (x/2)^n / (k! (n+k)!) (Abramowitz and
+// Stegun 9.1.10) summed until the term falls below 1e-18 of the sum,
+// otherwise by math.Jn.
+func besselJ(j []float64, x float64) {
+	if x >= 0.1 {
+		for n := range j {
+			j[n] = math.Jn(n, x)
 		}
-		scatterLevel(f, lev, r.xc)
+		return
+	}
+	q := -x * x / 4
+	lead := 1.0 // (x/2)^n / n!
+	for n := range j {
+		if n > 0 {
+			lead *= x / 2 / float64(n)
+		}
+		sum, term := 1.0, 1.0
+		for k := 1; k < 20; k++ {
+			term *= q / float64(k*(n+k))
+			sum += term
+			if math.Abs(term) < 1e-18*math.Abs(sum) {
+				break
+			}
+		}
+		j[n] = lead * sum
 	}
 }
 
@@ -284,15 +360,17 @@ func gatherLevel(f *field, lev int, x []complex128) {
 	}
 }
 
-// scatterLevel is the inverse of gatherLevel.
-func scatterLevel(f *field, lev int, x []complex128) {
+// scatterLevelScaled is the inverse of gatherLevel, times s: it sets
+// level lev of f to s x.
+func scatterLevelScaled(f *field, lev int, x []complex128, s complex128) {
 	n, w := f.b.Sites, f.width()
 	for j := range f.b.Block {
 		row := f.x[2*w*j:]
 		re, im := row[lev*n:lev*n+n], row[w+lev*n:w+lev*n+n]
 		xs := x[n*j : n*j+n]
 		for c := range n {
-			re[c], im[c] = real(xs[c]), imag(xs[c])
+			v := s * xs[c]
+			re[c], im[c] = real(v), imag(v)
 		}
 	}
 }
