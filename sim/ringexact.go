@@ -733,10 +733,14 @@ func cnorm1(x []complex128) float64 {
 // eigencoefficients x after taking out the c-number mu = <x|H1|x>/<x|x>,
 // exp(-i H1) x = e^{-i mu} exp(-i (H1 - mu)) x, exact for any number mu:
 // on a packet in its site the potential is nearly that number, so the
-// series of the rest converges in a few terms. Terms are summed until a
-// term t satisfies |t| (e^{B} - 1) <= magnusTol |x| (1-norms), B the sub-step's
-// bound on the 1-norm of H1 - mu, which bounds the rest of the series;
-// sub-steps keep B at most 5, so that no term exceeds e^5 |x| and rounding
+// series of the rest converges in a few terms. With B the sub-step's
+// bound on the 1-norm of H1 - mu, the term after t_k is at most B/(k+1)
+// times it, so the rest of the series after t_k is at most
+//
+//	|t_k| sum_{j >= 1} B^j k! / (k+j)! <= |t_k| min(e^B - 1, rho / (1 - rho)),  rho = B/(k+1) < 1,
+//
+// (1-norms); terms are summed until that bound is below magnusTol |x|.
+// Sub-steps keep B at most 5, so that no term exceeds e^5 |x| and rounding
 // costs at most 1.5e-14 of x.
 func (r *ringOp) applyMagnus(f *field, es *eigensystem, frac float64) {
 	mg := &r.mag
@@ -802,8 +806,10 @@ func (r *ringOp) expTaylor(k int, frac float64) {
 	// e^5 = 148 times x, which costs at most 1.5e-14 of x in rounding.
 	sub := max(1, int(math.Ceil(bound/5)))
 	h := frac / float64(sub)
-	// The rest of the series after a term t is at most t (e^{bound} - 1).
-	tail := math.Expm1(bound / float64(sub))
+	// The rest of the series after a term t_k is at most t_k times
+	// min(e^B - 1, rho/(1 - rho)), rho = B/(k+1) (B the sub-step's bound).
+	bs := bound / float64(sub)
+	tail0 := math.Expm1(bs)
 	for s := range sub {
 		if s > 0 {
 			mg.mulH1(mg.next, x, k)
@@ -825,6 +831,10 @@ func (r *ringOp) expTaylor(k int, frac float64) {
 			mg.term, mg.next = mg.next, mg.term
 			for i, v := range mg.term {
 				mg.acc[i] += v
+			}
+			tail := tail0
+			if rho := bs / float64(kk+1); rho < 1 {
+				tail = math.Min(tail, rho/(1-rho))
 			}
 			if cnorm1(mg.term)*tail <= magnusTol*xn {
 				break
