@@ -5,7 +5,6 @@ import (
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
-	"gonum.org/v1/gonum/cmplxs"
 
 	"rampart/internal/kernel"
 )
@@ -290,13 +289,13 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 				copy(r.ac[:lo], r.xc[:lo])
 				copy(r.ac[hi:], r.xc[hi:])
 				if hi > lo {
-					cmplxs.AddScaledTo(r.ac[lo:hi], r.xc[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
+					kernel.AxpyTo(r.ac[lo:hi], r.xc[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
 				}
 				first = false
 				continue
 			}
 			if hi > lo {
-				cmplxs.AddScaled(r.ac[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
+				kernel.AxpyTo(r.ac[lo:hi], r.ac[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
 			}
 		}
 		scatterLevelScaled(f, lev, r.xc, scale)
