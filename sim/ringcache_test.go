@@ -1,6 +1,7 @@
 package sim
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -125,5 +126,26 @@ func TestBesselJSeries(t *testing.T) {
 				t.Errorf("J_%d(%g) = %.17g, math.Jn %.17g (tol 1e-15 relative)", n, x, v, want)
 			}
 		}
+	}
+}
+
+// BenchmarkShotRingPotentialDrawn is BenchmarkShotRingPotential's tilted
+// shot with a tilt that changes from shot to shot (as an ensemble's draws
+// do): the first Magnus term is built anew every shot, only the overlaps
+// (which depend on the eigensystem alone) are reused.
+func BenchmarkShotRingPotentialDrawn(b *testing.B) {
+	for _, laps := range []float64{1, 100} {
+		b.Run(fmt.Sprintf("laps=%g", laps), func(b *testing.B) {
+			s, err := NewSimulator(benchConfig(b, laps))
+			if err != nil {
+				b.Fatal(err)
+			}
+			i := 0
+			reportCPU(b, func() {
+				i++
+				sh := Shot{Potential: RingPotential{TiltRad: 1e-3 * (1 + 1e-3*float64(i%7)), LowRad: 1, Harmonics: []DepthHarmonic{{Order: 2, Rel: 1e-3}}}}
+				s.Run(sh, nil)
+			})
+		})
 	}
 }
