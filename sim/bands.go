@@ -1,6 +1,9 @@
 package sim
 
-import "math"
+import (
+	"math"
+	"sync/atomic"
+)
 
 // eigensystem holds the eigenvalues (ascending, rad/s) and eigenvectors of
 // every class block of one Hamiltonian: vecs[c][j*K+k] is component j of
@@ -8,7 +11,18 @@ import "math"
 type eigensystem struct {
 	vals [][]float64
 	vecs [][]float64
+	// gen identifies the contents: every (re)computation into the storage
+	// takes a new number (nextEigenGen), so that what is derived from the
+	// eigensystem (the ring potential's overlaps, sim/ringexact.go) can be
+	// reused while gen is unchanged. Zero: not numbered, never reused.
+	gen uint64
 }
+
+// eigenGen numbers the eigensystems' computations (eigensystem.gen).
+var eigenGen atomic.Uint64
+
+// nextEigenGen returns a number no eigensystem computation had before.
+func nextEigenGen() uint64 { return eigenGen.Add(1) }
 
 // blockHamiltonian fills the diagonal d and off-diagonal e of the class-c
 // block of H' = E_rot l^2 - hbar w l + V with the lattice at angle 0, all
@@ -45,6 +59,7 @@ func diagonaliseOver(b Basis, rot, w, v0 float64, es *eigensystem) {
 	for c := range b.Sites {
 		es.vals[c], es.vecs[c] = diagonaliseInto(b, c, rot, w, v0, e, zt, work, es.vals[c], es.vecs[c])
 	}
+	es.gen = nextEigenGen()
 }
 
 // block is the eigensystem of one class block.

@@ -78,6 +78,7 @@ func lowestBandsOver(b Basis, rot, w, v0 float64, count int, es *eigensystem) {
 		}
 		es.vals[c], es.vecs[c] = vals, vecs
 	}
+	es.gen = nextEigenGen()
 }
 
 // solveShifted solves (T - shift I) y = x for the symmetric tridiagonal T

@@ -5,7 +5,8 @@ import (
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
-	"gonum.org/v1/gonum/cmplxs"
+
+	"rampart/internal/kernel"
 )
 
 // The ring potential in the propagation (docs/model.md, Perturbations,
@@ -139,8 +140,10 @@ type ringOp struct {
 	u   []complex128
 	mag ringMagnus
 
-	// scratch of split: the distinct shifts and the state of one level.
+	// scratch of split: the distinct shifts, their taps and the state of
+	// one level.
 	ms     []int
+	taps   []splitTap
 	xc, ac []complex128
 
 	// pieceRad, if positive, cuts every constant stretch into pieces over
@@ -178,8 +181,12 @@ func newRingOp(waves []ringWave, omega float64) *ringOp {
 // (Abramowitz and Stegun 9.1.41, z = -x), a banded Toeplitz operator with
 // taps at multiples of m, cut where sum_{|n| > nmax} |J_n(x)| <= 2
 // (x/2)^(nmax+1) / (nmax+1)! falls below splitTol (x is below 1e-2 on a
-// split step: five to seven taps). In the truncated basis the taps that
-// would leave it are dropped, where the state holds no amplitude.
+// split step: five to seven taps). Each factor is applied as J_0(x) (1 +
+// sum_{n != 0} t_n S_{n m}), the first tap's pass adding the state itself,
+// and the J_0 of every factor and the c-number phase as one scalar at the
+// end; J_n(x) by its power series (besselJ), e^{i n theta} as powers of
+// e^{i theta}. In the truncated basis the taps that would leave it are
+// dropped, where the state holds no amplitude.
 func (r *ringOp) split(f *field, alpha, g, tau float64) {
 	// u_m at alpha and g, per distinct m (m >= 0).
 	u := r.u[:0]
@@ -216,48 +223,118 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 			phase *= cis(-2 * real(u[i]) * tau)
 		}
 	}
+	// The taps of every shift, as factor_m = a0_m (1 + sum_n t_n S_{n m}):
+	// the scalars a0_m and the phase are applied once, at the end.
+	scale := phase
+	taps := r.taps[:0]
+	for i, m := range ms {
+		if m == 0 || u[i] == 0 {
+			continue
+		}
+		x, theta := 2*math.Abs(tau)*cmplxAbs(u[i]), math.Atan2(imag(u[i]), real(u[i]))
+		if tau < 0 {
+			// exp(-i tau U) for tau < 0 is exp(+i |tau| U): x cos(psi)
+			// with psi shifted by pi.
+			theta += math.Pi
+		}
+		// Above x = 1 the factor is applied as reps factors of x/reps
+		// (J_0 stays above 0.7, the taps' division by it harmless).
+		reps := max(1, int(math.Ceil(x)))
+		x /= float64(reps)
+		// nmax: the tail bound 2 (x/2)^(n+1)/(n+1)! below splitTol.
+		nmax, t := 0, 2*x/2
+		for t > splitTol && nmax < 40 {
+			nmax++
+			t *= x / 2 / float64(nmax+1)
+		}
+		var jn [41]float64
+		besselJ(jn[:nmax+1], x)
+		a0 := jn[0]
+		for range reps {
+			scale *= complex(a0, 0)
+		}
+		if nmax == 0 {
+			continue
+		}
+		// (-i)^n J_n e^{+-i n theta} on S_{+-n m}, divided by J_0.
+		e1 := cis(theta)
+		start := len(taps)
+		en := complex(1, 0)
+		for n := 1; n <= nmax; n++ {
+			en *= e1
+			in := [4]complex128{1, -1i, -1, 1i}[n%4]
+			c := in * complex(jn[n]/a0, 0)
+			taps = append(taps, splitTap{n * m, c * en}, splitTap{-n * m, c * complexConj(en)})
+		}
+		taps = append(taps, splitTap{}) // the end of shift m's taps
+		for range reps - 1 {
+			taps = append(taps, taps[start:start+2*nmax+1]...)
+		}
+	}
+	r.taps = taps
 	for lev := range f.levels {
 		gatherLevel(f, lev, r.xc)
-		for i, m := range ms {
-			if m == 0 || u[i] == 0 {
+		first := true
+		for _, tp := range taps {
+			if tp.shift == 0 {
+				// Shift m done: its result becomes the next one's input.
+				r.xc, r.ac = r.ac, r.xc
+				first = true
 				continue
 			}
-			x, theta := 2*math.Abs(tau)*cmplxAbs(u[i]), math.Atan2(imag(u[i]), real(u[i]))
-			if tau < 0 {
-				// exp(-i tau U) for tau < 0 is exp(+i |tau| U): x cos(psi)
-				// with psi shifted by pi.
-				theta += math.Pi
-			}
-			// nmax: the tail bound 2 (x/2)^(n+1)/(n+1)! below splitTol.
-			nmax, t := 0, 2*x/2
-			for t > splitTol && nmax < 40 {
-				nmax++
-				t *= x / 2 / float64(nmax+1)
-			}
-			a0 := complex(math.J0(x), 0)
-			for j, v := range r.xc {
-				r.ac[j] = a0 * v
-			}
-			for n := 1; n <= nmax; n++ {
-				jn := math.Jn(n, x)
-				// (-i)^n J_n e^{i n theta} on S_{n m}; n -> -n: (-i)^{-n}
-				// J_{-n} e^{-i n theta} = (-i)^n J_n e^{-i n theta}.
-				in := cis(-math.Pi / 2 * float64(n))
-				for _, sgn := range [2]int{1, -1} {
-					c := in * complex(jn, 0) * cis(float64(sgn*n)*theta)
-					sh := sgn * n * m
-					lo, hi := max(0, sh), min(size, size+sh)
-					if hi > lo {
-						cmplxs.AddScaled(r.ac[lo:hi], c, r.xc[lo-sh:hi-sh])
-					}
+			sh := tp.shift
+			lo, hi := min(size, max(0, sh)), max(0, min(size, size+sh))
+			if first {
+				// ac = xc + c S xc in one pass (and xc where S leaves nothing).
+				copy(r.ac[:lo], r.xc[:lo])
+				copy(r.ac[hi:], r.xc[hi:])
+				if hi > lo {
+					kernel.AxpyTo(r.ac[lo:hi], r.xc[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
 				}
+				first = false
+				continue
 			}
-			r.xc, r.ac = r.ac, r.xc
+			if hi > lo {
+				kernel.AxpyTo(r.ac[lo:hi], r.ac[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
+			}
 		}
-		if phase != 1 {
-			cmplxs.Scale(phase, r.xc)
+		scatterLevelScaled(f, lev, r.xc, scale)
+	}
+}
+
+// splitTap is one term c S_shift of a potential factor in split; a zero
+// shift ends a shift's terms.
+type splitTap struct {
+	shift int
+	c     complex128
+}
+
+// besselJ sets j[n] = J_n(x), n < len(j): for x below 0.1 by the power
+// series J_n(x) = sum_k (-x^2/4)^k (x/2)^n / (k! (n+k)!) (Abramowitz and
+// Stegun 9.1.10) summed until the term falls below 1e-18 of the sum,
+// otherwise by math.Jn.
+func besselJ(j []float64, x float64) {
+	if x >= 0.1 {
+		for n := range j {
+			j[n] = math.Jn(n, x)
 		}
-		scatterLevel(f, lev, r.xc)
+		return
+	}
+	q := -x * x / 4
+	lead := 1.0 // (x/2)^n / n!
+	for n := range j {
+		if n > 0 {
+			lead *= x / 2 / float64(n)
+		}
+		sum, term := 1.0, 1.0
+		for k := 1; k < 20; k++ {
+			term *= q / float64(k*(n+k))
+			sum += term
+			if math.Abs(term) < 1e-18*math.Abs(sum) {
+				break
+			}
+		}
+		j[n] = lead * sum
 	}
 }
 
@@ -282,15 +359,17 @@ func gatherLevel(f *field, lev int, x []complex128) {
 	}
 }
 
-// scatterLevel is the inverse of gatherLevel.
-func scatterLevel(f *field, lev int, x []complex128) {
+// scatterLevelScaled is the inverse of gatherLevel, times s: it sets
+// level lev of f to s x.
+func scatterLevelScaled(f *field, lev int, x []complex128, s complex128) {
 	n, w := f.b.Sites, f.width()
 	for j := range f.b.Block {
 		row := f.x[2*w*j:]
 		re, im := row[lev*n:lev*n+n], row[w+lev*n:w+lev*n+n]
 		xs := x[n*j : n*j+n]
 		for c := range n {
-			re[c], im[c] = real(xs[c]), imag(xs[c])
+			v := s * xs[c]
+			re[c], im[c] = real(v), imag(v)
 		}
 	}
 }
@@ -317,10 +396,44 @@ type ringMagnus struct {
 	ph     []complex128 // e^{i E tau} of every eigenstate, index c*K + n
 	// shifts[i*N + c] is the K x K overlap <c'n| e^{i m_i phi} |cp> of the
 	// i-th distinct shift m_i in shiftMs, kept for the next build on the
-	// same eigensystem (the pieces of a stretch).
-	shifts  [][]float64
-	shiftMs []int
-	col     []float64
+	// same eigensystem (shiftGen: the pieces of a stretch, the next shot's
+	// cruise when shotWork reuses its eigensystem).
+	shifts   [][]float64
+	shiftMs  []int
+	shiftGen uint64
+	col      []float64
+
+	// stack[c] holds the blocks of H1 into class c as real rows for
+	// kernel.Combine (stackRows), srcs[c] the class each pair of K-row
+	// groups takes its coefficients from; xs and ys are mulH1's scratch.
+	stack  [][]float64
+	srcs   [][]int
+	xs, ys []float64
+
+	// key and keyWaves are the inputs of the last build: a build with the
+	// same ones (a repeated shot) keeps blocks and norm as they are.
+	built    bool
+	key      magnusKey
+	keyWaves []ringWave
+}
+
+// magnusKey is what a build depends on besides the waves.
+type magnusKey struct {
+	gen                uint64
+	alpha0, wa, g, tau float64
+}
+
+// sameWaves reports whether a and b hold the same terms in the same order.
+func sameWaves(a, b []ringWave) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
 }
 
 // upper reports whether w belongs to the upper half B of H1 on a ring of
@@ -338,11 +451,19 @@ func (w ringWave) upper(n int) bool {
 
 // build fills r.mag with the first Magnus term of a stretch of length
 // tau under H0 (eigensystem es) during which alpha(s) = alpha0 + wa s and
-// the relative depth is g. With reuse, es is the eigensystem of the last
-// build, whose overlaps are kept.
-func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64, reuse bool) {
+// the relative depth is g. The overlaps of the shifts depend on es alone
+// and are kept while its gen is unchanged; the whole term is kept when
+// es's gen, the waves, alpha0, wa, g and tau are those of the last build
+// (equal inputs, equal bits: a repeated shot, as shotWork reuses the
+// eigensystems).
+func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
 	n, k := b.Sites, b.Block
 	mg := &r.mag
+	key := magnusKey{es.gen, alpha0, wa, g, tau}
+	if es.gen != 0 && mg.built && mg.key == key && len(mg.coef) == b.Size() && sameWaves(mg.keyWaves, r.waves) {
+		return
+	}
+	mg.built = false
 	if len(mg.coef) != b.Size() {
 		size := b.Size()
 		mg.coef, mg.acc, mg.term, mg.next = make([]complex128, size), make([]complex128, size), make([]complex128, size), make([]complex128, size)
@@ -395,12 +516,12 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64, reu
 	}
 	var amp, rot [16]complex128
 	var kw [16]float64
-	reuse = reuse && len(mg.shiftMs) == len(ms)
+	reuse := es.gen != 0 && mg.shiftGen == es.gen && len(mg.shiftMs) == len(ms)
 	for i := range ms {
 		reuse = reuse && mg.shiftMs[i] == ms[i]
 	}
 	if !reuse {
-		mg.shiftMs = append(mg.shiftMs[:0], ms...)
+		mg.shiftMs, mg.shiftGen = append(mg.shiftMs[:0], ms...), es.gen
 		for len(mg.shifts) < len(ms)*n {
 			mg.shifts = append(mg.shifts, nil)
 		}
@@ -477,6 +598,68 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64, reu
 	for _, v := range mg.col {
 		mg.norm = math.Max(mg.norm, v)
 	}
+	mg.stackRows(n, k)
+	mg.built, mg.key, mg.keyWaves = true, key, append(mg.keyWaves[:0], r.waves...)
+}
+
+// stackRows lays the blocks of H1 = B + B^dagger out as real rows, per
+// destination class c, for y_c = sum_j coef[j] row_j (kernel.Combine,
+// rows of 2K: real parts, then imaginary parts, of y_c). A block h of B
+// from class f to class t gives class t the rows, for each band p of f,
+//
+//	[Re h[:,p] | Im h[:,p]]   (coefficient Re x_f[p]),
+//	[-Im h[:,p] | Re h[:,p]]  (coefficient Im x_f[p]),
+//
+// and class f, for B^dagger, the rows, for each band n of t,
+//
+//	[Re h[n,:] | -Im h[n,:]]  (coefficient Re x_t[n]),
+//	[Im h[n,:] | Re h[n,:]]   (coefficient Im x_t[n]).
+func (mg *ringMagnus) stackRows(n, k int) {
+	if len(mg.stack) != n {
+		mg.stack, mg.srcs = make([][]float64, n), make([][]int, n)
+	}
+	for c := range n {
+		mg.srcs[c] = mg.srcs[c][:0]
+	}
+	for _, blk := range mg.blocks {
+		mg.srcs[blk.to] = append(mg.srcs[blk.to], blk.from)
+		mg.srcs[blk.from] = append(mg.srcs[blk.from], blk.to)
+	}
+	for c := range n {
+		need := len(mg.srcs[c]) * 2 * k * 2 * k
+		if cap(mg.stack[c]) < need {
+			mg.stack[c] = make([]float64, need)
+		}
+		mg.stack[c] = mg.stack[c][:need]
+		mg.srcs[c] = mg.srcs[c][:0]
+	}
+	w := 2 * k
+	put := func(c, src int) []float64 {
+		i := len(mg.srcs[c])
+		mg.srcs[c] = append(mg.srcs[c], src)
+		return mg.stack[c][i*2*k*w : (i+1)*2*k*w]
+	}
+	for _, blk := range mg.blocks {
+		h := blk.h
+		rows := put(blk.to, blk.from)
+		for p := range k {
+			r1, r2 := rows[p*w:(p+1)*w], rows[(k+p)*w:(k+p+1)*w]
+			for nn := range k {
+				z := h[nn*k+p]
+				r1[nn], r1[k+nn] = real(z), imag(z)
+				r2[nn], r2[k+nn] = -imag(z), real(z)
+			}
+		}
+		rows = put(blk.from, blk.to)
+		for nn := range k {
+			r1, r2 := rows[nn*w:(nn+1)*w], rows[(k+nn)*w:(k+nn+1)*w]
+			for p := range k {
+				z := h[nn*k+p]
+				r1[p], r1[k+p] = real(z), -imag(z)
+				r2[p], r2[k+p] = imag(z), real(z)
+			}
+		}
+	}
 }
 
 // magnusJ returns integral_0^tau e^{i nu s} ds.
@@ -504,23 +687,33 @@ func floorDiv(a, n int) int {
 	return q
 }
 
-// mulH1 sets y = H1 x = B x + B^dagger x.
+// mulH1 sets y = H1 x = B x + B^dagger x, from the rows of stackRows.
 func (mg *ringMagnus) mulH1(y, x []complex128, k int) {
-	clear(y)
-	for _, blk := range mg.blocks {
-		src := x[blk.from*k : (blk.from+1)*k]
-		dst := y[blk.to*k : (blk.to+1)*k]
-		bsrc := x[blk.to*k : (blk.to+1)*k]
-		bdst := y[blk.from*k : (blk.from+1)*k]
-		for nn := range k {
-			row := blk.h[nn*k : (nn+1)*k]
-			var z complex128
-			xn := bsrc[nn]
-			for p, a := range row {
-				z += a * src[p]
-				bdst[p] += complexConj(a) * xn
+	n := len(mg.stack)
+	w := 2 * k
+	if len(mg.ys) != w {
+		mg.ys = make([]float64, w)
+	}
+	for c := range n {
+		srcs := mg.srcs[c]
+		if len(srcs) == 0 {
+			clear(y[c*k : (c+1)*k])
+			continue
+		}
+		if cap(mg.xs) < len(srcs)*w {
+			mg.xs = make([]float64, len(srcs)*w)
+		}
+		xs := mg.xs[:len(srcs)*w]
+		for i, f := range srcs {
+			re, im := xs[i*w:i*w+k], xs[i*w+k:(i+1)*w]
+			for p, v := range x[f*k : (f+1)*k] {
+				re[p], im[p] = real(v), imag(v)
 			}
-			dst[nn] += z
+		}
+		kernel.Combine(mg.ys, mg.stack[c], w, xs)
+		yc := y[c*k : (c+1)*k]
+		for nn := range yc {
+			yc[nn] = complex(mg.ys[nn], mg.ys[k+nn])
 		}
 	}
 }
@@ -539,10 +732,14 @@ func cnorm1(x []complex128) float64 {
 // eigencoefficients x after taking out the c-number mu = <x|H1|x>/<x|x>,
 // exp(-i H1) x = e^{-i mu} exp(-i (H1 - mu)) x, exact for any number mu:
 // on a packet in its site the potential is nearly that number, so the
-// series of the rest converges in a few terms. Terms are summed until a
-// term t satisfies |t| (e^{B} - 1) <= magnusTol |x| (1-norms), B the sub-step's
-// bound on the 1-norm of H1 - mu, which bounds the rest of the series;
-// sub-steps keep B at most 5, so that no term exceeds e^5 |x| and rounding
+// series of the rest converges in a few terms. With B the sub-step's
+// bound on the 1-norm of H1 - mu, the term after t_k is at most B/(k+1)
+// times it, so the rest of the series after t_k is at most
+//
+//	|t_k| sum_{j >= 1} B^j k! / (k+j)! <= |t_k| min(e^B - 1, rho / (1 - rho)),  rho = B/(k+1) < 1,
+//
+// (1-norms); terms are summed until that bound is below magnusTol |x|.
+// Sub-steps keep B at most 5, so that no term exceeds e^5 |x| and rounding
 // costs at most 1.5e-14 of x.
 func (r *ringOp) applyMagnus(f *field, es *eigensystem, frac float64) {
 	mg := &r.mag
@@ -608,8 +805,10 @@ func (r *ringOp) expTaylor(k int, frac float64) {
 	// e^5 = 148 times x, which costs at most 1.5e-14 of x in rounding.
 	sub := max(1, int(math.Ceil(bound/5)))
 	h := frac / float64(sub)
-	// The rest of the series after a term t is at most t (e^{bound} - 1).
-	tail := math.Expm1(bound / float64(sub))
+	// The rest of the series after a term t_k is at most t_k times
+	// min(e^B - 1, rho/(1 - rho)), rho = B/(k+1) (B the sub-step's bound).
+	bs := bound / float64(sub)
+	tail0 := math.Expm1(bs)
 	for s := range sub {
 		if s > 0 {
 			mg.mulH1(mg.next, x, k)
@@ -631,6 +830,10 @@ func (r *ringOp) expTaylor(k int, frac float64) {
 			mg.term, mg.next = mg.next, mg.term
 			for i, v := range mg.term {
 				mg.acc[i] += v
+			}
+			tail := tail0
+			if rho := bs / float64(kk+1); rho < 1 {
+				tail = math.Min(tail, rho/(1-rho))
 			}
 			if cnorm1(mg.term)*tail <= magnusTol*xn {
 				break

@@ -100,17 +100,17 @@ func (p *propagator) stretch(f *field, d Drive, w, t0, t1, noiseStep float64, es
 	if n := p.ring.pieces(w-d.RotationRadS, t1-t0); n > 1 && !d.noisy() {
 		h := (t1 - t0) / float64(n)
 		for i := range n {
-			es = p.stretchRing(f, d, w, t0+float64(i)*h, t0+float64(i+1)*h, noiseStep, es, i > 0)
+			es = p.stretchRing(f, d, w, t0+float64(i)*h, t0+float64(i+1)*h, noiseStep, es)
 		}
 		return es
 	}
-	return p.stretchRing(f, d, w, t0, t1, noiseStep, es, false)
+	return p.stretchRing(f, d, w, t0, t1, noiseStep, es)
 }
 
 // stretchRing is stretch with the ring potential over [t0, t1]: the first
 // Magnus term before the exact step, or a noisy stretch on the grid with
 // the potential in every interval (sim/ringexact.go).
-func (p *propagator) stretchRing(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem, reuse bool) *eigensystem {
+func (p *propagator) stretchRing(f *field, d Drive, w, t0, t1, noiseStep float64, es *eigensystem) *eigensystem {
 	if d.noisy() && noiseStep > 0 {
 		// A noisy stretch: the potential joins the noise factor of every
 		// interval of the grid's interval method (stretchFree).
@@ -118,7 +118,7 @@ func (p *propagator) stretchRing(f *field, d Drive, w, t0, t1, noiseStep float64
 	}
 	g0 := 1 + d.DepthRel
 	tau := t1 - t0
-	p.ring.build(p.b, es, d.Angle(t0)-d.RotationRadS*t0, w-d.RotationRadS, g0, tau, reuse)
+	p.ring.build(p.b, es, d.Angle(t0)-d.RotationRadS*t0, w-d.RotationRadS, g0, tau)
 	p.ring.applyMagnus(f, es, 1)
 	return p.exactStep(f, es, w, g0, tau)
 }

@@ -60,3 +60,18 @@ func phaseRotate(re, im, cr, ci, tr, ti []float64) {
 //
 //go:noescape
 func phaseRotateAVX(re, im, cr, ci, tr, ti []float64)
+
+func axpyTo(dst, y []complex128, a complex128, x []complex128) {
+	if useAVX {
+		axpyToAVX(dst, y, a, x)
+		return
+	}
+	axpyToGo(dst, y, a, x)
+}
+
+// axpyToAVX is axpyToGo two elements at a time (VADDSUBPD of the products
+// with a's real part and, on the swapped pairs, its imaginary part);
+// len(dst) elements of each.
+//
+//go:noescape
+func axpyToAVX(dst, y []complex128, a complex128, x []complex128)

@@ -9,3 +9,5 @@ func fold(s, d, a, b []float64) { foldGo(s, d, a, b) }
 func rotate(re, im []float64, c, s float64) { rotateGo(re, im, c, s) }
 
 func phaseRotate(re, im, cr, ci, tr, ti []float64) { phaseRotateGo(re, im, cr, ci, tr, ti) }
+
+func axpyTo(dst, y []complex128, a complex128, x []complex128) { axpyToGo(dst, y, a, x) }

@@ -156,3 +156,44 @@ pr1:
 prdone:
 	VZEROUPPER
 	RET
+
+// func axpyToAVX(dst, y []complex128, a complex128, x []complex128)
+TEXT ·axpyToAVX(SB), NOSPLIT, $0-88
+	MOVQ         dst_base+0(FP), DI
+	MOVQ         dst_len+8(FP), CX
+	MOVQ         y_base+24(FP), DX
+	VBROADCASTSD a_real+48(FP), Y8
+	VBROADCASTSD a_imag+56(FP), Y9
+	MOVQ         x_base+64(FP), SI
+	XORQ         AX, AX
+
+axpy2:
+	CMPQ       CX, $2
+	JLT        axpy1
+	VMOVUPD    (SI)(AX*1), Y0
+	VPERMILPD  $5, Y0, Y1
+	VMULPD     Y8, Y0, Y2
+	VMULPD     Y9, Y1, Y3
+	VADDSUBPD  Y3, Y2, Y4
+	VMOVUPD    (DX)(AX*1), Y5
+	VADDPD     Y4, Y5, Y5
+	VMOVUPD    Y5, (DI)(AX*1)
+	ADDQ       $32, AX
+	SUBQ       $2, CX
+	JMP        axpy2
+
+axpy1:
+	CMPQ       CX, $1
+	JLT        axpydone
+	VMOVUPD    (SI)(AX*1), X0
+	VPERMILPD  $1, X0, X1
+	VMULPD     X8, X0, X2
+	VMULPD     X9, X1, X3
+	VADDSUBPD  X3, X2, X4
+	VMOVUPD    (DX)(AX*1), X5
+	VADDPD     X4, X5, X5
+	VMOVUPD    X5, (DI)(AX*1)
+
+axpydone:
+	VZEROUPPER
+	RET
