@@ -403,6 +403,14 @@ type ringMagnus struct {
 	shiftGen uint64
 	col      []float64
 
+	// wj[i*N + c] is the K x K term of the i-th upper wave (shape
+	// wjShapes[i]) from class c per unit amplitude, sh J(nu), for the
+	// eigensystem, wa and tau of wjKey; upperWaves is build's scratch.
+	wj         [][]complex128
+	wjShapes   []waveShape
+	wjKey      magnusJKey
+	upperWaves []waveShape
+
 	// stack[c] holds the blocks of H1 into class c as real rows for
 	// kernel.Combine (stackRows), srcs[c] the class each pair of K-row
 	// groups takes its coefficients from; xs and ys are mulH1's scratch.
@@ -415,6 +423,17 @@ type ringMagnus struct {
 	built    bool
 	key      magnusKey
 	keyWaves []ringWave
+}
+
+// waveShape is a ring wave's (m, k), what its Magnus term depends on
+// besides its amplitude.
+type waveShape struct{ m, k int }
+
+// magnusJKey is what the waves' Magnus terms per unit amplitude depend on
+// besides their shapes.
+type magnusJKey struct {
+	gen     uint64
+	wa, tau float64
 }
 
 // magnusKey is what a build depends on besides the waves.
@@ -469,11 +488,6 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
 		mg.coef, mg.acc, mg.term, mg.next = make([]complex128, size), make([]complex128, size), make([]complex128, size), make([]complex128, size)
 		mg.ph, mg.col = make([]complex128, size), make([]float64, size)
 	}
-	for c := range n {
-		for p, e := range es.vals[c] {
-			mg.ph[c*k+p] = cis(e * tau)
-		}
-	}
 	// One block per class and residue m mod N of the upper waves; the
 	// waves of one m share the overlap matrix.
 	var residues, ms []int
@@ -514,8 +528,6 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
 		blk.from = i % n
 		blk.to = (blk.from + residues[i/n]) % n
 	}
-	var amp, rot [16]complex128
-	var kw [16]float64
 	reuse := es.gen != 0 && mg.shiftGen == es.gen && len(mg.shiftMs) == len(ms)
 	for i := range ms {
 		reuse = reuse && mg.shiftMs[i] == ms[i]
@@ -526,29 +538,42 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
 			mg.shifts = append(mg.shifts, nil)
 		}
 	}
-	for mi, m := range ms {
-		na := 0
-		for _, w := range r.waves {
-			if w.m != m || !w.upper(n) {
-				continue
-			}
-			c := w.c * cis(float64(w.k)*alpha0)
-			if w.depth {
-				c *= complex(g, 0)
-			}
-			amp[na], kw[na], rot[na] = c, float64(w.k)*wa, cis(float64(w.k)*wa*tau)
-			na++
+	// The upper waves' shapes (m, k) in order: with es, wa and tau they fix
+	// each wave's term per unit amplitude, kept in mg.wj; a shot that
+	// changes only the amplitudes (a tilt drawn anew, the start angle, the
+	// depth's g) recombines them.
+	uw := mg.upperWaves[:0]
+	for _, w := range r.waves {
+		if w.upper(n) {
+			uw = append(uw, waveShape{w.m, w.k})
 		}
-		sl := slot(m)
+	}
+	mg.upperWaves = uw
+	jkey := magnusJKey{es.gen, wa, tau}
+	same := reuse && es.gen != 0 && mg.wjKey == jkey && len(mg.wjShapes) == len(uw)
+	for i := range uw {
+		same = same && mg.wjShapes[i] == uw[i]
+	}
+	if !same {
+		mg.wjShapes, mg.wjKey = append(mg.wjShapes[:0], uw...), jkey
+		for len(mg.wj) < len(uw)*n {
+			mg.wj = append(mg.wj, nil)
+		}
+		for c := range n {
+			for p, e := range es.vals[c] {
+				mg.ph[c*k+p] = cis(e * tau)
+			}
+		}
+	}
+	for mi, m := range ms {
 		for c := range n {
 			cm := c + m
 			q := floorDiv(cm, n)
 			to := cm - q*n
-			vf, vt := es.vecs[c], es.vecs[to]
-			ef, et := es.vals[c], es.vals[to]
 			// sh[nn*k + p] = sum_j vt[j+q][nn] vf[j][p].
 			sh := mg.shifts[mi*n+c]
 			if !reuse {
+				vf, vt := es.vecs[c], es.vecs[to]
 				if len(sh) != k*k {
 					sh = make([]float64, k*k)
 					mg.shifts[mi*n+c] = sh
@@ -564,34 +589,64 @@ func (r *ringOp) build(b Basis, es *eigensystem, alpha0, wa, g, tau float64) {
 						0, blas64.General{Rows: k, Cols: k, Stride: k, Data: sh})
 				}
 			}
-			blk := mg.blocks[sl*n+c].h
+			if same {
+				continue
+			}
+			ef, et := es.vals[c], es.vals[to]
 			pf, pt := mg.ph[c*k:(c+1)*k], mg.ph[to*k:(to+1)*k]
-			for nn := range k {
-				for p := range k {
-					s := sh[nn*k+p]
-					// e^{i nu tau}, nu = E_to,n - E_c,p + k w_a, from the
-					// tabulated phases.
-					e := pt[nn] * complexConj(pf[p])
-					de := et[nn] - ef[p]
-					var z complex128
-					for i := range na {
-						z += amp[i] * magnusJPhase(de+kw[i], tau, e*rot[i])
+			for i, u := range uw {
+				if u.m != m {
+					continue
+				}
+				// wj[nn*k + p] = sh[nn*k + p] J(nu), nu = E_to,n - E_c,p +
+				// k w_a, e^{i nu tau} from the tabulated phases.
+				kw := float64(u.k) * wa
+				rot := cis(kw * tau)
+				wj := mg.wj[i*n+c]
+				if len(wj) != k*k {
+					wj = make([]complex128, k*k)
+					mg.wj[i*n+c] = wj
+				}
+				for nn := range k {
+					en := pt[nn] * rot
+					for p := range k {
+						e := en * complexConj(pf[p])
+						wj[nn*k+p] = complex(sh[nn*k+p], 0) * magnusJPhase(et[nn]-ef[p]+kw, tau, e)
 					}
-					blk[nn*k+p] += complex(s, 0) * z
 				}
 			}
 		}
 	}
+	// H1's blocks: the waves' terms times their amplitudes at alpha0 and g.
+	i := 0
+	for _, w := range r.waves {
+		if !w.upper(n) {
+			continue
+		}
+		a := w.c * cis(float64(w.k)*alpha0)
+		if w.depth {
+			a *= complex(g, 0)
+		}
+		sl := slot(w.m)
+		for c := range n {
+			blk := mg.blocks[sl*n+c].h
+			kernel.AxpyTo(blk, blk, a, mg.wj[i*n+c])
+		}
+		i++
+	}
 	// 1-norm bound of B + B^dagger: column sums of |B| plus row sums.
 	clear(mg.col)
 	for _, blk := range mg.blocks {
+		col := mg.col[blk.from*k : (blk.from+1)*k]
 		for nn := range k {
 			row := blk.h[nn*k : (nn+1)*k]
+			var rs float64
 			for p, z := range row {
 				a := math.Abs(real(z)) + math.Abs(imag(z))
-				mg.col[blk.from*k+p] += a
-				mg.col[blk.to*k+nn] += a
+				col[p] += a
+				rs += a
 			}
+			mg.col[blk.to*k+nn] += rs
 		}
 	}
 	mg.norm = 0
