@@ -142,9 +142,9 @@ type ringOp struct {
 
 	// scratch of split: the distinct shifts, their taps and the state of
 	// one level.
-	ms     []int
-	taps   []splitTap
-	xc, ac []complex128
+	ms             []int
+	taps           []splitTap
+	xr, xi, ar, ai []float64
 
 	// pieceRad, if positive, cuts every constant stretch into pieces over
 	// which the potential's fastest term turns by at most pieceRad, each
@@ -213,8 +213,8 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 	}
 	r.u, r.ms = u, ms
 	size := f.b.Size()
-	if len(r.xc) != size {
-		r.xc, r.ac = make([]complex128, size), make([]complex128, size)
+	if len(r.xr) != size {
+		r.xr, r.xi, r.ar, r.ai = make([]float64, size), make([]float64, size), make([]float64, size), make([]float64, size)
 	}
 	// The c-number terms (m = 0) with their partners: 2 Re(u_0).
 	phase := complex(1, 0)
@@ -273,32 +273,49 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 	}
 	r.taps = taps
 	for lev := range f.levels {
-		gatherLevel(f, lev, r.xc)
+		gatherPlanes(f, lev, r.xr, r.xi)
 		first := true
-		for _, tp := range taps {
+		for i := 0; i < len(taps); i++ {
+			tp := taps[i]
 			if tp.shift == 0 {
 				// Shift m done: its result becomes the next one's input.
-				r.xc, r.ac = r.ac, r.xc
+				r.xr, r.ar = r.ar, r.xr
+				r.xi, r.ai = r.ai, r.xi
 				first = true
 				continue
 			}
-			sh := tp.shift
-			lo, hi := min(size, max(0, sh)), max(0, min(size, size+sh))
+			xr, xi, ar, ai := r.xr, r.xi, r.ar, r.ai
+			br, bi := ar, ai
 			if first {
-				// ac = xc + c S xc in one pass (and xc where S leaves nothing).
-				copy(r.ac[:lo], r.xc[:lo])
-				copy(r.ac[hi:], r.xc[hi:])
-				if hi > lo {
-					kernel.AxpyTo(r.ac[lo:hi], r.xc[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
-				}
+				br, bi = xr, xi
+			}
+			// The taps come in pairs +-s (s > 0): where both act, one pass
+			// (the bits of the two in turn).
+			if sh := tp.shift; sh > 0 && 2*sh < size && i+1 < len(taps) && taps[i+1].shift == -sh {
+				b, hi := taps[i+1].c, size-sh
+				kernel.AxpyPlanes(ar[:sh], ai[:sh], br[:sh], bi[:sh], b, xr[sh:2*sh], xi[sh:2*sh])
+				kernel.Axpy2Planes(ar[sh:hi], ai[sh:hi], br[sh:hi], bi[sh:hi], tp.c, xr[:hi-sh], xi[:hi-sh], b, xr[2*sh:], xi[2*sh:])
+				kernel.AxpyPlanes(ar[hi:], ai[hi:], br[hi:], bi[hi:], tp.c, xr[hi-sh:size-sh], xi[hi-sh:size-sh])
+				i++
 				first = false
 				continue
 			}
-			if hi > lo {
-				kernel.AxpyTo(r.ac[lo:hi], r.ac[lo:hi], tp.c, r.xc[lo-sh:hi-sh])
+			// A single tap: ac = xc + c S xc if first (xc where S leaves
+			// nothing), ac += c S xc otherwise.
+			sh := tp.shift
+			lo, hi := min(size, max(0, sh)), max(0, min(size, size+sh))
+			if first {
+				copy(ar[:lo], xr[:lo])
+				copy(ai[:lo], xi[:lo])
+				copy(ar[hi:], xr[hi:])
+				copy(ai[hi:], xi[hi:])
 			}
+			if hi > lo {
+				kernel.AxpyPlanes(ar[lo:hi], ai[lo:hi], br[lo:hi], bi[lo:hi], tp.c, xr[lo-sh:hi-sh], xi[lo-sh:hi-sh])
+			}
+			first = false
 		}
-		scatterLevelScaled(f, lev, r.xc, scale)
+		scatterPlanesScaled(f, lev, r.xr, r.xi, scale)
 	}
 }
 
@@ -345,31 +362,29 @@ func besselJ(j []float64, x float64) {
 // in every case of TestRingPotentialExact).
 const splitTol = 1e-13
 
-// gatherLevel copies level lev of f into x in the momentum layout
-// (x[N j + c] the amplitude of l = LMin + N j + c).
-func gatherLevel(f *field, lev int, x []complex128) {
+// gatherPlanes copies level lev of f into the planes xr, xi in the
+// momentum layout (index N j + c for l = LMin + N j + c): the field's rows
+// hold each level's real and imaginary parts as runs of N.
+func gatherPlanes(f *field, lev int, xr, xi []float64) {
 	n, w := f.b.Sites, f.width()
 	for j := range f.b.Block {
 		row := f.x[2*w*j:]
-		re, im := row[lev*n:lev*n+n], row[w+lev*n:w+lev*n+n]
-		xs := x[n*j : n*j+n]
-		for c := range n {
-			xs[c] = complex(re[c], im[c])
-		}
+		copy(xr[n*j:n*j+n], row[lev*n:lev*n+n])
+		copy(xi[n*j:n*j+n], row[w+lev*n:w+lev*n+n])
 	}
 }
 
-// scatterLevelScaled is the inverse of gatherLevel, times s: it sets
-// level lev of f to s x.
-func scatterLevelScaled(f *field, lev int, x []complex128, s complex128) {
+// scatterPlanesScaled is the inverse of gatherPlanes, times s: it sets
+// level lev of f to s (xr + i xi), each product as Go forms s x.
+func scatterPlanesScaled(f *field, lev int, xr, xi []float64, s complex128) {
 	n, w := f.b.Sites, f.width()
+	sr, si := real(s), imag(s)
 	for j := range f.b.Block {
 		row := f.x[2*w*j:]
 		re, im := row[lev*n:lev*n+n], row[w+lev*n:w+lev*n+n]
-		xs := x[n*j : n*j+n]
-		for c := range n {
-			v := s * xs[c]
-			re[c], im[c] = real(v), imag(v)
+		pr, pi := xr[n*j:n*j+n], xi[n*j:n*j+n]
+		for c := range re {
+			re[c], im[c] = sr*pr[c]-si*pi[c], sr*pi[c]+si*pr[c]
 		}
 	}
 }

@@ -75,3 +75,32 @@ func axpyTo(dst, y []complex128, a complex128, x []complex128) {
 //
 //go:noescape
 func axpyToAVX(dst, y []complex128, a complex128, x []complex128)
+
+func axpy2To(dst, y []complex128, a complex128, xa []complex128, b complex128, xb []complex128) {
+	if useAVX {
+		axpy2ToAVX(dst, y, a, xa, b, xb)
+		return
+	}
+	axpy2ToGo(dst, y, a, xa, b, xb)
+}
+
+// axpy2ToAVX is axpy2ToGo two elements at a time, each product as in
+// axpyToAVX; len(dst) elements of each.
+//
+//go:noescape
+func axpy2ToAVX(dst, y []complex128, a complex128, xa []complex128, b complex128, xb []complex128)
+
+func axpy2Planes(dr, di, yr, yi []float64, a complex128, xar, xai []float64, b complex128, xbr, xbi []float64) {
+	if useAVX {
+		axpy2PlanesAVX(dr, di, yr, yi, a, xar, xai, b, xbr, xbi)
+		return
+	}
+	axpy2PlanesGo(dr, di, yr, yi, a, xar, xai, b, xbr, xbi)
+}
+
+// axpy2PlanesAVX is axpy2PlanesGo four elements at a time (and one at a
+// time for the rest); the lanes are independent, so each element sees the
+// loop's operations in its order. len(dr) elements of each.
+//
+//go:noescape
+func axpy2PlanesAVX(dr, di, yr, yi []float64, a complex128, xar, xai []float64, b complex128, xbr, xbi []float64)

@@ -11,3 +11,11 @@ func rotate(re, im []float64, c, s float64) { rotateGo(re, im, c, s) }
 func phaseRotate(re, im, cr, ci, tr, ti []float64) { phaseRotateGo(re, im, cr, ci, tr, ti) }
 
 func axpyTo(dst, y []complex128, a complex128, x []complex128) { axpyToGo(dst, y, a, x) }
+
+func axpy2To(dst, y []complex128, a complex128, xa []complex128, b complex128, xb []complex128) {
+	axpy2ToGo(dst, y, a, xa, b, xb)
+}
+
+func axpy2Planes(dr, di, yr, yi []float64, a complex128, xar, xai []float64, b complex128, xbr, xbi []float64) {
+	axpy2PlanesGo(dr, di, yr, yi, a, xar, xai, b, xbr, xbi)
+}

@@ -197,3 +197,142 @@ axpy1:
 axpydone:
 	VZEROUPPER
 	RET
+
+// func axpy2ToAVX(dst, y []complex128, a complex128, xa []complex128, b complex128, xb []complex128)
+TEXT ·axpy2ToAVX(SB), NOSPLIT, $0-128
+	MOVQ         dst_base+0(FP), DI
+	MOVQ         dst_len+8(FP), CX
+	MOVQ         y_base+24(FP), DX
+	VBROADCASTSD a_real+48(FP), Y8
+	VBROADCASTSD a_imag+56(FP), Y9
+	MOVQ         xa_base+64(FP), SI
+	VBROADCASTSD b_real+88(FP), Y10
+	VBROADCASTSD b_imag+96(FP), Y11
+	MOVQ         xb_base+104(FP), BX
+	XORQ         AX, AX
+
+pair2:
+	CMPQ       CX, $2
+	JLT        pair1
+	VMOVUPD    (SI)(AX*1), Y0
+	VPERMILPD  $5, Y0, Y1
+	VMULPD     Y8, Y0, Y2
+	VMULPD     Y9, Y1, Y3
+	VADDSUBPD  Y3, Y2, Y4
+	VMOVUPD    (DX)(AX*1), Y5
+	VADDPD     Y4, Y5, Y5
+	VMOVUPD    (BX)(AX*1), Y0
+	VPERMILPD  $5, Y0, Y1
+	VMULPD     Y10, Y0, Y2
+	VMULPD     Y11, Y1, Y3
+	VADDSUBPD  Y3, Y2, Y4
+	VADDPD     Y4, Y5, Y5
+	VMOVUPD    Y5, (DI)(AX*1)
+	ADDQ       $32, AX
+	SUBQ       $2, CX
+	JMP        pair2
+
+pair1:
+	CMPQ       CX, $1
+	JLT        pairdone
+	VMOVUPD    (SI)(AX*1), X0
+	VPERMILPD  $1, X0, X1
+	VMULPD     X8, X0, X2
+	VMULPD     X9, X1, X3
+	VADDSUBPD  X3, X2, X4
+	VMOVUPD    (DX)(AX*1), X5
+	VADDPD     X4, X5, X5
+	VMOVUPD    (BX)(AX*1), X0
+	VPERMILPD  $1, X0, X1
+	VMULPD     X10, X0, X2
+	VMULPD     X11, X1, X3
+	VADDSUBPD  X3, X2, X4
+	VADDPD     X4, X5, X5
+	VMOVUPD    X5, (DI)(AX*1)
+
+pairdone:
+	VZEROUPPER
+	RET
+
+// func axpy2PlanesAVX(dr, di, yr, yi []float64, a complex128, xar, xai []float64, b complex128, xbr, xbi []float64)
+TEXT ·axpy2PlanesAVX(SB), NOSPLIT, $0-224
+	MOVQ         dr_base+0(FP), DI
+	MOVQ         dr_len+8(FP), CX
+	MOVQ         di_base+24(FP), R8
+	MOVQ         yr_base+48(FP), DX
+	MOVQ         yi_base+72(FP), R9
+	VBROADCASTSD a_real+96(FP), Y12
+	VBROADCASTSD a_imag+104(FP), Y13
+	MOVQ         xar_base+112(FP), SI
+	MOVQ         xai_base+136(FP), R10
+	VBROADCASTSD b_real+160(FP), Y14
+	VBROADCASTSD b_imag+168(FP), Y15
+	MOVQ         xbr_base+176(FP), BX
+	MOVQ         xbi_base+200(FP), R11
+	XORQ         AX, AX
+
+planes4:
+	CMPQ    CX, $4
+	JLT     planes1
+	VMOVUPD (SI)(AX*1), Y0
+	VMOVUPD (R10)(AX*1), Y1
+	VMULPD  Y12, Y0, Y2
+	VMULPD  Y13, Y1, Y3
+	VSUBPD  Y3, Y2, Y2
+	VMULPD  Y12, Y1, Y4
+	VMULPD  Y13, Y0, Y5
+	VADDPD  Y5, Y4, Y4
+	VMOVUPD (DX)(AX*1), Y6
+	VADDPD  Y2, Y6, Y6
+	VMOVUPD (R9)(AX*1), Y7
+	VADDPD  Y4, Y7, Y7
+	VMOVUPD (BX)(AX*1), Y0
+	VMOVUPD (R11)(AX*1), Y1
+	VMULPD  Y14, Y0, Y2
+	VMULPD  Y15, Y1, Y3
+	VSUBPD  Y3, Y2, Y2
+	VMULPD  Y14, Y1, Y4
+	VMULPD  Y15, Y0, Y5
+	VADDPD  Y5, Y4, Y4
+	VADDPD  Y2, Y6, Y6
+	VADDPD  Y4, Y7, Y7
+	VMOVUPD Y6, (DI)(AX*1)
+	VMOVUPD Y7, (R8)(AX*1)
+	ADDQ    $32, AX
+	SUBQ    $4, CX
+	JMP     planes4
+
+planes1:
+	CMPQ    CX, $1
+	JLT     planesdone
+	VMOVSD  (SI)(AX*1), X0
+	VMOVSD  (R10)(AX*1), X1
+	VMULSD  X12, X0, X2
+	VMULSD  X13, X1, X3
+	VSUBSD  X3, X2, X2
+	VMULSD  X12, X1, X4
+	VMULSD  X13, X0, X5
+	VADDSD  X5, X4, X4
+	VMOVSD  (DX)(AX*1), X6
+	VADDSD  X2, X6, X6
+	VMOVSD  (R9)(AX*1), X7
+	VADDSD  X4, X7, X7
+	VMOVSD  (BX)(AX*1), X0
+	VMOVSD  (R11)(AX*1), X1
+	VMULSD  X14, X0, X2
+	VMULSD  X15, X1, X3
+	VSUBSD  X3, X2, X2
+	VMULSD  X14, X1, X4
+	VMULSD  X15, X0, X5
+	VADDSD  X5, X4, X4
+	VADDSD  X2, X6, X6
+	VADDSD  X4, X7, X7
+	VMOVSD  X6, (DI)(AX*1)
+	VMOVSD  X7, (R8)(AX*1)
+	ADDQ    $8, AX
+	SUBQ    $1, CX
+	JMP     planes1
+
+planesdone:
+	VZEROUPPER
+	RET
