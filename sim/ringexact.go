@@ -292,10 +292,13 @@ func (r *ringOp) split(f *field, alpha, g, tau float64) {
 			// The taps come in pairs +-s (s > 0): where both act, one pass
 			// (the bits of the two in turn).
 			if sh := tp.shift; sh > 0 && 2*sh < size && i+1 < len(taps) && taps[i+1].shift == -sh {
+				// The ends, where one tap acts, through the pair kernel with
+				// a zero second tap: adding 0 x leaves every non-zero sum's
+				// bits as they are.
 				b, hi := taps[i+1].c, size-sh
-				kernel.AxpyPlanes(ar[:sh], ai[:sh], br[:sh], bi[:sh], b, xr[sh:2*sh], xi[sh:2*sh])
+				kernel.Axpy2Planes(ar[:sh], ai[:sh], br[:sh], bi[:sh], b, xr[sh:2*sh], xi[sh:2*sh], 0, xr[:sh], xi[:sh])
 				kernel.Axpy2Planes(ar[sh:hi], ai[sh:hi], br[sh:hi], bi[sh:hi], tp.c, xr[:hi-sh], xi[:hi-sh], b, xr[2*sh:], xi[2*sh:])
-				kernel.AxpyPlanes(ar[hi:], ai[hi:], br[hi:], bi[hi:], tp.c, xr[hi-sh:size-sh], xi[hi-sh:size-sh])
+				kernel.Axpy2Planes(ar[hi:], ai[hi:], br[hi:], bi[hi:], tp.c, xr[hi-sh:size-sh], xi[hi-sh:size-sh], 0, xr[:sh], xi[:sh])
 				i++
 				first = false
 				continue
@@ -780,7 +783,7 @@ func (mg *ringMagnus) mulH1(y, x []complex128, k int) {
 				re[p], im[p] = real(v), imag(v)
 			}
 		}
-		kernel.Combine(mg.ys, mg.stack[c], w, xs)
+		kernel.CombineFused(mg.ys, mg.stack[c], w, xs)
 		yc := y[c*k : (c+1)*k]
 		for nn := range yc {
 			yc[nn] = complex(mg.ys[nn], mg.ys[k+nn])

@@ -104,3 +104,19 @@ func axpy2Planes(dr, di, yr, yi []float64, a complex128, xar, xai []float64, b c
 //
 //go:noescape
 func axpy2PlanesAVX(dr, di, yr, yi []float64, a complex128, xar, xai []float64, b complex128, xbr, xbi []float64)
+
+var useFMA = cpu.X86.HasAVX && cpu.X86.HasFMA
+
+func combineFused(y, x []float64, stride int, c []float64) {
+	if useFMA {
+		combineFMA(y, x, stride, c)
+		return
+	}
+	combineFusedGo(y, x, stride, c)
+}
+
+// combineFMA is combineFusedGo with the lanes of combineAVX, each
+// multiply-add fused (VFMADD231PD).
+//
+//go:noescape
+func combineFMA(y, x []float64, stride int, c []float64)

@@ -19,3 +19,5 @@ func axpy2To(dst, y []complex128, a complex128, xa []complex128, b complex128, x
 func axpy2Planes(dr, di, yr, yi []float64, a complex128, xar, xai []float64, b complex128, xbr, xbi []float64) {
 	axpy2PlanesGo(dr, di, yr, yi, a, xar, xai, b, xbr, xbi)
 }
+
+func combineFused(y, x []float64, stride int, c []float64) { combineFusedGo(y, x, stride, c) }

@@ -7,9 +7,9 @@ import (
 	"testing"
 )
 
-// TestCombineMatchesLoop checks that Combine returns the bits of the
-// portable loop (the package's promise) and, within round-off, the plain
-// sum, for every remainder of len(y) modulo 16 and of len(c) modulo 4.
+// TestCombineMatchesLoop checks that Combine and CombineFused return the
+// bits of their portable loops (the package's promise) and, within
+// round-off, the plain sum, for every remainder of len(y) modulo 16 and of len(c) modulo 4.
 func TestCombineMatchesLoop(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	for _, n := range []int{0, 1, 3, 4, 5, 15, 16, 17, 31, 40, 80, 83} {
@@ -30,9 +30,18 @@ func TestCombineMatchesLoop(t *testing.T) {
 			want := make([]float64, n)
 			Combine(got, x, stride, c)
 			combineGo(want, x, stride, c)
+			fused, fusedLoop := make([]float64, n), make([]float64, n)
+			for i := range fused {
+				fused[i] = math.NaN()
+			}
+			CombineFused(fused, x, stride, c)
+			combineFusedGo(fusedLoop, x, stride, c)
 			for q := range n {
 				if math.Float64bits(got[q]) != math.Float64bits(want[q]) {
 					t.Fatalf("n=%d h=%d q=%d: got %v, want the portable loop's %v (bit for bit)", n, h, q, got[q], want[q])
+				}
+				if math.Float64bits(fused[q]) != math.Float64bits(fusedLoop[q]) {
+					t.Fatalf("n=%d h=%d q=%d: CombineFused %v, want its portable loop's %v (bit for bit)", n, h, q, fused[q], fusedLoop[q])
 				}
 				var plain, scale float64
 				for j := range h {
@@ -43,6 +52,9 @@ func TestCombineMatchesLoop(t *testing.T) {
 				// and Stability of Numerical Algorithms, 2nd ed., eq. 4.4).
 				if tol := float64(h+1) * 0x1p-52 * scale; math.Abs(got[q]-plain) > tol {
 					t.Fatalf("n=%d h=%d q=%d: got %v, want %v (tol %g)", n, h, q, got[q], plain, tol)
+				}
+				if tol := float64(h+1) * 0x1p-52 * scale; math.Abs(fused[q]-plain) > tol {
+					t.Fatalf("n=%d h=%d q=%d: CombineFused %v, want %v (tol %g)", n, h, q, fused[q], plain, tol)
 				}
 			}
 		}
@@ -56,6 +68,29 @@ func TestCombineShortPanics(t *testing.T) {
 		}
 	}()
 	Combine(make([]float64, 4), make([]float64, 7), 4, []float64{1, 2})
+}
+
+func BenchmarkCombineFused(b *testing.B) {
+	n, h := 36, 144 // a class's rows in the ring potential's Magnus product
+	x := make([]float64, n*h)
+	for i := range x {
+		x[i] = float64(i % 7)
+	}
+	c := make([]float64, h)
+	for i := range c {
+		c[i] = 0.1 * float64(i)
+	}
+	y := make([]float64, n)
+	b.Run("fused", func(b *testing.B) {
+		for b.Loop() {
+			CombineFused(y, x, n, c)
+		}
+	})
+	b.Run("plain", func(b *testing.B) {
+		for b.Loop() {
+			Combine(y, x, n, c)
+		}
+	})
 }
 
 func BenchmarkCombine(b *testing.B) {
