@@ -45,6 +45,11 @@ import (
 //	matrix exponential operator", SIAM J. Numer. Anal. 34, 1911 (1997).
 //	C. C. Paige, "Accuracy and effectiveness of the Lanczos algorithm for
 //	the symmetric eigenproblem", Linear Algebra Appl. 34, 235 (1980).
+//	T. Jawecki, W. Auzinger and O. Koch, "Computable upper error bounds
+//	for Krylov approximations to matrix exponentials and associated
+//	phi-functions", BIT Numer. Math. 60, 157 (2020).
+//
+// (docs/model.md, Perturbations, the ring potential.)
 func (r *ringOp) expLanczos(k int, frac float64) bool {
 	mg := &r.mag
 	x := mg.coef
