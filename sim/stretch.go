@@ -1,24 +1,31 @@
 package sim
 
-import "math"
+import (
+	"math"
+
+	"rampart/internal/kernel"
+)
 
 // blockExp holds exp(-i H' tau) for every class block of a constant H' as
-// dense complex matrices (real and imaginary parts, K x K row-major).
+// dense complex K x K matrices.
 type blockExp struct {
-	re, im [][]float64
+	// t holds the blocks' matrices with the classes side by side: element
+	// (i, j) of every class c at t[(i*K + j)*2N + c] (real part) and
+	// t[(i*K + j)*2N + N + c] (imaginary part), for kernel.BlockRow.
+	t    []float64
+	k, n int
 }
 
 func newBlockExp(es *eigensystem, tau float64) blockExp {
 	n := len(es.vals)
 	k := len(es.vals[0])
-	be := blockExp{re: make([][]float64, n), im: make([][]float64, n)}
+	be := blockExp{t: make([]float64, 2*n*k*k), k: k, n: n}
 	cs := make([]float64, k)
 	sn := make([]float64, k)
 	for c := range n {
 		for m := range k {
 			sn[m], cs[m] = math.Sincos(-es.vals[c][m] * tau)
 		}
-		re, im := make([]float64, k*k), make([]float64, k*k)
 		v := es.vecs[c]
 		for i := range k {
 			for j := range k {
@@ -28,35 +35,30 @@ func newBlockExp(es *eigensystem, tau float64) blockExp {
 					a += x * cs[m]
 					b += x * sn[m]
 				}
-				re[i*k+j], im[i*k+j] = a, b
+				o := (i*k + j) * 2 * n
+				be.t[o+c], be.t[o+n+c] = a, b
 			}
 		}
-		be.re[c], be.im[c] = re, im
 	}
 	return be
 }
 
-// apply multiplies every level of f by the block exponentials.
+// apply multiplies every level of f by the block exponentials, all
+// classes of a row at once (kernel.BlockRow: the bits of the loop over one
+// class at a time). scratch holds at least 2 K N values.
 func (be blockExp) apply(f *field, scratch []float64) {
-	k, n, wd := f.b.Block, f.b.Sites, f.width()
+	k, n, wd := be.k, be.n, f.width()
 	cols := 2 * wd
-	xr, xi := scratch[:k], scratch[k:2*k]
-	for c := range n {
-		ar, ai := be.re[c], be.im[c]
-		for lev := range f.levels {
-			q := lev*n + c
-			for j := range k {
-				xr[j], xi[j] = f.x[j*cols+q], f.x[j*cols+wd+q]
-			}
-			for i := range k {
-				rr, ri := ar[i*k:(i+1)*k], ai[i*k:(i+1)*k]
-				var yr, yi float64
-				for j := range k {
-					yr += rr[j]*xr[j] - ri[j]*xi[j]
-					yi += rr[j]*xi[j] + ri[j]*xr[j]
-				}
-				f.x[i*cols+q], f.x[i*cols+wd+q] = yr, yi
-			}
+	xs := scratch[:2*n*k]
+	for lev := range f.levels {
+		for j := range k {
+			row := f.x[j*cols:]
+			copy(xs[j*2*n:j*2*n+n], row[lev*n:lev*n+n])
+			copy(xs[j*2*n+n:(j+1)*2*n], row[wd+lev*n:wd+lev*n+n])
+		}
+		for i := range k {
+			row := f.x[i*cols:]
+			kernel.BlockRow(row[lev*n:lev*n+n], row[wd+lev*n:wd+lev*n+n], be.t[i*k*2*n:(i+1)*k*2*n], xs, k)
 		}
 	}
 }
@@ -148,7 +150,7 @@ func (p *propagator) stretchFree(f *field, d Drive, w, t0, t1, noiseStep float64
 	tau := (t1 - t0) / float64(n)
 	half := newBlockExp(es, tau/2)
 	full := newBlockExp(es, tau)
-	scratch := make([]float64, 2*p.b.Block)
+	scratch := make([]float64, 2*p.b.Sites*p.b.Block)
 	half.apply(f, scratch)
 	for i := range n {
 		ta, tb := t0+float64(i)*tau, t0+float64(i+1)*tau

@@ -120,3 +120,19 @@ func combineFused(y, x []float64, stride int, c []float64) {
 //
 //go:noescape
 func combineFMA(y, x []float64, stride int, c []float64)
+
+func blockRow4(yr, yi, a, x []float64, k, n int) {
+	if useAVX {
+		blockRowAVX(yr, yi, a, x, k, n)
+		return
+	}
+	for c := 0; c < len(yr); c += 4 {
+		blockRowGo(yr[:c+4], yi[:c+4], a, x, k, n, c)
+	}
+}
+
+// blockRowAVX is blockRowGo four lanes at a time, on the len(yr) lanes
+// (a multiple of four); each lane sees the loop's operations in its order.
+//
+//go:noescape
+func blockRowAVX(yr, yi, a, x []float64, k, n int)

@@ -336,3 +336,60 @@ planes1:
 planesdone:
 	VZEROUPPER
 	RET
+
+// func blockRowAVX(yr, yi, a, x []float64, k, n int)
+//
+// DI: yr, R15: yi, SI: a, DX: x, R8: k, R10: row stride 2n in bytes,
+// R11: n in bytes (offset of the imaginary parts), R12: lane offset in
+// bytes, CX: lanes left, R13/R14: row pointers, AX: rows left.
+TEXT ·blockRowAVX(SB), NOSPLIT, $0-112
+	MOVQ yr_base+0(FP), DI
+	MOVQ yr_len+8(FP), CX
+	MOVQ yi_base+24(FP), R15
+	MOVQ a_base+48(FP), SI
+	MOVQ x_base+72(FP), DX
+	MOVQ k+96(FP), R8
+	MOVQ n+104(FP), R11
+	SHLQ $3, R11
+	LEAQ (R11)(R11*1), R10
+	XORQ R12, R12
+
+brchunk:
+	CMPQ    CX, $4
+	JLT     brdone
+	VXORPD  Y0, Y0, Y0
+	VXORPD  Y1, Y1, Y1
+	LEAQ    (SI)(R12*1), R13
+	LEAQ    (DX)(R12*1), R14
+	MOVQ    R8, AX
+	TESTQ   AX, AX
+	JZ      brstore
+
+brrow:
+	VMOVUPD (R13), Y2
+	VMOVUPD (R13)(R11*1), Y3
+	VMOVUPD (R14), Y4
+	VMOVUPD (R14)(R11*1), Y5
+	VMULPD  Y4, Y2, Y6
+	VMULPD  Y5, Y3, Y7
+	VSUBPD  Y7, Y6, Y6
+	VADDPD  Y6, Y0, Y0
+	VMULPD  Y5, Y2, Y8
+	VMULPD  Y4, Y3, Y9
+	VADDPD  Y9, Y8, Y8
+	VADDPD  Y8, Y1, Y1
+	ADDQ    R10, R13
+	ADDQ    R10, R14
+	DECQ    AX
+	JNZ     brrow
+
+brstore:
+	VMOVUPD Y0, (DI)(R12*1)
+	VMOVUPD Y1, (R15)(R12*1)
+	ADDQ    $32, R12
+	SUBQ    $4, CX
+	JMP     brchunk
+
+brdone:
+	VZEROUPPER
+	RET
