@@ -71,6 +71,24 @@ func (p *propagator) kick(f *field, da float64) {
 	}
 }
 
+// kickTable is kick(f, da) with e^{i l da} from chain k of the last
+// kineticChains: the same products, so the same bits.
+func (p *propagator) kickTable(f *field, da float64, k int) {
+	if da == 0 {
+		return
+	}
+	cr, ci := p.cr[k], p.ci[k]
+	n, w := p.b.Sites, f.width()
+	for j := range p.b.Block {
+		row := f.x[2*w*j : 2*w*(j+1)]
+		re, im := row[:w], row[w:]
+		l := n * j
+		for q := 0; q < w; q += n {
+			kernel.RotateBy(re[q:q+n], im[q:q+n], cr[l:l+n], ci[l:l+n])
+		}
+	}
+}
+
 // stretch advances f over [t0, t1], during which the commanded speed w is
 // constant. Without noise this is one exact step. With lattice jitter or
 // depth noise the stretch is cut into intervals of at most noiseStep (the
@@ -152,10 +170,22 @@ func (p *propagator) stretchFree(f *field, d Drive, w, t0, t1, noiseStep float64
 	full := newBlockExp(es, tau)
 	scratch := make([]float64, 2*p.b.Sites*p.b.Block)
 	half.apply(f, scratch)
+	var da [chainBatch]float64
 	for i := range n {
 		ta, tb := t0+float64(i)*tau, t0+float64(i+1)*tau
-		dd := d.Jitter.At(tb) - d.Jitter.At(ta)
-		p.kick(f, dd/2)
+		k := i % chainBatch
+		if k == 0 {
+			// The half kicks' phase tables of the next intervals, their
+			// recurrences side by side (kineticChains: the products of
+			// diagonalPhase, in its order).
+			m := min(chainBatch, n-i)
+			for q := range m {
+				ta, tb := t0+float64(i+q)*tau, t0+float64(i+q+1)*tau
+				da[q] = (d.Jitter.At(tb) - d.Jitter.At(ta)) / 2
+			}
+			p.kineticChains(da[:m])
+		}
+		p.kickTable(f, da[k], k)
 		if d.DepthNoise != nil {
 			p.latticeStep(f, d.DepthNoise.At((ta+tb)/2), tau)
 		}
@@ -165,7 +195,7 @@ func (p *propagator) stretchFree(f *field, d Drive, w, t0, t1, noiseStep float64
 			tm := (ta + tb) / 2
 			p.ring.split(f, d.Angle(tm)-d.RotationRadS*tm, d.Depth(tm), tau)
 		}
-		p.kick(f, dd/2)
+		p.kickTable(f, da[k], k)
 		if i < n-1 {
 			full.apply(f, scratch)
 		}

@@ -47,6 +47,20 @@ func foldAVX(s, d, a, b []float64)
 //go:noescape
 func rotateAVX(re, im []float64, c, s float64)
 
+func rotateBy(re, im, cr, ci []float64) {
+	if useAVX {
+		rotateByAVX(re, im, cr, ci)
+		return
+	}
+	rotateByGo(re, im, cr, ci)
+}
+
+// rotateByAVX is rotateByGo four elements at a time; len(re) elements of
+// each.
+//
+//go:noescape
+func rotateByAVX(re, im, cr, ci []float64)
+
 func phaseRotate(re, im, cr, ci, tr, ti []float64) {
 	if useAVX {
 		phaseRotateAVX(re, im, cr, ci, tr, ti)

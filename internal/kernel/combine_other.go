@@ -35,3 +35,5 @@ func blockRow4(yr, yi, a, x []float64, k, n int) {
 		yr[c], yi[c] = sr, si
 	}
 }
+
+func rotateBy(re, im, cr, ci []float64) { rotateByGo(re, im, cr, ci) }

@@ -64,3 +64,24 @@ func phaseRotateGo(re, im, cr, ci, tr, ti []float64) {
 		im[q] = sn*a + cs*b
 	}
 }
+
+// RotateBy multiplies re[q] + i im[q], q < len(re), by cr[q] + i ci[q],
+// as Rotate does with one factor: (cr re - ci im) + i (ci re + cr im).
+func RotateBy(re, im, cr, ci []float64) {
+	n := len(re)
+	if len(im) < n || len(cr) < n || len(ci) < n {
+		panic("kernel: RotateBy of slices shorter than re")
+	}
+	if n > 0 {
+		rotateBy(re[:n], im[:n], cr[:n], ci[:n])
+	}
+}
+
+func rotateByGo(re, im, cr, ci []float64) {
+	for q := range re {
+		c, s := cr[q], ci[q]
+		a, b := re[q], im[q]
+		re[q] = c*a - s*b
+		im[q] = s*a + c*b
+	}
+}

@@ -393,3 +393,54 @@ brstore:
 brdone:
 	VZEROUPPER
 	RET
+
+// func rotateByAVX(re, im, cr, ci []float64)
+TEXT ·rotateByAVX(SB), NOSPLIT, $0-96
+	MOVQ re_base+0(FP), DI
+	MOVQ re_len+8(FP), CX
+	MOVQ im_base+24(FP), SI
+	MOVQ cr_base+48(FP), R8
+	MOVQ ci_base+72(FP), R9
+	XORQ AX, AX
+
+rb4:
+	CMPQ    CX, $4
+	JLT     rb1
+	VMOVUPD (R8)(AX*1), Y8
+	VMOVUPD (R9)(AX*1), Y9
+	VMOVUPD (DI)(AX*1), Y0
+	VMOVUPD (SI)(AX*1), Y1
+	VMULPD  Y0, Y8, Y2
+	VMULPD  Y1, Y9, Y3
+	VSUBPD  Y3, Y2, Y2
+	VMULPD  Y0, Y9, Y4
+	VMULPD  Y1, Y8, Y5
+	VADDPD  Y5, Y4, Y4
+	VMOVUPD Y2, (DI)(AX*1)
+	VMOVUPD Y4, (SI)(AX*1)
+	ADDQ    $32, AX
+	SUBQ    $4, CX
+	JMP     rb4
+
+rb1:
+	CMPQ   CX, $1
+	JLT    rbdone
+	VMOVSD (R8)(AX*1), X8
+	VMOVSD (R9)(AX*1), X9
+	VMOVSD (DI)(AX*1), X0
+	VMOVSD (SI)(AX*1), X1
+	VMULSD X0, X8, X2
+	VMULSD X1, X9, X3
+	VSUBSD X3, X2, X2
+	VMULSD X0, X9, X4
+	VMULSD X1, X8, X5
+	VADDSD X5, X4, X4
+	VMOVSD X2, (DI)(AX*1)
+	VMOVSD X4, (SI)(AX*1)
+	ADDQ   $8, AX
+	DECQ   CX
+	JMP    rb1
+
+rbdone:
+	VZEROUPPER
+	RET

@@ -184,3 +184,33 @@ func TestPhaseRotateMatchesLoop(t *testing.T) {
 		}
 	}
 }
+
+// TestRotateByMatchesLoop holds RotateBy to its portable loop bit for bit
+// (the AVX lanes do the loop's operations in its order) and to the
+// modulus a unit factor keeps.
+func TestRotateByMatchesLoop(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	for n := range 23 {
+		re, im := make([]float64, n), make([]float64, n)
+		cr, ci := make([]float64, n), make([]float64, n)
+		for i := range re {
+			re[i], im[i] = rng.NormFloat64(), rng.NormFloat64()
+			ci[i], cr[i] = math.Sincos(rng.Float64() * 7)
+		}
+		wre, wim := append([]float64(nil), re...), append([]float64(nil), im...)
+		m0 := make([]float64, n)
+		for i := range re {
+			m0[i] = math.Hypot(re[i], im[i])
+		}
+		RotateBy(re, im, cr, ci)
+		rotateByGo(wre, wim, cr, ci)
+		for q := range n {
+			if math.Float64bits(re[q]) != math.Float64bits(wre[q]) || math.Float64bits(im[q]) != math.Float64bits(wim[q]) {
+				t.Fatalf("RotateBy n=%d q=%d: got %v, %v, want %v, %v (bit for bit)", n, q, re[q], im[q], wre[q], wim[q])
+			}
+			if m1 := math.Hypot(re[q], im[q]); math.Abs(m1-m0[q]) > 1e-15*m0[q] { // a few ulps: the factor is unit to 1 ulp, the products round
+				t.Fatalf("RotateBy n=%d q=%d: modulus changed to %v from %v", n, q, m1, m0[q])
+			}
+		}
+	}
+}
