@@ -2,6 +2,8 @@ package sim
 
 import (
 	"math"
+
+	"rampart/internal/kernel"
 )
 
 // responseRampTol is the relative truncation of a ramp's sampled series
@@ -85,11 +87,9 @@ func norm2(v []complex128) float64 {
 	return s
 }
 
-// axpy sets y += a x.
+// axpy sets y += a x (kernel.AxpyTo: the bits of y[i] += a*x[i]).
 func axpy(a complex128, x, y []complex128) {
-	for i, v := range x {
-		y[i] += a * v
-	}
+	kernel.AxpyTo(y[:len(x)], y, a, x)
 }
 
 // phaseInt returns I1(x) = int_0^tau e^{i x s} ds given e = e^{i x tau}, by
