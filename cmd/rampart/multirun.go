@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 
 	"rampart/mc"
 	"rampart/scenario"
@@ -15,8 +16,22 @@ import (
 // --resume DIR continues all of them.
 
 // checkResumeDir refuses --resume DIR of a command that keeps several runs
-// in DIR when there is no DIR: nothing was started there.
+// in DIR when there is no DIR, or when neither DIR nor its subdirectories
+// (to resumeDepth levels) hold a run: nothing was started there, and a
+// mistyped DIR must not start the whole job afresh in some other
+// directory of the user's.
 func (o ensembleOptions) checkResumeDir() error {
+	if err := o.checkResumeExists(); err != nil || o.resume == "" {
+		return err
+	}
+	if !hasRunBelow(o.resume, resumeDepth) {
+		return fmt.Errorf("--resume %s: neither it nor its subdirectories hold a run (no %s): give the directory of an interrupted job, or --out DIR with a new or empty directory to start one", o.resume, mc.ManifestFile)
+	}
+	return nil
+}
+
+// checkResumeExists refuses --resume DIR when there is no directory DIR.
+func (o ensembleOptions) checkResumeExists() error {
 	if o.resume == "" {
 		return nil
 	}
@@ -26,12 +41,48 @@ func (o ensembleOptions) checkResumeDir() error {
 	return nil
 }
 
+// resumeDepth is how deep the runs of a command's job lie below its
+// directory: rank keeps DIR/RAMP, tolerance DIR/SOURCE/AMPLITUDE.
+const resumeDepth = 3
+
+// hasRunBelow reports whether dir or a directory at most depth levels below
+// it holds a run. Symbolic links are not followed, and at most
+// resumeScanMax directories are read, so a mistaken --resume of a large
+// tree costs little (it is then refused).
+func hasRunBelow(dir string, depth int) bool {
+	budget := resumeScanMax
+	var walk func(string, int) bool
+	walk = func(d string, left int) bool {
+		if mc.HasRun(d) {
+			return true
+		}
+		if left == 0 || budget == 0 {
+			return false
+		}
+		budget--
+		entries, err := os.ReadDir(d)
+		if err != nil {
+			return false
+		}
+		for _, e := range entries {
+			if e.IsDir() && walk(filepath.Join(d, e.Name()), left-1) {
+				return true
+			}
+		}
+		return false
+	}
+	return walk(dir, depth)
+}
+
+// resumeScanMax bounds the directories hasRunBelow reads.
+const resumeScanMax = 4096
+
 // checkResumeRun refuses --resume DIR of a command that keeps one run in
 // DIR (run, qualify, sensitivity) when DIR holds no run, before anything
 // is written there: resuming takes the directory's lock, and a directory
 // that is not a run must not be left with a lock file in it.
 func (o ensembleOptions) checkResumeRun() error {
-	if err := o.checkResumeDir(); err != nil || o.resume == "" || mc.HasRun(o.resume) {
+	if err := o.checkResumeExists(); err != nil || o.resume == "" || mc.HasRun(o.resume) {
 		return err
 	}
 	return fmt.Errorf("--resume %s: it holds no run (no %s): give the directory of an interrupted run, or --out DIR with a new or empty directory to start one", o.resume, mc.ManifestFile)

@@ -107,7 +107,7 @@ func checkOutDir(dir string) error {
 // --resume names an existing directory, --out a new or empty one or one
 // that holds a run.
 func (o *ensembleOptions) checkOutputs() error {
-	if err := o.checkResumeDir(); err != nil {
+	if err := o.checkResumeExists(); err != nil {
 		return err
 	}
 	if o.resume == "" {

@@ -8,7 +8,7 @@ import (
 )
 
 // TestResumeNotARun checks that --resume of a directory that holds no run
-// is refused naming --resume, and leaves the user's directory as it was
+// (rank, tolerance: nor its subdirectories) is refused naming --resume, and leaves the user's directory as it was
 // (no lock file); that merge of a missing directory says it is missing.
 func TestResumeNotARun(t *testing.T) {
 	dir := t.TempDir()
@@ -26,6 +26,10 @@ func TestResumeNotARun(t *testing.T) {
 		{"qualify", []string{"qualify", "--scenario", ensembleScenario, "--spec", writeSpec(t, dir, "spec.toml", "[contrast]\np05_min = 0.5\n"), "--samples", "100", "--resume", user},
 			"--resume " + user + ": it holds no run"},
 		{"sensitivity", []string{"sensitivity", "--scenario", ensembleScenario, "--base", "4", "--resume", user}, "--resume " + user + ": it holds no run"},
+		{"rank", []string{"rank", "--scenario", ensembleScenario, "--ramp", "a=sin2", "--ramp", "b=inverse", "--samples", "2", "--resume", user},
+			"--resume " + user + ": neither it nor its subdirectories hold a run"},
+		{"tolerance", []string{"tolerance", "--scenario", ensembleScenario, "--spec", writeSpec(t, dir, "spec2.toml", "[contrast]\np05_min = 0.5\n"), "--samples", "20", "--resume", user},
+			"--resume " + user + ": neither it nor its subdirectories hold a run"},
 		{"merge a missing directory", []string{"merge", filepath.Join(dir, "nosuch1")}, filepath.Join(dir, "nosuch1") + " does not exist"},
 	} {
 		stdout, stderr, code := execute(t, row.args...)
