@@ -173,7 +173,7 @@ func (s *Simulator) runEcho(sh Shot, obs Observer) Result {
 	st := s.startSet(sh, wk)
 	pl := s.echoPlan(sh)
 	end := pl.end()
-	noiseStep := math.Min(s.step/2, 2*math.Pi/cfg.TrapRadS()/40)
+	noiseStep := s.noiseStep()
 
 	var res Result
 	var fields [2]*field

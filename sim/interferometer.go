@@ -140,6 +140,9 @@ type Simulator struct {
 	// gridCruise makes noisy constant stretches run on the full grid
 	// rather than in the cut band basis (sim/reduced.go).
 	gridCruise bool
+	// noiseDiv, if above 1, divides the noisy stretches' intervals by it
+	// (the refined run of the tests' error estimates; same records).
+	noiseDiv int
 	// ringPieceRad, if positive, cuts the constant stretches of a shot
 	// with a ring potential into pieces (ringOp.pieceRad).
 	ringPieceRad float64
@@ -240,7 +243,7 @@ func (s *Simulator) Run(sh Shot, obs Observer) Result {
 	// from the exact commanded motion with an error of relative order
 	// (omega tau)^2 / 12 in the noise's effect (0.2 %), and resolves twice
 	// the band that NoiseBandHz gives.
-	noiseStep := math.Min(s.step/2, 2*math.Pi/cfg.TrapRadS()/40)
+	noiseStep := s.noiseStep()
 
 	var res Result
 	var fields [2]*field
@@ -378,6 +381,16 @@ func (s *Simulator) steps(d float64) int {
 func diagonaliseFor(p *propagator, w, g float64) *eigensystem {
 	e := diagonalise(p.b, p.rot, w, g*p.v0)
 	return &e
+}
+
+// noiseStep is the longest interval of a noisy constant stretch: half the
+// split step and a fortieth of the trap period (divided by noiseDiv).
+func (s *Simulator) noiseStep() float64 {
+	h := math.Min(s.step/2, 2*math.Pi/s.cfg.TrapRadS()/40)
+	if s.noiseDiv > 1 {
+		h /= float64(s.noiseDiv)
+	}
+	return h
 }
 
 // NoiseBandHz returns the highest noise frequency the split step resolves,

@@ -3,6 +3,7 @@ package sim
 import (
 	"math"
 	"math/rand/v2"
+	"os"
 	"testing"
 
 	"rampart/noise"
@@ -61,4 +62,84 @@ func TestNoisyCruiseAccuracy(t *testing.T) {
 			t.Errorf("RIN %g, L %g: phase %.9f, reference %.9f (error %.2g rad, tol %.2g)", tc.rinDB, tc.phaseDBc, got.PhaseRad, want.PhaseRad, d, tolPhi)
 		}
 	}
+}
+
+// TestNoisyCruiseLongLaps holds the interval method's error to the
+// tolerance of TestNoisyCruiseAccuracy (0.5 % of the noise's own effect,
+// or the automatic numerics' targets of 1e-4 in contrast and 1e-6 rad in
+// phase where that is larger) over long noisy cruises, where the
+// fine-step reference is out of reach: the noisy-cruise ring of
+// BenchmarkNoisyCruise (20 sites, 5 um, 20 kHz, an inverse ramp of 150 us
+// to 50 pi rad/s, 40 ms a lap) with white drive phase noise at -100 dBc/Hz
+// on both arms, on the full grid, at 1 and 100 laps (RAMPART_LONG_TESTS=1:
+// also 1000). The error is estimated against the same shot with intervals
+// of half the length on the same records (Richardson: the method is second
+// order in the interval, so the error of the coarse run is 4/3 of the
+// difference, and an overestimate where the differences shrink faster);
+// at one lap a quarter length checks that order. Measured: at 1 lap the
+// noise moves C by 6.5e-4 and the phase by 3.4e-3 rad, estimated errors
+// 6.8e-7 and 9.6e-6 rad (the phase 0.28 % of the noise's effect: above
+// the 1e-6 rad target, which holds for the nominal shot, not for the
+// noise's effect); at 100 laps C by 0.10 and the phase by 0.17 rad,
+// errors 1.8e-4 and 3.0e-5 rad (0.17 % and 0.02 %). Halving the interval
+// shrank the one-lap differences 4.2 times (C) and 10.5 times (phase).
+func TestNoisyCruiseLongLaps(t *testing.T) {
+	if testing.Short() {
+		t.Skip("long cruises")
+	}
+	laps := []float64{1, 100}
+	if os.Getenv("RAMPART_LONG_TESTS") == "1" {
+		laps = append(laps, 1000)
+	}
+	for _, l := range laps {
+		c := Config{
+			Ring:         Ring{Sites: 20, RadiusM: 5e-6, MassKg: Rb87MassU * AtomicMassUnit},
+			DepthHz:      20e3,
+			RotationRadS: 1e-3,
+		}
+		up, err := NewShape("inverse", 150e-6, 50*math.Pi, c.TrapRadS())
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c.Sequence, err = NewSequence(up, l); err != nil {
+			t.Fatal(err)
+		}
+		s, err := NewSimulator(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s.gridCruise = true
+		nominal := s.Run(Shot{}, nil)
+		run := func(div int) Result {
+			r := *s
+			r.noiseDiv = div
+			return r.Run(phaseNoiseShot(t, s, -100, 5), nil)
+		}
+		x1, x2 := run(1), run(2)
+		dc, dp := x1.Contrast-x2.Contrast, Wrap(x1.PhaseRad-x2.PhaseRad)
+		estC, estP := 4*math.Abs(dc)/3, 4*math.Abs(dp)/3
+		t.Logf("%g laps: noise moves C by %.3g and phase by %.3g rad; estimated interval-method error %.2g (C), %.2g rad; %v and %v",
+			l, x2.Contrast-nominal.Contrast, Wrap(x2.PhaseRad-nominal.PhaseRad), estC, estP, x1.Elapsed, x2.Elapsed)
+		tolC := math.Max(1e-4, 5e-3*math.Abs(x2.Contrast-nominal.Contrast))
+		tolP := math.Max(1e-6, 5e-3*math.Abs(Wrap(x2.PhaseRad-nominal.PhaseRad)))
+		if estC > tolC || estP > tolP {
+			t.Errorf("%g laps: estimated error %.2g in contrast (tol %.2g), %.2g rad in phase (tol %.2g)", l, estC, tolC, estP, tolP)
+		}
+		if l == 1 {
+			x4 := run(4)
+			rc, rp := dc/(x2.Contrast-x4.Contrast), dp/Wrap(x2.PhaseRad-x4.PhaseRad)
+			t.Logf("1 lap: halving ratios %.3g (C), %.3g (phase); 4 for a second-order method", rc, rp)
+			if !(rc > 3) || !(rp > 3) {
+				t.Errorf("1 lap: halving the interval shrinks the differences by %.3g (C) and %.3g (phase), want at least about 4 (second order)", rc, rp)
+			}
+		}
+	}
+}
+
+// phaseNoiseShot is streamedNoiseShot with drive phase noise only.
+func phaseNoiseShot(t *testing.T, s *Simulator, phaseDBc float64, seed uint64) Shot {
+	t.Helper()
+	sh := streamedNoiseShot(t, s, -300, phaseDBc, seed)
+	sh.DepthNoise = [2]*Series{}
+	return sh
 }
