@@ -51,7 +51,7 @@ func WithScaleFactor(cols []string) []string {
 func Columns(params []Param, rin, phase bool) []string {
 	cols := []string{"index"}
 	for _, p := range params {
-		cols = append(cols, p.Name)
+		cols = append(cols, RecordColumn(p.Name))
 	}
 	if rin {
 		cols = append(cols, "rin_rms_rel")
@@ -60,6 +60,38 @@ func Columns(params []Param, rin, phase bool) []string {
 		cols = append(cols, "phase_rms_plus_rad", "phase_rms_minus_rad")
 	}
 	return append(cols, "contrast", "phase_rad", "bias_rad", "z_re", "z_im", "ground_plus", "ground_minus", ChecksumColumn)
+}
+
+// RecordColumn returns the records' column of the static input name. A
+// record holds the draws in the simulation's units (a source's SIUnit:
+// fractions, s, K, G, rad, rad/s, G/m), which its resume and merge read
+// back bit for bit, so the column names that unit where it differs from
+// the lab unit in the source's key: "timing.skew_ns" is the column
+// "timing.skew_s", "pulses.area_rel.1" stays. A name of no source is
+// kept.
+func RecordColumn(name string) string {
+	for _, s := range Sources {
+		for _, in := range s.Inputs {
+			if in != name || s.Scale == 1 {
+				continue
+			}
+			base, ok := strings.CutSuffix(s.Key, "_"+unitSuffix(s.Unit))
+			if !ok {
+				return name
+			}
+			return base + "_" + unitSuffix(s.SIUnit) + strings.TrimPrefix(name, s.Key)
+		}
+	}
+	return name
+}
+
+// unitSuffix spells a unit as a key's suffix: "urad/s" -> "urad_s",
+// "nK" -> "nk", a relative error -> "rel".
+func unitSuffix(u string) string {
+	if u == Relative || u == relative {
+		return "rel"
+	}
+	return strings.ToLower(strings.ReplaceAll(u, "/", "_"))
 }
 
 // ChecksumColumn is the last column of a records file: the CRC-32C
