@@ -83,6 +83,11 @@ func parseLevelTable(r io.Reader, name string, t levelTable) (*Table, error) {
 			return nil, fail("level %v %s is not finite", l, t.unit)
 		case s == 0 || math.IsInf(s, 1):
 			return nil, fail("level %g %s is out of range ("+t.density+")", l, t.unit, s)
+		case l >= 0:
+			// As the white floor's key: at 0 dB/Hz and above the density
+			// is of order one per hertz, where the small-perturbation
+			// model of the noise (and the table's meaning) fails.
+			return nil, fail("level %g %s: want a level below 0 %s, as the white floor's key takes (a density of order one per hertz or more is not a small perturbation)", l, t.unit, t.unit)
 		}
 		freq = append(freq, f)
 		dens = append(dens, s)

@@ -50,8 +50,8 @@ func ReadPhaseNoise(path string) (*Table, error) {
 //
 // Blank lines and lines starting with # are ignored; spaces around fields are
 // allowed. Frequencies must be positive, finite and strictly increasing; levels
-// finite, and small enough in magnitude that S_φ is a positive finite float64
-// (|L| up to about 3000 dB). Errors name the input and the line.
+// finite, below 0 dBc/Hz (as the white floor's key), and not so low that S_φ
+// underflows (about -3000 dBc/Hz). Errors name the input and the line.
 func ParsePhaseNoise(r io.Reader, name string) (*Table, error) {
 	return parseLevelTable(r, name, phaseTable)
 }

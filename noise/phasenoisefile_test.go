@@ -82,6 +82,8 @@ func TestParsePhaseNoiseErrors(t *testing.T) {
 		{"decreasing frequency", h + "100,-80\n10,-90\n", `line 3: frequency 10 Hz is not above the previous row's (100 Hz, line 2)`},
 		{"level underflows", h + "10,-4000\n", `line 2: level -4000 dBc/Hz is out of range (S_phi = 0 rad^2/Hz)`},
 		{"level overflows", h + "10,4000\n", `line 2: level 4000 dBc/Hz is out of range (S_phi = +Inf rad^2/Hz)`},
+		{"level at 0 dBc/Hz", h + "10,-80\n100,0\n", `line 3: level 0 dBc/Hz: want a level below 0 dBc/Hz`},
+		{"positive level", h + "100,+50\n", `line 2: level 50 dBc/Hz: want a level below 0 dBc/Hz`},
 		{"line too long", h + strings.Repeat("1", 70000) + ",-80\n", `phase-noise table "t.csv": bufio.Scanner: token too long`},
 	}
 	for _, tt := range tests {

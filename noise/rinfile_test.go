@@ -35,6 +35,7 @@ func TestParseRINErrors(t *testing.T) {
 		{"f_hz,rin_db_hz\n10,x\n", `intensity-noise table "r.csv" line 2: level "x" is not a number`},
 		{"f_hz,rin_db_hz\n10,-100\n5,-110\n", `line 3: frequency 5 Hz is not above the previous row's (10 Hz, line 2)`},
 		{"f_hz,rin_db_hz\n10,-4000\n", `level -4000 dB/Hz is out of range (S_eps = 0 1/Hz)`},
+		{"f_hz,rin_db_hz\n10,3\n", `level 3 dB/Hz: want a level below 0 dB/Hz`},
 		{"f_hz,rin_db_hz\n", `intensity-noise table "r.csv": no rows after the header`},
 	} {
 		_, err := ParseRIN(strings.NewReader(c.in), "r.csv")

@@ -213,7 +213,7 @@ var keys = []*key{
 		field: func(s *Scenario) any { return &s.Noise.Mains.Phase }},
 	{name: "noise.field.mains_phase_rad", kind: number, bound: anyFinite, meaning: "the fixed phase of the mains line at the shot's start in rad",
 		field: func(s *Scenario) any { return &s.Noise.Mains.PhaseRad }},
-	{name: "noise.platform.rotation_noise_urad2_s2_hz", kind: number, bound: zeroOrAbove("off"), meaning: "the white one-sided PSD of the platform's rotation rate during the shot in (urad/s)^2/Hz",
+	{name: "noise.platform.rotation_noise_urad2_s2_hz", kind: number, bound: zeroOrAbove("off"), meaning: "the white one-sided PSD of the platform's rotation rate during the shot (from 1/T up; slower wander is rotation_urad_s) in (urad/s)^2/Hz",
 		field: func(s *Scenario) any { return &s.Noise.RotationURad2S2PerHz }},
 	{name: "readout.atoms", kind: number, bound: zeroOrAbove("no read-out"), meaning: "the atoms detected per shot",
 		field: func(s *Scenario) any { return &s.Readout.Atoms }},

@@ -2,6 +2,7 @@ package sim
 
 import (
 	"math"
+	"math/cmplx"
 	"math/rand/v2"
 	"os"
 	"testing"
@@ -83,6 +84,10 @@ func TestNoisyCruiseAccuracy(t *testing.T) {
 // noise's effect); at 100 laps C by 0.10 and the phase by 0.17 rad,
 // errors 1.8e-4 and 3.0e-5 rad (0.17 % and 0.02 %). Halving the interval
 // shrank the one-lap differences 4.2 times (C) and 10.5 times (phase).
+// At 1000 laps (RAMPART_LONG_TESTS=1; 48 s and 152 s for the two runs)
+// the noise takes the contrast from 1.0 to 0.028, errors 1.9e-3 in
+// contrast (0.2 %) and 0.022 rad in phase: at that contrast the phase is
+// ill-conditioned, and the overlap z = C e^{i phi} is held instead.
 func TestNoisyCruiseLongLaps(t *testing.T) {
 	if testing.Short() {
 		t.Skip("long cruises")
@@ -118,12 +123,24 @@ func TestNoisyCruiseLongLaps(t *testing.T) {
 		x1, x2 := run(1), run(2)
 		dc, dp := x1.Contrast-x2.Contrast, Wrap(x1.PhaseRad-x2.PhaseRad)
 		estC, estP := 4*math.Abs(dc)/3, 4*math.Abs(dp)/3
-		t.Logf("%g laps: noise moves C by %.3g and phase by %.3g rad; estimated interval-method error %.2g (C), %.2g rad; %v and %v",
-			l, x2.Contrast-nominal.Contrast, Wrap(x2.PhaseRad-nominal.PhaseRad), estC, estP, x1.Elapsed, x2.Elapsed)
+		t.Logf("%g laps: noise moves C by %.3g and phase by %.3g rad; estimated interval-method error %.2g (C), %.2g rad, %.2g in z; %v and %v",
+			l, x2.Contrast-nominal.Contrast, Wrap(x2.PhaseRad-nominal.PhaseRad), estC, estP,
+			4*cmplx.Abs(cmplx.Rect(x1.Contrast, x1.PhaseRad)-cmplx.Rect(x2.Contrast, x2.PhaseRad))/3, x1.Elapsed, x2.Elapsed)
 		tolC := math.Max(1e-4, 5e-3*math.Abs(x2.Contrast-nominal.Contrast))
 		tolP := math.Max(1e-6, 5e-3*math.Abs(Wrap(x2.PhaseRad-nominal.PhaseRad)))
-		if estC > tolC || estP > tolP {
-			t.Errorf("%g laps: estimated error %.2g in contrast (tol %.2g), %.2g rad in phase (tol %.2g)", l, estC, tolC, estP, tolP)
+		if estC > tolC {
+			t.Errorf("%g laps: estimated error %.2g in contrast (tol %.2g)", l, estC, tolC)
+		}
+		// Where the noise has taken the contrast low, the phase of z is
+		// ill-conditioned (its error grows as 1/C): there the overlap z
+		// itself is held to the tolerance.
+		if x2.Contrast > 0.5 && estP > tolP {
+			t.Errorf("%g laps: estimated error %.2g rad in phase (tol %.2g)", l, estP, tolP)
+		}
+		z := func(r Result) complex128 { return cmplx.Rect(r.Contrast, r.PhaseRad) }
+		estZ := 4 * cmplx.Abs(z(x1)-z(x2)) / 3
+		if tolZ := math.Max(1e-4, 5e-3*cmplx.Abs(z(x2)-z(nominal))); estZ > tolZ {
+			t.Errorf("%g laps: estimated error %.2g in the overlap z (tol %.2g)", l, estZ, tolZ)
 		}
 		if l == 1 {
 			x4 := run(4)
