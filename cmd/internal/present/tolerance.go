@@ -76,8 +76,13 @@ func ToleranceNotes(rep ToleranceReport) []string {
 		each,
 		fmt.Sprintf("The tolerance is the largest amplitude shown to meet every criterion (an undecided one counts as failing), to a relative precision of %s.", Sig(rep.Results[0].Precision, 3)),
 	}
-	if slices.ContainsFunc(rep.Results, func(r mc.ToleranceResult) bool { return r.Method == mc.MethodKernels }) {
+	byKernels := func(r mc.ToleranceResult) bool { return r.Method == mc.MethodKernels }
+	switch {
+	case !slices.ContainsFunc(rep.Results, byKernels):
+	case slices.ContainsFunc(rep.Results, func(r mc.ToleranceResult) bool { return !byKernels(r) }):
 		out[1] = "Searched by Monte Carlo, a t" + out[1][len("The t"):]
+	default:
+		out = out[:1] // nothing here was searched by Monte Carlo
 	}
 	statuses := map[mc.ToleranceStatus]bool{}
 	monotone := true

@@ -25,7 +25,7 @@ func kernelToleranceNotes(rep ToleranceReport) []string {
 		c, _ := res.Binding(*res.At)
 		f := criterionFormat(c)
 		s := fmt.Sprintf("%s (kernels): estimated from the noise transfer functions (docs/model.md, Noise transfer functions), not searched: %s %s is the level at which the predicted %s meets its limit %s (predicted %s), the process itself costing a mean contrast loss of %s and a bias std %s rad, the rest of the budget taken from the ensemble with it off. The ensemble at that level, the whole budget on, gives the row's values: %s %s, verdict %s",
-			res.Source, Sig(kt.Amplitude, 4), res.Unit, kt.Binding, f(c.Limit), f(kt.Predicted), Sci(kt.ContrastLoss, 3), Sci(kt.BiasStdRad, 3), kt.Binding, f(c.Value), *kt.Confirm)
+			res.Source, Sig(kt.Amplitude, 4), res.Unit, kt.Binding, f(c.Limit), f(kt.Predicted), lossCell(kt.ContrastLoss), Sci(kt.BiasStdRad, 3), kt.Binding, f(c.Value), *kt.Confirm)
 		if *kt.Confirm != mc.Pass {
 			s += " (the estimate sits on the limit at a predicted tolerance, so undecided, or a fail within the estimate's standard error, is what agreement looks like; --kernels=false searches the demonstrated tolerance)"
 		}
@@ -43,6 +43,21 @@ func kernelToleranceNotes(rep ToleranceReport) []string {
 	}
 	return out
 }
+
+// lossCell prints a predicted mean contrast loss; a negative one within
+// rounding of zero (a process that only moves the phase, whose kernel
+// sums to zero up to rounding) reads "0 (rounding)".
+func lossCell(x float64) string {
+	if x < 0 && x > -lossRounding {
+		return "0 (rounding)"
+	}
+	return Sci(x, 3)
+}
+
+// lossRounding is the size below which a negative predicted contrast loss
+// is rounding: the kernel's sums are of terms of order one, each rounded
+// to about 1e-16, over up to 1e5 frequencies.
+const lossRounding = 1e-11
 
 // kernelToleranceFigure plots a tolerance found from the kernels: the
 // binding criterion as they predict it against the amplitude, the spec

@@ -121,3 +121,29 @@ func TestToleranceNotesBudgetRow(t *testing.T) {
 		}
 	}
 }
+
+// TestToleranceNotesKernelsOnly checks that a table whose every row came
+// from the kernels does not say its tolerances were searched by Monte
+// Carlo, that a mixed table does, and that a predicted contrast loss
+// negative only by rounding reads "0 (rounding)" while a real value keeps
+// its digits.
+func TestToleranceNotesKernelsOnly(t *testing.T) {
+	kern := mc.ToleranceResult{Source: "field.noise_ug2_hz", Method: mc.MethodKernels, Status: mc.TolerancePredicted, Monotone: true, Precision: 0.05}
+	mcRow := mc.ToleranceResult{Source: "timing.skew_ns", Status: mc.ToleranceFound, Monotone: true, Precision: 0.05}
+	only := strings.Join(ToleranceNotes(ToleranceReport{Samples: 64, Results: []mc.ToleranceResult{kern}}), "\n")
+	if strings.Contains(only, "Monte Carlo") || strings.Contains(only, "largest amplitude shown") {
+		t.Errorf("kernels only: notes speak of a search:\n%s", only)
+	}
+	mixed := strings.Join(ToleranceNotes(ToleranceReport{Samples: 64, Results: []mc.ToleranceResult{mcRow, kern}}), "\n")
+	if !strings.Contains(mixed, "Searched by Monte Carlo, a tolerance is the largest amplitude shown") {
+		t.Errorf("mixed: notes lack the searched rows' definition:\n%s", mixed)
+	}
+	for _, c := range []struct {
+		x    float64
+		want string
+	}{{-3.36e-22, "0 (rounding)"}, {0, Sci(0, 3)}, {2.5e-5, Sci(2.5e-5, 3)}, {-1e-6, Sci(-1e-6, 3)}} {
+		if got := lossCell(c.x); got != c.want {
+			t.Errorf("lossCell(%g) = %q, want %q", c.x, got, c.want)
+		}
+	}
+}
