@@ -63,7 +63,7 @@ func ScanGrid(rep ScanReport) *Grid {
 	}
 	conf := Sig(100*rep.Confidence, 3) + " %"
 	g := NewGrid(fmt.Sprintf("Ensemble of %s at each point (seed %d at every point: common random numbers)", plural.Count(rep.Samples, "realisation"), rep.Seed),
-		append(header, "Mean contrast", "Contrast p05", conf+" interval", "|Bias| p95 (rad)", conf+" interval", "Yield", conf+" interval")...)
+		append(header, "Mean contrast", "Contrast p05", conf+" interval", "|bias| p95 (rad)", conf+" interval", "Yield", conf+" interval")...)
 	for _, p := range rep.Points {
 		m := p.Ensemble
 		yield, yci := "-", ""
