@@ -25,7 +25,7 @@ func TestBadInput(t *testing.T) {
 		args []string
 		msg  string // the one line on stderr contains this
 	}{
-		{"no scenario", []string{"shot"}, `required flag(s) "scenario" not set`},
+		{"no scenario", []string{"shot"}, `shot needs --scenario (`},
 		{"missing scenario", []string{"shot", "--scenario", "nowhere.toml"}, `scenario "nowhere.toml": cannot read the file: no such file or directory`},
 		{"bad scenario with a trace", []string{"shot", "--scenario", bad, "--trace", out}, `scenario "` + bad + `" line 2: ring.radius_um = -5 is out of range: want a finite number > 0 for the ring radius in um`},
 		{"bad scenario with a profile", []string{"ramp", "--scenario", bad, "--out", out}, "ring.radius_um = -5 is out of range"},
@@ -34,7 +34,7 @@ func TestBadInput(t *testing.T) {
 		{"profile into a missing directory", []string{"ramp", "--scenario", "testdata/scenarios/benchmark.toml", "--out", filepath.Join(dir, "no", "p.csv")}, "--out " + filepath.Join(dir, "no", "p.csv") + ": its directory " + filepath.Join(dir, "no") + " does not exist; create it first"},
 		{"trace into a missing directory", []string{"shot", "--scenario", "testdata/scenarios/benchmark.toml", "--trace", filepath.Join(dir, "no", "t.csv")}, "--trace " + filepath.Join(dir, "no", "t.csv") + ": its directory " + filepath.Join(dir, "no") + " does not exist; create it first"},
 		{"unknown flag", []string{"shot", "--scenario", "testdata/scenarios/benchmark.toml", "--seed", "3"}, "unknown flag: --seed"},
-		{"stray argument", []string{"demo", "now"}, `unknown command "now" for "rampart demo"`},
+		{"stray argument", []string{"demo", "now"}, `demo: unexpected argument "now": the command takes flags only`},
 		{"unknown command", []string{"shoot"}, `unknown command "shoot" for "rampart"`},
 		{"float for an integer flag", []string{"run", "--scenario", "testdata/scenarios/ensemble.toml", "--samples", "1e5"}, "--samples 1e5: want a whole number, such as 100000"},
 		{"negative seed", []string{"run", "--scenario", "testdata/scenarios/ensemble.toml", "--seed", "-3"}, "--seed -3: want a non-negative whole number"},

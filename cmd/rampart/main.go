@@ -23,6 +23,7 @@ func run(args []string, stdout, stderr io.Writer, e env) int {
 	root.SetErr(stderr)
 	defer releaseRunDirs()
 	if err := root.Execute(); err != nil {
+		err = explain(root, args, err)
 		fmt.Fprintln(stderr, "rampart:", err)
 		return exitCode(err)
 	}

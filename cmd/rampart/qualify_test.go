@@ -171,7 +171,7 @@ func TestQualifyBadInput(t *testing.T) {
 		{"unknown key", append(qualifyArgs(unknown), "--out", out), `spec "` + unknown + `" line 2`},
 		{"no criterion", append(qualifyArgs(empty), "--out", out), `spec "` + empty + `"`},
 		{"missing spec", append(qualifyArgs(filepath.Join(dir, "none.toml")), "--out", out), "none.toml"},
-		{"no spec flag", []string{"qualify", "--scenario", ensembleScenario}, `required flag(s) "spec" not set`},
+		{"no spec flag", []string{"qualify", "--scenario", ensembleScenario}, `qualify needs --spec (`},
 		{"confidence out of range", append(qualifyArgs(good), "--confidence", "0.4", "--out", out), "--confidence 0.4 for spec"},
 		{"shard without a directory", append(qualifyArgs(good), "--shard", "1/2"), "--shard 1/2 needs --out DIR"},
 	})
