@@ -50,6 +50,9 @@ func parseLevelTable(r io.Reader, name string, t levelTable) (*Table, error) {
 			fields[i] = strings.TrimSpace(fields[i])
 		}
 		if !header {
+			if strings.Contains(text, ";") && !strings.Contains(text, ",") {
+				return nil, fail("the columns are separated by semicolons: rampart reads comma-separated values with decimal points (%s as 1e3,-110); export the table with commas between columns and points in numbers", t.header)
+			}
 			if strings.Join(fields, ",") != t.header {
 				// Not quoted: the file may be anything the user pointed at.
 				return nil, fail("the first line that is not blank or a comment is not the header: want %q", t.header)
@@ -65,11 +68,11 @@ func parseLevelTable(r io.Reader, name string, t levelTable) (*Table, error) {
 		}
 		f, err := strconv.ParseFloat(fields[0], 64)
 		if err != nil {
-			return nil, fail("frequency %q is not a number", excerpt(fields[0]))
+			return nil, fail("frequency %q is not a number: want a positive frequency in Hz, such as 1e3", excerpt(fields[0]))
 		}
 		l, err := strconv.ParseFloat(fields[1], 64)
 		if err != nil {
-			return nil, fail("level %q is not a number", excerpt(fields[1]))
+			return nil, fail("level %q is not a number: want a level in %s below 0, such as -110", excerpt(fields[1]), t.unit)
 		}
 		s := t.toPSD(l)
 		switch {

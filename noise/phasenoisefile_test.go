@@ -84,6 +84,7 @@ func TestParsePhaseNoiseErrors(t *testing.T) {
 		{"level overflows", h + "10,4000\n", `line 2: level 4000 dBc/Hz is out of range (S_phi = +Inf rad^2/Hz)`},
 		{"level at 0 dBc/Hz", h + "10,-80\n100,0\n", `line 3: level 0 dBc/Hz: want a level below 0 dBc/Hz`},
 		{"positive level", h + "100,+50\n", `line 2: level 50 dBc/Hz: want a level below 0 dBc/Hz`},
+		{"semicolons", "f_hz;l_dbc_hz\n10;-80\n", `line 1: the columns are separated by semicolons`},
 		{"line too long", h + strings.Repeat("1", 70000) + ",-80\n", `phase-noise table "t.csv": bufio.Scanner: token too long`},
 	}
 	for _, tt := range tests {
