@@ -1,6 +1,7 @@
 package mc
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
 	"math/bits"
@@ -220,6 +221,9 @@ func (m Manifest) sameEnsemble(o Manifest) error {
 	case m.Rampart != o.Rampart:
 		return fmt.Errorf("records of rampart %s, not %s: finish and merge runs with one build", o.Rampart, m.Rampart)
 	case m.Fingerprint != o.Fingerprint:
+		if d := scenarioDiff(o.Scenario, m.Scenario, 4); d != "" {
+			return fmt.Errorf("a different scenario or noise budget (%s)", d)
+		}
 		return errors.New("a different scenario or noise budget")
 	case (m.Numerics == nil) != (o.Numerics == nil) || (m.Numerics != nil && *m.Numerics != *o.Numerics):
 		return fmt.Errorf("numerics %s, not %s", o.Numerics.String(), m.Numerics.String())
@@ -244,4 +248,51 @@ func (n *Numerics) String() string {
 		return "not recorded"
 	}
 	return fmt.Sprintf("grid %d, step %g s, %s, %s", n.Grid, n.StepS, plural.Count(n.Levels, "level"), n.Scheme)
+}
+
+// scenarioDiff names up to max of the fields in which the scenario texts
+// (JSON, as Manifest.Scenario records them) old and new differ, "Ring.Sites
+// 20, not 24", or returns "" when either is not such a text or they do not
+// differ.
+func scenarioDiff(old, new string, max int) string {
+	var a, b any
+	if json.Unmarshal([]byte(old), &a) != nil || json.Unmarshal([]byte(new), &b) != nil {
+		return ""
+	}
+	var out []string
+	var walk func(path string, x, y any)
+	walk = func(path string, x, y any) {
+		xm, xok := x.(map[string]any)
+		ym, yok := y.(map[string]any)
+		if xok && yok {
+			keys := make([]string, 0, len(xm)+len(ym))
+			for k := range xm {
+				keys = append(keys, k)
+			}
+			for k := range ym {
+				if _, dup := xm[k]; !dup {
+					keys = append(keys, k)
+				}
+			}
+			slices.Sort(keys)
+			for _, k := range keys {
+				p := k
+				if path != "" {
+					p = path + "." + k
+				}
+				walk(p, xm[k], ym[k])
+			}
+			return
+		}
+		xs, _ := json.Marshal(x)
+		ys, _ := json.Marshal(y)
+		if string(xs) != string(ys) {
+			out = append(out, fmt.Sprintf("%s %s, not %s", path, excerpt(string(xs)), excerpt(string(ys))))
+		}
+	}
+	walk("", a, b)
+	if len(out) > max {
+		out = append(out[:max], fmt.Sprintf("and %d more", len(out)-max))
+	}
+	return strings.Join(out, "; ")
 }

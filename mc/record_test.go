@@ -38,3 +38,23 @@ func TestRecordColumns(t *testing.T) {
 		}
 	}
 }
+
+// TestScenarioDiff checks the fields a refused resume names: nested
+// fields by their paths in order, a cap on how many, and nothing for texts
+// that are not JSON or do not differ.
+func TestScenarioDiff(t *testing.T) {
+	a := `{"Ring":{"Sites":20,"TiltMrad":0.5},"Noise":{"Timing":{"SkewNS":5}},"Name":"x"}`
+	b := `{"Ring":{"Sites":20,"TiltMrad":0.6},"Noise":{"Timing":{"SkewNS":7}},"Name":"x"}`
+	if got, want := scenarioDiff(a, b, 4), "Noise.Timing.SkewNS 5, not 7; Ring.TiltMrad 0.5, not 0.6"; got != want {
+		t.Errorf("scenarioDiff = %q, want %q", got, want)
+	}
+	if got, want := scenarioDiff(a, b, 1), "Noise.Timing.SkewNS 5, not 7; and 1 more"; got != want {
+		t.Errorf("scenarioDiff capped = %q, want %q", got, want)
+	}
+	if got := scenarioDiff(a, a, 4); got != "" {
+		t.Errorf("scenarioDiff of equal texts = %q, want empty", got)
+	}
+	if got := scenarioDiff("not json", b, 4); got != "" {
+		t.Errorf("scenarioDiff of a non-JSON text = %q, want empty", got)
+	}
+}
