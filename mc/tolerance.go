@@ -3,6 +3,7 @@ package mc
 import (
 	"cmp"
 	"context"
+	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -84,6 +85,29 @@ type TolerancePoint struct {
 	// Holds reports whether every criterion passes.
 	Holds    bool        `json:"holds"`
 	Criteria []Criterion `json:"criteria"`
+	// NoLo and NoHi mark a bound of the point that does not exist at this
+	// ensemble size (Criterion.NoLo, NoHi: Lo or Hi then holds the end of
+	// the statistic's range), EnvNoLo and EnvNoHi one of the envelope
+	// that rests on such a bound. The JSON writes them null, the curves'
+	// CSV leaves them empty.
+	NoLo, NoHi       bool `json:"-"`
+	EnvNoLo, EnvNoHi bool `json:"-"`
+}
+
+// MarshalJSON writes the point with its missing bounds as null.
+func (p TolerancePoint) MarshalJSON() ([]byte, error) {
+	type plain TolerancePoint
+	type interval struct {
+		Value float64  `json:"value"`
+		Lo    *float64 `json:"lo"`
+		Hi    *float64 `json:"hi"`
+	}
+	return json.Marshal(struct {
+		plain
+		Lo       *float64 `json:"lo"`
+		Hi       *float64 `json:"hi"`
+		Envelope interval `json:"envelope"`
+	}{plain(p), end(p.Lo, p.NoLo), end(p.Hi, p.NoHi), interval{p.Envelope.Value, end(p.Envelope.Lo, p.EnvNoLo), end(p.Envelope.Hi, p.EnvNoHi)}})
 }
 
 // ToleranceResult is the tolerance of one noise source (or of the whole
@@ -378,13 +402,15 @@ func (res *ToleranceResult) finish(points []TolerancePoint, lo float64, display 
 	res.Metric = points[ref].Criteria[binding].Name
 	res.Monotone = true
 	var env Interval
+	var envNoLo, envNoHi bool
 	for i := range points {
 		p := &points[i]
 		c := p.Criteria[binding]
 		p.Value, p.Lo, p.Hi = c.Value, c.Lo, c.Hi
+		p.NoLo, p.NoHi = c.NoLo > 0, c.NoHi > 0
 		cur := Interval{Value: c.Value, Lo: c.Lo, Hi: c.Hi}
 		if i == 0 {
-			env = cur
+			env, envNoLo, envNoHi = cur, p.NoLo, p.NoHi
 		} else {
 			worse := math.Min
 			if !atLeast {
@@ -393,9 +419,15 @@ func (res *ToleranceResult) finish(points []TolerancePoint, lo float64, display 
 			if worse(env.Value, cur.Value) != cur.Value {
 				res.Monotone = false
 			}
-			env = Interval{Value: worse(env.Value, cur.Value), Lo: worse(env.Lo, cur.Lo), Hi: worse(env.Hi, cur.Hi)}
+			next := Interval{Value: worse(env.Value, cur.Value), Lo: worse(env.Lo, cur.Lo), Hi: worse(env.Hi, cur.Hi)}
+			// A bound of the envelope is missing when it is taken from a
+			// missing one (the range's end, which is the worst value).
+			envNoLo = (next.Lo == cur.Lo && p.NoLo) || (next.Lo == env.Lo && envNoLo)
+			envNoHi = (next.Hi == cur.Hi && p.NoHi) || (next.Hi == env.Hi && envNoHi)
+			env = next
 		}
 		p.Envelope = env
+		p.EnvNoLo, p.EnvNoHi = envNoLo, envNoHi
 	}
 	at := -1
 	for i := range points {

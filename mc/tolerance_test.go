@@ -2,8 +2,10 @@ package mc
 
 import (
 	"context"
+	"encoding/json"
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"rampart/noise"
@@ -434,5 +436,40 @@ func TestToleranceTemperatureCap(t *testing.T) {
 	res, _ := s.Source(context.Background(), holds, SourceTemperature)
 	if got, _ := res.Tolerance(); math.Abs(got-1000) > 1e-9*1000 {
 		t.Errorf("no start temperature: tolerance %v nK, want the cap 1000 nK", got)
+	}
+}
+
+// TestToleranceMissingBounds checks that a point whose binding quantile
+// has no lower bound at its ensemble size (the range's end stands in)
+// writes that bound as null, and that the envelope resting on it does too,
+// from there up (the range's end is the worst value, so no later bound
+// replaces it).
+func TestToleranceMissingBounds(t *testing.T) {
+	crit := func(v, lo float64, noLo int) Criterion {
+		return Criterion{Name: CriterionContrastP05, AtLeast: true, Limit: 0.9, Value: v, Lo: lo, Hi: 1, NoLo: noLo, Verdict: Pass}
+	}
+	pts := []TolerancePoint{
+		{Amplitude: 1, Holds: true, Criteria: []Criterion{crit(0.99, 0.98, 0)}},
+		{Amplitude: 2, Holds: true, Criteria: []Criterion{crit(0.97, 0, 59)}},
+		{Amplitude: 3, Holds: true, Criteria: []Criterion{crit(0.95, 0.94, 0)}},
+	}
+	var res ToleranceResult
+	res.finish(pts, 0, func(a float64) float64 { return a })
+	want := []struct{ noLo, envNoLo bool }{{false, false}, {true, true}, {false, true}}
+	for i, p := range res.Points {
+		if p.NoLo != want[i].noLo || p.EnvNoLo != want[i].envNoLo {
+			t.Errorf("point %d: NoLo %v, EnvNoLo %v; want %v, %v", i, p.NoLo, p.EnvNoLo, want[i].noLo, want[i].envNoLo)
+		}
+	}
+	b, err := json.Marshal(res.Points[1])
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s := string(b); !strings.Contains(s, `"lo":null`) || !strings.Contains(s, `"envelope":{"value":0.97,"lo":null,"hi":1}`) {
+		t.Errorf("point without a lower bound: JSON %s, want lo and the envelope's lo null", s)
+	}
+	b, _ = json.Marshal(res.Points[0])
+	if s := string(b); !strings.Contains(s, `"lo":0.98`) {
+		t.Errorf("point with its bounds: JSON %s, want lo 0.98", s)
 	}
 }

@@ -171,8 +171,14 @@ func WriteToleranceCurves(dir string, rep ToleranceReport) error {
 		for _, res := range rep.Results {
 			for _, p := range res.Points {
 				c, _ := res.Binding(p)
+				bound := func(x float64, missing bool) string {
+					if missing {
+						return "" // no order statistic bounds it at this size
+					}
+					return Sig(x, -1)
+				}
 				fmt.Fprintf(bw, "%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%s,%t\n", res.Source, res.Unit, Sig(p.Amplitude, -1), res.Metric, Sig(c.Limit, -1),
-					Sig(p.Value, -1), Sig(p.Lo, -1), Sig(p.Hi, -1), Sig(p.Envelope.Value, -1), Sig(p.Envelope.Lo, -1), Sig(p.Envelope.Hi, -1), p.Holds)
+					Sig(p.Value, -1), bound(p.Lo, p.NoLo), bound(p.Hi, p.NoHi), Sig(p.Envelope.Value, -1), bound(p.Envelope.Lo, p.EnvNoLo), bound(p.Envelope.Hi, p.EnvNoHi), p.Holds)
 			}
 		}
 		return bw.Flush()
