@@ -17,6 +17,11 @@ func BenchmarkScan2D(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
+	values := make([][]float64, len(pts))
+	for i, p := range pts {
+		values[i] = p.Values
+	}
+	check := CheckPoints(values) // the corners and centre, as rampart scan checks them
 	for b.Loop() {
 		shots := make([]NominalShot, len(pts))
 		for i, p := range pts {
@@ -28,7 +33,7 @@ func BenchmarkScan2D(b *testing.B) {
 			if err != nil {
 				b.Fatal(err)
 			}
-			shots[i] = NominalShot{Config: cfg, Apparatus: app}
+			shots[i] = NominalShot{Config: cfg, Apparatus: app, Check: check[i]}
 		}
 		if _, err := ScanNominal(context.Background(), shots, 0, nil); err != nil {
 			b.Fatal(err)

@@ -2,7 +2,9 @@ package design
 
 import (
 	"context"
+	"fmt"
 	"runtime"
+	"slices"
 	"sync"
 
 	"rampart/mc"
@@ -22,6 +24,10 @@ type Nominal struct {
 	// ramp whose speed changes sign.
 	PeakSpeedRadS float64 `json:"peak_speed_rad_s"`
 	Reverses      bool    `json:"reverses,omitempty"`
+	// Numerics, when the point was checked (NominalShot.Check), is the
+	// estimate of the shot's numerical error: the same shot with twice the
+	// grid and half the step (sim.CompareNumerics).
+	Numerics *sim.ErrorEstimate `json:"numerics_error,omitempty"`
 }
 
 // NominalShot is the noise-free shot at one point of a scan: the
@@ -32,9 +38,13 @@ type Nominal struct {
 type NominalShot struct {
 	Config    sim.Config
 	Apparatus sim.Shot
+	// Check asks for the estimate of the shot's numerical error (one
+	// refined shot more, three to eight times the shot's cost).
+	Check bool
 }
 
-// NominalOf returns the scan figures of the noise-free shot n. BiasRad is
+// NominalOf returns the scan figures of the noise-free shot n, with the
+// estimate of their numerical error when n.Check asks for it. BiasRad is
 // that of sim.Result, wrap(phase - K Omega) with K the nominal scale factor
 // 2 I phi(T) / hbar (docs/model.md, Gyroscope figures), not the zero-rate
 // bias phase - K_shot Omega of sim.Simulator.Gyro, which measures the
@@ -47,8 +57,50 @@ func NominalOf(n NominalShot) (Nominal, error) {
 	}
 	r := s.Run(n.Apparatus, nil)
 	peak, rev := sim.PeakSpeed(cfg.Sequence.Up)
-	return Nominal{Contrast: r.Contrast, PhaseRad: r.PhaseRad, BiasRad: r.BiasRad,
-		Ground: r.GroundAfterRampUp, PeakSpeedRadS: peak, Reverses: rev}, nil
+	out := Nominal{Contrast: r.Contrast, PhaseRad: r.PhaseRad, BiasRad: r.BiasRad,
+		Ground: r.GroundAfterRampUp, PeakSpeedRadS: peak, Reverses: rev}
+	if n.Check {
+		f, err := sim.NewSimulator(sim.Refine(s.Config()))
+		if err != nil {
+			return Nominal{}, fmt.Errorf("cannot refine the numerics to estimate their error: %w", err)
+		}
+		est := sim.CompareNumerics(r, f.Run(n.Apparatus, nil))
+		out.Numerics = &est
+	}
+	return out, nil
+}
+
+// CheckPoints returns which points of a grid of values (each point's
+// values, one per axis) a scan checks by default: its corners (every value
+// the lowest or highest of its axis) and its centre (every value the
+// median of its axis, where the axes have odd lengths): a sample of the
+// scan's numerics, not its worst point (on the demo's 20 x 20 map of ramp
+// time and depth the largest error over all points was 8 times the
+// corners'; rampart scan --check estimates every point).
+func CheckPoints(values [][]float64) []bool {
+	out := make([]bool, len(values))
+	if len(values) == 0 {
+		return out
+	}
+	d := len(values[0])
+	axes := make([][]float64, d)
+	for k := range d {
+		for _, v := range values {
+			axes[k] = append(axes[k], v[k])
+		}
+		slices.Sort(axes[k])
+		axes[k] = slices.Compact(axes[k])
+	}
+	for i, v := range values {
+		corner, centre := true, true
+		for k, x := range v {
+			a := axes[k]
+			corner = corner && (x == a[0] || x == a[len(a)-1])
+			centre = centre && len(a)%2 == 1 && x == a[len(a)/2]
+		}
+		out[i] = corner || centre
+	}
+	return out
 }
 
 // ScanNominal runs every noise-free shot on workers goroutines (all cores

@@ -133,3 +133,42 @@ func countAtLeast(x []float64, v float64) int {
 	}
 	return k
 }
+
+// TestCheckPoints checks the points a scan checks by default: the ends and
+// the middle of one axis, the corners and centre of an odd grid, the
+// corners alone of an even one.
+func TestCheckPoints(t *testing.T) {
+	grid := func(xs, ys []float64) [][]float64 {
+		var out [][]float64
+		for _, x := range xs {
+			if ys == nil {
+				out = append(out, []float64{x})
+				continue
+			}
+			for _, y := range ys {
+				out = append(out, []float64{x, y})
+			}
+		}
+		return out
+	}
+	count := func(b []bool) (n int) {
+		for _, v := range b {
+			if v {
+				n++
+			}
+		}
+		return n
+	}
+	one := CheckPoints(grid([]float64{1, 2, 3, 4, 5}, nil))
+	if want := []bool{true, false, true, false, true}; !slices.Equal(one, want) {
+		t.Errorf("5 points: %v, want %v", one, want)
+	}
+	odd := CheckPoints(grid([]float64{1, 2, 3}, []float64{10, 20, 30}))
+	if count(odd) != 5 || !odd[4] || !odd[0] || !odd[8] || odd[1] {
+		t.Errorf("3 x 3: %v, want the 4 corners and the centre", odd)
+	}
+	even := CheckPoints(grid([]float64{1, 2, 3, 4}, []float64{10, 20, 30, 40}))
+	if count(even) != 4 || !even[0] || !even[3] || !even[12] || !even[15] {
+		t.Errorf("4 x 4: %v, want the 4 corners", even)
+	}
+}

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -12,6 +13,7 @@ import (
 	"rampart/cmd/internal/present"
 	"rampart/cmd/internal/spec"
 	"rampart/design"
+	"rampart/internal/plural"
 	"rampart/mc"
 	"rampart/scenario"
 	"rampart/sim"
@@ -26,6 +28,7 @@ type scanOptions struct {
 	ens      ensembleOptions
 	json     bool
 	report   string
+	check    bool
 }
 
 // newScanCmd returns the command; run is what it runs with the parsed
@@ -68,6 +71,7 @@ point's ensemble into DIR/point-NNN and prints how to merge the slices
 	f.BoolVar(&o.ensemble, "ensemble", false, "scan the ensemble under the noise budget, not the noise-free shot")
 	f.StringVar(&o.spec, "spec", "", "spec `file` (TOML) whose limits are drawn and whose yield limits are counted")
 	f.BoolVar(&o.json, "json", false, "print the scan as one JSON object")
+	f.BoolVar(&o.check, "check", false, "estimate the numerical error at every point of a noise-free scan, not only at its corners and centre")
 	addReportFlag(cmd, &o.report)
 	cmd.MarkFlagRequired("vary")
 	return cmd
@@ -81,6 +85,8 @@ func (o *scanOptions) validate() error {
 		return fmt.Errorf("--vary given %d times: scan one or two keys", len(o.vary))
 	case o.ens.shard != "" && !o.ensemble:
 		return fmt.Errorf("--shard %s: only an --ensemble scan is sharded; a noise-free scan has no ensembles to merge (run parts of the range as separate scans)", o.ens.shard)
+	case o.ensemble && o.check:
+		return errors.New("--check: an --ensemble scan checks each point's numerics before its ensemble runs; --check is for the noise-free scan")
 	case !o.ensemble && o.ens.resume != "":
 		return fmt.Errorf("--resume %s: only an --ensemble scan keeps runs to resume; a noise-free scan is rerun whole", o.ens.resume)
 	}
@@ -152,12 +158,17 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 		// ring potential)
 		// from the one builder shot uses, scenario.Scenario.Apparatus.
 		shots := make([]design.NominalShot, len(pts))
+		values := make([][]float64, len(pts))
+		for i, p := range pts {
+			values[i] = p.Values
+		}
+		check := design.CheckPoints(values)
 		for i := range pts {
 			app, err := scs[i].Apparatus()
 			if err != nil {
 				return err
 			}
-			shots[i] = design.NominalShot{Config: cfgs[i], Apparatus: app}
+			shots[i] = design.NominalShot{Config: cfgs[i], Apparatus: app, Check: o.check || check[i]}
 		}
 		nom, err := design.ScanNominal(ctx, shots, o.ens.workers, func() { bar.Add(1) })
 		bar.Finish()
@@ -217,8 +228,20 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 			return err
 		}
 	}
+	var err2 error
 	if o.json {
-		return present.WriteJSON(stdout, rep)
+		err2 = present.WriteJSON(stdout, rep)
+	} else {
+		err2 = present.PrintScan(stdout, rep)
 	}
-	return present.PrintScan(stdout, rep)
+	if err2 != nil {
+		return err2
+	}
+	if _, _, _, missed := present.ScanNumerics(rep); len(missed) > 0 {
+		// As shot: the figures are written, and the exit status says they
+		// are not to be trusted.
+		return &exitError{code: ExitCheckFailed, err: fmt.Errorf("the numerics miss their targets at %s of %d, first %s: %s",
+			plural.Count(len(missed), "point"), len(rep.Points), present.ScanPointName(rep, missed[0]), missed[0].Nominal.Numerics.Remedy)}
+	}
+	return nil
 }

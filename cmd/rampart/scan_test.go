@@ -197,3 +197,73 @@ func TestScanBadInput(t *testing.T) {
 		}
 	}
 }
+
+// TestScanNumerics checks the noise-free scan's statement of its numerical
+// error: by default estimated at the scan's corners and centre (the CSV's
+// error columns empty elsewhere), with --check at every point, and a scan
+// whose hand-set numerics miss the targets prints its figures but exits 3
+// with the remedy, as shot does. The shot's own estimate (shot --check)
+// must equal the scan's at the same point: the same comparison.
+func TestScanNumerics(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "scan")
+	stdout, stderr, code := execute(t, "scan", "--scenario", ensembleScenario, "--vary", "ramp.duration_us=100:300:5", "--out", out)
+	if code != 0 || !strings.Contains(stdout, "in phase at the scan's corners and centre, 3 points (targets 1e-04, 1e-06 rad; --check estimates it at every point).") {
+		t.Fatalf("default: exit %d, stderr %q, stdout:\n%s", code, stderr, stdout)
+	}
+	csv, err := os.ReadFile(filepath.Join(out, "scan.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(csv)), "\n")
+	if !strings.HasSuffix(lines[0], ",contrast_error,phase_error_rad") || len(lines) != 6 {
+		t.Fatalf("scan.csv: header %q, %d lines", lines[0], len(lines))
+	}
+	for i, l := range lines[1:] {
+		checked := i == 0 || i == 2 || i == 4
+		if empty := strings.HasSuffix(l, ",,"); empty == checked {
+			t.Errorf("scan.csv row %d %q: checked %v, want error cells filled exactly at the ends and the centre", i, l, checked)
+		}
+	}
+	stdout, _, code = execute(t, "scan", "--scenario", ensembleScenario, "--vary", "ramp.duration_us=100:300:5", "--check", "--json")
+	if code != 0 {
+		t.Fatalf("--check: exit %d", code)
+	}
+	var rep struct {
+		Points []struct {
+			Nominal struct {
+				Numerics *struct {
+					ContrastError float64 `json:"contrast_error"`
+					PhaseErrorRad float64 `json:"phase_error_rad"`
+				} `json:"numerics_error"`
+			}
+		}
+	}
+	if err := json.Unmarshal([]byte(stdout), &rep); err != nil {
+		t.Fatal(err)
+	}
+	shot, _, code := execute(t, "shot", "--scenario", ensembleScenario, "--set", "ramp.duration_us=150", "--check", "--json")
+	if code != 0 {
+		t.Fatalf("shot --check: exit %d", code)
+	}
+	var sh struct {
+		Numerics struct {
+			ContrastError float64 `json:"contrast_error"`
+			PhaseErrorRad float64 `json:"phase_error_rad"`
+		} `json:"numerics_error"`
+	}
+	if err := json.Unmarshal([]byte(shot), &sh); err != nil {
+		t.Fatal(err)
+	}
+	for i, p := range rep.Points {
+		if p.Nominal.Numerics == nil {
+			t.Fatalf("--check: point %d has no estimate", i)
+		}
+	}
+	if got := rep.Points[1].Nominal.Numerics; got.ContrastError != sh.Numerics.ContrastError || got.PhaseErrorRad != sh.Numerics.PhaseErrorRad {
+		t.Errorf("t_r 150 us: scan's estimate %+v, shot --check's %+v: want the same", *got, sh.Numerics)
+	}
+	stdout, stderr, code = execute(t, "scan", "--scenario", ensembleScenario, "--vary", "ramp.duration_us=100:300:3", "--set", "numerics.grid=200", "--set", "numerics.step_us=60")
+	if code != 3 || !strings.Contains(stdout, "| 100 ") || !strings.Contains(stderr, "the numerics miss their targets at 3 points of 3, first ramp.duration_us=100: the numerics miss the targets") {
+		t.Errorf("coarse numerics: exit %d, stderr %q, stdout:\n%s", code, stderr, stdout)
+	}
+}

@@ -6,12 +6,14 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"rampart/cmd/internal/plots"
 	"rampart/design"
 	"rampart/internal/atomicfile"
 	"rampart/internal/plural"
+	"rampart/sim"
 )
 
 // Files a scan writes to its output directory.
@@ -57,7 +59,11 @@ func ScanGrid(rep ScanReport) *Grid {
 			if n.Reverses {
 				peak += " (reverses)"
 			}
-			g.Append(append(values(p), Fixed(n.Contrast, 5), Sci(n.PhaseRad, 6), Sci(n.BiasRad, 3), Fixed(n.Ground[0], 5), Fixed(n.Ground[1], 5), peak)...)
+			bias := Sci(n.BiasRad, 3)
+			if belowResolution(p) {
+				bias += " *"
+			}
+			g.Append(append(values(p), Fixed(n.Contrast, 5), Sci(n.PhaseRad, 6), bias, Fixed(n.Ground[0], 5), Fixed(n.Ground[1], 5), peak)...)
 		}
 		return g
 	}
@@ -92,11 +98,58 @@ func boundedCell(b design.Bounded, f func(float64) string) string {
 	return interval(b.CI[0], b.CI[1], f)
 }
 
+// belowResolution reports a noise-free point whose bias is smaller than
+// its estimated phase error.
+func belowResolution(p ScanPoint) bool {
+	return p.Nominal != nil && p.Nominal.Numerics != nil && math.Abs(p.Nominal.BiasRad) < p.Nominal.Numerics.PhaseErrorRad
+}
+
+// ScanNumerics summarises the noise-free scan's numerical error: the
+// largest estimated errors over the points, and the points whose
+// estimates miss the targets (in scan order).
+func ScanNumerics(rep ScanReport) (checked int, worstC, worstPhi float64, missed []ScanPoint) {
+	for _, p := range rep.Points {
+		if p.Nominal == nil || p.Nominal.Numerics == nil {
+			continue
+		}
+		e := p.Nominal.Numerics
+		checked++
+		worstC, worstPhi = math.Max(worstC, e.ContrastError), math.Max(worstPhi, e.PhaseErrorRad)
+		if !e.Met {
+			missed = append(missed, p)
+		}
+	}
+	return checked, worstC, worstPhi, missed
+}
+
+// ScanPointName names a point by its keys' values, "ramp.duration_us=150".
+func ScanPointName(rep ScanReport, p ScanPoint) string {
+	var parts []string
+	for i, k := range rep.Keys {
+		parts = append(parts, k+"="+Sig(p.Values[i], 6))
+	}
+	return strings.Join(parts, " ")
+}
+
 // ScanNotes explain the scan table.
 func ScanNotes(rep ScanReport) []string {
 	if !rep.Ensemble {
-		return []string{"Each point is the noise-free shot rampart shot simulates, the apparatus's field offset and gradient, scattering, radius error and ring potential included. Phase - K Omega: the bias against the nominal scale factor K = 2 I phi(T) / hbar (CSV and JSON bias_rad); rampart shot's zero-rate bias subtracts the shot's own K_shot Omega instead and differs from it by (K_shot - K) Omega.",
-			"Ground +/-: each arm's ground-band population after the ramp-up. Peak speed: the largest |Omega| of the ramp-up (above the cruise speed when the ramp overshoots)."}
+		checked, worstC, worstPhi, missed := ScanNumerics(rep)
+		which, more := fmt.Sprintf("at all %s", plural.Count(checked, "point")), ""
+		if checked < len(rep.Points) {
+			which, more = fmt.Sprintf("at the scan's corners and centre, %s", plural.Count(checked, "point")), "; --check estimates it at every point"
+		}
+		numerics := fmt.Sprintf("Numerics: automatic at each point; the estimated error (the shot against the same shot on twice the grid and half the step) is at most %s in contrast and %s rad in phase %s (targets %s, %s rad%s).",
+			Sci(worstC, 2), Sci(worstPhi, 2), which, Sci(sim.ContrastTarget, 1), Sci(sim.PhaseTargetRad, 1), more)
+		if len(missed) > 0 {
+			numerics += fmt.Sprintf(" %s the targets, first %s: %s.", plural.Count(len(missed), "point")+map[bool]string{true: " misses", false: " miss"}[len(missed) == 1], ScanPointName(rep, missed[0]), missed[0].Nominal.Numerics.Remedy)
+		}
+		notes := []string{numerics}
+		if slices.ContainsFunc(rep.Points, belowResolution) {
+			notes = append(notes, "*: the bias is below its point's estimated phase error, the numerical resolution: its digits are discretisation error, not a result (points not checked are not marked).")
+		}
+		return append(notes, "Each point is the noise-free shot rampart shot simulates, the apparatus's field offset and gradient, scattering, radius error and ring potential included. Phase - K Omega: the bias against the nominal scale factor K = 2 I phi(T) / hbar (CSV and JSON bias_rad); rampart shot's zero-rate bias subtracts the shot's own K_shot Omega instead and differs from it by (K_shot - K) Omega.",
+			"Ground +/-: each arm's ground-band population after the ramp-up. Peak speed: the largest |Omega| of the ramp-up (above the cruise speed when the ramp overshoots).")
 	}
 	return []string{"Intervals are two-sided at the stated confidence: exact order-statistic intervals for the quantiles (\"none below N\": no interval exists from fewer than N realisations), Clopper-Pearson for the yield. They hold point by point, not jointly over the scan; use rampart edge for a decision over a range."}
 }
@@ -114,7 +167,7 @@ func WriteScanCSV(w io.Writer, rep ScanReport) error {
 	if rep.Ensemble {
 		cols = append(cols, "contrast_mean", "contrast_p05", "contrast_p05_lo", "contrast_p05_hi", "abs_bias_p95_rad", "abs_bias_p95_lo_rad", "abs_bias_p95_hi_rad", "yield", "yield_lo", "yield_hi")
 	} else {
-		cols = append(cols, "contrast", "phase_rad", "bias_rad", "ground_plus", "ground_minus", "peak_speed_rad_s", "reverses")
+		cols = append(cols, "contrast", "phase_rad", "bias_rad", "ground_plus", "ground_minus", "peak_speed_rad_s", "reverses", "contrast_error", "phase_error_rad")
 	}
 	fmt.Fprintln(bw, strings.Join(cols, ","))
 	num := func(x float64) string { return Sig(x, -1) }
@@ -142,6 +195,11 @@ func WriteScanCSV(w io.Writer, rep ScanReport) error {
 		} else {
 			n := p.Nominal
 			row = append(row, num(n.Contrast), num(n.PhaseRad), num(n.BiasRad), num(n.Ground[0]), num(n.Ground[1]), num(n.PeakSpeedRadS), fmt.Sprint(n.Reverses))
+			if e := n.Numerics; e != nil {
+				row = append(row, num(e.ContrastError), num(e.PhaseErrorRad))
+			} else {
+				row = append(row, "", "") // not checked
+			}
 		}
 		fmt.Fprintln(bw, strings.Join(row, ","))
 	}
