@@ -83,7 +83,7 @@ func Example_shards() {
 	// Output:
 	// shard 1/2: realisations 0 to 2, 3 simulated
 	// shard 2/2: realisations 3 to 5, 3 simulated
-	// merged: 6 realisations, inputs [depth.common_rel timing.skew_ns]
+	// merged: 6 realisations, inputs [depth.common_rel timing.skew_s]
 	// same as one unsharded run: true
 	// scale factor K = 0.4299 s
 }

@@ -97,19 +97,7 @@ func TestNoisyCruiseLongLaps(t *testing.T) {
 		laps = append(laps, 1000)
 	}
 	for _, l := range laps {
-		c := Config{
-			Ring:         Ring{Sites: 20, RadiusM: 5e-6, MassKg: Rb87MassU * AtomicMassUnit},
-			DepthHz:      20e3,
-			RotationRadS: 1e-3,
-		}
-		up, err := NewShape("inverse", 150e-6, 50*math.Pi, c.TrapRadS())
-		if err != nil {
-			t.Fatal(err)
-		}
-		if c.Sequence, err = NewSequence(up, l); err != nil {
-			t.Fatal(err)
-		}
-		s, err := NewSimulator(c)
+		s, err := NewSimulator(issueConfig(t, l))
 		if err != nil {
 			t.Fatal(err)
 		}

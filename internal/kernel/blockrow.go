@@ -30,9 +30,9 @@ func BlockRow(yr, yi, a, x []float64, k int) {
 	blockRowGo(yr, yi, a, x, k, n, m)
 }
 
-// blockRowGo is the portable loop over the lanes from c0 on.
+// blockRowGo is the portable loop over the lanes c0 <= c < len(yr) of n.
 func blockRowGo(yr, yi, a, x []float64, k, n, c0 int) {
-	for c := c0; c < n; c++ {
+	for c := c0; c < len(yr); c++ {
 		var sr, si float64
 		for j := range k {
 			ar, ai := a[j*2*n+c], a[j*2*n+n+c]

@@ -23,17 +23,6 @@ func axpy2Planes(dr, di, yr, yi []float64, a complex128, xar, xai []float64, b c
 func combineFused(y, x []float64, stride int, c []float64) { combineFusedGo(y, x, stride, c) }
 
 // blockRow4 is BlockRow on the lanes below len(yr), a multiple of four.
-func blockRow4(yr, yi, a, x []float64, k, n int) {
-	for c := range yr {
-		var sr, si float64
-		for j := range k {
-			ar, ai := a[j*2*n+c], a[j*2*n+n+c]
-			xr, xi := x[j*2*n+c], x[j*2*n+n+c]
-			sr += ar*xr - ai*xi
-			si += ar*xi + ai*xr
-		}
-		yr[c], yi[c] = sr, si
-	}
-}
+func blockRow4(yr, yi, a, x []float64, k, n int) { blockRowGo(yr, yi, a, x, k, n, 0) }
 
 func rotateBy(re, im, cr, ci []float64) { rotateByGo(re, im, cr, ci) }
