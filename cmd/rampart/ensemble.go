@@ -201,7 +201,10 @@ func runJob(ctx context.Context, e env, stderr io.Writer, sc *scenario.Scenario,
 		}
 	}
 	j := mc.Job{Realiser: job.realiser, Runner: job.runner, Records: job.records,
-		Fingerprint: hash, Scenario: text, Dir: dir, Resume: dir != "" && resume, Workers: o.workers,
+		// A directory to resume that holds no run yet was made by a job
+		// stopped before its first run (checkResumeRun, nothingStarted):
+		// the run starts there.
+		Fingerprint: hash, Scenario: text, Dir: dir, Resume: dir != "" && resume && mc.HasRun(dir), Workers: o.workers,
 		YieldSpec: o.yield, Confidence: o.confidence, NumericsError: &est}
 	if o.shard != "" {
 		sh, err := mc.ParseShard(o.shard)

@@ -16,15 +16,15 @@ import (
 // --resume DIR continues all of them.
 
 // checkResumeDir refuses --resume DIR of a command that keeps several runs
-// in DIR when there is no DIR, or when neither DIR nor its subdirectories
-// (to resumeDepth levels) hold a run: nothing was started there, and a
-// mistyped DIR must not start the whole job afresh in some other
-// directory of the user's.
+// in DIR when there is no DIR, or when DIR holds files but neither it nor
+// its subdirectories (to resumeDepth levels) hold a run: a mistyped DIR
+// must not start the whole job afresh among the user's files. An empty
+// DIR is accepted (nothingStarted).
 func (o ensembleOptions) checkResumeDir() error {
 	if err := o.checkResumeExists(); err != nil || o.resume == "" {
 		return err
 	}
-	if !hasRunBelow(o.resume, resumeDepth) {
+	if !hasRunBelow(o.resume, resumeDepth) && !nothingStarted(o.resume) {
 		return fmt.Errorf("--resume %s: neither it nor its subdirectories hold a run (no %s): give the directory of an interrupted job, or --out DIR with a new or empty directory to start one", o.resume, mc.ManifestFile)
 	}
 	return nil
@@ -39,6 +39,23 @@ func (o ensembleOptions) checkResumeExists() error {
 		return fmt.Errorf("--resume %s: no such directory, so nothing to resume; give --out %s to start", o.resume, o.resume)
 	}
 	return nil
+}
+
+// nothingStarted reports whether dir is empty but for a run lock: a job
+// stopped after making its directory and before its first run (a cluster
+// task pre-empted then, resubmitted with --resume as rampart sbatch's
+// script does) starts there afresh, as there is nothing to mix with.
+func nothingStarted(dir string) bool {
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return false
+	}
+	for _, e := range entries {
+		if e.Name() != mc.LockFile {
+			return false
+		}
+	}
+	return true
 }
 
 // resumeDepth is how deep the runs of a command's job lie below its
@@ -78,11 +95,12 @@ func hasRunBelow(dir string, depth int) bool {
 const resumeScanMax = 4096
 
 // checkResumeRun refuses --resume DIR of a command that keeps one run in
-// DIR (run, qualify, sensitivity) when DIR holds no run, before anything
+// DIR (run, qualify, sensitivity) when DIR holds no run (and is not empty,
+// nothingStarted), before anything
 // is written there: resuming takes the directory's lock, and a directory
 // that is not a run must not be left with a lock file in it.
 func (o ensembleOptions) checkResumeRun() error {
-	if err := o.checkResumeExists(); err != nil || o.resume == "" || mc.HasRun(o.resume) {
+	if err := o.checkResumeExists(); err != nil || o.resume == "" || mc.HasRun(o.resume) || nothingStarted(o.resume) {
 		return err
 	}
 	return fmt.Errorf("--resume %s: it holds no run (no %s): give the directory of an interrupted run, or --out DIR with a new or empty directory to start one", o.resume, mc.ManifestFile)

@@ -40,4 +40,19 @@ func TestResumeNotARun(t *testing.T) {
 			t.Errorf("%s: the user's directory now holds %d entries, want its 1 (notes.txt)", row.name, len(entries))
 		}
 	}
+	// An empty directory is a job stopped before its first run (a cluster
+	// task pre-empted after making it): rank and run start there.
+	empty := filepath.Join(dir, "empty")
+	os.MkdirAll(empty, 0o755)
+	if _, stderr, code := execute(t, "rank", "--scenario", ensembleScenario, "--ramp", "a=sin2", "--ramp", "b=inverse", "--samples", "2", "--resume", empty); code != 0 {
+		t.Errorf("rank --resume of an empty directory: exit %d, %s; want it to start there", code, stderr)
+	}
+	if !hasRunBelow(empty, resumeDepth) {
+		t.Errorf("rank --resume of an empty directory left no run in it")
+	}
+	empty2 := filepath.Join(dir, "empty2")
+	os.MkdirAll(empty2, 0o755)
+	if _, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--samples", "2", "--resume", empty2); code != 0 || !hasRunBelow(empty2, 0) {
+		t.Errorf("run --resume of an empty directory: exit %d, %s; want a run started there", code, stderr)
+	}
 }
