@@ -39,7 +39,14 @@ type shardRun struct {
 // digest of its records), not being written, and of the same build,
 // numerics and yield spec; their ranges tiling the ensemble, each
 // realisation in exactly one. The rows are verified as Scan reads them.
-func OpenShards(dirs []string) (*Merged, error) {
+func OpenShards(dirs []string) (*Merged, error) { return openShards(dirs, true) }
+
+// OpenShardsResummarised is OpenShards for a caller that summarises the
+// merged run with a yield spec and confidence of its own: the shards may
+// have been summarised with different ones (neither changes a record).
+func OpenShardsResummarised(dirs []string) (*Merged, error) { return openShards(dirs, false) }
+
+func openShards(dirs []string, sameSummaries bool) (*Merged, error) {
 	if len(dirs) == 0 {
 		return nil, errors.New("no directories to merge")
 	}
@@ -57,8 +64,8 @@ func OpenShards(dirs []string) (*Merged, error) {
 			if err := first.sameEnsemble(m); err != nil {
 				return nil, fmt.Errorf("%s is not a shard of the ensemble in %s: it has %v", d, dirs[0], err)
 			}
-			if !sameSummary(first, m) {
-				return nil, fmt.Errorf("%s was summarised with another yield spec or confidence than %s: give --min-contrast, --max-bias-rad and --confidence to merge them", d, dirs[0])
+			if sameSummaries && !sameSummary(first, m) {
+				return nil, fmt.Errorf("%s was summarised with another yield spec or confidence than %s: give the merged run's yield spec (--min-contrast, --max-bias-rad) and --confidence to merge them", d, dirs[0])
 			}
 		}
 		if m.RecordsSHA256 == "" {
@@ -97,8 +104,12 @@ func unsealed(dir string, m Manifest) error {
 	from, to := m.Range()
 	n := 0
 	if f, path, err := openRecords(dir); err == nil {
-		n, _, _ = ScanRecords(f, path, m, func(Record, string) error { return nil })
+		var serr error
+		n, _, serr = ScanRecords(f, path, m, func(Record, string) error { return nil })
 		f.Close()
+		if serr != nil {
+			return fmt.Errorf("%s is incomplete and its records do not verify: %w", dir, serr)
+		}
 	}
 	if n != to-from {
 		return fmt.Errorf("%s is incomplete: %d of %s (resume it first)", dir, n, plural.Count(to-from, "realisation"))

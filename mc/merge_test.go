@@ -182,3 +182,28 @@ func TestNextLook(t *testing.T) {
 		}
 	}
 }
+
+// TestMergeUnsealedCorrupt: a shard that is not sealed and holds a row
+// that does not verify is refused naming the file and line, not counted as
+// holding none of its realisations.
+func TestMergeUnsealedCorrupt(t *testing.T) {
+	root := t.TempDir()
+	dirs := testShards(t, root, testManifest(6), 2)
+	m, err := ReadManifest(dirs[1])
+	if err != nil {
+		t.Fatal(err)
+	}
+	m.RecordsSHA256 = "" // as a run stopped before it closed
+	if err := writeJSON(filepath.Join(dirs[1], ManifestFile), m); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(dirs[1], RealisationsFile)
+	b, _ := os.ReadFile(path)
+	i := bytes.Index(b, []byte(",0.9"))
+	b[i+3] = '8'
+	os.WriteFile(path, b, 0o644)
+	_, err = OpenShards(dirs)
+	if err == nil || !strings.Contains(err.Error(), dirs[1]+" is incomplete and its records do not verify: "+path+" line 2: checksum") {
+		t.Errorf("got %v, want the row named", err)
+	}
+}

@@ -118,7 +118,7 @@ func TestFlagsParse(t *testing.T) {
 		if err := parse(t, cmd, "--out", "ALL", "--min-contrast", "0.5", "D1", "D2"); err != nil {
 			t.Fatal(err)
 		}
-		if want := []string{"D1", "D2"}; !reflect.DeepEqual(gotDirs, want) || got.out != "ALL" || got.minContrast != 0.5 || got.confidence != 0.95 {
+		if want := []string{"D1", "D2"}; !reflect.DeepEqual(gotDirs, want) || got.out != "ALL" || got.minContrast != 0.5 || got.confidence != 0 || got.confidenceGiven {
 			t.Errorf("dirs %q, options %+v", gotDirs, got)
 		}
 	})

@@ -6,6 +6,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"path/filepath"
 
 	"github.com/spf13/cobra"
 
@@ -56,7 +57,7 @@ replace them.`,
 	}
 	f := cmd.Flags()
 	f.StringVar(&o.out, "out", "", "write the merged ensemble to `DIR` (it must not hold a run)")
-	f.Float64Var(&o.confidence, "confidence", 0.95, "confidence `level` of the intervals, in (0, 1) (default: the shards')")
+	f.Float64Var(&o.confidence, "confidence", 0, "confidence `level` of the intervals, in (0, 1) (default: the shards', else 0.95)")
 	f.Float64Var(&o.minContrast, "min-contrast", 0, "yield spec: contrast at least `X` (default: the shards' spec)")
 	f.Float64Var(&o.maxBiasRad, "max-bias-rad", 0, "yield spec: |bias| at most `Y` rad (default: the shards' spec)")
 	f.BoolVar(&o.json, "json", false, "print the summary as one JSON object (the same object as run --json)")
@@ -64,6 +65,9 @@ replace them.`,
 }
 
 func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) error {
+	if !o.confidenceGiven {
+		o.confidence = 0.95 // unless the shards recorded one, below
+	}
 	if !(o.confidence > 0 && o.confidence < 1) {
 		return fmt.Errorf("--confidence %g: want a level in (0, 1), such as 0.95", o.confidence)
 	}
@@ -85,7 +89,11 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	if err := checkOutputPaths(out); err != nil {
 		return err
 	}
-	g, err := mc.OpenShards(dirs)
+	open := mc.OpenShards
+	if o.specGiven && o.confidenceGiven {
+		open = mc.OpenShardsResummarised // the summary is made anew
+	}
+	g, err := open(dirs)
 	if err != nil {
 		return err
 	}
@@ -105,12 +113,23 @@ func runMerge(_ env, stdout, stderr io.Writer, dirs []string, o mergeOptions) er
 	// only the output columns of the summary are kept.
 	outcomes := mc.NewOutcomes(m.Samples)
 	if o.out != "" {
+		_, statErr := os.Lstat(o.out)
+		made := errors.Is(statErr, fs.ErrNotExist)
 		unlock, err := mc.LockDir(o.out) // held for the records, summary and figures
 		if err != nil {
 			return err
 		}
 		defer unlock()
 		if err := g.WriteRun(o.out, outcomes.Add); err != nil {
+			// Nothing of the run was written (WriteRun writes whole
+			// files or none): leave no lock, nor a directory made here.
+			// The lock file goes while still held, so that no other
+			// process can hold it when it is unlinked.
+			os.Remove(filepath.Join(o.out, mc.LockFile))
+			unlock()
+			if made {
+				os.Remove(o.out) // only if empty
+			}
 			return err
 		}
 	} else if err := g.Scan(func(r mc.Record, _ string) error { outcomes.Add(r); return nil }); err != nil {

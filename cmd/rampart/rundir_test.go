@@ -135,15 +135,37 @@ func TestMergeTakesSpecFromShards(t *testing.T) {
 		t.Errorf("merged summary has no yield: %s", got)
 	}
 
-	// A flipped digit in a shard's row is refused naming file and line.
+	// A shard summarised with another yield spec and confidence merges
+	// when the merged run's spec and confidence are given, to the summary
+	// of an unsharded run with them.
+	other := filepath.Join(dir, "other2")
+	if _, stderr, code := execute(t, "run", "--scenario", ensembleScenario, "--samples", "6", "--seed", "4", "--shard", "2/2", "--out", other); code != 0 {
+		t.Fatalf("shard 2/2 without a spec: %s", stderr)
+	}
+	mixed := []string{"merge", "--json", shards[0], other}
+	if _, stderr, code := execute(t, mixed...); code != 2 || !strings.Contains(stderr, "was summarised with another yield spec or confidence") {
+		t.Errorf("mixed summaries without flags: exit %d, stderr %q; want the refusal", code, stderr)
+	}
+	got, stderr, code = execute(t, append(mixed, "--min-contrast", "0.95", "--confidence", "0.9")...)
+	if code != 0 || got != want {
+		t.Errorf("mixed summaries with the spec and confidence given: exit %d, stderr %q\n%s\nwant the unsharded summary\n%s", code, stderr, got, want)
+	}
+
+	// A flipped digit in a shard's row is refused naming file and line,
+	// and the refused merge leaves no --out directory behind.
 	path := filepath.Join(shards[1], mc.RealisationsFile)
 	b, _ := os.ReadFile(path)
 	lines := strings.Split(string(b), "\n")
 	lines[2] = strings.Replace(lines[2], "0.9", "0.8", 1)
 	os.WriteFile(path, []byte(strings.Join(lines, "\n")), 0o644)
-	_, stderr, code = execute(t, append([]string{"merge"}, shards...)...)
+	out := filepath.Join(dir, "merged")
+	_, stderr, code = execute(t, append([]string{"merge", "--out", out}, shards...)...)
 	if code != 2 || !strings.Contains(stderr, path+" line 3: checksum") {
 		t.Errorf("corrupted shard: exit %d, stderr %q", code, stderr)
+	}
+	if _, err := os.Lstat(out); err == nil {
+		entries, _ := os.ReadDir(out)
+		t.Errorf("a refused merge left %s behind, holding %d entries", out, len(entries))
 	}
 	_, stderr, code = execute(t, append(args, "--shard", "2/2", "--resume", shards[1])...)
 	if code != 2 || !strings.Contains(stderr, path+" line 3: checksum") {
