@@ -374,3 +374,18 @@ func TestResponseMaskLabUnits(t *testing.T) {
 		t.Errorf("%d of the field and rotation masks found", seen)
 	}
 }
+
+// TestResponseBandBelowTrap checks that kernels cut below the trap's
+// resonances say so: the values at nu and 2 nu read "beyond grid" (null in
+// the JSON, not 0), and the prediction carries a warning with the remedy.
+func TestResponseBandBelowTrap(t *testing.T) {
+	args := []string{"response", "--scenario", "testdata/scenarios/noise.toml", "--set", "motion.laps=0.5", "--max-hz", "3000"}
+	stdout, stderr, code := execute(t, args...)
+	if code != 0 || !strings.Contains(stdout, "beyond grid") || !strings.Contains(stdout, "below twice the trap frequency (2 nu = 8627 Hz)") {
+		t.Fatalf("exit %d, stderr %q, stdout:\n%s", code, stderr, stdout)
+	}
+	stdout, _, _ = execute(t, append(args, "--json")...)
+	if !strings.Contains(stdout, `"bias_at_trap": null`) || !strings.Contains(stdout, "raise --max-hz above 8627 Hz") {
+		t.Errorf("JSON lacks the null values or the warning:\n%.2000s", stdout)
+	}
+}

@@ -50,10 +50,11 @@ type ResponseChannel struct {
 	BiasPeak            float64 `json:"bias_peak"`
 	ContrastPeakHz      float64 `json:"contrast_peak_hz"`
 	ContrastPeak        float64 `json:"contrast_peak"` // largest |K_C|, with its sign
-	BiasAtTrap          float64 `json:"bias_at_trap"`
-	BiasAtTwiceTrap     float64 `json:"bias_at_twice_trap"`
-	ContrastAtTrap      float64 `json:"contrast_at_trap"`
-	ContrastAtTwiceTrap float64 `json:"contrast_at_twice_trap"`
+	// The kernels at nu and 2 nu; null beyond the grid (--max-hz below).
+	BiasAtTrap          *float64 `json:"bias_at_trap"`
+	BiasAtTwiceTrap     *float64 `json:"bias_at_twice_trap"`
+	ContrastAtTrap      *float64 `json:"contrast_at_trap"`
+	ContrastAtTwiceTrap *float64 `json:"contrast_at_twice_trap"`
 }
 
 // ResponseProcess is a noise process of the scenario's budget.
@@ -129,6 +130,13 @@ func NewResponseReport(name string, k *sim.Kernels, nominal sim.Result, ps []sim
 	if rep.Predicted.Warnings == nil {
 		rep.Predicted.Warnings = []string{}
 	}
+	if top < 2*k.TrapHz {
+		// The resonances of the trap (intensity noise heats at 2 nu,
+		// position noise at nu: Savard et al. 1997) are where the kernels
+		// are largest; a band that stops short of them leaves them out.
+		rep.Predicted.Warnings = append(rep.Predicted.Warnings, fmt.Sprintf("the kernels' grid ends at %s Hz, below twice the trap frequency (2 nu = %s Hz): the trap's resonances, where noise heats the atom most, are left out of the prediction; raise --max-hz above %s Hz (0: the simulator's noise band)",
+			Sig(top, 4), Sig(2*k.TrapHz, 4), Sig(2*k.TrapHz, 4)))
+	}
 	rep.Predicted.ByChannel = []ResponseChannelEffect{}
 	for _, c := range p.Channels {
 		rep.Predicted.ByChannel = append(rep.Predicted.ByChannel, ResponseChannelEffect{Channel: c.Channel.String(),
@@ -152,15 +160,24 @@ func kernelPeak(f, ker []float64) (float64, float64) {
 	return f[best], ker[best]
 }
 
-// kernelAt interpolates ker linearly at f (0 beyond the grid).
-func kernelAt(k *sim.Kernels, ker []float64, f float64) float64 {
+// kernelAt interpolates ker linearly at f (nil beyond the grid).
+func kernelAt(k *sim.Kernels, ker []float64, f float64) *float64 {
 	x := f / k.StepHz
 	m := int(math.Floor(x))
 	if m < 0 || m+1 >= len(ker) {
-		return 0
+		return nil
 	}
 	u := x - float64(m)
-	return ker[m]*(1-u) + ker[m+1]*u
+	v := ker[m]*(1-u) + ker[m+1]*u
+	return &v
+}
+
+// atCell prints a kernel value at nu or 2 nu.
+func atCell(v *float64) string {
+	if v == nil {
+		return "beyond grid"
+	}
+	return Sci(*v, 3)
 }
 
 // trapMark says whether f is the trap frequency or its second harmonic, to
@@ -182,8 +199,8 @@ func ResponseKernelGrid(rep ResponseReport) *Grid {
 		"Channel", "Signal unit", "Bias peak at (Hz)", "Bias peak (rad^2/unit^2)", "Bias at nu", "Bias at 2 nu",
 		"Contrast peak at (Hz)", "Contrast peak (1/unit^2)", "Contrast at nu", "Contrast at 2 nu")
 	for _, c := range rep.Channels {
-		t.Append(c.Name, c.Unit, Sig(c.BiasPeakHz, 4)+trapMark(rep, c.BiasPeakHz), Sci(c.BiasPeak, 3), Sci(c.BiasAtTrap, 3), Sci(c.BiasAtTwiceTrap, 3),
-			Sig(c.ContrastPeakHz, 4)+trapMark(rep, c.ContrastPeakHz), Sci(c.ContrastPeak, 3), Sci(c.ContrastAtTrap, 3), Sci(c.ContrastAtTwiceTrap, 3))
+		t.Append(c.Name, c.Unit, Sig(c.BiasPeakHz, 4)+trapMark(rep, c.BiasPeakHz), Sci(c.BiasPeak, 3), atCell(c.BiasAtTrap), atCell(c.BiasAtTwiceTrap),
+			Sig(c.ContrastPeakHz, 4)+trapMark(rep, c.ContrastPeakHz), Sci(c.ContrastPeak, 3), atCell(c.ContrastAtTrap), atCell(c.ContrastAtTwiceTrap))
 	}
 	return t
 }
