@@ -389,3 +389,13 @@ func TestResponseBandBelowTrap(t *testing.T) {
 		t.Errorf("JSON lacks the null values or the warning:\n%.2000s", stdout)
 	}
 }
+
+// TestResponseMasksNominalFails: when the nominal shot alone breaks the
+// spec (contrast 0.48 against a p05 limit of 0.95), the masks' notes say
+// so instead of leaving "rest-fails" to blame a budget with no noise.
+func TestResponseMasksNominalFails(t *testing.T) {
+	stdout, stderr, code := execute(t, "response", "--scenario", ensembleScenario, "--spec", "testdata/demo/spec.toml")
+	if code != 0 || !strings.Contains(stdout, "The nominal shot alone breaks the contrast criterion (contrast 0.4814 against at least 0.9500)") {
+		t.Errorf("exit %d, stderr %q, stdout:\n%s", code, stderr, stdout)
+	}
+}

@@ -185,11 +185,20 @@ func maskNotes(rep ResponseReport) []string {
 		crit += fmt.Sprintf(" |bias| p95 at most %s rad, the bias taken as normal with the nominal bias %s rad as mean and the predicted std (p95 = 1.96 std at zero mean; at linear order the bias is a linear functional of Gaussian noise, hence normal).",
 			Sci(*ms.AbsBiasP95MaxRad, 3), Sci(rep.BiasRad, 3))
 	}
-	return []string{
+	out := []string{
 		crit,
 		"The rest of the budget is the scenario's other noise processes as predicted by the kernels; the static shot-to-shot sources (depth, timing, temperature, pulse errors) are not part of it, so a mask holds for the noise processes with the nominal shot, and qualify or tolerance must still check the whole budget.",
-		"Band masks: each band gets its share of the room (equal shares unless --band-share gives them), so noise at the mask level in every band at once still meets the criteria. rest-fails: the rest of the budget alone breaks a criterion.",
+		"Band masks: each band gets its share of the room (equal shares unless --band-share gives them), so noise at the mask level in every band at once still meets the criteria. rest-fails: the nominal shot with the rest of the budget already breaks a criterion.",
 	}
+	// A nominal shot that breaks a criterion by itself leaves no room to
+	// any noise: say so, rather than blame the rest of the budget.
+	if ms.ContrastMin != nil && rep.Contrast < *ms.ContrastMin {
+		out = append(out, fmt.Sprintf("The nominal shot alone breaks the contrast criterion (contrast %s against at least %s): no noise level keeps the spec, so every mask is 0; change the ramp or the spec.", Fixed(rep.Contrast, 4), Fixed(*ms.ContrastMin, 4)))
+	}
+	if ms.AbsBiasP95MaxRad != nil && math.Abs(rep.BiasRad) >= *ms.AbsBiasP95MaxRad {
+		out = append(out, fmt.Sprintf("The nominal shot alone breaks the bias criterion (|bias| %s rad against at most %s rad): no noise level keeps the spec, so every mask is 0; change the ramp or the spec.", Sci(math.Abs(rep.BiasRad), 3), Sci(*ms.AbsBiasP95MaxRad, 3)))
+	}
+	return out
 }
 
 // PrintResponseMasks prints the mask tables.
