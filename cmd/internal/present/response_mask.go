@@ -188,7 +188,7 @@ func maskNotes(rep ResponseReport) []string {
 	out := []string{
 		crit,
 		"The rest of the budget is the scenario's other noise processes as predicted by the kernels; the static shot-to-shot sources (depth, timing, temperature, pulse errors) are not part of it, so a mask holds for the noise processes with the nominal shot, and qualify or tolerance must still check the whole budget.",
-		"Band masks: each band gets its share of the room (equal shares unless --band-share gives them), so noise at the mask level in every band at once still meets the criteria. rest-fails: the nominal shot with the rest of the budget already breaks a criterion.",
+		"Band masks: each band gets its share of the room (equal shares unless --band-share gives them), so noise at the mask level in every band at once still meets the criteria. rest-fails: the rest of the budget alone breaks a criterion.",
 	}
 	// A nominal shot that breaks a criterion by itself leaves no room to
 	// any noise: say so, rather than blame the rest of the budget.
