@@ -223,6 +223,7 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 			return err
 		}
 		r := newReport(e, "Scan of "+strings.Join(rep.Keys, " and ")+" on "+rep.Scenario, scs[0], scenarioText(o.scenario), o.sets, rep.Seed)
+		r.NoDraws = !o.ensemble
 		r.Sections = secs
 		if err := writeReport(stderr, r, o.report); err != nil {
 			return err

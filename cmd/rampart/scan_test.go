@@ -267,3 +267,19 @@ func TestScanNumerics(t *testing.T) {
 		t.Errorf("coarse numerics: exit %d, stderr %q, stdout:\n%s", code, stderr, stdout)
 	}
 }
+
+// TestScanReportNoSeed: a noise-free scan draws nothing, so its report
+// shows no seed (it showed "Seed 0", a seed the scan never used).
+func TestScanReportNoSeed(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "rep")
+	if _, stderr, code := execute(t, "scan", "--scenario", ensembleScenario, "--vary", "ramp.duration_us=100:200:2", "--report", dir); code != 0 {
+		t.Fatal(stderr)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if html := string(b); strings.Contains(html, "<dt>Seed</dt>") || !strings.Contains(html, "it draws nothing at random") {
+		t.Errorf("noise-free scan report: seed shown or the no-draws line missing")
+	}
+}

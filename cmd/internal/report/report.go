@@ -30,6 +30,9 @@ type Report struct {
 	Subtitle string
 	Command  string // the exact command line that reproduces the report; required
 	Seed     uint64
+	// NoDraws marks a page whose command draws nothing at random (a
+	// noise-free scan): no seed is shown.
+	NoDraws  bool
 	Scenario string // the scenario file's text, shown verbatim; omitted if empty
 
 	Sections []Section
