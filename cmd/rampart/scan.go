@@ -205,7 +205,8 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 				return fmt.Errorf("scan point %s: %w", strings.Join(p.Sets, " "), err)
 			}
 			m := design.MetricsOf(run.manifest.Summarise(run.records, o.ens.confidence, yield))
-			rep.Points[i] = present.ScanPoint{Values: p.Values, Ensemble: &m}
+			est := run.numerics
+			rep.Points[i] = present.ScanPoint{Values: p.Values, Ensemble: &m, Numerics: &est}
 		}
 		if o.ens.shard != "" {
 			return present.PrintShardNote(stdout, o.ens.shard, dir, subs, "finish the scan on the merged set")
@@ -242,7 +243,7 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 		// As shot: the figures are written, and the exit status says they
 		// are not to be trusted.
 		return &exitError{code: ExitCheckFailed, err: fmt.Errorf("the numerics miss their targets at %s of %d, first %s: %s",
-			plural.Count(len(missed), "point"), len(rep.Points), present.ScanPointName(rep, missed[0]), missed[0].Nominal.Numerics.Remedy)}
+			plural.Count(len(missed), "point"), len(rep.Points), present.ScanPointName(rep, missed[0]), missed[0].NumericsError().Remedy)}
 	}
 	return nil
 }

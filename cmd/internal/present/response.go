@@ -46,10 +46,10 @@ type ResponseChannel struct {
 	BiasKernel     []float64 `json:"bias_kernel"`
 	ContrastKernel []float64 `json:"contrast_kernel"`
 
-	BiasPeakHz          float64 `json:"bias_peak_hz"`
-	BiasPeak            float64 `json:"bias_peak"`
-	ContrastPeakHz      float64 `json:"contrast_peak_hz"`
-	ContrastPeak        float64 `json:"contrast_peak"` // largest |K_C|, with its sign
+	BiasPeakHz     float64 `json:"bias_peak_hz"`
+	BiasPeak       float64 `json:"bias_peak"`
+	ContrastPeakHz float64 `json:"contrast_peak_hz"`
+	ContrastPeak   float64 `json:"contrast_peak"` // largest |K_C|, with its sign
 	// The kernels at nu and 2 nu; null beyond the grid (--max-hz below).
 	BiasAtTrap          *float64 `json:"bias_at_trap"`
 	BiasAtTwiceTrap     *float64 `json:"bias_at_twice_trap"`

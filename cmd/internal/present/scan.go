@@ -46,6 +46,18 @@ type ScanPoint struct {
 	Values   []float64       `json:"values"`
 	Nominal  *design.Nominal `json:"nominal,omitempty"`
 	Ensemble *design.Metrics `json:"ensemble,omitempty"`
+	// Numerics is an ensemble point's nominal shot's estimated numerical
+	// error, checked before its ensemble ran (a noise-free point carries
+	// its own in Nominal).
+	Numerics *sim.ErrorEstimate `json:"numerics_error,omitempty"`
+}
+
+// NumericsError returns the point's estimate, nil if it was not checked.
+func (p ScanPoint) NumericsError() *sim.ErrorEstimate {
+	if p.Nominal != nil {
+		return p.Nominal.Numerics
+	}
+	return p.Numerics
 }
 
 // ScanGrid returns the scan's table.
@@ -109,10 +121,10 @@ func belowResolution(p ScanPoint) bool {
 // estimates miss the targets (in scan order).
 func ScanNumerics(rep ScanReport) (checked int, worstC, worstPhi float64, missed []ScanPoint) {
 	for _, p := range rep.Points {
-		if p.Nominal == nil || p.Nominal.Numerics == nil {
+		e := p.NumericsError()
+		if e == nil {
 			continue
 		}
-		e := p.Nominal.Numerics
 		checked++
 		worstC, worstPhi = math.Max(worstC, e.ContrastError), math.Max(worstPhi, e.PhaseErrorRad)
 		if !e.Met {
@@ -142,7 +154,7 @@ func ScanNotes(rep ScanReport) []string {
 		numerics := fmt.Sprintf("Numerics: automatic at each point; the estimated error (the shot against the same shot on twice the grid and half the step) is at most %s in contrast and %s rad in phase %s (targets %s, %s rad%s).",
 			Sci(worstC, 2), Sci(worstPhi, 2), which, Sci(sim.ContrastTarget, 1), Sci(sim.PhaseTargetRad, 1), more)
 		if len(missed) > 0 {
-			numerics += fmt.Sprintf(" %s the targets, first %s: %s.", plural.Count(len(missed), "point")+map[bool]string{true: " misses", false: " miss"}[len(missed) == 1], ScanPointName(rep, missed[0]), missed[0].Nominal.Numerics.Remedy)
+			numerics += fmt.Sprintf(" %s the targets, first %s: %s.", plural.Count(len(missed), "point")+map[bool]string{true: " misses", false: " miss"}[len(missed) == 1], ScanPointName(rep, missed[0]), missed[0].NumericsError().Remedy)
 		}
 		notes := []string{numerics}
 		if slices.ContainsFunc(rep.Points, belowResolution) {
@@ -151,7 +163,13 @@ func ScanNotes(rep ScanReport) []string {
 		return append(notes, "Each point is the noise-free shot rampart shot simulates, the apparatus's field offset and gradient, scattering, radius error and ring potential included. Phase - K Omega: the bias against the nominal scale factor K = 2 I phi(T) / hbar (CSV and JSON bias_rad); rampart shot's zero-rate bias subtracts the shot's own K_shot Omega instead and differs from it by (K_shot - K) Omega.",
 			"Ground +/-: each arm's ground-band population after the ramp-up. Peak speed: the largest |Omega| of the ramp-up (above the cruise speed when the ramp overshoots).")
 	}
-	return []string{"Intervals are two-sided at the stated confidence: exact order-statistic intervals for the quantiles (\"none below N\": no interval exists from fewer than N realisations), Clopper-Pearson for the yield. They hold point by point, not jointly over the scan; use rampart edge for a decision over a range."}
+	checked, worstC, worstPhi, _ := ScanNumerics(rep)
+	var notes []string
+	if checked > 0 {
+		notes = append(notes, fmt.Sprintf("Numerics: each point's nominal shot was checked before its ensemble ran (against the same shot on twice the grid and half the step): estimated error at most %s in contrast and %s rad in phase over the %s (targets %s, %s rad).",
+			Sci(worstC, 2), Sci(worstPhi, 2), plural.Count(checked, "point"), Sci(sim.ContrastTarget, 1), Sci(sim.PhaseTargetRad, 1)))
+	}
+	return append(notes, "Intervals are two-sided at the stated confidence: exact order-statistic intervals for the quantiles (\"none below N\": no interval exists from fewer than N realisations), Clopper-Pearson for the yield. They hold point by point, not jointly over the scan; use rampart edge for a decision over a range.")
 }
 
 // PrintScan prints the scan's table with its notes.
