@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -196,6 +197,9 @@ func runRobust(e env, stdout, stderr io.Writer, o robustOptions) error {
 		return err
 	}
 	fmt.Fprintf(stderr, "wrote the best ramp (objective %s, reference %s) to %s\n", present.Sig(res.Value, 5), present.Sig(res.Reference, 5), o.write)
+	if note := robustShapeNote(res.Ramp, o.write); note != "" {
+		fmt.Fprintln(stderr, note)
+	}
 	if o.history != "" {
 		if err := atomicfile.Write(o.history, func(w io.Writer) error { return present.WriteRobustHistory(w, res) }); err != nil {
 			return err
@@ -329,4 +333,23 @@ func freshRanking(ctx context.Context, sc *scenario.Scenario, cfg sim.Config, bu
 		named[i] = present.NamedConfig{Name: names[i], Config: c}
 	}
 	return rep, named, nil
+}
+
+// robustShapeNote warns when the correction has taken the ramp far from
+// the commanded profile: its speed changing sign, or peaking well above
+// the cruise speed, is a drive the hardware must be able to follow (the
+// objective does not know the drive's limits).
+func robustShapeNote(r *design.Corrected, file string) string {
+	if r == nil {
+		return ""
+	}
+	peak, rev := sim.PeakSpeed(r)
+	cruise := math.Abs(sim.Cruise(r))
+	switch {
+	case rev:
+		return fmt.Sprintf("rampart: note: the best ramp reverses (its speed changes sign) and peaks at |Omega| = %s rad/s, %s times the cruise speed; check that the drive can follow it (rampart ramp with ramp.shape = \"file\" and ramp.file = %s shows it)", present.Sig(peak, 4), present.Sig(peak/cruise, 3), file)
+	case peak > 1.2*cruise:
+		return fmt.Sprintf("rampart: note: the best ramp peaks at |Omega| = %s rad/s, %s times the cruise speed; check that the drive can follow it (rampart ramp with ramp.shape = \"file\" and ramp.file = %s shows it)", present.Sig(peak, 4), present.Sig(peak/cruise, 3), file)
+	}
+	return ""
 }

@@ -2,10 +2,14 @@ package main
 
 import (
 	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"rampart/design"
+	"rampart/sim"
 )
 
 // TestRobustPoorRamp runs rampart robust on a deliberately poor ramp (the
@@ -83,5 +87,34 @@ func TestRobustBadInput(t *testing.T) {
 		if _, err := os.Stat(ramp); err == nil {
 			t.Errorf("%v: %s was written", tc.args, ramp)
 		}
+	}
+}
+
+// TestRobustShapeNote: a correction that makes the ramp reverse, or peak
+// well above the cruise speed, is named with its peak; a gentle one is not.
+func TestRobustShapeNote(t *testing.T) {
+	up, err := sim.NewShape("sin2", 100e-6, 500, 2*math.Pi*4314)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		coef []float64
+		want string
+	}{
+		{[]float64{0, 0, 0, 0}, ""},
+		{[]float64{1.5, 0, 0, 0}, "rampart: note: the best ramp"},
+	} {
+		r, err := design.NewCorrected(up, c.coef, "x")
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := robustShapeNote(r, "best.csv")
+		peak, rev := sim.PeakSpeed(r)
+		if (c.want == "") != (got == "") || !strings.HasPrefix(got, c.want) {
+			t.Errorf("coefficients %v (peak %g rad/s, reverses %v): note %q, want one starting %q", c.coef, peak, rev, got, c.want)
+		}
+	}
+	if robustShapeNote(nil, "x") != "" {
+		t.Error("no ramp: want no note")
 	}
 }
