@@ -157,6 +157,15 @@ func relabel(ts []plot.Tick, log bool) {
 	if big != 0 && (big < 1e-3 || big >= 1e5) {
 		notation = 'e'
 	}
+	if log {
+		// A log axis over many decades ends in labels such as
+		// 0.0000000000000000000000001 in fixed notation.
+		for _, v := range vs {
+			if v != 0 && math.Abs(v) < 1e-3 {
+				notation = 'e'
+			}
+		}
+	}
 	prec := 0
 	if log {
 		prec = -1

@@ -2,6 +2,7 @@ package plots
 
 import (
 	"slices"
+	"strings"
 	"testing"
 )
 
@@ -74,6 +75,16 @@ func TestFormatTick(t *testing.T) {
 	} {
 		if got := formatTick(tc.v, tc.notation, tc.prec); got != tc.want {
 			t.Errorf("formatTick(%v, %c, %d): got %q, want %q", tc.v, tc.notation, tc.prec, got, tc.want)
+		}
+	}
+}
+
+// TestLogTicksManyDecades: a log axis from 1e-25 to 100 labels its ticks
+// in exponent notation, not as 0.0000000000000000000000001.
+func TestLogTicksManyDecades(t *testing.T) {
+	for _, tk := range (ticker{log: true}).Ticks(1e-25, 100) {
+		if strings.HasPrefix(tk.Label, "0.000") {
+			t.Fatalf("tick %g labelled %q", tk.Value, tk.Label)
 		}
 	}
 }
