@@ -46,13 +46,23 @@ func newBlockExp(es *eigensystem, tau float64) blockExp {
 // apply multiplies every level of f by the block exponentials, all
 // classes of a row at once (kernel.BlockRow: the bits of the loop over one
 // class at a time). scratch holds at least 2 K N values.
-func (be blockExp) apply(f *field, scratch []float64) {
+func (be blockExp) apply(f *field, scratch []float64) { be.applyKicked(f, scratch, nil, nil) }
+
+// applyKicked is apply after two kicks by the phase table cr + i ci (the
+// e^{i l da} of kickTable, indexed as l = N j + c), applied as the rows are
+// read (kernel.RotateTwiceTo): the bits of two kickTable calls and apply.
+// A nil table is no kick.
+func (be blockExp) applyKicked(f *field, scratch, cr, ci []float64) {
 	k, n, wd := be.k, be.n, f.width()
 	cols := 2 * wd
 	xs := scratch[:2*n*k]
 	for lev := range f.levels {
 		for j := range k {
 			row := f.x[j*cols:]
+			if cr != nil {
+				kernel.RotateTwiceTo(xs[j*2*n:j*2*n+n], xs[j*2*n+n:(j+1)*2*n], row[lev*n:lev*n+n], row[wd+lev*n:wd+lev*n+n], cr[n*j:n*j+n], ci[n*j:n*j+n])
+				continue
+			}
 			copy(xs[j*2*n:j*2*n+n], row[lev*n:lev*n+n])
 			copy(xs[j*2*n+n:(j+1)*2*n], row[wd+lev*n:wd+lev*n+n])
 		}
@@ -185,6 +195,20 @@ func (p *propagator) stretchFree(f *field, d Drive, w, t0, t1, noiseStep float64
 			}
 			p.kineticChains(da[:m])
 		}
+		if d.DepthNoise == nil && p.ring == nil {
+			// Nothing between the two half kicks: they are applied as the
+			// next block step reads the field.
+			var cr, ci []float64
+			if da[k] != 0 {
+				cr, ci = p.cr[k], p.ci[k]
+			}
+			if i < n-1 {
+				full.applyKicked(f, scratch, cr, ci)
+			} else {
+				half.applyKicked(f, scratch, cr, ci)
+			}
+			continue
+		}
 		p.kickTable(f, da[k], k)
 		if d.DepthNoise != nil {
 			p.latticeStep(f, d.DepthNoise.At((ta+tb)/2), tau)
@@ -200,7 +224,9 @@ func (p *propagator) stretchFree(f *field, d Drive, w, t0, t1, noiseStep float64
 			full.apply(f, scratch)
 		}
 	}
-	half.apply(f, scratch)
+	if d.DepthNoise != nil || p.ring != nil {
+		half.apply(f, scratch)
+	}
 	return es
 }
 

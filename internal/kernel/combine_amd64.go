@@ -61,6 +61,20 @@ func rotateBy(re, im, cr, ci []float64) {
 //go:noescape
 func rotateByAVX(re, im, cr, ci []float64)
 
+func rotateTwiceTo(dr, di, sr, si, cr, ci []float64) {
+	if useAVX {
+		rotateTwiceToAVX(dr, di, sr, si, cr, ci)
+		return
+	}
+	rotateTwiceToGo(dr, di, sr, si, cr, ci)
+}
+
+// rotateTwiceToAVX is rotateTwiceToGo four elements at a time; len(dr)
+// elements of each.
+//
+//go:noescape
+func rotateTwiceToAVX(dr, di, sr, si, cr, ci []float64)
+
 func phaseRotate(re, im, cr, ci, tr, ti []float64) {
 	if useAVX {
 		phaseRotateAVX(re, im, cr, ci, tr, ti)

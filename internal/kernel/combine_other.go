@@ -26,3 +26,5 @@ func combineFused(y, x []float64, stride int, c []float64) { combineFusedGo(y, x
 func blockRow4(yr, yi, a, x []float64, k, n int) { blockRowGo(yr, yi, a, x, k, n, 0) }
 
 func rotateBy(re, im, cr, ci []float64) { rotateByGo(re, im, cr, ci) }
+
+func rotateTwiceTo(dr, di, sr, si, cr, ci []float64) { rotateTwiceToGo(dr, di, sr, si, cr, ci) }

@@ -85,3 +85,29 @@ func rotateByGo(re, im, cr, ci []float64) {
 		im[q] = s*a + c*b
 	}
 }
+
+// RotateTwiceTo sets dr[q] + i di[q] to (sr[q] + i si[q]) multiplied by
+// cr[q] + i ci[q] twice, q < len(dr): the bits of copying s to d and
+// applying RotateBy twice, in one pass (the two half kicks of a noisy
+// interval, applied as the block step reads its input). d must not
+// overlap s unless it is s.
+func RotateTwiceTo(dr, di, sr, si, cr, ci []float64) {
+	n := len(dr)
+	if len(di) < n || len(sr) < n || len(si) < n || len(cr) < n || len(ci) < n {
+		panic("kernel: RotateTwiceTo of slices shorter than dr")
+	}
+	if n > 0 {
+		rotateTwiceTo(dr[:n], di[:n], sr[:n], si[:n], cr[:n], ci[:n])
+	}
+}
+
+func rotateTwiceToGo(dr, di, sr, si, cr, ci []float64) {
+	for q := range dr {
+		c, s := cr[q], ci[q]
+		a, b := sr[q], si[q]
+		r1 := c*a - s*b
+		i1 := s*a + c*b
+		dr[q] = c*r1 - s*i1
+		di[q] = s*r1 + c*i1
+	}
+}

@@ -444,3 +444,68 @@ rb1:
 rbdone:
 	VZEROUPPER
 	RET
+
+// func rotateTwiceToAVX(dr, di, sr, si, cr, ci []float64)
+TEXT ·rotateTwiceToAVX(SB), NOSPLIT, $0-144
+	MOVQ dr_base+0(FP), DI
+	MOVQ dr_len+8(FP), CX
+	MOVQ di_base+24(FP), SI
+	MOVQ sr_base+48(FP), R10
+	MOVQ si_base+72(FP), R11
+	MOVQ cr_base+96(FP), R8
+	MOVQ ci_base+120(FP), R9
+	XORQ AX, AX
+
+rt4:
+	CMPQ    CX, $4
+	JLT     rt1
+	VMOVUPD (R8)(AX*1), Y8
+	VMOVUPD (R9)(AX*1), Y9
+	VMOVUPD (R10)(AX*1), Y0
+	VMOVUPD (R11)(AX*1), Y1
+	VMULPD  Y0, Y8, Y2
+	VMULPD  Y1, Y9, Y3
+	VSUBPD  Y3, Y2, Y2
+	VMULPD  Y0, Y9, Y4
+	VMULPD  Y1, Y8, Y5
+	VADDPD  Y5, Y4, Y4
+	VMULPD  Y2, Y8, Y6
+	VMULPD  Y4, Y9, Y7
+	VSUBPD  Y7, Y6, Y6
+	VMULPD  Y2, Y9, Y10
+	VMULPD  Y4, Y8, Y11
+	VADDPD  Y11, Y10, Y10
+	VMOVUPD Y6, (DI)(AX*1)
+	VMOVUPD Y10, (SI)(AX*1)
+	ADDQ    $32, AX
+	SUBQ    $4, CX
+	JMP     rt4
+
+rt1:
+	CMPQ   CX, $1
+	JLT    rtdone
+	VMOVSD (R8)(AX*1), X8
+	VMOVSD (R9)(AX*1), X9
+	VMOVSD (R10)(AX*1), X0
+	VMOVSD (R11)(AX*1), X1
+	VMULSD X0, X8, X2
+	VMULSD X1, X9, X3
+	VSUBSD X3, X2, X2
+	VMULSD X0, X9, X4
+	VMULSD X1, X8, X5
+	VADDSD X5, X4, X4
+	VMULSD X2, X8, X6
+	VMULSD X4, X9, X7
+	VSUBSD X7, X6, X6
+	VMULSD X2, X9, X10
+	VMULSD X4, X8, X11
+	VADDSD X11, X10, X10
+	VMOVSD X6, (DI)(AX*1)
+	VMOVSD X10, (SI)(AX*1)
+	ADDQ   $8, AX
+	DECQ   CX
+	JMP    rt1
+
+rtdone:
+	VZEROUPPER
+	RET

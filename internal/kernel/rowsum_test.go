@@ -214,3 +214,31 @@ func TestRotateByMatchesLoop(t *testing.T) {
 		}
 	}
 }
+
+// TestRotateTwiceToMatchesTwoPasses holds RotateTwiceTo to copying and two
+// RotateBy passes, bit for bit, and to its portable loop.
+func TestRotateTwiceToMatchesTwoPasses(t *testing.T) {
+	rng := rand.New(rand.NewPCG(13, 14))
+	for n := range 23 {
+		sr, si := make([]float64, n), make([]float64, n)
+		cr, ci := make([]float64, n), make([]float64, n)
+		for i := range sr {
+			sr[i], si[i] = rng.NormFloat64(), rng.NormFloat64()
+			ci[i], cr[i] = math.Sincos(rng.Float64() * 7)
+		}
+		wr, wi := append([]float64(nil), sr...), append([]float64(nil), si...)
+		RotateBy(wr, wi, cr, ci)
+		RotateBy(wr, wi, cr, ci)
+		dr, di := make([]float64, n), make([]float64, n)
+		RotateTwiceTo(dr, di, sr, si, cr, ci)
+		gr, gi := make([]float64, n), make([]float64, n)
+		rotateTwiceToGo(gr, gi, sr, si, cr, ci)
+		for q := range n {
+			for _, got := range [][2]float64{{dr[q], di[q]}, {gr[q], gi[q]}} {
+				if math.Float64bits(got[0]) != math.Float64bits(wr[q]) || math.Float64bits(got[1]) != math.Float64bits(wi[q]) {
+					t.Fatalf("n=%d q=%d: got %v, want %v, %v (bit for bit two RotateBy passes)", n, q, got, wr[q], wi[q])
+				}
+			}
+		}
+	}
+}
