@@ -2,7 +2,9 @@ package sim
 
 import (
 	"math"
+	"runtime"
 	"sort"
+	"sync"
 )
 
 // rampSamples is one ramp's quadrature: sample times t_j = t0 + j h_r,
@@ -220,12 +222,10 @@ func (s *Simulator) closedSpectra(rs *responseSetup) [2]*opSpectra {
 	}
 	mp := rs.mapBetween(frames)
 	dw := 2 * math.Pi / (float64(rs.l) * rs.h)
-	var ys [2][]complex128
-	for a := range 2 {
-		ys[a] = make([]complex128, dim)
-	}
-	ev := newArmEval(dim)
-	tmp := make([]complex128, dim)
+	// The frequencies are independent: each worker takes a contiguous
+	// share of them with its own scratch, and sums over the start levels
+	// in their order, so the result does not depend on the workers.
+	workers := max(1, min(runtime.GOMAXPROCS(0), M+1))
 	var res [2]*opSpectra
 	for o := range responseOps {
 		out := &opSpectra{}
@@ -241,20 +241,33 @@ func (s *Simulator) closedSpectra(rs *responseSetup) [2]*opSpectra {
 		for sg := range 2 {
 			out.x[sg] = make([]complex128, M+1)
 		}
-		for n, w0 := range rs.weights {
-			pw := complex(w0, 0)
-			for m := 0; m <= M; m++ {
-				for sg, w := range [2]float64{float64(m) * dw, -float64(m) * dw} {
-					for a := range 2 {
-						r, j := ev.eval(arms[a][o][n], w, ys[a])
-						out.r[a][sg][m] += pw * r
-						out.j[a][sg][m] += pw * j
-					}
-					mp.mul(b, ys[0], tmp)
-					out.x[sg][m] += pw * dot(ys[1], tmp)
+		var wg sync.WaitGroup
+		for k := range workers {
+			lo, hi := (M+1)*k/workers, (M+1)*(k+1)/workers
+			wg.Go(func() {
+				var ys [2][]complex128
+				for a := range 2 {
+					ys[a] = make([]complex128, dim)
 				}
-			}
+				ev := newArmEval(dim)
+				tmp := make([]complex128, dim)
+				for n, w0 := range rs.weights {
+					pw := complex(w0, 0)
+					for m := lo; m < hi; m++ {
+						for sg, w := range [2]float64{float64(m) * dw, -float64(m) * dw} {
+							for a := range 2 {
+								r, j := ev.eval(arms[a][o][n], w, ys[a])
+								out.r[a][sg][m] += pw * r
+								out.j[a][sg][m] += pw * j
+							}
+							mp.mul(b, ys[0], tmp)
+							out.x[sg][m] += pw * dot(ys[1], tmp)
+						}
+					}
+				}
+			})
 		}
+		wg.Wait()
 		res[o] = out
 	}
 	return res

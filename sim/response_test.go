@@ -2,6 +2,7 @@ package sim
 
 import (
 	"math"
+	"runtime"
 	"testing"
 
 	"rampart/noise"
@@ -265,4 +266,35 @@ func staticDifferentialDepth(s *Simulator, d float64) (nom Result, slope, curv f
 	p := s.Run(Shot{DepthRel: [2]float64{d / 2, -d / 2}}, nil)
 	m := s.Run(Shot{DepthRel: [2]float64{-d / 2, d / 2}}, nil)
 	return nom, math.Abs(Wrap(p.PhaseRad-m.PhaseRad) / (2 * d)), (p.Contrast + m.Contrast - 2*nom.Contrast) / (d * d)
+}
+
+// TestKernelsWorkersInvariant: the kernels share their frequencies among
+// the cores, each summing over the start levels in their order, so they
+// are the same to the last bit on one core and on several (two thermal
+// levels or more, half a lap of the benchmark ring).
+func TestKernelsWorkersInvariant(t *testing.T) {
+	c := benchConfig(t, 0.5)
+	c.TemperatureK = 40e-9
+	s, err := NewSimulator(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	prev := runtime.GOMAXPROCS(1)
+	one, err := s.Kernels(0)
+	runtime.GOMAXPROCS(max(prev, 3))
+	if err != nil {
+		t.Fatal(err)
+	}
+	many, err := s.Kernels(0)
+	runtime.GOMAXPROCS(prev)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, ch := range one.Channels {
+		for m := range ch.Bias {
+			if math.Float64bits(ch.Bias[m]) != math.Float64bits(many.Channels[i].Bias[m]) || math.Float64bits(ch.Contrast[m]) != math.Float64bits(many.Channels[i].Contrast[m]) {
+				t.Fatalf("channel %v at %g Hz: one core %g, %g; several %g, %g (want the same bits)", ch.Channel, one.FrequencyHz[m], ch.Bias[m], ch.Contrast[m], many.Channels[i].Bias[m], many.Channels[i].Contrast[m])
+			}
+		}
+	}
 }
