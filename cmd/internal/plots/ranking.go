@@ -15,6 +15,10 @@ import (
 type Estimate struct {
 	Name          string
 	Value, Lo, Hi float64
+	// OpenLo and OpenHi mark an end that does not exist (no order
+	// statistic gives it at the ensemble's size): the whisker runs to Lo
+	// or Hi, the statistic's range end, without a cap.
+	OpenLo, OpenHi bool
 }
 
 // RankingOptions configures Ranking.
@@ -69,6 +73,14 @@ func Ranking(items []Estimate, opts RankingOptions) (*Figure, error) {
 	f := newFigure(p, opts.WidthIn, height)
 	w := whiskers{pos: pos, lo: lo, hi: hi, horizontal: true,
 		style: draw.LineStyle{Color: seriesColor(0), Width: vg.Points(1.5)}, cap: vg.Points(7)}
+	for i, e := range items {
+		if e.OpenLo || e.OpenHi {
+			if w.open == nil {
+				w.open = make([][2]bool, n)
+			}
+			w.open[i] = [2]bool{e.OpenLo, e.OpenHi}
+		}
+	}
 	p.Add(w)
 	sc, err := plotter.NewScatter(dots)
 	if err != nil {

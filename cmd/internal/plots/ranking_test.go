@@ -50,3 +50,16 @@ func TestRankingErrors(t *testing.T) {
 		})
 	}
 }
+
+// TestRankingOpenEnds: an end that does not exist is drawn without its
+// cap, so an estimate open below has two whisker strokes, not three.
+func TestRankingOpenEnds(t *testing.T) {
+	ranked := []Estimate{{Name: "a", Value: 0.98, Lo: 0.97, Hi: 0.99}, {Name: "b", Value: 0.95, Lo: 0, Hi: 0.96, OpenLo: true}}
+	f, err := Ranking(ranked, RankingOptions{Title: "Ranking", ValueLabel: "contrast p05"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := render(t, f).count("stroke:#4477AA"); got != 3+2 {
+		t.Errorf("got %d whisker strokes, want 5 (3 for the closed interval, 2 for the one open below)", got)
+	}
+}

@@ -17,7 +17,13 @@ type whiskers struct {
 	horizontal  bool
 	style       draw.LineStyle
 	cap         vg.Length // full cap width
+	// open, if not nil, marks ends drawn without a cap: [i][0] the low
+	// end of whisker i, [i][1] the high one (an end that does not exist).
+	open [][2]bool
 }
+
+// capped reports whether end e (0 low, 1 high) of whisker i has a cap.
+func (w whiskers) capped(i, e int) bool { return w.open == nil || !w.open[i][e] }
 
 func (w whiskers) Plot(c draw.Canvas, p *plot.Plot) {
 	trX, trY := p.Transforms(&c)
@@ -26,14 +32,22 @@ func (w whiskers) Plot(c draw.Canvas, p *plot.Plot) {
 		if w.horizontal {
 			y, x0, x1 := trY(w.pos[i]), trX(w.lo[i]), trX(w.hi[i])
 			c.StrokeLine2(w.style, x0, y, x1, y)
-			c.StrokeLine2(w.style, x0, y-half, x0, y+half)
-			c.StrokeLine2(w.style, x1, y-half, x1, y+half)
+			if w.capped(i, 0) {
+				c.StrokeLine2(w.style, x0, y-half, x0, y+half)
+			}
+			if w.capped(i, 1) {
+				c.StrokeLine2(w.style, x1, y-half, x1, y+half)
+			}
 			continue
 		}
 		x, y0, y1 := trX(w.pos[i]), trY(w.lo[i]), trY(w.hi[i])
 		c.StrokeLine2(w.style, x, y0, x, y1)
-		c.StrokeLine2(w.style, x-half, y0, x+half, y0)
-		c.StrokeLine2(w.style, x-half, y1, x+half, y1)
+		if w.capped(i, 0) {
+			c.StrokeLine2(w.style, x-half, y0, x+half, y0)
+		}
+		if w.capped(i, 1) {
+			c.StrokeLine2(w.style, x-half, y1, x+half, y1)
+		}
 	}
 }
 

@@ -205,7 +205,7 @@ func WriteRanking(dir string, rep RankReport) error {
 func rankingFigure(rep RankReport) ([]namedFigure, error) {
 	items := make([]plots.Estimate, len(rep.Ranking.Ranking))
 	for i, p := range rep.Ranking.Ranking {
-		items[i] = plots.Estimate{Name: p.Name, Value: p.Value, Lo: p.Lo, Hi: p.Hi}
+		items[i] = plots.Estimate{Name: p.Name, Value: p.Value, Lo: p.Lo, Hi: p.Hi, OpenLo: p.NoLo, OpenHi: p.NoHi}
 	}
 	fig, err := plots.Ranking(items, plots.RankingOptions{
 		Title:      fmt.Sprintf("Ramps ranked by %s, %s each", strings.ToLower(metricLabels[rep.Metric]), plural.Count(rep.Samples, "realisation")),
@@ -215,6 +215,9 @@ func rankingFigure(rep RankReport) ([]namedFigure, error) {
 		return nil, err
 	}
 	caption := fmt.Sprintf("Each ramp's %s with its %s %% interval, best first.", strings.ToLower(metricLabels[rep.Metric]), Sig(100*rep.Confidence, 3))
+	if slices.ContainsFunc(items, func(e plots.Estimate) bool { return e.OpenLo || e.OpenHi }) {
+		caption += " A whisker end without a cap does not exist at this ensemble size (no order statistic gives it): the whisker runs to the end of the statistic's range."
+	}
 	return []namedFigure{{name: "ranking", caption: caption, fig: fig}}, nil
 }
 
