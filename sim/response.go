@@ -3,6 +3,7 @@ package sim
 import (
 	"fmt"
 	"math"
+	"sync"
 )
 
 // Channel is a noise process during the shot whose effect the transfer
@@ -149,7 +150,28 @@ func (k *Kernels) Channel(c Channel) *ChannelKernel {
 //	heating in far-off resonance optical traps", Phys. Rev. A 56, R1095
 //	(1997).
 func (s *Simulator) Kernels(maxHz float64) (*Kernels, error) {
-	return s.kernels(maxHz, s.closedSpectra)
+	return s.KernelsProgress(maxHz, nil)
+}
+
+// KernelsProgress is Kernels that reports its progress: progress, if not
+// nil, is called with the units of work done so far out of total (one
+// frequency of one operator and start level each), from any goroutine,
+// one call at a time, every few dozen units.
+func (s *Simulator) KernelsProgress(maxHz float64, progress func(done, total int)) (*Kernels, error) {
+	return s.kernels(maxHz, func(rs *responseSetup) [2]*opSpectra {
+		if progress != nil {
+			total := len(responseOps) * (rs.m + 1) * len(rs.weights)
+			var mu sync.Mutex
+			done := 0
+			rs.progress = func(k int) {
+				mu.Lock()
+				defer mu.Unlock()
+				done += k
+				progress(done, total)
+			}
+		}
+		return s.closedSpectra(rs)
+	})
 }
 
 // kernels is Kernels with the operators' spectra from spectra: the closed

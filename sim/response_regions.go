@@ -254,6 +254,9 @@ func (s *Simulator) closedSpectra(rs *responseSetup) [2]*opSpectra {
 				for n, w0 := range rs.weights {
 					pw := complex(w0, 0)
 					for m := lo; m < hi; m++ {
+						if rs.progress != nil && (m-lo)%64 == 63 {
+							rs.progress(64)
+						}
 						for sg, w := range [2]float64{float64(m) * dw, -float64(m) * dw} {
 							for a := range 2 {
 								r, j := ev.eval(arms[a][o][n], w, ys[a])
@@ -263,6 +266,9 @@ func (s *Simulator) closedSpectra(rs *responseSetup) [2]*opSpectra {
 							mp.mul(b, ys[0], tmp)
 							out.x[sg][m] += pw * dot(ys[1], tmp)
 						}
+					}
+					if rs.progress != nil {
+						rs.progress((hi - lo) % 64)
 					}
 				}
 			})

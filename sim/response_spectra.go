@@ -24,6 +24,9 @@ type responseSetup struct {
 	nt      int
 	l       int // FFT length
 	m       int // highest frequency index kept
+	// progress, if not nil, is told of the frequencies done (summed over
+	// the operators and levels), from any goroutine, one call at a time.
+	progress func(done int)
 }
 
 // opSpectra holds one operator's spectra for frequency indices 0 .. m, at

@@ -298,3 +298,35 @@ func TestKernelsWorkersInvariant(t *testing.T) {
 		}
 	}
 }
+
+// TestKernelsProgress: the progress reports rise to exactly the total (one
+// unit per frequency, operator and start level), one call at a time, and
+// reporting leaves the kernels' bits alone.
+func TestKernelsProgress(t *testing.T) {
+	c := benchConfig(t, 0.5)
+	c.TemperatureK = 40e-9
+	s, err := NewSimulator(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	last, calls, tot := 0, 0, 0
+	k, err := s.KernelsProgress(0, func(done, total int) {
+		if done <= last || done > total {
+			t.Errorf("progress %d of %d after %d", done, total, last)
+		}
+		last, tot = done, total
+		calls++
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if last != tot || calls < 2 {
+		t.Errorf("progress ended at %d of %d after %d calls", last, tot, calls)
+	}
+	plain, _ := s.Kernels(0)
+	for m, v := range k.Channels[0].Bias {
+		if math.Float64bits(v) != math.Float64bits(plain.Channels[0].Bias[m]) {
+			t.Fatalf("at %g Hz: %g with progress, %g without", k.FrequencyHz[m], v, plain.Channels[0].Bias[m])
+		}
+	}
+}

@@ -272,6 +272,11 @@ func (silent) Add(int) error { return nil }
 func (silent) Finish() error { return nil }
 
 func newProgress(w io.Writer, total, done int, label string) progress {
+	return newProgressOf(w, total, done, label, "shots")
+}
+
+// newProgressOf is newProgress counting units other than shots.
+func newProgressOf(w io.Writer, total, done int, label, units string) progress {
 	f, ok := w.(*os.File)
 	if !ok || !term.IsTerminal(int(f.Fd())) {
 		return silent{}
@@ -281,7 +286,7 @@ func newProgress(w io.Writer, total, done int, label string) progress {
 		progressbar.OptionSetDescription(label),
 		progressbar.OptionShowCount(),
 		progressbar.OptionShowIts(),
-		progressbar.OptionSetItsString("shots"),
+		progressbar.OptionSetItsString(units),
 		progressbar.OptionSetPredictTime(true),
 		progressbar.OptionThrottle(200*time.Millisecond),
 		progressbar.OptionClearOnFinish(),

@@ -146,7 +146,7 @@ func runResponse(e env, stdout, stderr io.Writer, o responseOptions) error {
 		}
 		req = &r
 	}
-	rep, cfg, nominal, err := computeResponse(sc, cfg, budget, req, o)
+	rep, cfg, nominal, err := computeResponse(stderr, sc, cfg, budget, req, o)
 	if err != nil {
 		return err
 	}
@@ -198,7 +198,7 @@ func runResponse(e env, stdout, stderr io.Writer, o responseOptions) error {
 // computeResponse computes the kernels of the scenario's nominal shot
 // (after checking their memory against the cap), the prediction for its
 // budget's noise processes and, with req, the masks.
-func computeResponse(sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req *mc.Requirements, o responseOptions) (present.ResponseReport, sim.Config, sim.Result, error) {
+func computeResponse(stderr io.Writer, sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, req *mc.Requirements, o responseOptions) (present.ResponseReport, sim.Config, sim.Result, error) {
 	s, err := sim.NewSimulator(cfg)
 	if err != nil {
 		return present.ResponseReport{}, cfg, sim.Result{}, fmt.Errorf("scenario %q: %w", sc.Name, err)
@@ -209,7 +209,23 @@ func computeResponse(sc *scenario.Scenario, cfg sim.Config, budget mc.Budget, re
 		return present.ResponseReport{}, cfg, sim.Result{}, kernelsTooLarge(sc, cfg, need, o.memoryMiB)
 	}
 	nominal := s.Run(sim.Shot{}, nil)
-	k, err := s.Kernels(o.maxHz)
+	// A bar on a terminal (the kernels of a long sequence take minutes),
+	// made at the first report, when the total is known.
+	var bar progress
+	last := 0
+	k, err := s.KernelsProgress(o.maxHz, func(done, total int) {
+		if stderr == nil {
+			return
+		}
+		if bar == nil {
+			bar = newProgressOf(stderr, total, 0, "kernels", "evaluations")
+		}
+		bar.Add(done - last)
+		last = done
+	})
+	if bar != nil {
+		bar.Finish()
+	}
 	if err != nil {
 		return present.ResponseReport{}, cfg, sim.Result{}, err
 	}

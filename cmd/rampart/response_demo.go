@@ -17,7 +17,7 @@ func (d *demo) responseStage() error {
 	}
 	c := d.cs[d.winner]
 	o := responseOptions{memoryMiB: defaultKernelMemoryMiB, bands: "decade", spec: demoSpec}
-	rep, _, _, err := computeResponse(c.Scenario, c.Config, budget, &req, o)
+	rep, _, _, err := computeResponse(nil, c.Scenario, c.Config, budget, &req, o)
 	if err != nil {
 		return err
 	}
