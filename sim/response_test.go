@@ -273,12 +273,7 @@ func staticDifferentialDepth(s *Simulator, d float64) (nom Result, slope, curv f
 // are the same to the last bit on one core and on several (two thermal
 // levels or more, half a lap of the benchmark ring).
 func TestKernelsWorkersInvariant(t *testing.T) {
-	c := benchConfig(t, 0.5)
-	c.TemperatureK = 40e-9
-	s, err := NewSimulator(c)
-	if err != nil {
-		t.Fatal(err)
-	}
+	s := thermalHalfLap(t)
 	prev := runtime.GOMAXPROCS(1)
 	one, err := s.Kernels(0)
 	runtime.GOMAXPROCS(max(prev, 3))
@@ -303,12 +298,7 @@ func TestKernelsWorkersInvariant(t *testing.T) {
 // unit per frequency, operator and start level), one call at a time, and
 // reporting leaves the kernels' bits alone.
 func TestKernelsProgress(t *testing.T) {
-	c := benchConfig(t, 0.5)
-	c.TemperatureK = 40e-9
-	s, err := NewSimulator(c)
-	if err != nil {
-		t.Fatal(err)
-	}
+	s := thermalHalfLap(t)
 	last, calls, tot := 0, 0, 0
 	k, err := s.KernelsProgress(0, func(done, total int) {
 		if done <= last || done > total {
@@ -329,4 +319,17 @@ func TestKernelsProgress(t *testing.T) {
 			t.Fatalf("at %g Hz: %g with progress, %g without", k.FrequencyHz[m], v, plain.Channels[0].Bias[m])
 		}
 	}
+}
+
+// thermalHalfLap is the benchmark ring on half a lap at 40 nK: several
+// start levels, a short sequence.
+func thermalHalfLap(t *testing.T) *Simulator {
+	t.Helper()
+	c := benchConfig(t, 0.5)
+	c.TemperatureK = 40e-9
+	s, err := NewSimulator(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
 }
