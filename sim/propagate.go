@@ -179,13 +179,23 @@ func (p *propagator) kineticChains(da []float64) {
 func (p *propagator) kineticStep(f *field, h float64, k int) {
 	tr, ti := p.kin.table(p.b, p.rot, h)
 	cr, ci := p.cr[k], p.ci[k]
+	n := p.b.Sites
+	p.rowSegments(f, func(re, im []float64, l int) {
+		kernel.PhaseRotate(re, im, cr[l:l+n], ci[l:l+n], tr[l:l+n], ti[l:l+n])
+	})
+}
+
+// rowSegments calls fn with every level's segment of N classes of every
+// row j of f (its real and imaginary parts) and l = N j, the index of the
+// segment's first element in the basis's tables of e^{i l ...}.
+func (p *propagator) rowSegments(f *field, fn func(re, im []float64, l int)) {
 	n, w := p.b.Sites, f.width()
 	for j := range p.b.Block {
 		row := f.x[2*w*j : 2*w*(j+1)]
 		re, im := row[:w], row[w:]
 		l := n * j
 		for q := 0; q < w; q += n {
-			kernel.PhaseRotate(re[q:q+n], im[q:q+n], cr[l:l+n], ci[l:l+n], tr[l:l+n], ti[l:l+n])
+			fn(re[q:q+n], im[q:q+n], l)
 		}
 	}
 }

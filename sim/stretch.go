@@ -88,15 +88,10 @@ func (p *propagator) kickTable(f *field, da float64, k int) {
 		return
 	}
 	cr, ci := p.cr[k], p.ci[k]
-	n, w := p.b.Sites, f.width()
-	for j := range p.b.Block {
-		row := f.x[2*w*j : 2*w*(j+1)]
-		re, im := row[:w], row[w:]
-		l := n * j
-		for q := 0; q < w; q += n {
-			kernel.RotateBy(re[q:q+n], im[q:q+n], cr[l:l+n], ci[l:l+n])
-		}
-	}
+	n := p.b.Sites
+	p.rowSegments(f, func(re, im []float64, l int) {
+		kernel.RotateBy(re, im, cr[l:l+n], ci[l:l+n])
+	})
 }
 
 // stretch advances f over [t0, t1], during which the commanded speed w is
