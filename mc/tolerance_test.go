@@ -450,6 +450,8 @@ func TestToleranceMissingBounds(t *testing.T) {
 	}
 	pts := []TolerancePoint{
 		{Amplitude: 1, Holds: true, Criteria: []Criterion{crit(0.99, 0.98, 0)}},
+		// 59: the smallest ensemble with a lower order-statistic bound on
+		// a 5th percentile at 95 % (Wilks 1941, as stats computes it).
 		{Amplitude: 2, Holds: true, Criteria: []Criterion{crit(0.97, 0, 59)}},
 		{Amplitude: 3, Holds: true, Criteria: []Criterion{crit(0.95, 0.94, 0)}},
 	}

@@ -74,7 +74,8 @@ func TestNoisyCruiseAccuracy(t *testing.T) {
 // to 50 pi rad/s, 40 ms a lap) with white drive phase noise at -100 dBc/Hz
 // on both arms, on the full grid, at 1 and 100 laps (RAMPART_LONG_TESTS=1:
 // also 1000). The error is estimated against the same shot with intervals
-// of half the length on the same records (Richardson: the method is second
+// of half the length on the same records (Richardson extrapolation, common
+// practice in numerical analysis: the method is second
 // order in the interval, so the error of the coarse run is 4/3 of the
 // difference, and an overestimate where the differences shrink faster);
 // at one lap a quarter length checks that order. Measured: at 1 lap the

@@ -381,6 +381,8 @@ func TestResponseMaskLabUnits(t *testing.T) {
 func TestResponseBandBelowTrap(t *testing.T) {
 	args := []string{"response", "--scenario", "testdata/scenarios/noise.toml", "--set", "motion.laps=0.5", "--max-hz", "3000"}
 	stdout, stderr, code := execute(t, args...)
+	// 2 nu: twice the trap frequency rampart prints for this ring (4.314
+	// kHz, harmonic approximation of the lattice well, docs/model.md).
 	if code != 0 || !strings.Contains(stdout, "beyond grid") || !strings.Contains(stdout, "below twice the trap frequency (2 nu = 8627 Hz)") {
 		t.Fatalf("exit %d, stderr %q, stdout:\n%s", code, stderr, stdout)
 	}
@@ -395,6 +397,9 @@ func TestResponseBandBelowTrap(t *testing.T) {
 // so instead of leaving "rest-fails" to blame a budget with no noise.
 func TestResponseMasksNominalFails(t *testing.T) {
 	stdout, stderr, code := execute(t, "response", "--scenario", ensembleScenario, "--spec", "testdata/demo/spec.toml")
+	// 0.4814: this scenario's nominal contrast as rampart computes it
+	// (TestScanNominal holds scan and shot to the same shot), 0.95 the
+	// demo spec's contrast.p05_min.
 	if code != 0 || !strings.Contains(stdout, "The nominal shot alone breaks the contrast criterion (contrast 0.4814 against at least 0.9500)") {
 		t.Errorf("exit %d, stderr %q, stdout:\n%s", code, stderr, stdout)
 	}

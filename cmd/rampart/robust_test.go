@@ -93,6 +93,8 @@ func TestRobustBadInput(t *testing.T) {
 // TestRobustShapeNote: a correction that makes the ramp reverse, or peak
 // well above the cruise speed, is named with its peak; a gentle one is not.
 func TestRobustShapeNote(t *testing.T) {
+	// 4314 Hz: the benchmark ring's trap frequency as rampart prints it;
+	// the shape only needs a plausible one.
 	up, err := sim.NewShape("sin2", 100e-6, 500, 2*math.Pi*4314)
 	if err != nil {
 		t.Fatal(err)

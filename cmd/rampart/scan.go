@@ -230,14 +230,12 @@ func runScan(e env, stdout, stderr io.Writer, o scanOptions) error {
 			return err
 		}
 	}
-	var err2 error
+	write := present.PrintScan
 	if o.json {
-		err2 = present.WriteJSON(stdout, rep)
-	} else {
-		err2 = present.PrintScan(stdout, rep)
+		write = func(w io.Writer, rep present.ScanReport) error { return present.WriteJSON(w, rep) }
 	}
-	if err2 != nil {
-		return err2
+	if err := write(stdout, rep); err != nil {
+		return err
 	}
 	if _, _, _, missed := present.ScanNumerics(rep); len(missed) > 0 {
 		// As shot: the figures are written, and the exit status says they

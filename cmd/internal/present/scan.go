@@ -154,7 +154,11 @@ func ScanNotes(rep ScanReport) []string {
 		numerics := fmt.Sprintf("Numerics: automatic at each point; the estimated error (the shot against the same shot on twice the grid and half the step) is at most %s in contrast and %s rad in phase %s (targets %s, %s rad%s).",
 			Sci(worstC, 2), Sci(worstPhi, 2), which, Sci(sim.ContrastTarget, 1), Sci(sim.PhaseTargetRad, 1), more)
 		if len(missed) > 0 {
-			numerics += fmt.Sprintf(" %s the targets, first %s: %s.", plural.Count(len(missed), "point")+map[bool]string{true: " misses", false: " miss"}[len(missed) == 1], ScanPointName(rep, missed[0]), missed[0].NumericsError().Remedy)
+			verb := "miss"
+			if len(missed) == 1 {
+				verb = "misses"
+			}
+			numerics += fmt.Sprintf(" %s %s the targets, first %s: %s.", plural.Count(len(missed), "point"), verb, ScanPointName(rep, missed[0]), missed[0].NumericsError().Remedy)
 		}
 		notes := []string{numerics}
 		if slices.ContainsFunc(rep.Points, belowResolution) {
